@@ -1,0 +1,33 @@
+/** Both adapters against one conformance suite; PostgreSQL only when DATABASE_URL is set (CI sets it). */
+import { describe, expect, it } from 'vitest';
+import { openTestDatabase } from '../../../test/support/database.js';
+import { runConformance } from './conformance.suite.js';
+import { openDatabase } from './open.js';
+import { DatabaseError } from './errors.js';
+import { freshPgliteDir } from '../../../test/support/pglite-template.js';
+
+runConformance('pglite', () => openTestDatabase('pglite'));
+if (process.env.DATABASE_URL) runConformance('postgres', () => openTestDatabase('postgres'));
+
+describe('openDatabase', () => {
+  it('reopens a migrated PGlite folder without migrating twice, keeping data', async () => {
+    const folder = await freshPgliteDir();
+    try {
+      const first = await openDatabase({ dataDir: folder.dir });
+      await first.db.execute("insert into audit_log (action) values ('kept')");
+      await first.close();
+      const second = await openDatabase({ dataDir: folder.dir });
+      const rows = await second.db.execute("select action from audit_log where action = 'kept'");
+      await second.close();
+      expect((rows as unknown as { rows: unknown[] }).rows).toHaveLength(1);
+    } finally {
+      folder.remove();
+    }
+  });
+
+  it('fails with a typed error on an unreachable PostgreSQL', async () => {
+    const err = await openDatabase({ databaseUrl: 'postgres://nobody@127.0.0.1:1/none' }).catch((x: unknown) => x);
+    expect(err).toBeInstanceOf(DatabaseError);
+    expect((err as DatabaseError).code).toBe('db_open_failed');
+  });
+});

@@ -1,0 +1,200 @@
+/**
+ * The one drizzle schema, shared by PGlite and PostgreSQL. Migrations under ../migrations are generated
+ * from this file with `pnpm --filter @gloss/db generate`; never edit them by hand.
+ * Projection tables (segments, codes, memos, cases/attributes) come later and go beside these.
+ */
+import { sql } from 'drizzle-orm';
+import {
+  bigint,
+  bigserial,
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+  check,
+} from 'drizzle-orm/pg-core';
+import { bytea } from './bytea.js';
+
+export const ROLES = ['owner', 'lead', 'coder', 'trainee', 'observer'] as const;
+export const DOC_KINDS = ['text', 'layer', 'codebook', 'memos'] as const;
+export const STUDY_MODES = ['standard', 'reflexive'] as const;
+
+const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
+
+export const users = pgTable(
+  'users',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    email: text('email').notNull(),
+    name: text('name').notNull(),
+    passwordHash: text('password_hash').notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    uniqueIndex('users_email_key').on(t.email),
+    // Emails are stored lower-cased so the unique index is case-insensitive in effect.
+    check('users_email_lower', sql`${t.email} = lower(${t.email})`),
+  ],
+);
+
+export const sessions = pgTable(
+  'sessions',
+  {
+    /** Hex SHA-256 of the cookie token: a leaked table does not yield usable tokens. */
+    id: text('id').primaryKey(),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+  },
+  (t) => [index('sessions_user_idx').on(t.userId)],
+);
+
+export const studies = pgTable(
+  'studies',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    title: text('title').notNull(),
+    description: text('description').notNull().default(''),
+    mode: text('mode', { enum: STUDY_MODES }).notNull().default('standard'),
+    retentionUntil: timestamp('retention_until', { withTimezone: true }),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [check('studies_mode_check', sql`${t.mode} in ('standard', 'reflexive')`)],
+);
+
+export const memberships = pgTable(
+  'memberships',
+  {
+    studyId: uuid('study_id')
+      .notNull()
+      .references(() => studies.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    role: text('role', { enum: ROLES }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.studyId, t.userId] }),
+    index('memberships_user_idx').on(t.userId),
+    check('memberships_role_check', sql`${t.role} in ('owner', 'lead', 'coder', 'trainee', 'observer')`),
+  ],
+);
+
+export const texts = pgTable(
+  'texts',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studyId: uuid('study_id')
+      .notNull()
+      .references(() => studies.id, { onDelete: 'cascade' }),
+    title: text('title').notNull(),
+    sourceFormat: text('source_format').notNull(),
+    wordCount: integer('word_count').notNull().default(0),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [index('texts_study_idx').on(t.studyId)],
+);
+
+/** One row per Y.Doc; its id is the sync room name. */
+export const documents = pgTable(
+  'documents',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    kind: text('kind', { enum: DOC_KINDS }).notNull(),
+    studyId: uuid('study_id')
+      .notNull()
+      .references(() => studies.id, { onDelete: 'cascade' }),
+    textId: uuid('text_id').references(() => texts.id, { onDelete: 'cascade' }),
+    coderId: uuid('coder_id').references(() => users.id, { onDelete: 'cascade' }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    check('documents_kind_check', sql`${t.kind} in ('text', 'layer', 'codebook', 'memos')`),
+    // Shape per kind: text -> text_id only; layer -> text_id and coder_id; codebook/memos -> neither.
+    check(
+      'documents_shape_check',
+      sql`(${t.kind} = 'text' and ${t.textId} is not null and ${t.coderId} is null)
+        or (${t.kind} = 'layer' and ${t.textId} is not null and ${t.coderId} is not null)
+        or (${t.kind} in ('codebook', 'memos') and ${t.textId} is null and ${t.coderId} is null)`,
+    ),
+    uniqueIndex('documents_layer_key').on(t.textId, t.coderId).where(sql`${t.kind} = 'layer'`),
+    uniqueIndex('documents_text_key').on(t.textId).where(sql`${t.kind} = 'text'`),
+    uniqueIndex('documents_study_kind_key').on(t.studyId, t.kind).where(sql`${t.kind} in ('codebook', 'memos')`),
+    index('documents_study_idx').on(t.studyId),
+  ],
+);
+
+/** Append-only Yjs update log. */
+export const updates = pgTable(
+  'updates',
+  {
+    seq: bigserial('seq', { mode: 'number' }).primaryKey(),
+    docId: uuid('doc_id')
+      .notNull()
+      .references(() => documents.id, { onDelete: 'cascade' }),
+    data: bytea('data').notNull(),
+    bytes: integer('bytes').notNull(),
+    userId: uuid('user_id').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [index('updates_doc_seq_idx').on(t.docId, t.seq)],
+);
+
+/** The log folded up to `seq` (inclusive). */
+export const snapshots = pgTable('snapshots', {
+  docId: uuid('doc_id')
+    .primaryKey()
+    .references(() => documents.id, { onDelete: 'cascade' }),
+  seq: bigint('seq', { mode: 'number' }).notNull(),
+  data: bytea('data').notNull(),
+  bytes: integer('bytes').notNull(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+/** Named Yjs snapshots (Y.encodeSnapshot) of a document, for looking back. */
+export const versions = pgTable(
+  'versions',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    docId: uuid('doc_id')
+      .notNull()
+      .references(() => documents.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    snapshot: bytea('snapshot').notNull(),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [index('versions_doc_idx').on(t.docId)],
+);
+
+/** Access and change log. No foreign keys: the record outlives what it mentions. */
+export const auditLog = pgTable(
+  'audit_log',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+    userId: uuid('user_id'),
+    studyId: uuid('study_id'),
+    action: text('action').notNull(),
+    target: text('target'),
+    detail: jsonb('detail').$type<Record<string, unknown>>(),
+  },
+  (t) => [index('audit_log_study_idx').on(t.studyId, t.id)],
+);
+
+export type Role = (typeof ROLES)[number];
+export type DocKind = (typeof DOC_KINDS)[number];
+export type StudyMode = (typeof STUDY_MODES)[number];
+export type UserRow = typeof users.$inferSelect;
+export type StudyRow = typeof studies.$inferSelect;
+export type TextRow = typeof texts.$inferSelect;
+export type DocumentRow = typeof documents.$inferSelect;
