@@ -1,0 +1,52 @@
+/** Typed fetch client for the Gloss API. Cookies carry the session; errors become ApiError. */
+import { ApiError, NetworkError } from './errors.js';
+import * as n from './normalise.js';
+import type { Me, Member, Role, Study, StudySummary, TextDetail, TextSummary } from './types.js';
+
+async function call(method: string, path: string, body?: unknown): Promise<unknown> {
+  let res: Response;
+  try {
+    res = await fetch(path, {
+      method,
+      credentials: 'same-origin',
+      headers: body === undefined ? { accept: 'application/json' } : { 'content-type': 'application/json', accept: 'application/json' },
+      body: body === undefined ? undefined : JSON.stringify(body),
+    });
+  } catch (err) {
+    throw new NetworkError(err);
+  }
+  const text = await res.text();
+  let json: unknown = undefined;
+  if (text) {
+    try {
+      json = JSON.parse(text);
+    } catch {
+      if (!res.ok) throw new ApiError('http_' + res.status, text.slice(0, 200) || res.statusText, res.status);
+      throw new ApiError('bad_response', 'The server sent something that is not JSON.', res.status);
+    }
+  }
+  if (!res.ok) {
+    const e = (json as { error?: { code?: string; message?: string } } | undefined)?.error;
+    throw new ApiError(e?.code ?? 'http_' + res.status, e?.message ?? res.statusText, res.status);
+  }
+  return json;
+}
+
+const enc = encodeURIComponent;
+
+export const api = {
+  signIn: async (email: string, password: string): Promise<Me> => n.toMe(await call('POST', '/api/session', { email, password })),
+  signOut: async (): Promise<void> => void (await call('DELETE', '/api/session')),
+  me: async (): Promise<Me> => n.toMe(await call('GET', '/api/me')),
+  studies: async (): Promise<StudySummary[]> => n.toList(await call('GET', '/api/studies'), n.toStudySummary, 'studies'),
+  study: async (id: string): Promise<Study> => n.toStudy(await call('GET', `/api/studies/${enc(id)}`)),
+  members: async (id: string): Promise<Member[]> => n.toList(await call('GET', `/api/studies/${enc(id)}/members`), n.toMember, 'members'),
+  addMember: async (id: string, email: string, role: Role): Promise<void> =>
+    void (await call('POST', `/api/studies/${enc(id)}/members`, { email, role })),
+  setRole: async (id: string, userId: string, role: Role): Promise<void> =>
+    void (await call('PATCH', `/api/studies/${enc(id)}/members/${enc(userId)}`, { role })),
+  removeMember: async (id: string, userId: string): Promise<void> =>
+    void (await call('DELETE', `/api/studies/${enc(id)}/members/${enc(userId)}`)),
+  texts: async (id: string): Promise<TextSummary[]> => n.toList(await call('GET', `/api/studies/${enc(id)}/texts`), n.toTextSummary, 'texts'),
+  text: async (id: string): Promise<TextDetail> => n.toTextDetail(await call('GET', `/api/texts/${enc(id)}`), id),
+};

@@ -1,0 +1,55 @@
+/** Shapes of the Gloss JSON API as the web app uses them. Extra fields from the server are kept. */
+export type Role = 'owner' | 'lead' | 'coder' | 'trainee' | 'observer';
+export const ROLES: Role[] = ['owner', 'lead', 'coder', 'trainee', 'observer'];
+
+export interface Me {
+  id: string;
+  email: string;
+  name: string;
+}
+
+export interface StudySummary {
+  id: string;
+  title: string;
+  role?: Role;
+  [key: string]: unknown;
+}
+
+export interface Study extends StudySummary {
+  /** Room of the study's codebook document. */
+  codebookRoom: string;
+  /** Room of the study's memos document. */
+  memosRoom: string;
+  /** Independent coding or reflexive mode etc., as the server reports it. */
+  mode?: string;
+}
+
+export interface Member {
+  userId: string;
+  name: string;
+  email: string;
+  role: Role;
+}
+
+export interface TextSummary {
+  id: string;
+  title: string;
+  room: string;
+  /** Segments per coder, when the server reports them. */
+  progress?: Array<{ coderId: string; name?: string; segments: number }>;
+}
+
+export interface LayerInfo {
+  room: string;
+  coderId: string;
+  name?: string;
+  mine?: boolean;
+  canWrite?: boolean;
+}
+
+export interface TextDetail {
+  id: string;
+  title: string;
+  room: string;
+  layers: LayerInfo[];
+}

@@ -1,0 +1,53 @@
+import { createResource, For, Show } from 'solid-js';
+import { api } from '../../api/client.js';
+import { href } from '../../ui/router.js';
+import { Loading } from '../../ui/Loading.js';
+import { DataNotice } from '../../ui/DataNotice.js';
+import type { StudyScope } from './study-context.js';
+import { StudyNav } from './StudyNav.js';
+import { PresenceList } from './PresenceList.js';
+
+export function StudyScreen(props: { studyId: string; scope: StudyScope }) {
+  const [texts] = createResource(() => props.studyId, (id) => api.texts(id));
+  return (
+    <main class="page">
+      <StudyNav studyId={props.studyId} scope={props.scope} current="study" />
+      <div class="two-col">
+        <section aria-labelledby="texts-h">
+          <h2 id="texts-h">Texts</h2>
+          <Loading loading={texts.loading} error={texts.error} what="the texts">
+            <table class="texts">
+              <thead>
+                <tr><th scope="col">Text</th><th scope="col">Coding so far (segments per coder)</th><th scope="col">Open now</th></tr>
+              </thead>
+              <tbody>
+                <For each={texts()} fallback={<tr><td colSpan={3}>No texts yet.</td></tr>}>
+                  {(t) => (
+                    <tr>
+                      <td><a href={href({ name: 'coding', studyId: props.studyId, textId: t.id })}>{t.title}</a></td>
+                      <td>
+                        <Show when={t.progress?.length} fallback={<span class="muted">no segments yet</span>}>
+                          <For each={t.progress}>{(p) => <span class="tag">{p.name ?? p.coderId}: {p.segments}</span>}</For>
+                        </Show>
+                      </td>
+                      <td>
+                        <For each={props.scope.presence().filter((p) => p.textId === t.id)}>
+                          {(p) => <span class="person" style={{ 'border-color': p.colour }}>{p.name}</span>}
+                        </For>
+                      </td>
+                    </tr>
+                  )}
+                </For>
+              </tbody>
+            </table>
+          </Loading>
+        </section>
+        <aside aria-labelledby="here-h">
+          <h2 id="here-h">Here now</h2>
+          <PresenceList scope={props.scope} />
+        </aside>
+      </div>
+      <DataNotice />
+    </main>
+  );
+}

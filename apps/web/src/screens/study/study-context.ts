@@ -1,0 +1,74 @@
+/**
+ * Everything the screens of one study share: the study record, its codebook and memos documents,
+ * and study-wide presence (who is here and which text they have open), published on the codebook
+ * room's awareness.
+ */
+import { createEffect, createResource, createSignal, onCleanup, untrack, type Accessor, type Resource } from 'solid-js';
+import { api } from '../../api/client.js';
+import type { Me, Study } from '../../api/types.js';
+import { openDoc, type OpenDoc } from '../../sync/open-doc.js';
+import { personColour } from '../../doc/palette.js';
+
+export interface PresenceEntry { clientId: number; userId: string; name: string; colour: string; textId?: string; textTitle?: string }
+
+export interface StudyScope {
+  study: Resource<Study>;
+  codebook: Accessor<OpenDoc | undefined>;
+  memos: Accessor<OpenDoc | undefined>;
+  presence: Accessor<PresenceEntry[]>;
+  /** Announce which text (if any) this person has open. */
+  setWhere(textId?: string, textTitle?: string): void;
+}
+
+export function useStudy(studyId: () => string, me: () => Me): StudyScope {
+  const [study] = createResource(studyId, (id) => api.study(id));
+  const [codebook, setCodebook] = createSignal<OpenDoc>();
+  const [memos, setMemos] = createSignal<OpenDoc>();
+  const [presence, setPresence] = createSignal<PresenceEntry[]>([]);
+  let where: { textId?: string; textTitle?: string } = {};
+
+  const refresh = (cb: OpenDoc) => {
+    const out: PresenceEntry[] = [];
+    cb.provider.awareness.getStates().forEach((st, clientId) => {
+      const u = st.user as { id?: string; name?: string; colour?: string } | undefined;
+      if (!u?.id) return;
+      const w = (st.where ?? {}) as { textId?: string; textTitle?: string };
+      out.push({ clientId, userId: u.id, name: u.name ?? '', colour: u.colour ?? '#777777', textId: w.textId, textTitle: w.textTitle });
+    });
+    setPresence(out);
+  };
+
+  const track = (s: Study) => {
+    const cb = openDoc(s.codebookRoom, { label: 'the codebook' });
+    const mm = openDoc(s.memosRoom, { label: 'the memos' });
+    setCodebook(cb);
+    setMemos(mm);
+    const user = me();
+    cb.provider.awareness.setLocalStateField('user', { id: user.id, name: user.name, colour: personColour(user.id) });
+    cb.provider.awareness.setLocalStateField('where', where);
+    const on = () => refresh(cb);
+    cb.provider.awareness.on('change', on);
+    refresh(cb);
+    onCleanup(() => {
+      cb.provider.awareness.off('change', on);
+      cb.release();
+      mm.release();
+    });
+  };
+
+  // open the documents once the study record has arrived; release them when the scope ends
+  createEffect(() => {
+    const s = study();
+    if (s) untrack(() => track(s));
+  });
+  return {
+    study,
+    codebook,
+    memos,
+    presence,
+    setWhere(textId, textTitle) {
+      where = { textId, textTitle };
+      codebook()?.provider.awareness.setLocalStateField('where', where);
+    },
+  };
+}

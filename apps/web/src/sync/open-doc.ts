@@ -1,0 +1,118 @@
+/**
+ * One open document: a Y.Doc kept in IndexedDB (offline copy) and synced over the y-websocket protocol.
+ * Its lifecycle is one explicit state. Handles are shared and reference-counted per room, so two
+ * screens showing the codebook use one Y.Doc and one connection.
+ */
+import * as Y from 'yjs';
+import { WebsocketProvider } from 'y-websocket';
+import { IndexeddbPersistence } from 'y-indexeddb';
+import { createSignal, type Accessor } from 'solid-js';
+import { syncBaseUrl } from './room-url.js';
+import { readPending, writePending } from './pending.js';
+import { registerDoc, unregisterDoc } from './status.js';
+
+export type DocState = 'loading' | 'ready' | 'unloading' | 'closed';
+export type LinkState = 'connecting' | 'connected' | 'disconnected' | 'paused';
+
+export interface OpenDoc {
+  room: string;
+  label: string;
+  doc: Y.Doc;
+  provider: WebsocketProvider;
+  state: Accessor<DocState>;
+  link: Accessor<LinkState>;
+  /** Local changes not yet sent (made while disconnected). */
+  pending: Accessor<number>;
+  /** Resolves once the document holds either the server's state or the offline copy. */
+  whenReady: Promise<void>;
+  release(): void;
+}
+
+interface Entry { handle: OpenDoc; refs: number }
+const open = new Map<string, Entry>();
+
+/** Stops and restarts syncing for every open document (the "work offline" switch). */
+let paused = false;
+export function setPaused(p: boolean): void {
+  paused = p;
+  for (const { handle } of open.values()) {
+    if (p) handle.provider.disconnect();
+    else handle.provider.connect();
+  }
+}
+export const isPaused = (): boolean => paused;
+
+export function openDoc(room: string, opts: { label: string; gc?: boolean }): OpenDoc {
+  const existing = open.get(room);
+  if (existing) {
+    existing.refs++;
+    return existing.handle;
+  }
+  // Text documents are opened with gc:false so anchors into deleted text still resolve (DESIGN §2).
+  const doc = new Y.Doc({ gc: opts.gc ?? true });
+  const local = new IndexeddbPersistence(`gloss:${room}`, doc);
+  const provider = new WebsocketProvider(syncBaseUrl(), room, doc, { connect: !paused, maxBackoffTime: 2500 });
+  const [state, setState] = createSignal<DocState>('loading');
+  const [link, setLink] = createSignal<LinkState>(paused ? 'paused' : 'connecting');
+  const [pending, setPendingSig] = createSignal(readPending(room));
+  const setPending = (n: number) => {
+    setPendingSig(n);
+    writePending(room, n);
+  };
+
+  provider.on('status', (e: { status: string }) => {
+    setLink(e.status === 'connected' ? 'connected' : paused ? 'paused' : e.status === 'connecting' ? 'connecting' : 'disconnected');
+  });
+  provider.on('sync', (synced: boolean) => {
+    // After sync step 2 both sides hold each other's state: nothing local is waiting any more.
+    if (synced) {
+      setPending(0);
+      setState((s) => (s === 'loading' ? 'ready' : s));
+    }
+  });
+  doc.on('update', (_u: Uint8Array, origin: unknown) => {
+    if (origin === provider || origin === local) return;
+    if (!provider.wsconnected || !provider.synced) setPending(pending() + 1);
+  });
+
+  const whenReady = new Promise<void>((resolve) => {
+    let done = false;
+    const finish = () => {
+      if (done) return;
+      done = true;
+      setState((s) => (s === 'loading' ? 'ready' : s));
+      resolve();
+    };
+    provider.once('sync', (s: boolean) => s && finish());
+    // Offline: the IndexedDB copy is good enough to work on if it holds anything.
+    void local.whenSynced.then(() => {
+      if (doc.store.clients.size > 0 && !provider.wsconnected) finish();
+    });
+  });
+
+  const handle: OpenDoc = {
+    room,
+    label: opts.label,
+    doc,
+    provider,
+    state,
+    link,
+    pending,
+    whenReady,
+    release() {
+      const e = open.get(room);
+      if (!e || --e.refs > 0) return;
+      open.delete(room);
+      setState('unloading');
+      unregisterDoc(handle);
+      provider.destroy();
+      void local.destroy().finally(() => {
+        doc.destroy();
+        setState('closed');
+      });
+    },
+  };
+  open.set(room, { handle, refs: 1 });
+  registerDoc(handle);
+  return handle;
+}

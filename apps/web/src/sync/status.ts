@@ -1,0 +1,33 @@
+/** The connection-status store: every open document, its link and what it has waiting to be sent. */
+import { createSignal } from 'solid-js';
+import type { OpenDoc } from './open-doc.js';
+
+const [docs, setDocs] = createSignal<OpenDoc[]>([]);
+
+export function registerDoc(d: OpenDoc): void {
+  setDocs((all) => [...all, d]);
+}
+export function unregisterDoc(d: OpenDoc): void {
+  setDocs((all) => all.filter((x) => x !== d));
+}
+
+export const openDocs = docs;
+
+export type Overall = 'idle' | 'online' | 'connecting' | 'offline' | 'paused';
+
+export function overall(): Overall {
+  const all = docs();
+  if (all.length === 0) return 'idle';
+  const links = all.map((d) => d.link());
+  if (links.every((l) => l === 'connected')) return 'online';
+  if (links.some((l) => l === 'paused')) return 'paused';
+  if (links.some((l) => l === 'disconnected')) return 'offline';
+  return 'connecting';
+}
+
+/** Documents with local changes not yet sent, for the plain-words summary. */
+export function waiting(): Array<{ label: string; count: number }> {
+  return docs()
+    .filter((d) => d.pending() > 0)
+    .map((d) => ({ label: d.label, count: d.pending() }));
+}

@@ -1,0 +1,39 @@
+/** Always-visible connection status, what is waiting to be sent, and the work-offline switch. */
+import { For, Show, createSignal } from 'solid-js';
+import { overall, waiting } from '../sync/status.js';
+import { isPaused, setPaused } from '../sync/open-doc.js';
+import { DataNotice } from './DataNotice.js';
+
+const WORDS = {
+  idle: 'No documents open',
+  online: 'Connected: changes are shared as you make them',
+  connecting: 'Connecting…',
+  offline: 'Offline: your changes are kept on this device',
+  paused: 'Working offline: syncing paused',
+} as const;
+
+export function StatusBar() {
+  const [paused, setP] = createSignal(isPaused());
+  const toggle = () => {
+    setPaused(!paused());
+    setP(!paused());
+  };
+  return (
+    <footer class="status-bar">
+      <div class="status-line" role="status" aria-live="polite" data-testid="connection-status" data-state={overall()}>
+        <span class={`dot dot-${overall()}`} aria-hidden="true" />
+        <span>{WORDS[overall()]}</span>
+        <Show when={waiting().length > 0} fallback={<span class="sent" data-testid="waiting">Nothing waiting to be sent.</span>}>
+          <span class="waiting" data-testid="waiting">
+            Waiting to be sent:{' '}
+            <For each={waiting()}>{(w, i) => <>{i() > 0 ? '; ' : ''}{w.count} change{w.count === 1 ? '' : 's'} to {w.label}</>}</For>
+          </span>
+        </Show>
+        <button type="button" class="link" onClick={toggle} aria-pressed={paused()}>
+          {paused() ? 'Resume syncing' : 'Work offline'}
+        </button>
+      </div>
+      <DataNotice compact />
+    </footer>
+  );
+}

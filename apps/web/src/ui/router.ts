@@ -1,0 +1,45 @@
+/** A small hash router: routes are plain data parsed from location.hash, so links work without a server rewrite. */
+import { createSignal } from 'solid-js';
+
+export type Route =
+  | { name: 'signin' }
+  | { name: 'studies' }
+  | { name: 'study'; studyId: string }
+  | { name: 'coding'; studyId: string; textId: string }
+  | { name: 'codebook'; studyId: string; codeId?: string }
+  | { name: 'memos'; studyId: string }
+  | { name: 'members'; studyId: string };
+
+export function parseRoute(hash: string): Route {
+  const p = hash.replace(/^#\/?/, '').split('/').filter(Boolean).map(decodeURIComponent);
+  if (p[0] === 'signin') return { name: 'signin' };
+  if (p[0] === 'study' && p[1]) {
+    const studyId = p[1];
+    if (p[2] === 'text' && p[3]) return { name: 'coding', studyId, textId: p[3] };
+    if (p[2] === 'codebook') return { name: 'codebook', studyId, codeId: p[3] };
+    if (p[2] === 'memos') return { name: 'memos', studyId };
+    if (p[2] === 'members') return { name: 'members', studyId };
+    return { name: 'study', studyId };
+  }
+  return { name: 'studies' };
+}
+
+export function href(r: Route): string {
+  const e = encodeURIComponent;
+  switch (r.name) {
+    case 'signin': return '#/signin';
+    case 'studies': return '#/';
+    case 'study': return `#/study/${e(r.studyId)}`;
+    case 'coding': return `#/study/${e(r.studyId)}/text/${e(r.textId)}`;
+    case 'codebook': return `#/study/${e(r.studyId)}/codebook${r.codeId ? '/' + e(r.codeId) : ''}`;
+    case 'memos': return `#/study/${e(r.studyId)}/memos`;
+    case 'members': return `#/study/${e(r.studyId)}/members`;
+  }
+}
+
+const [route, setRoute] = createSignal<Route>(parseRoute(location.hash));
+window.addEventListener('hashchange', () => setRoute(parseRoute(location.hash)));
+export { route };
+export function go(r: Route): void {
+  location.hash = href(r);
+}
