@@ -45,4 +45,6 @@ export interface Relay {
   unsubscribe(room: string): Promise<void>;
   publish(room: string, payload: Uint8Array): Promise<void>;
   close(): Promise<void>;
+  /** Optional: calls `listener` after the relay reconnected (messages may have been lost); returns an unsubscribe. */
+  onReconnect?(listener: () => void): () => void;
 }

@@ -1,0 +1,110 @@
+/**
+ * The durable UpdateStore on PGlite or PostgreSQL: group commit of appends (one multi-row INSERT …
+ * RETURNING seq per batch, across documents), and compaction when a document's log outgrows its
+ * snapshot, run off the append path.
+ */
+import { updates, type Database } from '@gloss/db';
+import type { UpdateStore } from '../sync/contracts.js';
+import { compactDocument, type CompactionResult } from './compaction.js';
+import { StoreError } from './errors.js';
+import { GroupCommit } from './group-commit.js';
+import { flatten, readLog } from './log-rows.js';
+
+export interface PgUpdateStoreOptions {
+  /** Most rows in one INSERT (default 2,000; 4 parameters each stays far below PostgreSQL's 65,535). */
+  maxBatch?: number;
+  /** Fold when the log's bytes pass the snapshot's and at least this many (default 64 KiB); 0 disables. */
+  compactMinBytes?: number;
+  onCompactionError?: (error: unknown, docId: string) => void;
+}
+
+export interface PgUpdateStore extends UpdateStore {
+  /** Folds one document now (tests, admin). */
+  compact(docId: string): Promise<CompactionResult>;
+  /** Resolves when no compaction is running. */
+  compactionsIdle(): Promise<void>;
+}
+
+interface Row {
+  docId: string;
+  data: Uint8Array;
+  userId: string | null;
+}
+
+/** Byte counts of documents seen by this node; other nodes' appends and folds make them estimates. */
+interface Sizes {
+  logBytes: number;
+  snapshotBytes: number;
+}
+
+export function createPgUpdateStore(database: Database, options: PgUpdateStoreOptions = {}): PgUpdateStore {
+  const compactMinBytes = options.compactMinBytes ?? 64 * 1024;
+  const sizes = new Map<string, Sizes>();
+  const compacting = new Map<string, Promise<unknown>>();
+  let closed = false;
+
+  const commits = new GroupCommit<Row, number>(async (rows) => {
+    const inserted = await database.db
+      .insert(updates)
+      .values(rows.map((row) => ({ docId: row.docId, data: row.data, bytes: row.data.length, userId: row.userId })))
+      .returning({ seq: updates.seq });
+    if (inserted.length !== rows.length) throw new StoreError('append-failed', 'insert returned a different row count');
+    for (const row of rows) noteAppend(row.docId, row.data.length);
+    // PostgreSQL returns the rows of INSERT … VALUES … RETURNING in VALUES order.
+    return inserted.map((r) => Number(r.seq));
+  }, options.maxBatch ?? 2_000);
+
+  function noteAppend(docId: string, bytes: number): void {
+    const size = sizes.get(docId);
+    if (size === undefined) return;
+    size.logBytes += bytes;
+    if (compactMinBytes > 0 && size.logBytes > Math.max(size.snapshotBytes, compactMinBytes)) scheduleCompaction(docId);
+  }
+
+  function scheduleCompaction(docId: string): void {
+    if (compacting.has(docId) || closed) return;
+    const run = new Promise((resolve) => setImmediate(resolve))
+      .then(() => compact(docId))
+      .catch((error: unknown) => options.onCompactionError?.(error, docId))
+      .finally(() => compacting.delete(docId));
+    compacting.set(docId, run);
+  }
+
+  async function compact(docId: string): Promise<CompactionResult> {
+    const result = await compactDocument(database, docId);
+    const size = sizes.get(docId);
+    if (result.compacted && size !== undefined) {
+      size.snapshotBytes = result.snapshotBytes;
+      size.logBytes = 0;
+    }
+    return result;
+  }
+
+  return {
+    async load(docId) {
+      const read = await readLog(database.db, docId, 0);
+      sizes.set(docId, {
+        snapshotBytes: read.snapshot?.data.length ?? 0,
+        logBytes: read.log.reduce((sum, row) => sum + row.data.length, 0),
+      });
+      return flatten(read, 0);
+    },
+    append(docId, update, userId) {
+      if (closed) return Promise.reject(new StoreError('store-closed', 'update store is closed'));
+      return commits.submit({ docId, data: update, userId });
+    },
+    async since(docId, seq) {
+      return flatten(await readLog(database.db, docId, seq), seq);
+    },
+    flush: () => commits.flush(),
+    compact,
+    async compactionsIdle() {
+      while (compacting.size > 0) await Promise.allSettled([...compacting.values()]);
+    },
+    async close() {
+      closed = true;
+      await commits.flush();
+      await Promise.allSettled([...compacting.values()]);
+    },
+  };
+}

@@ -1,0 +1,132 @@
+/**
+ * One WebSocket in one room: decodes its messages, enforces its grant, owns at most one awareness
+ * client id. Any error in its input closes this connection only.
+ */
+import type { WebSocket } from 'ws';
+import * as Y from 'yjs';
+import type { RoomGrant } from './contracts.js';
+import { decodeAwarenessUpdate } from './awareness-table.js';
+import { CloseCode, SyncError } from './errors.js';
+import type { SyncLogger } from './logger.js';
+import { encodePermissionDenied, encodeSyncStep1, encodeSyncStep2, peekKind, readPayload } from './protocol.js';
+import type { Room, RoomPeer } from './room.js';
+import { checkUpdate } from './update-check.js';
+
+export class Connection implements RoomPeer {
+  /** Messages that arrive before the room is ready, handled in order once it is. */
+  private backlog: Uint8Array[] | null = [];
+  private room: Room | null = null;
+  private ownedClientId: number | null = null;
+  private closed = false;
+  /** Cleared by each keepalive ping, set again by the pong. */
+  alive = true;
+
+  constructor(
+    readonly ws: WebSocket,
+    readonly grant: RoomGrant,
+    private readonly logger: SyncLogger,
+  ) {
+    ws.on('message', (data, isBinary) => this.onMessage(data as Buffer, isBinary));
+    ws.on('pong', () => {
+      this.alive = true;
+    });
+    // ws closes with 1009 itself for oversized frames and reports it here.
+    ws.on('error', (error) => this.logger.warn({ err: error, room: grant.room }, 'websocket error'));
+  }
+
+  /** Called once the room has loaded: greet, then handle what queued up meanwhile. */
+  start(room: Room): void {
+    this.room = room;
+    this.send(encodeSyncStep1(Y.encodeStateVector(room.doc)));
+    const awareness = room.awarenessMessage();
+    if (awareness !== null) this.send(awareness);
+    const queued = this.backlog ?? [];
+    this.backlog = null;
+    for (const message of queued) this.handle(message);
+  }
+
+  /** Leaving the room: drop this connection's presence for everyone. */
+  stop(): void {
+    this.closed = true;
+    this.backlog = null;
+    if (this.room !== null && this.ownedClientId !== null) this.room.removeAwareness(this.ownedClientId);
+  }
+
+  send(message: Uint8Array): void {
+    if (this.ws.readyState === this.ws.OPEN) this.ws.send(message);
+  }
+
+  fail(error: SyncError): void {
+    if (this.closed) return;
+    this.closed = true;
+    this.logger.warn({ code: error.code, room: this.grant.room, userId: this.grant.userId, err: error.cause }, error.message);
+    this.ws.close(error.closeCode, error.message.slice(0, 120));
+  }
+
+  private onMessage(data: Buffer, isBinary: boolean): void {
+    if (this.closed) return;
+    if (!isBinary) {
+      this.fail(new SyncError('unsupported-message', 'text frames are not part of the protocol', CloseCode.unsupportedData));
+      return;
+    }
+    const message = new Uint8Array(data.buffer, data.byteOffset, data.byteLength);
+    if (this.backlog !== null) this.backlog.push(message);
+    else this.handle(message);
+  }
+
+  private handle(message: Uint8Array): void {
+    if (this.closed || this.room === null) return;
+    try {
+      this.dispatch(message, this.room);
+    } catch (error) {
+      this.fail(
+        error instanceof SyncError
+          ? error
+          : new SyncError('malformed-message', 'message could not be handled', CloseCode.invalidPayload, { cause: error }),
+      );
+    }
+  }
+
+  private dispatch(message: Uint8Array, room: Room): void {
+    const { kind, decoder } = peekKind(message);
+    switch (kind) {
+      case 'sync-step1': {
+        const stateVector = readPayload(decoder);
+        let diff: Uint8Array;
+        try {
+          diff = Y.encodeStateAsUpdate(room.doc, stateVector);
+        } catch (cause) {
+          throw new SyncError('malformed-message', 'bad state vector', CloseCode.invalidPayload, { cause });
+        }
+        this.send(encodeSyncStep2(diff));
+        return;
+      }
+      case 'sync-step2':
+      case 'sync-update': {
+        if (!this.grant.canWrite) {
+          this.send(encodePermissionDenied('read-only'));
+          return;
+        }
+        const update = readPayload(decoder);
+        if (checkUpdate(update).empty) return;
+        room.submitUpdate(update, this, this.grant.userId);
+        return;
+      }
+      case 'awareness': {
+        const entries = decodeAwarenessUpdate(readPayload(decoder)).filter((entry) => {
+          this.ownedClientId ??= entry.clientId;
+          return entry.clientId === this.ownedClientId;
+        });
+        room.submitAwareness(entries, this);
+        return;
+      }
+      case 'query-awareness': {
+        const awareness = room.awarenessMessage();
+        if (awareness !== null) this.send(awareness);
+        return;
+      }
+      case 'auth':
+        return; // clients have nothing to say to the server here
+    }
+  }
+}

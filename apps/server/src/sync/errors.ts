@@ -1,0 +1,22 @@
+/** Typed errors of the sync layer. `closeCode` is the WebSocket close code sent to the offending peer. */
+export type SyncErrorCode = 'malformed-message' | 'unsupported-message' | 'invalid-update' | 'invalid-awareness' | 'store-failed';
+
+export class SyncError extends Error {
+  readonly code: SyncErrorCode;
+  readonly closeCode: number;
+  constructor(code: SyncErrorCode, message: string, closeCode: number, options?: { cause?: unknown }) {
+    super(message, options);
+    this.name = 'SyncError';
+    this.code = code;
+    this.closeCode = closeCode;
+  }
+}
+
+/** RFC 6455 close codes used here. */
+export const CloseCode = {
+  unsupportedData: 1003,
+  invalidPayload: 1007,
+  tooBig: 1009,
+  internalError: 1011,
+  goingAway: 1001,
+} as const;

@@ -1,0 +1,130 @@
+/**
+ * The sync endpoint: y-websocket protocol on `/sync/<room>` of an existing http.Server.
+ * Authorizes at the upgrade, then hands each socket to a Connection in its Room.
+ */
+import type { Server } from 'node:http';
+import type { Duplex } from 'node:stream';
+import { WebSocketServer, type WebSocket } from 'ws';
+import { Connection } from './connection.js';
+import type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
+import { CloseCode } from './errors.js';
+import { consoleLogger, type SyncLogger } from './logger.js';
+import { RoomRegistry } from './room-registry.js';
+import type { RoomState } from './room.js';
+import { refuse, roomFromUrl, statusOf, type IncomingMessage } from './upgrade.js';
+
+export interface SyncOptions {
+  authorizer: RoomAuthorizer;
+  store: UpdateStore;
+  relay: Relay;
+  /** Larger messages close their connection with 1009. */
+  maxMessageBytes: number;
+  /** A connection that has not answered the previous ping by the next one is terminated. */
+  pingIntervalMs: number;
+  /** How often an open room re-reads the log for updates the relay lost (default 5 s; 0 = never). */
+  catchUpIntervalMs?: number;
+  logger?: SyncLogger;
+}
+
+export interface SyncStats {
+  connections: number;
+  rooms: number;
+  byState: Record<RoomState, number>;
+}
+
+export interface SyncHandle {
+  close(): Promise<void>;
+  stats(): SyncStats;
+}
+
+export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle {
+  const logger = options.logger ?? consoleLogger;
+  const registry = new RoomRegistry({
+    store: options.store,
+    relay: options.relay,
+    logger,
+    catchUpIntervalMs: options.catchUpIntervalMs ?? 5_000,
+  });
+  const wss = new WebSocketServer({ noServer: true, maxPayload: options.maxMessageBytes });
+  const connections = new Set<Connection>();
+  let closing = false;
+
+  const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer): void => {
+    socket.on('error', (error) => logger.warn({ err: error }, 'socket error during upgrade'));
+    upgrade(req, socket, head).catch((error: unknown) => {
+      logger.error({ err: error }, 'sync upgrade failed');
+      refuse(socket, 500);
+    });
+  };
+
+  async function upgrade(req: IncomingMessage, socket: Duplex, head: Buffer): Promise<void> {
+    const room = roomFromUrl(req.url);
+    if (room === null || closing) return refuse(socket, room === null ? 404 : 503);
+    let grant: RoomGrant;
+    try {
+      grant = await options.authorizer.authorize(req, room);
+    } catch (error) {
+      const status = statusOf(error);
+      if (status === 500) logger.error({ err: error, room }, 'authorizer failed');
+      return refuse(socket, status);
+    }
+    if (socket.destroyed) return;
+    wss.handleUpgrade(req, socket, head, (ws) => void open(ws, grant));
+  }
+
+  async function open(ws: WebSocket, grant: RoomGrant): Promise<void> {
+    const connection = new Connection(ws, grant, logger);
+    connections.add(connection);
+    let room;
+    try {
+      room = await registry.join(grant.room, grant.docId, connection);
+    } catch (error) {
+      logger.error({ err: error, room: grant.room }, 'room failed to load');
+      connections.delete(connection);
+      ws.close(CloseCode.internalError, 'document could not be loaded');
+      return;
+    }
+    const leave = (): void => {
+      connections.delete(connection);
+      connection.stop();
+      registry.leave(room, connection);
+    };
+    if (ws.readyState !== ws.OPEN) return leave();
+    ws.once('close', leave);
+    connection.start(room);
+  }
+
+  const keepalive = setInterval(() => {
+    for (const connection of connections) {
+      if (!connection.alive) {
+        connection.ws.terminate();
+        continue;
+      }
+      connection.alive = false;
+      connection.ws.ping();
+    }
+  }, options.pingIntervalMs);
+  keepalive.unref();
+
+  const offReconnect = options.relay.onReconnect?.(() => registry.forEachReady((room) => void room.catchUp()));
+  httpServer.on('upgrade', onUpgrade);
+
+  return {
+    async close() {
+      closing = true;
+      clearInterval(keepalive);
+      offReconnect?.();
+      httpServer.off('upgrade', onUpgrade);
+      for (const connection of connections) connection.ws.close(CloseCode.goingAway, 'server closing');
+      await registry.closeAll();
+      await new Promise<void>((resolve) => wss.close(() => resolve()));
+    },
+    stats() {
+      return { connections: connections.size, ...registry.stats() };
+    },
+  };
+}
+
+export type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
+export { SyncError, CloseCode } from './errors.js';
+export type { SyncLogger } from './logger.js';

@@ -1,0 +1,10 @@
+/** The little the sync layer needs to report; pino-compatible. */
+export interface SyncLogger {
+  warn(obj: object, msg?: string): void;
+  error(obj: object, msg?: string): void;
+}
+
+export const consoleLogger: SyncLogger = {
+  warn: (obj, msg) => console.warn(msg ?? '', obj),
+  error: (obj, msg) => console.error(msg ?? '', obj),
+};

@@ -1,0 +1,221 @@
+/**
+ * One open document: its Y.Doc, presence, local peers and lifecycle.
+ * loading -> ready -> unloading -> gone. Client updates are committed to the store before
+ * they are applied (and so broadcast) or relayed; applies keep arrival order per room.
+ */
+import * as Y from 'yjs';
+import type { Relay, UpdateStore } from './contracts.js';
+import { AwarenessTable, decodeAwarenessUpdate, encodeAwarenessUpdate, type AwarenessEntry } from './awareness-table.js';
+import { CloseCode, SyncError } from './errors.js';
+import type { SyncLogger } from './logger.js';
+import { encodeAwarenessMessage, encodeSyncUpdate } from './protocol.js';
+import { decodeRelayFrame, encodeRelayFrame } from './relay-frame.js';
+
+export type RoomState = 'loading' | 'ready' | 'unloading' | 'gone';
+
+/** A local connection as the room sees it. */
+export interface RoomPeer {
+  send(message: Uint8Array): void;
+  fail(error: SyncError): void;
+}
+
+export interface RoomDeps {
+  store: UpdateStore;
+  relay: Relay;
+  logger: SyncLogger;
+  /** Re-read the log this often while open (recovers relay messages that never arrived); 0 = never. */
+  catchUpIntervalMs: number;
+}
+
+const FROM_STORE = Symbol('store');
+const FROM_RELAY = Symbol('relay');
+
+export class Room {
+  private stateValue: RoomState = 'loading';
+  readonly doc = new Y.Doc({ gc: false });
+  readonly awareness = new AwarenessTable();
+  readonly peers = new Set<RoomPeer>();
+  readonly ready: Promise<void>;
+  private unloading: Promise<void> | null = null;
+  /** Per-room order of applies: each link waits for its own commit and for every earlier link. */
+  private tail: Promise<void> = Promise.resolve();
+  private relayBacklog: Uint8Array[] = [];
+  /** Catch-up reads from `cursor`, which trails the last high-water mark by one round (see catchUp). */
+  private cursor = 0;
+  private lastHigh = 0;
+  private catchingUp = false;
+  private timer: NodeJS.Timeout | null = null;
+
+  constructor(
+    readonly name: string,
+    readonly docId: string,
+    private readonly deps: RoomDeps,
+  ) {
+    this.doc.on('update', (update: Uint8Array, origin: unknown) => this.onDocUpdate(update, origin));
+    this.ready = this.load();
+    this.ready.catch(() => {}); // observed by whoever awaits it; the room marks itself gone
+  }
+
+  get state(): RoomState {
+    return this.stateValue;
+  }
+
+  private async load(): Promise<void> {
+    try {
+      await this.deps.relay.subscribe(this.name, (payload) => this.onRelay(payload));
+      const { updates, seq } = await this.deps.store.load(this.docId);
+      applyAll(this.doc, updates, FROM_STORE, this.deps.logger, this.docId);
+      this.cursor = this.lastHigh = seq;
+    } catch (error) {
+      this.stateValue = 'gone';
+      await this.deps.relay.unsubscribe(this.name).catch(() => {});
+      this.doc.destroy();
+      throw error;
+    }
+    this.stateValue = 'ready';
+    for (const payload of this.relayBacklog.splice(0)) this.onRelay(payload);
+    if (this.deps.catchUpIntervalMs > 0) {
+      this.timer = setInterval(() => void this.catchUp(), this.deps.catchUpIntervalMs);
+      this.timer.unref();
+    }
+  }
+
+  /** Commit, then apply and relay. `update` was already checked by checkUpdate. */
+  submitUpdate(update: Uint8Array, from: RoomPeer, userId: string | null): void {
+    const committed = this.deps.store.append(this.docId, update, userId);
+    committed.catch(() => {}); // handled in order below
+    this.tail = this.tail.then(
+      () =>
+        committed.then(
+          () => {
+            this.applySafely(update, from);
+            this.publish(encodeRelayFrame({ kind: 'update', data: update }));
+          },
+          (cause: unknown) => {
+            this.deps.logger.error({ err: cause, room: this.name }, 'update not stored; closing its connection');
+            from.fail(new SyncError('store-failed', 'update could not be stored', CloseCode.internalError, { cause }));
+          },
+        ),
+    );
+  }
+
+  /** Takes the awareness entries a peer may speak for; forwards what is news to local peers and other nodes. */
+  submitAwareness(entries: readonly AwarenessEntry[], from: RoomPeer | null): void {
+    const accepted = this.awareness.apply(entries);
+    if (accepted.length === 0) return;
+    const update = encodeAwarenessUpdate(accepted);
+    this.broadcast(encodeAwarenessMessage(update), from);
+    if (from !== null) this.publish(encodeRelayFrame({ kind: 'awareness', data: update }));
+  }
+
+  /** Removes a departed client's presence everywhere. */
+  removeAwareness(clientId: number): void {
+    const removal = this.awareness.remove(clientId);
+    if (removal === null) return;
+    const update = encodeAwarenessUpdate([removal]);
+    this.broadcast(encodeAwarenessMessage(update), null);
+    this.publish(encodeRelayFrame({ kind: 'awareness', data: update }));
+  }
+
+  awarenessMessage(): Uint8Array | null {
+    const entries = this.awareness.snapshot();
+    return entries.length === 0 ? null : encodeAwarenessMessage(encodeAwarenessUpdate(entries));
+  }
+
+  broadcast(message: Uint8Array, except: RoomPeer | null): void {
+    for (const peer of this.peers) if (peer !== except) peer.send(message);
+  }
+
+  /**
+   * Reads log entries committed since the cursor. The cursor trails by one round because sequence
+   * numbers are taken at insert, not commit: a row with a lower number may commit just after a read.
+   */
+  async catchUp(): Promise<void> {
+    if (this.stateValue !== 'ready' || this.catchingUp) return;
+    this.catchingUp = true;
+    try {
+      const { updates, seq } = await this.deps.store.since(this.docId, this.cursor);
+      if (this.stateValue !== 'ready') return;
+      applyAll(this.doc, updates, FROM_STORE, this.deps.logger, this.docId);
+      this.cursor = Math.min(this.lastHigh, seq);
+      this.lastHigh = Math.max(this.lastHigh, seq);
+    } catch (error) {
+      this.deps.logger.warn({ err: error, room: this.name }, 'catch-up from the log failed; will retry');
+    } finally {
+      this.catchingUp = false;
+    }
+  }
+
+  /** Waits for pending commits, flushes, leaves the relay. Idempotent. */
+  unload(): Promise<void> {
+    this.unloading ??= (async () => {
+      this.stateValue = 'unloading';
+      if (this.timer !== null) clearInterval(this.timer);
+      await this.tail;
+      try {
+        await this.deps.store.flush();
+        await this.deps.relay.unsubscribe(this.name);
+      } catch (error) {
+        this.deps.logger.warn({ err: error, room: this.name }, 'room unload: flush or unsubscribe failed');
+      }
+      this.doc.destroy();
+      this.stateValue = 'gone';
+    })();
+    return this.unloading;
+  }
+
+  private onRelay(payload: Uint8Array): void {
+    if (this.stateValue === 'loading') {
+      this.relayBacklog.push(payload);
+      return;
+    }
+    if (this.stateValue !== 'ready') return;
+    const frame = decodeRelayFrame(payload);
+    if (frame === null) return;
+    try {
+      if (frame.kind === 'update') Y.applyUpdate(this.doc, frame.data, FROM_RELAY);
+      else this.submitAwareness(decodeAwarenessUpdate(frame.data), null);
+    } catch (error) {
+      this.deps.logger.warn({ err: error, room: this.name }, 'ignored an unreadable relay message');
+    }
+  }
+
+  private onDocUpdate(update: Uint8Array, origin: unknown): void {
+    if (this.stateValue !== 'ready') return;
+    const except = origin === FROM_STORE || origin === FROM_RELAY ? null : (origin as RoomPeer);
+    this.broadcast(encodeSyncUpdate(update), except);
+  }
+
+  private applySafely(update: Uint8Array, from: RoomPeer): void {
+    if (this.stateValue === 'gone') return;
+    try {
+      Y.applyUpdate(this.doc, update, from);
+    } catch (error) {
+      this.deps.logger.error({ err: error, room: this.name }, 'stored update failed to apply');
+    }
+  }
+
+  private publish(payload: Uint8Array): void {
+    this.deps.relay.publish(this.name, payload).catch((error: unknown) => {
+      this.deps.logger.warn({ err: error, room: this.name }, 'relay publish failed; other nodes catch up from the log');
+    });
+  }
+}
+
+/** Applies stored updates in one transaction; falls back to one by one so a bad row cannot block a document. */
+function applyAll(doc: Y.Doc, updates: Uint8Array[], origin: unknown, logger: SyncLogger, docId: string): void {
+  if (updates.length === 0) return;
+  try {
+    Y.applyUpdate(doc, updates.length === 1 ? updates[0]! : Y.mergeUpdates(updates), origin);
+    return;
+  } catch (error) {
+    logger.warn({ err: error, docId }, 'merged load failed; applying stored updates one by one');
+  }
+  for (const update of updates) {
+    try {
+      Y.applyUpdate(doc, update, origin);
+    } catch (error) {
+      logger.error({ err: error, docId }, 'skipped a stored update that does not apply');
+    }
+  }
+}

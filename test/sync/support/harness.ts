@@ -1,0 +1,100 @@
+/**
+ * In-process sync server for tests: a plain http.Server with attachSync, a test authorizer and
+ * stock y-websocket 3.1 clients. The authorizer reads `?as=<role>` (observer = read-only) and
+ * refuses rooms it does not know with 404, `?deny=1` with 403.
+ */
+import { createServer, type Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { WebSocket } from 'ws';
+import { WebsocketProvider } from 'y-websocket';
+import * as Y from 'yjs';
+import { attachSync, type SyncHandle, type SyncOptions } from '../../../apps/server/src/sync/index.js';
+import type { Relay, Role, RoomAuthorizer, UpdateStore } from '../../../apps/server/src/sync/contracts.js';
+import { noRelay } from '../../../apps/server/src/relay/index.js';
+
+export class TestHttpError extends Error {
+  constructor(readonly status: number) {
+    super(`HTTP ${status}`);
+  }
+}
+
+/** Room name -> doc id; the room name is the doc id unless mapped. */
+export function testAuthorizer(rooms: Map<string, string> | Set<string>, userId: string): RoomAuthorizer {
+  return {
+    async authorize(req, room) {
+      const params = new URL(req.url ?? '/', 'http://x').searchParams;
+      if (params.get('deny') === '1') throw new TestHttpError(403);
+      const docId = rooms instanceof Map ? rooms.get(room) : rooms.has(room) ? room : undefined;
+      if (docId === undefined) throw new TestHttpError(404);
+      const role = (params.get('as') ?? 'coder') as Role;
+      return { room, docId, kind: 'text', userId, userName: 'Test coder', role, canWrite: role !== 'observer' };
+    },
+  };
+}
+
+export interface TestServer {
+  url: string;
+  port: number;
+  http: Server;
+  sync: SyncHandle;
+  close(): Promise<void>;
+}
+
+export async function startSyncServer(options: {
+  store: UpdateStore;
+  authorizer: RoomAuthorizer;
+  relay?: Relay;
+  maxMessageBytes?: number;
+  pingIntervalMs?: number;
+  catchUpIntervalMs?: number;
+  logger?: SyncOptions['logger'];
+}): Promise<TestServer> {
+  const http = createServer((_req, res) => res.writeHead(404).end());
+  const sync = attachSync(http, {
+    store: options.store,
+    authorizer: options.authorizer,
+    relay: options.relay ?? noRelay(),
+    maxMessageBytes: options.maxMessageBytes ?? 1024 * 1024,
+    pingIntervalMs: options.pingIntervalMs ?? 30_000,
+    catchUpIntervalMs: options.catchUpIntervalMs,
+    logger: options.logger ?? quietLogger,
+  });
+  await new Promise<void>((resolve) => http.listen(0, '127.0.0.1', resolve));
+  const port = (http.address() as AddressInfo).port;
+  return {
+    url: `ws://127.0.0.1:${port}/sync`,
+    port,
+    http,
+    sync,
+    async close() {
+      await sync.close();
+      http.closeAllConnections();
+      await new Promise<void>((resolve) => http.close(() => resolve()));
+    },
+  };
+}
+
+export const quietLogger = { warn: () => {}, error: () => {} };
+
+/** A stock y-websocket client. */
+export function connectClient(url: string, room: string, params: Record<string, string> = {}, doc = new Y.Doc()) {
+  const provider = new WebsocketProvider(url, room, doc, {
+    WebSocketPolyfill: WebSocket as never,
+    disableBc: true,
+    params,
+    maxBackoffTime: 200,
+  });
+  return { doc, provider, destroy: () => provider.destroy() };
+}
+
+/** Polls `check` until it returns true or the deadline passes (then throws with `what`). */
+export async function waitFor(check: () => boolean | Promise<boolean>, what: string, timeoutMs = 10_000): Promise<void> {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    if (await check()) return;
+    if (Date.now() > deadline) throw new Error(`timed out waiting for: ${what}`);
+    await new Promise((resolve) => setTimeout(resolve, 10));
+  }
+}
+
+export const synced = (provider: WebsocketProvider) => waitFor(() => provider.synced, 'provider synced');
