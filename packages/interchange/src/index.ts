@@ -1,1 +1,10 @@
-export {};
+export { ImportError, type ImportErrorCode, type ImportFormat } from './import-error.js';
+export { DEFAULT_MAX_BYTES, type ImportOptions } from './options.js';
+export { importTranscript, detectFormat, sniff, SUPPORTED_EXTENSIONS, type ImportInput } from './import-transcript.js';
+export { importPlainText, parsePlainText, parseTranscriptLines, type SourceLine, type LineRules } from './plain-text.js';
+export { importWebVtt, parseWebVtt, parseVttTimestamp } from './webvtt.js';
+export { importSrt, parseSrt } from './srt.js';
+export { importDocx } from './docx.js';
+export { matchLabelCandidate, isCodeLabel, looksLikeName, SpeakerJudge } from './speaker-label.js';
+export { decodeText } from './decode-text.js';
+export { ProgressReporter } from './progress.js';
