@@ -164,6 +164,9 @@ export function checkDemo(b: DemoBundle): DemoReport {
       const main = (e.cases as unknown[]).find((c) => typeof c === 'string' && /^P\d{2}$/.test(c));
       const speakers = new Set(parseTurns(b.texts[e.file] ?? '').map((t) => t?.speaker));
       if (typeof main === 'string' && e.file in b.texts && !speakers.has(main)) bad('unknown-case', 'texts/index.json', `${e.file}: ${main} never speaks`);
+      for (const s of speakers) {
+        if (s && s !== 'I' && !(e.cases as unknown[]).includes(s)) bad('speaker-not-case', 'texts/index.json', `${e.file}: speaker ${s} is not among its cases`);
+      }
     }
   }
   for (const f of Object.keys(b.texts)) if (!indexed.has(f)) bad('unindexed-text', `texts/${f}`, 'not listed in texts/index.json');

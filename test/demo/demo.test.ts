@@ -50,6 +50,13 @@ describe('the checker catches broken demo data', () => {
     expect(c).toEqual(expect.arrayContaining(['too-short', 'timestamp-order', 'turn-format']));
   });
 
+  it('reports a speaker who is not among the text\'s cases', () => {
+    const b = clone();
+    const entry = (b.index as Array<{ file: string; cases: string[] }>).find((e) => e.file.startsWith('p02'))!;
+    entry.cases = entry.cases.filter((c) => c !== 'P02b');
+    expect(codes(checkDemo(b))).toContain('speaker-not-case');
+  });
+
   it('reports an unknown parent, an unknown code in a group, and an exclusive set no turn can show', () => {
     const b = clone();
     (b.codebook as Array<{ parent: string | null }>)[0]!.parent = 'c-nothing';
