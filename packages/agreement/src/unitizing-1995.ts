@@ -47,7 +47,10 @@ export function unitizingAlpha1995(
   const R = coders.length;
   const categories = options.categories ? [...options.categories] : [...new Set(spans.map((s) => s.value))];
   const empty = { statistic: 'unitizing-alpha' as const, variant: 'u1995' as const, coders: R };
-  if (R < 2) return { ...empty, value: null, reason: 'no-pairable-values', D_o: null, D_e: null, perCategory: [] };
+  if (R < 2) {
+    for (const c of categories) for (const coder of coders) sectionsOf(spans, continuum, coder, c); // still refuse bad input
+    return { ...empty, value: null, reason: 'no-pairable-values', D_o: null, D_e: null, perCategory: [] };
+  }
   const perCategory = categories.map((c) => categoryAlpha(spans, continuum, coders, c));
   if (perCategory.length === 0) return { ...empty, value: null, reason: 'no-variation', D_o: null, D_e: null, perCategory };
   const D_o = perCategory.reduce((s, x) => s + x.D_o, 0) / perCategory.length;
@@ -60,13 +63,7 @@ export function unitizingAlpha1995(
 function categoryAlpha(spans: ReadonlyArray<Span>, continuum: Continuum, coders: string[], category: Value): UnitizingCategory {
   const R = coders.length;
   const L = continuum.end - continuum.start;
-  const sections: Section[][] = coders.map((coder) =>
-    partition(
-      spans.filter((s) => s.coder === coder && s.value === category).map((s) => ({ start: s.start, end: s.end, value: 0 })),
-      continuum,
-      `coder ${coder} (category ${String(category)})`,
-    ),
-  );
+  const sections: Section[][] = coders.map((coder) => sectionsOf(spans, continuum, coder, category));
   let observed = 0;
   for (let a = 0; a < R; a++)
     for (let b = a + 1; b < R; b++)
@@ -107,4 +104,9 @@ function categoryAlpha(spans: ReadonlyArray<Span>, continuum: Continuum, coders:
   const D_e = Nc === 0 ? 0 : ((2 / L) * sum) / (R * L * (R * L - 1) - squared);
   const base = { category, D_o, D_e, units: Nc };
   return D_e === 0 ? { ...base, value: null, reason: 'no-variation' } : { ...base, value: 1 - D_o / D_e };
+}
+
+function sectionsOf(spans: ReadonlyArray<Span>, continuum: Continuum, coder: string, category: Value): Section[] {
+  const own = spans.filter((s) => s.coder === coder && s.value === category).map((s) => ({ start: s.start, end: s.end, value: 0 }));
+  return partition(own, continuum, `coder ${coder} (category ${String(category)})`);
 }
