@@ -1,0 +1,24 @@
+/** Looking up a user's role in a study, and a document with its study. */
+import { type Db, documents, memberships } from '@gloss/db';
+import { and, eq } from 'drizzle-orm';
+import type { Role } from '../sync/contracts.js';
+
+export async function roleIn(db: Db, studyId: string, userId: string): Promise<Role | null> {
+  const [row] = await db
+    .select({ role: memberships.role })
+    .from(memberships)
+    .where(and(eq(memberships.studyId, studyId), eq(memberships.userId, userId)));
+  return row?.role ?? null;
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+/** Ids arrive from URLs; anything not a uuid cannot name a row (and would make PostgreSQL raise 22P02). */
+export function isUuid(value: string): boolean {
+  return UUID.test(value);
+}
+
+export async function findDocument(db: Db, docId: string) {
+  if (!isUuid(docId)) return null;
+  const [row] = await db.select().from(documents).where(eq(documents.id, docId));
+  return row ?? null;
+}

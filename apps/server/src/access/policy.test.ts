@@ -1,0 +1,51 @@
+/**
+ * The role table against the rules in docs/DESIGN.md §2 and §6 and the task brief (the project's own
+ * specification: no outside source defines these roles; the split of duties is common practice in
+ * team coding — MacQueen et al. 1998 describe a codebook editor distinct from coders).
+ */
+import { describe, expect, it } from 'vitest';
+import type { Role } from '../sync/contracts.js';
+import { ACTIONS, can, canAssignRole, roomAccess } from './policy.js';
+
+const ROLES: Role[] = ['owner', 'lead', 'coder', 'trainee', 'observer'];
+const me = 'u-me';
+const other = 'u-other';
+
+describe('role table', () => {
+  it('gives the observer read-only access everywhere', () => {
+    for (const kind of ['text', 'codebook', 'memos'] as const) expect(roomAccess('observer', { kind, coderId: null }, me)).toEqual({ read: true, write: false });
+    expect(roomAccess('observer', { kind: 'layer', coderId: other }, me)).toEqual({ read: true, write: false });
+    const writes = ACTIONS.filter((a) => !a.endsWith('.read') && a !== 'layer.readOthers');
+    for (const action of writes) expect(can('observer', action), action).toBe(false);
+  });
+
+  it('lets only owner and lead correct the text and write the codebook', () => {
+    for (const role of ROLES) {
+      const expected = role === 'owner' || role === 'lead';
+      expect(roomAccess(role, { kind: 'text', coderId: null }, me).write, role).toBe(expected);
+      expect(roomAccess(role, { kind: 'codebook', coderId: null }, me).write, role).toBe(expected);
+      expect(roomAccess(role, { kind: 'codebook', coderId: null }, me).read, role).toBe(true);
+    }
+  });
+
+  it('lets only its own coder write a layer; everyone reads others’ layers (no rounds yet)', () => {
+    for (const role of ROLES) {
+      expect(roomAccess(role, { kind: 'layer', coderId: other }, me), role).toEqual({ read: true, write: false });
+    }
+    for (const role of ['owner', 'lead', 'coder', 'trainee'] as const) {
+      expect(roomAccess(role, { kind: 'layer', coderId: me }, me), role).toEqual({ read: true, write: true });
+    }
+  });
+
+  it('lets every role but the observer write memos', () => {
+    expect(ROLES.filter((r) => roomAccess(r, { kind: 'memos', coderId: null }, me).write)).toEqual(['owner', 'lead', 'coder', 'trainee']);
+  });
+
+  it('lets owner and lead manage members, but only an owner grant or remove the owner role', () => {
+    expect(ROLES.filter((r) => can(r, 'members.manage'))).toEqual(['owner', 'lead']);
+    expect(canAssignRole('owner', 'owner')).toBe(true);
+    expect(canAssignRole('lead', 'owner')).toBe(false);
+    expect(canAssignRole('lead', 'coder')).toBe(true);
+    expect(canAssignRole('coder', 'trainee')).toBe(false);
+  });
+});

@@ -1,0 +1,20 @@
+/** Appends to the access and change log (DESIGN §6, §8). */
+import { auditLog, type Db } from '@gloss/db';
+
+export interface AuditEntry {
+  userId: string | null;
+  studyId: string | null;
+  action: string;
+  target?: string | null;
+  detail?: Record<string, unknown>;
+}
+
+export async function recordAudit(db: Db, entry: AuditEntry): Promise<void> {
+  await db.insert(auditLog).values({
+    userId: entry.userId,
+    studyId: entry.studyId,
+    action: entry.action,
+    target: entry.target ?? null,
+    detail: entry.detail ?? null,
+  });
+}

@@ -1,0 +1,51 @@
+/** Adding texts to a study and finding or creating a coder's layer on a text. */
+import { type Db, documents, snapshots, texts } from '@gloss/db';
+import type { Transcript } from '@gloss/model';
+import { and, eq } from 'drizzle-orm';
+import { HttpError } from '../errors.js';
+import { recordAudit } from './audit.js';
+import { buildTextDocUpdate, wordCount } from './text-doc.js';
+
+export interface NewText {
+  title: string;
+  transcript: Transcript;
+  /** Where it came from: 'txt', 'vtt', 'srt', 'docx', 'api'… */
+  sourceFormat: string;
+  createdBy: string | null;
+}
+
+/**
+ * Creates the text row and its text document, whose first state goes in as the snapshot at seq 0
+ * (the log's bigserial starts at 1, so every later update folds on top of it).
+ */
+export async function addTextFromTranscript(db: Db, studyId: string, input: NewText) {
+  if (input.transcript.turns.length === 0) throw new HttpError(400, 'invalid_body', 'The transcript has no words.');
+  const { update, text } = buildTextDocUpdate(input.transcript);
+  return db.transaction(async (tx) => {
+    const t = tx as unknown as Db;
+    const [row] = await t
+      .insert(texts)
+      .values({ studyId, title: input.title, sourceFormat: input.sourceFormat, wordCount: wordCount(text), createdBy: input.createdBy })
+      .returning();
+    const [doc] = await t.insert(documents).values({ kind: 'text', studyId, textId: row!.id }).returning({ id: documents.id });
+    await t.insert(snapshots).values({ docId: doc!.id, seq: 0, data: update, bytes: update.byteLength });
+    await recordAudit(t, {
+      userId: input.createdBy,
+      studyId,
+      action: 'text.import',
+      target: row!.id,
+      detail: { title: input.title, sourceFormat: input.sourceFormat, words: row!.wordCount },
+    });
+    return { ...row!, room: doc!.id };
+  });
+}
+
+/** The layer document of `coderId` on a text, created on first use (race-safe via the unique index). */
+export async function ensureLayer(db: Db, studyId: string, textId: string, coderId: string): Promise<string> {
+  await db.insert(documents).values({ kind: 'layer', studyId, textId, coderId }).onConflictDoNothing();
+  const [row] = await db
+    .select({ id: documents.id })
+    .from(documents)
+    .where(and(eq(documents.kind, 'layer'), eq(documents.textId, textId), eq(documents.coderId, coderId)));
+  return row!.id;
+}

@@ -1,0 +1,81 @@
+/** Server configuration from the environment, checked once at start. */
+import { resolve } from 'node:path';
+import { ConfigError } from './errors.js';
+
+export type LogLevel = 'debug' | 'info' | 'warn' | 'error' | 'silent';
+
+export interface ServerConfig {
+  port: number;
+  host: string;
+  /** PostgreSQL when set; otherwise embedded PGlite in dataDir. */
+  databaseUrl: string | undefined;
+  dataDir: string;
+  redisUrl: string | undefined;
+  /** Public origin (https://gloss.example.org), allowed for Origin checks and used for Secure cookies. */
+  publicUrl: string | undefined;
+  maxMessageBytes: number;
+  /** Session lifetime; sessions slide forward when used past half of it. */
+  sessionMs: number;
+  webDist: string;
+  logLevel: LogLevel;
+  /** Largest accepted HTTP request body. */
+  maxBodyBytes: number;
+  /** Sign-in failures per email+IP within the window before 429. */
+  signInMaxFailures: number;
+  signInWindowMs: number;
+  pingIntervalMs: number;
+}
+
+const LOG_LEVELS: LogLevel[] = ['debug', 'info', 'warn', 'error', 'silent'];
+
+function int(env: NodeJS.ProcessEnv, name: string, fallback: number, min: number, max = Number.MAX_SAFE_INTEGER): number {
+  const raw = env[name];
+  if (raw === undefined || raw === '') return fallback;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < min || n > max) throw new ConfigError(`${name} must be an integer from ${min} to ${max}, got "${raw}"`);
+  return n;
+}
+
+function positive(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
+  const raw = env[name];
+  if (raw === undefined || raw === '') return fallback;
+  const n = Number(raw);
+  if (!Number.isFinite(n) || n <= 0) throw new ConfigError(`${name} must be a positive number, got "${raw}"`);
+  return n;
+}
+
+function url(env: NodeJS.ProcessEnv, name: string, protocols: string[]): string | undefined {
+  const raw = env[name];
+  if (!raw) return undefined;
+  let parsed: URL;
+  try {
+    parsed = new URL(raw);
+  } catch {
+    throw new ConfigError(`${name} is not a URL: "${raw}"`);
+  }
+  if (!protocols.includes(parsed.protocol)) throw new ConfigError(`${name} must start with ${protocols.join(' or ')}`);
+  return raw;
+}
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
+  const logLevel = (env.LOG_LEVEL || 'info') as LogLevel;
+  if (!LOG_LEVELS.includes(logLevel)) throw new ConfigError(`LOG_LEVEL must be one of ${LOG_LEVELS.join(', ')}`);
+  const publicUrl = url(env, 'PUBLIC_URL', ['http:', 'https:']);
+  return {
+    port: int(env, 'PORT', 8080, 0, 65535),
+    host: env.HOST || '127.0.0.1',
+    databaseUrl: url(env, 'DATABASE_URL', ['postgres:', 'postgresql:']),
+    dataDir: resolve(env.DATA_DIR || './data'),
+    redisUrl: url(env, 'REDIS_URL', ['redis:', 'rediss:']),
+    publicUrl: publicUrl ? new URL(publicUrl).origin : undefined,
+    maxMessageBytes: int(env, 'MAX_MESSAGE_BYTES', 8 * 1024 * 1024, 1024),
+    // SESSION_DAYS may be fractional so tests can use seconds-long sessions.
+    sessionMs: Math.round(positive(env, 'SESSION_DAYS', 30) * 86_400_000),
+    webDist: resolve(env.WEB_DIST || new URL('../../web/dist', import.meta.url).pathname),
+    logLevel,
+    maxBodyBytes: int(env, 'MAX_BODY_BYTES', 5 * 1024 * 1024, 1024),
+    signInMaxFailures: int(env, 'SIGNIN_MAX_FAILURES', 5, 1),
+    signInWindowMs: int(env, 'SIGNIN_WINDOW_SECONDS', 15 * 60, 1) * 1000,
+    pingIntervalMs: int(env, 'PING_INTERVAL_MS', 30_000, 100),
+  };
+}

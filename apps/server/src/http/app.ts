@@ -1,0 +1,46 @@
+/** The hono application: JSON API under /api, the web app at /. */
+import { Hono } from 'hono';
+import { bodyLimit } from 'hono/body-limit';
+import { HttpError } from '../errors.js';
+import type { AppDeps, AppEnv } from './context.js';
+import { errorBody, onError, onNotFound } from './errors.js';
+import { healthRoutes } from './health.js';
+import { memberRoutes } from './members.js';
+import { csrf } from './middleware.js';
+import { openApiRoutes } from './openapi.js';
+import { sessionRoutes } from './session.js';
+import { staticRoutes } from './static.js';
+import { studyRoutes } from './studies.js';
+import { studyTextRoutes, textRoutes } from './texts.js';
+
+export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
+  const app = new Hono<AppEnv>();
+  app.onError(onError(log));
+
+  const api = new Hono<AppEnv>();
+  api.use(
+    '*',
+    bodyLimit({
+      maxSize: deps.config.maxBodyBytes,
+      onError: () => {
+        throw new HttpError(413, 'body_too_large', `The body is larger than ${deps.config.maxBodyBytes} bytes.`);
+      },
+    }),
+  );
+  api.use('*', csrf(deps));
+  api.route('/', healthRoutes(deps));
+  api.route('/', openApiRoutes());
+  api.route('/', sessionRoutes(deps));
+  api.route('/studies', studyRoutes(deps));
+  api.route('/studies/:studyId/members', memberRoutes(deps));
+  api.route('/studies/:studyId/texts', studyTextRoutes(deps));
+  api.route('/texts', textRoutes(deps));
+  api.notFound(onNotFound);
+  api.all('*', onNotFound);
+  app.route('/api', api);
+  // Sync lives on the upgrade event; a plain GET there is a client mistake, not a web page.
+  app.all('/sync/*', (c) => c.json(errorBody('bad_request', 'Open /sync/<room> as a WebSocket.'), 426 as never));
+  app.route('/', staticRoutes(deps.config.webDist));
+  app.notFound(onNotFound);
+  return app;
+}

@@ -1,0 +1,21 @@
+/** What every route handler can reach: dependencies, and the signed-in session once checked. */
+import type { Db, DbKind } from '@gloss/db';
+import type { RateLimiter } from '../auth/rate-limit.js';
+import type { SessionService, ValidSession } from '../auth/sessions.js';
+import type { ServerConfig } from '../config.js';
+
+export interface AppDeps {
+  db: Db;
+  dbKind: DbKind;
+  sessions: SessionService;
+  signInLimiter: RateLimiter;
+  config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist'>;
+  /** Extra readiness facts for /api/health (sync stats…). */
+  health?: () => Record<string, unknown>;
+}
+
+export interface AppEnv {
+  Variables: {
+    session: ValidSession;
+  };
+}

@@ -1,0 +1,53 @@
+/** Session and CSRF middleware for the JSON API. */
+import type { Context, MiddlewareHandler } from 'hono';
+import { getConnInfo } from '@hono/node-server/conninfo';
+import { readSessionToken, sessionCookie } from '../auth/cookies.js';
+import { isAllowedOrigin } from '../auth/origin.js';
+import { HttpError, unauthenticated } from '../errors.js';
+import type { AppDeps, AppEnv } from './context.js';
+
+/** Secure cookies when the public site is https, or the request itself arrived over https. */
+export function isSecure(c: Context, publicUrl: string | undefined): boolean {
+  if (publicUrl) return publicUrl.startsWith('https:');
+  return new URL(c.req.url).protocol === 'https:';
+}
+
+export function clientAddress(c: Context): string {
+  try {
+    return getConnInfo(c).remote.address ?? 'unknown';
+  } catch {
+    return 'unknown'; // app.request() in tests has no socket
+  }
+}
+
+/**
+ * Refuses cookie-carrying, state-changing requests from foreign origins (after the Lucia guide:
+ * non-GET requests must carry an Origin, or a Referer, matching an allowed origin).
+ */
+export function csrf(deps: AppDeps): MiddlewareHandler<AppEnv> {
+  return async (c, next) => {
+    const method = c.req.method;
+    if (method !== 'GET' && method !== 'HEAD' && method !== 'OPTIONS' && readSessionToken(c.req.header('cookie'))) {
+      const ok = isAllowedOrigin(
+        { origin: c.req.header('origin'), referer: c.req.header('referer'), host: c.req.header('host') },
+        deps.config.publicUrl,
+      );
+      if (!ok) throw new HttpError(403, 'bad_origin', 'Request refused: it did not come from this site (Origin check).');
+    }
+    await next();
+  };
+}
+
+/** Requires a valid session; re-sends the cookie when the expiry slid forward. */
+export function requireSession(deps: AppDeps): MiddlewareHandler<AppEnv> {
+  return async (c, next) => {
+    // Idempotent: nested route groups may each declare it.
+    if (c.get('session')) return next();
+    const token = readSessionToken(c.req.header('cookie'));
+    const session = token ? await deps.sessions.validate(token) : null;
+    if (!session) throw unauthenticated();
+    if (session.renewed) c.header('Set-Cookie', sessionCookie(token!, session.expiresAt, isSecure(c, deps.config.publicUrl)), { append: true });
+    c.set('session', session);
+    await next();
+  };
+}

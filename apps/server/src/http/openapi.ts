@@ -1,0 +1,149 @@
+/**
+ * GET /api/openapi.json: an OpenAPI 3.1 description built from the same zod schemas the routes
+ * validate with (zod 4's toJSONSchema emits JSON Schema 2020-12, the dialect OpenAPI 3.1 uses).
+ */
+import { Hono } from 'hono';
+import { z } from 'zod';
+import type { AppEnv } from './context.js';
+import * as S from './schemas.js';
+
+const components = {
+  AddMemberBody: S.AddMemberBody,
+  ChangeRoleBody: S.ChangeRoleBody,
+  Error: S.ErrorResponse,
+  Health: S.Health,
+  Me: S.Me,
+  Member: S.Member,
+  NewStudyBody: S.NewStudyBody,
+  NewTextBody: S.NewTextBody,
+  SignInBody: S.SignInBody,
+  Study: S.Study,
+  StudySummary: S.StudySummary,
+  TextDetail: S.TextDetail,
+  TextSummary: S.TextSummary,
+};
+type Name = keyof typeof components;
+
+const ref = (name: Name) => ({ $ref: `#/components/schemas/${name}` });
+const json = (schema: object) => ({ content: { 'application/json': { schema } } });
+const ok = (name: Name | null, description: string, status = '200') => ({
+  [status]: name ? { description, ...json(ref(name)) } : { description },
+});
+const list = (name: Name, description: string) => ({ '200': { description, ...json({ type: 'array', items: ref(name) }) } });
+const errors = (...codes: number[]) =>
+  Object.fromEntries(codes.map((code) => [String(code), { description: ERROR_TEXT[code] ?? 'Error', ...json(ref('Error')) }]));
+const body = (name: Name) => ({ required: true, ...json(ref(name)) });
+const idParam = (name: string) => ({ name, in: 'path', required: true, schema: { type: 'string', format: 'uuid' } });
+
+const ERROR_TEXT: Record<number, string> = {
+  400: 'Invalid body (code invalid_body or invalid_json)',
+  401: 'Not signed in, or wrong email or password',
+  403: 'Role does not allow it, or the Origin check failed (bad_origin)',
+  404: 'Not found, or not a member',
+  409: 'Conflict (last_owner)',
+  413: 'Body too large',
+  415: 'Body is not JSON',
+  429: 'Too many failed sign-ins; see Retry-After',
+};
+
+export function buildOpenApi() {
+  const schemas = Object.fromEntries(
+    Object.entries(components).map(([name, schema]) => {
+      const { $schema: _drop, ...rest } = z.toJSONSchema(schema, { target: 'draft-2020-12', io: 'input' }) as Record<string, unknown>;
+      return [name, rest];
+    }),
+  );
+  const secured = [{ session: [] }];
+  return {
+    openapi: '3.1.0',
+    info: {
+      title: 'Gloss API',
+      version: '0.1.0',
+      description:
+        'Cookie-authenticated JSON API. State-changing requests that carry the session cookie must send an Origin (or Referer) of this site. ' +
+        'Every error is {"error":{"code","message"}}. Documents are edited over the y-websocket protocol at /sync/<room>.',
+    },
+    components: {
+      schemas,
+      securitySchemes: { session: { type: 'apiKey', in: 'cookie', name: 'gloss_session' } },
+    },
+    paths: {
+      '/api/health': { get: { summary: 'Liveness and database kind', responses: { ...ok('Health', 'Up'), ...errors(503) } } },
+      '/api/openapi.json': { get: { summary: 'This description', responses: { '200': { description: 'OpenAPI 3.1 document' } } } },
+      '/api/session': {
+        post: {
+          summary: 'Sign in; sets the session cookie',
+          requestBody: body('SignInBody'),
+          responses: { ...ok('Me', 'Signed in'), ...errors(400, 401, 415, 429) },
+        },
+        delete: { summary: 'Sign out', security: secured, responses: { '204': { description: 'Signed out' }, ...errors(403) } },
+      },
+      '/api/me': { get: { summary: 'The signed-in user', security: secured, responses: { ...ok('Me', 'Signed in'), ...errors(401) } } },
+      '/api/studies': {
+        get: { summary: 'Studies the caller belongs to', security: secured, responses: { ...list('StudySummary', 'Studies'), ...errors(401) } },
+        post: {
+          summary: 'Create a study (the caller becomes its owner)',
+          security: secured,
+          requestBody: body('NewStudyBody'),
+          responses: { ...ok('Study', 'Created', '201'), ...errors(400, 401, 403) },
+        },
+      },
+      '/api/studies/{studyId}': {
+        get: {
+          summary: 'A study, with the rooms of its codebook and memos documents',
+          security: secured,
+          parameters: [idParam('studyId')],
+          responses: { ...ok('Study', 'The study'), ...errors(401, 404) },
+        },
+      },
+      '/api/studies/{studyId}/members': {
+        get: { summary: 'Members', security: secured, parameters: [idParam('studyId')], responses: { ...list('Member', 'Members'), ...errors(401, 404) } },
+        post: {
+          summary: 'Add a member by email (or change the role of an existing one); owner and lead',
+          security: secured,
+          parameters: [idParam('studyId')],
+          requestBody: body('AddMemberBody'),
+          responses: { ...ok('Member', 'Role changed'), ...ok('Member', 'Added', '201'), ...errors(400, 401, 403, 404, 409) },
+        },
+      },
+      '/api/studies/{studyId}/members/{userId}': {
+        patch: {
+          summary: "Change a member's role; owner and lead (owner role only by owners)",
+          security: secured,
+          parameters: [idParam('studyId'), idParam('userId')],
+          requestBody: body('ChangeRoleBody'),
+          responses: { ...ok('Member', 'Changed'), ...errors(400, 401, 403, 404, 409) },
+        },
+        delete: {
+          summary: 'Remove a member; owner and lead',
+          security: secured,
+          parameters: [idParam('studyId'), idParam('userId')],
+          responses: { '204': { description: 'Removed' }, ...errors(401, 403, 404, 409) },
+        },
+      },
+      '/api/studies/{studyId}/texts': {
+        get: { summary: 'Texts of a study', security: secured, parameters: [idParam('studyId')], responses: { ...list('TextSummary', 'Texts'), ...errors(401, 404) } },
+        post: {
+          summary: 'Add a plain-text transcript; owner and lead',
+          security: secured,
+          parameters: [idParam('studyId')],
+          requestBody: body('NewTextBody'),
+          responses: { ...ok('TextSummary', 'Added', '201'), ...errors(400, 401, 403, 404, 413) },
+        },
+      },
+      '/api/texts/{textId}': {
+        get: {
+          summary: "A text's room and the layer rooms the caller may open (creates the caller's own layer on first open)",
+          security: secured,
+          parameters: [idParam('textId')],
+          responses: { ...ok('TextDetail', 'The text'), ...errors(401, 404) },
+        },
+      },
+    },
+  };
+}
+
+export function openApiRoutes() {
+  const doc = buildOpenApi();
+  return new Hono<AppEnv>().get('/openapi.json', (c) => c.json(doc));
+}

@@ -1,0 +1,58 @@
+/** The API's request and response shapes, in one place: routes validate with them, openapi.ts describes them. */
+import { z } from 'zod';
+import { MAX_PASSWORD_LENGTH } from '../auth/passwords.js';
+
+export const RoleSchema = z.enum(['owner', 'lead', 'coder', 'trainee', 'observer']);
+export const StudyModeSchema = z.enum(['standard', 'reflexive']);
+
+export const SignInBody = z.object({
+  email: z.string().trim().min(3).max(320),
+  password: z.string().min(1).max(MAX_PASSWORD_LENGTH),
+});
+
+export const NewStudyBody = z.object({
+  title: z.string().trim().min(1).max(200),
+  description: z.string().max(5000).optional(),
+  mode: StudyModeSchema.optional(),
+  retentionUntil: z.iso.datetime({ offset: true }).nullable().optional(),
+});
+
+export const AddMemberBody = z.object({ email: z.string().trim().min(3).max(320), role: RoleSchema });
+export const ChangeRoleBody = z.object({ role: RoleSchema });
+
+export const NewTextBody = z.object({
+  title: z.string().trim().min(1).max(300),
+  /** Plain-text transcript; "Name: words" lines become speaker turns. */
+  content: z.string().min(1).max(4_000_000),
+});
+
+export const ErrorResponse = z.object({
+  error: z.object({ code: z.string(), message: z.string(), details: z.unknown().optional() }),
+});
+export const Health = z.object({ ok: z.boolean(), db: z.enum(['pglite', 'postgres']) });
+export const Me = z.object({ id: z.uuid(), email: z.string(), name: z.string() });
+export const StudySummary = z.object({
+  id: z.uuid(),
+  title: z.string(),
+  description: z.string(),
+  mode: StudyModeSchema,
+  role: RoleSchema,
+  createdAt: z.string(),
+});
+export const Study = StudySummary.extend({
+  retentionUntil: z.string().nullable(),
+  codebookRoom: z.uuid(),
+  memosRoom: z.uuid(),
+  permissions: z.array(z.string()),
+});
+export const Member = z.object({ userId: z.uuid(), name: z.string(), email: z.string(), role: RoleSchema });
+export const TextSummary = z.object({
+  id: z.uuid(),
+  title: z.string(),
+  room: z.uuid(),
+  sourceFormat: z.string(),
+  wordCount: z.number().int(),
+  createdAt: z.string(),
+});
+export const Layer = z.object({ room: z.uuid(), coderId: z.uuid(), name: z.string(), mine: z.boolean(), canWrite: z.boolean() });
+export const TextDetail = TextSummary.extend({ studyId: z.uuid(), canWrite: z.boolean(), layers: z.array(Layer) });

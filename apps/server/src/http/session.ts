@@ -1,0 +1,49 @@
+/** POST /api/session (sign in), DELETE /api/session (sign out), GET /api/me. */
+import { Hono } from 'hono';
+import { clearedSessionCookie, readSessionToken, sessionCookie } from '../auth/cookies.js';
+import { spendVerifyTime, verifyPassword } from '../auth/passwords.js';
+import { findUserByEmail, normaliseEmail } from '../admin/users.js';
+import { HttpError } from '../errors.js';
+import type { AppDeps, AppEnv } from './context.js';
+import { clientAddress, isSecure, requireSession } from './middleware.js';
+import { SignInBody } from './schemas.js';
+import { readJson } from './validate.js';
+
+const WRONG = 'Email or password is wrong.';
+
+export function sessionRoutes(deps: AppDeps) {
+  const app = new Hono<AppEnv>();
+
+  app.post('/session', async (c) => {
+    const body = await readJson(c, SignInBody);
+    const key = `${normaliseEmail(body.email)}|${clientAddress(c)}`;
+    const wait = deps.signInLimiter.retryAfter(key);
+    if (wait > 0) {
+      throw new HttpError(429, 'rate_limited', `Too many failed sign-ins. Try again in ${wait} s.`, { 'Retry-After': String(wait) });
+    }
+    const user = await findUserByEmail(deps.db, body.email);
+    const ok = user ? await verifyPassword(user.passwordHash, body.password) : (await spendVerifyTime(body.password), false);
+    if (!user || !ok) {
+      deps.signInLimiter.fail(key);
+      throw new HttpError(401, 'invalid_credentials', WRONG);
+    }
+    deps.signInLimiter.reset(key);
+    const { token, expiresAt } = await deps.sessions.create(user.id);
+    c.header('Set-Cookie', sessionCookie(token, expiresAt, isSecure(c, deps.config.publicUrl)));
+    return c.json({ id: user.id, email: user.email, name: user.name, expiresAt: expiresAt.toISOString() });
+  });
+
+  app.delete('/session', async (c) => {
+    const token = readSessionToken(c.req.header('cookie'));
+    if (token) await deps.sessions.invalidate(token);
+    c.header('Set-Cookie', clearedSessionCookie(isSecure(c, deps.config.publicUrl)));
+    return c.body(null, 204);
+  });
+
+  app.get('/me', requireSession(deps), (c) => {
+    const { user, expiresAt } = c.get('session');
+    return c.json({ id: user.id, email: user.email, name: user.name, sessionExpiresAt: expiresAt.toISOString() });
+  });
+
+  return app;
+}

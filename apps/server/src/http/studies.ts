@@ -1,0 +1,88 @@
+/** GET/POST /api/studies, GET /api/studies/:studyId. */
+import { documents, memberships, studies } from '@gloss/db';
+import { and, desc, eq, inArray } from 'drizzle-orm';
+import { Hono } from 'hono';
+import { ACTIONS, can } from '../access/policy.js';
+import { createStudy } from '../admin/studies.js';
+import { notFound } from '../errors.js';
+import type { AppDeps, AppEnv } from './context.js';
+import { requireSession } from './middleware.js';
+import { NewStudyBody } from './schemas.js';
+import { studyRole } from './study-access.js';
+import { readJson } from './validate.js';
+
+const iso = (d: Date | null) => (d ? d.toISOString() : null);
+
+export function studyRoutes(deps: AppDeps) {
+  const app = new Hono<AppEnv>();
+  app.use('*', requireSession(deps));
+
+  app.get('/', async (c) => {
+    const rows = await deps.db
+      .select({ study: studies, role: memberships.role })
+      .from(memberships)
+      .innerJoin(studies, eq(studies.id, memberships.studyId))
+      .where(eq(memberships.userId, c.get('session').user.id))
+      .orderBy(desc(studies.createdAt));
+    return c.json(
+      rows.map(({ study, role }) => ({
+        id: study.id,
+        title: study.title,
+        description: study.description,
+        mode: study.mode,
+        role,
+        createdAt: study.createdAt.toISOString(),
+      })),
+    );
+  });
+
+  app.post('/', async (c) => {
+    const body = await readJson(c, NewStudyBody);
+    const study = await createStudy(deps.db, {
+      title: body.title,
+      description: body.description,
+      mode: body.mode,
+      retentionUntil: body.retentionUntil ? new Date(body.retentionUntil) : null,
+      createdBy: c.get('session').user.id,
+    });
+    return c.json(
+      {
+        id: study.id,
+        title: study.title,
+        description: study.description,
+        mode: study.mode,
+        role: 'owner' as const,
+        createdAt: study.createdAt.toISOString(),
+        retentionUntil: iso(study.retentionUntil),
+        codebookRoom: study.codebookRoom,
+        memosRoom: study.memosRoom,
+        permissions: ACTIONS.filter((a) => can('owner', a)),
+      },
+      201,
+    );
+  });
+
+  app.get('/:studyId', async (c) => {
+    const { studyId, role } = await studyRole(deps, c);
+    const [study] = await deps.db.select().from(studies).where(eq(studies.id, studyId));
+    if (!study) throw notFound('Study');
+    const docs = await deps.db
+      .select({ id: documents.id, kind: documents.kind })
+      .from(documents)
+      .where(and(eq(documents.studyId, studyId), inArray(documents.kind, ['codebook', 'memos'])));
+    return c.json({
+      id: study.id,
+      title: study.title,
+      description: study.description,
+      mode: study.mode,
+      role,
+      createdAt: study.createdAt.toISOString(),
+      retentionUntil: iso(study.retentionUntil),
+      codebookRoom: docs.find((d) => d.kind === 'codebook')?.id ?? null,
+      memosRoom: docs.find((d) => d.kind === 'memos')?.id ?? null,
+      permissions: ACTIONS.filter((a) => can(role, a)),
+    });
+  });
+
+  return app;
+}

@@ -1,0 +1,107 @@
+/** GET/POST /api/studies/:studyId/texts and GET /api/texts/:textId (its rooms, opening the caller's layer). */
+import { documents, texts, users } from '@gloss/db';
+import { and, asc, eq } from 'drizzle-orm';
+import { Hono } from 'hono';
+import { can, roomAccess } from '../access/policy.js';
+import { roleIn } from '../access/membership.js';
+import { addTextFromTranscript, ensureLayer } from '../admin/texts.js';
+import { transcriptFromPlainText } from '../admin/text-doc.js';
+import { HttpError, notFound } from '../errors.js';
+import type { AppDeps, AppEnv } from './context.js';
+import { requireSession } from './middleware.js';
+import { NewTextBody } from './schemas.js';
+import { studyRole } from './study-access.js';
+import { idParam, readJson } from './validate.js';
+
+export function studyTextRoutes(deps: AppDeps) {
+  const app = new Hono<AppEnv>();
+  app.use('*', requireSession(deps));
+
+  app.get('/', async (c) => {
+    const { studyId } = await studyRole(deps, c, 'text.read');
+    const rows = await deps.db
+      .select({ text: texts, room: documents.id })
+      .from(texts)
+      .innerJoin(documents, and(eq(documents.textId, texts.id), eq(documents.kind, 'text')))
+      .where(eq(texts.studyId, studyId))
+      .orderBy(asc(texts.createdAt), asc(texts.title));
+    return c.json(
+      rows.map(({ text, room }) => ({
+        id: text.id,
+        title: text.title,
+        room,
+        sourceFormat: text.sourceFormat,
+        wordCount: text.wordCount,
+        createdAt: text.createdAt.toISOString(),
+      })),
+    );
+  });
+
+  app.post('/', async (c) => {
+    const { studyId } = await studyRole(deps, c, 'text.import');
+    const body = await readJson(c, NewTextBody);
+    const transcript = transcriptFromPlainText(body.content, body.title);
+    if (transcript.turns.length === 0) throw new HttpError(400, 'invalid_body', 'content: the transcript has no words.');
+    const text = await addTextFromTranscript(deps.db, studyId, {
+      title: body.title,
+      transcript,
+      sourceFormat: 'txt',
+      createdBy: c.get('session').user.id,
+    });
+    return c.json(
+      {
+        id: text.id,
+        title: text.title,
+        room: text.room,
+        sourceFormat: text.sourceFormat,
+        wordCount: text.wordCount,
+        createdAt: text.createdAt.toISOString(),
+      },
+      201,
+    );
+  });
+
+  return app;
+}
+
+export function textRoutes(deps: AppDeps) {
+  const app = new Hono<AppEnv>();
+  app.use('*', requireSession(deps));
+
+  app.get('/:textId', async (c) => {
+    const textId = idParam(c, 'textId', 'Text');
+    const [text] = await deps.db.select().from(texts).where(eq(texts.id, textId));
+    if (!text) throw notFound('Text');
+    const me = c.get('session').user.id;
+    const role = await roleIn(deps.db, text.studyId, me);
+    if (!role) throw notFound('Text');
+    // A coder's own layer exists from the first time they open the text.
+    if (can(role, 'layer.writeOwn')) await ensureLayer(deps.db, text.studyId, text.id, me);
+    const docs = await deps.db
+      .select({ id: documents.id, kind: documents.kind, coderId: documents.coderId, coderName: users.name })
+      .from(documents)
+      .leftJoin(users, eq(users.id, documents.coderId))
+      .where(eq(documents.textId, text.id))
+      .orderBy(asc(users.name));
+    const textDoc = docs.find((d) => d.kind === 'text');
+    if (!textDoc) throw notFound('Text document');
+    const layers = docs
+      .filter((d) => d.kind === 'layer')
+      .map((d) => ({ d, access: roomAccess(role, { kind: 'layer', coderId: d.coderId }, me) }))
+      .filter(({ access }) => access.read)
+      .map(({ d, access }) => ({ room: d.id, coderId: d.coderId!, name: d.coderName ?? '', mine: d.coderId === me, canWrite: access.write }));
+    return c.json({
+      id: text.id,
+      studyId: text.studyId,
+      title: text.title,
+      room: textDoc.id,
+      sourceFormat: text.sourceFormat,
+      wordCount: text.wordCount,
+      createdAt: text.createdAt.toISOString(),
+      canWrite: roomAccess(role, { kind: 'text', coderId: null }, me).write,
+      layers,
+    });
+  });
+
+  return app;
+}
