@@ -62,7 +62,10 @@ const NOT_NAMES = new Set(
     'actually seriously meaning definition edit quote source transcript recording present attendees ' +
     'participants interviewers project study file page chapter section part step total key important here there ' +
     'what why how when where who which if as for in on at to of by with from about after before during ' +
-    'translation comment comments'
+    'translation comment comments right sure true false fine exactly great good bad oh ah um uh hmm wait sorry ' +
+    'thanks please again later now today yesterday tomorrow once never always sometimes maybe perhaps plus still ' +
+    'yet even just only really very mostly usually anyhow besides otherwise instead meanwhile apparently obviously ' +
+    'clearly unfortunately luckily hopefully interestingly'
   ).split(' '),
 );
 
