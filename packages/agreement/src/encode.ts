@@ -19,6 +19,8 @@ export interface EncodeOptions {
   order?: ReadonlyArray<Value>;
 }
 
+const SMALL = 1024;
+
 export function encodeReliabilityData(data: ReliabilityData, options: EncodeOptions = {}): EncodedData {
   if (!Array.isArray(data)) throw new AgreementError('invalid-input', 'reliability data must be an array of coder rows');
   const coders = data.length;
@@ -32,6 +34,8 @@ export function encodeReliabilityData(data: ReliabilityData, options: EncodeOpti
   const firstSeen: Value[] = [];
   let numbers = 0;
   let strings = 0;
+  // Codes are usually small non-negative integers: index those through an array, not the Map.
+  const small = new Int32Array(SMALL).fill(-1);
   for (let c = 0; c < coders; c++) {
     const row = data[c]!;
     const base = c * units;
@@ -45,7 +49,9 @@ export function encodeReliabilityData(data: ReliabilityData, options: EncodeOpti
         cells[base + u] = lastIndex;
         continue;
       }
-      let idx = seen.get(v);
+      const isSmall = typeof v === 'number' && v >= 0 && v < SMALL && (v | 0) === v;
+      let idx: number | undefined = isSmall ? small[v as number]! : seen.get(v);
+      if (idx === -1) idx = undefined;
       if (idx === undefined) {
         if (typeof v === 'number') {
           if (!Number.isFinite(v)) throw new AgreementError('invalid-value', `value at coder ${c}, unit ${u} is not a finite number`);
@@ -55,6 +61,7 @@ export function encodeReliabilityData(data: ReliabilityData, options: EncodeOpti
         idx = firstSeen.length;
         firstSeen.push(v);
         seen.set(v, idx);
+        if (isSmall) small[v as number] = idx;
       }
       cells[base + u] = idx;
       lastValue = v;
