@@ -1,0 +1,6 @@
+/** The server as a library: for the CLI, benchmarks and tests. */
+export { startServer, type RunningServer } from './server.js';
+export { loadConfig, type ServerConfig } from './config.js';
+export { createLogger, type Logger } from './logger.js';
+export { seedDemo, type SeedResult } from './demo/seed.js';
+export * as admin from './admin/index.js';
