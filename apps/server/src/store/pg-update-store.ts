@@ -23,6 +23,8 @@ export interface PgUpdateStore extends UpdateStore {
   compact(docId: string): Promise<CompactionResult>;
   /** Resolves when no compaction is running. */
   compactionsIdle(): Promise<void>;
+  /** Commits (INSERT statements) and rows so far: rows / batches is the group-commit factor. */
+  stats(): { batches: number; rows: number; compactions: number };
 }
 
 interface Row {
@@ -42,6 +44,7 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
   const sizes = new Map<string, Sizes>();
   const compacting = new Map<string, Promise<unknown>>();
   let closed = false;
+  const counts = { batches: 0, rows: 0, compactions: 0 };
 
   const commits = new GroupCommit<Row, number>(async (rows) => {
     const inserted = await database.db
@@ -49,6 +52,8 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
       .values(rows.map((row) => ({ docId: row.docId, data: row.data, bytes: row.data.length, userId: row.userId })))
       .returning({ seq: updates.seq });
     if (inserted.length !== rows.length) throw new StoreError('append-failed', 'insert returned a different row count');
+    counts.batches++;
+    counts.rows += rows.length;
     for (const row of rows) noteAppend(row.docId, row.data.length);
     // PostgreSQL returns the rows of INSERT … VALUES … RETURNING in VALUES order.
     return inserted.map((r) => Number(r.seq));
@@ -72,6 +77,7 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
 
   async function compact(docId: string): Promise<CompactionResult> {
     const result = await compactDocument(database, docId);
+    if (result.compacted) counts.compactions++;
     const size = sizes.get(docId);
     if (result.compacted && size !== undefined) {
       size.snapshotBytes = result.snapshotBytes;
@@ -98,6 +104,7 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
     },
     flush: () => commits.flush(),
     compact,
+    stats: () => ({ ...counts }),
     async compactionsIdle() {
       while (compacting.size > 0) await Promise.allSettled([...compacting.values()]);
     },
