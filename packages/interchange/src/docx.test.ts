@@ -1,7 +1,8 @@
 import { zipSync, strToU8 } from 'fflate';
 import { describe, expect, it } from 'vitest';
 import { importDocx } from './docx.js';
-import { ImportError } from './import-error.js';
+import type { ImportError } from './import-error.js';
+import { refusalOf } from './test-support.js';
 
 // A minimal WordprocessingML package as ECMA-376 (Office Open XML) describes it, from memory:
 // Part 2 (Open Packaging Conventions) gives [Content_Types].xml and the package relationship in
@@ -35,17 +36,7 @@ function docx(body: string, extra: Record<string, Uint8Array> = {}): Uint8Array 
   });
 }
 
-async function importError(bytes: Uint8Array): Promise<ImportError> {
-  return importDocx(bytes).then(
-    () => {
-      throw new Error('expected an ImportError');
-    },
-    (e: unknown) => {
-      if (e instanceof ImportError) return e;
-      throw e;
-    },
-  );
-}
+const importError = (bytes: Uint8Array): Promise<ImportError> => refusalOf(importDocx(bytes));
 
 describe('DOCX: a real package built in the test', () => {
   it('paragraphs with speaker labels split across runs, timestamps, breaks and tabs', async () => {
@@ -120,7 +111,7 @@ describe('DOCX: broken files', () => {
 
   it('an archive that would unpack far beyond the size limit', async () => {
     const big = zipSync({ 'word/document.xml': new Uint8Array(2_000_000) }, { level: 9 });
-    const e = await importDocx(big, { maxBytes: 20_000 }).catch((err: unknown) => err as ImportError);
+    const e = await refusalOf(importDocx(big, { maxBytes: 20_000 }));
     expect(e.code).toBe('too-large');
   });
 });

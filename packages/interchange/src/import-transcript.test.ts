@@ -1,23 +1,12 @@
 import { readFileSync } from 'node:fs';
 import { zipSync, strToU8 } from 'fflate';
 import { describe, expect, it } from 'vitest';
-import { ImportError } from './import-error.js';
+import { refusalOf } from './test-support.js';
 import { detectFormat, importTranscript, sniff } from './import-transcript.js';
 
 const fixture = (name: string): Uint8Array => new Uint8Array(readFileSync(new URL(`./fixtures/${name}`, import.meta.url)));
 const enc = (s: string): Uint8Array => new TextEncoder().encode(s);
 
-async function importError(p: Promise<unknown>): Promise<ImportError> {
-  return p.then(
-    () => {
-      throw new Error('expected an ImportError');
-    },
-    (e: unknown) => {
-      if (e instanceof ImportError) return e;
-      throw e;
-    },
-  );
-}
 
 // Invented fixtures; media types as registered with IANA: text/vtt (W3C WebVTT), text/plain (RFC 2046),
 // application/vnd.openxmlformats-officedocument.wordprocessingml.document (ECMA-376); SRT has no
@@ -66,33 +55,33 @@ describe('importTranscript: choosing the importer', () => {
   });
 
   it('the extension wins over the content, so a mislabelled file gets the named format’s error', async () => {
-    const e = await importError(importTranscript({ filename: 'notes.vtt', bytes: enc('I: hello') }));
+    const e = await refusalOf(importTranscript({ filename: 'notes.vtt', bytes: enc('I: hello') }));
     expect([e.code, e.line]).toEqual(['bad-header', 1]);
   });
 });
 
 describe('importTranscript: refusals', () => {
   it.each(['interview.doc', 'interview.pdf', 'interview.rtf', 'interview.odt'])('%s: unsupported, saying what to do', async (filename) => {
-    const e = await importError(importTranscript({ filename, bytes: enc('whatever') }));
+    const e = await refusalOf(importTranscript({ filename, bytes: enc('whatever') }));
     expect(e.code).toBe('unsupported-format');
     expect(e.message).toMatch(/save|export/);
   });
 
   it('binary content of unknown kind', async () => {
-    const e = await importError(importTranscript({ filename: 'x.bin', bytes: new Uint8Array([0, 1, 2, 3, 4]) }));
+    const e = await refusalOf(importTranscript({ filename: 'x.bin', bytes: new Uint8Array([0, 1, 2, 3, 4]) }));
     expect(e.code).toBe('unsupported-format');
     expect(e.message).toContain('.vtt');
   });
 
   it('files over the size limit, before reading them', async () => {
-    const e = await importError(importTranscript({ filename: 'big.txt', bytes: new Uint8Array(2048).fill(0x61) }, { maxBytes: 1024 }));
+    const e = await refusalOf(importTranscript({ filename: 'big.txt', bytes: new Uint8Array(2048).fill(0x61) }, { maxBytes: 1024 }));
     expect([e.code, e.line]).toEqual(['too-large', null]);
     expect(e.message).toBe('the file is 2.0 KiB, over the limit of 1.0 KiB');
   });
 
   it('never returns a partial transcript: a late error fails the whole import', async () => {
     const good = Array.from({ length: 200 }, (_, i) => `${i + 1}\n00:00:${String(i % 60).padStart(2, '0')},000 --> 00:00:${String(i % 60).padStart(2, '0')},500\nline ${i}\n`).join('\n');
-    const e = await importError(importTranscript({ filename: 'long.srt', bytes: enc(`${good}\n201\n00:00:09,000 --> 00:00:08,000\nlast\n`) }));
+    const e = await refusalOf(importTranscript({ filename: 'long.srt', bytes: enc(`${good}\n201\n00:00:09,000 --> 00:00:08,000\nlast\n`) }));
     expect([e.code, e.line]).toEqual(['timing-order', 802]);
   });
 });

@@ -1,18 +1,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { ImportError } from './import-error.js';
+import { errorOf, refusalOf } from './test-support.js';
 import { importPlainText, parsePlainText } from './plain-text.js';
 import { isCodeLabel, looksLikeName, matchLabelCandidate } from './speaker-label.js';
 
-function errorOf(fn: () => unknown): ImportError {
-  try {
-    fn();
-  } catch (e) {
-    if (e instanceof ImportError) return e;
-    throw e;
-  }
-  throw new Error('expected an ImportError');
-}
 
 // Transcript conventions checked here (speaker prefixes such as I:/P03:, bracketed timestamps at the
 // start of a turn, blank lines between paragraphs) are common practice in research transcription;
@@ -150,9 +141,9 @@ describe('plain text: lines, paragraphs and encodings', () => {
 
   it('refuses non-UTF-8 bytes with line and column, and binary files', async () => {
     const bad = new Uint8Array([...new TextEncoder().encode('I: ok\nP1: na'), 0xef, 0x76, 0x65]);
-    const e = await importPlainText(bad).catch((err: unknown) => err as ImportError);
+    const e = await refusalOf(importPlainText(bad));
     expect([e.code, e.line, e.column]).toEqual(['bad-encoding', 2, 7]);
-    const bin = await importPlainText(new Uint8Array([0x49, 0x3a, 0x00, 0x01])).catch((err: unknown) => err as ImportError);
+    const bin = await refusalOf(importPlainText(new Uint8Array([0x49, 0x3a, 0x00, 0x01])));
     expect(bin.code).toBe('bad-encoding');
   });
 

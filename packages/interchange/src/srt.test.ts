@@ -1,16 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { ImportError } from './import-error.js';
+import { errorOf, refusalOf } from './test-support.js';
 import { importSrt, parseSrt } from './srt.js';
 
-function errorOf(fn: () => unknown): ImportError {
-  try {
-    fn();
-  } catch (e) {
-    if (e instanceof ImportError) return e;
-    throw e;
-  }
-  throw new Error('expected an ImportError');
-}
 
 // The SubRip layout (cue number; 'hh:mm:ss,mmm --> hh:mm:ss,mmm'; text lines; blank line) has no
 // formal standard: common practice, as described for example by the Library of Congress format
@@ -85,7 +76,7 @@ describe('SRT: cues', () => {
   it('Windows-1252 files import when their encoding is given', async () => {
     const bytes = new Uint8Array([...new TextEncoder().encode('1\n00:00:01,000 --> 00:00:02,000\ncaf'), 0xe9, 0x0a]);
     expect((await importSrt(bytes, { encoding: 'windows-1252' })).turns[0]!.text).toBe('café');
-    const e = await importSrt(bytes).catch((err: unknown) => err as ImportError);
+    const e = await refusalOf(importSrt(bytes));
     expect([e.code, e.line, e.column]).toEqual(['bad-encoding', 3, 4]);
   });
 });

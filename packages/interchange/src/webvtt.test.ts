@@ -1,18 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { ImportError } from './import-error.js';
+import { errorOf, refusalOf } from './test-support.js';
 import { importWebVtt, parseVttTimestamp, parseWebVtt } from './webvtt.js';
 
 const enc = (s: string): Uint8Array => new TextEncoder().encode(s);
 
-function errorOf(fn: () => unknown): ImportError {
-  try {
-    fn();
-  } catch (e) {
-    if (e instanceof ImportError) return e;
-    throw e;
-  }
-  throw new Error('expected an ImportError');
-}
 
 // Source: W3C, "WebVTT: The Web Video Text Tracks Format", Working Draft 13 July 2017, §1 "Introduction"
 // (§1.1 "A simple caption file" in the 2019 Candidate Recommendation): the interview sample file.
@@ -286,10 +277,7 @@ describe('WebVTT: broken files', () => {
 
   it('bytes that are not UTF-8 are refused with their place', async () => {
     const bytes = new Uint8Array([...enc('WEBVTT\n\n00:01.000 --> 00:02.000\ncaf'), 0xe9, ...enc('\n')]);
-    const e = await importWebVtt(bytes).then(
-      () => null,
-      (err: unknown) => err as ImportError,
-    );
-    expect([e?.code, e?.line, e?.column]).toEqual(['bad-encoding', 4, 4]);
+    const e = await refusalOf(importWebVtt(bytes));
+    expect([e.code, e.line, e.column]).toEqual(['bad-encoding', 4, 4]);
   });
 });
