@@ -1,11 +1,57 @@
+/**
+ * The coding view: transcript and margin on the left; picker, chosen segment, flags, layers and people
+ * on the right. Opens the text document and every layer the server lets this person see.
+ */
+import { Show, createEffect, createMemo, createResource, createSignal, onCleanup, untrack } from 'solid-js';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
+import { api } from '../../api/client.js';
+import { Loading } from '../../ui/Loading.js';
+import { openDoc, type OpenDoc } from '../../sync/open-doc.js';
+import { CodingView } from './CodingView.js';
+import type { LayerHandle } from './coding-state.js';
 
-export function CodingScreen(props: { studyId: string; scope: StudyScope; me: Me; textId?: string }) {
+export function CodingScreen(props: { studyId: string; textId: string; scope: StudyScope; me: Me }) {
+  const [detail] = createResource(() => props.textId, (id) => api.text(id));
+  const [docs, setDocs] = createSignal<{ text: OpenDoc; layers: LayerHandle[] }>();
+
+  createEffect(() => {
+    const d = detail();
+    if (!d) return;
+    untrack(() => {
+      const text = openDoc(d.room, { label: `“${d.title || 'this text'}”`, gc: false });
+      const layers = d.layers.map((l) => {
+        const mine = l.mine ?? l.coderId === props.me.id;
+        return { coderId: l.coderId, name: mine ? `${l.name ?? props.me.name} (you)` : l.name ?? l.coderId, mine, doc: openDoc(l.room, { label: mine ? 'your coding' : `${l.name ?? 'a'} layer`, gc: false }) };
+      });
+      setDocs({ text, layers });
+      props.scope.setWhere(props.textId, d.title);
+      onCleanup(() => {
+        props.scope.setWhere(undefined, undefined);
+        text.release();
+        layers.forEach((l) => l.doc.release());
+        setDocs(undefined);
+      });
+    });
+  });
+
+  const ready = createMemo(() => {
+    const d = docs();
+    const cb = props.scope.codebook();
+    const mm = props.scope.memos();
+    return d && cb && mm ? { ...d, codebook: cb, memos: mm } : undefined;
+  });
+
   return (
-    <main class="page">
+    <main class="page coding-page">
       <StudyNav studyId={props.studyId} scope={props.scope} current="coding" />
+      <Loading loading={detail.loading} error={detail.error} what="this text">
+        <h2 class="text-title">{detail()?.title}</h2>
+        <Show when={ready()} keyed fallback={<p class="progress">Opening the text…</p>}>
+          {(r) => <CodingView {...r} studyId={props.studyId} textId={props.textId} scope={props.scope} me={props.me} />}
+        </Show>
+      </Loading>
     </main>
   );
 }

@@ -1,0 +1,257 @@
+/**
+ * The transcript with its margin. Turns render in growing batches (first screen at once, the rest on
+ * later frames) and off-screen turns skip layout (`content-visibility`), so a 30,000-word text with
+ * thousands of segments opens without freezing. Each turn's words are a single text node, which keeps
+ * offset mapping trivial; highlights use the CSS Custom Highlight API instead of wrapping spans.
+ */
+import { For, Index, Show, createEffect, createMemo, createSignal, onCleanup, onMount, type Accessor } from 'solid-js';
+import { formatTime } from '../../doc/time.js';
+import { codeColour } from '../../doc/palette.js';
+import { barsKey, layoutBars, type Bar } from './margin.js';
+import { move, ordered, type Move, type Sel } from './keyboard-selection.js';
+import { rangeFor, readDomSelection } from './dom-selection.js';
+import type { CodingState, ViewTurn } from './coding-state.js';
+import type { RemoteCaret } from './text-presence.js';
+import type { Flag } from '../../doc/flags.js';
+
+export const LANE_W = 18;
+const COL_W = 5;
+const FIRST_BATCH = 80;
+const BATCH = 400;
+
+export interface TranscriptProps {
+  state: CodingState;
+  lanes: Accessor<string[]>;
+  laneName: (coderId: string) => string;
+  selection: Accessor<Sel | null>;
+  setSelection: (s: Sel | null) => void;
+  selectedSegment: Accessor<string | null>;
+  selectSegment: (id: string | null) => void;
+  remote: Accessor<RemoteCaret[]>;
+  onReady?: () => void;
+  ref?: (el: HTMLElement) => void;
+}
+
+const KEYS: Record<string, Move> = { ArrowRight: 'word-right', ArrowLeft: 'word-left', ArrowDown: 'turn-down', ArrowUp: 'turn-up', Home: 'turn-start', End: 'turn-end' };
+
+export function Transcript(props: TranscriptProps) {
+  let root!: HTMLDivElement;
+  const [shown, setShown] = createSignal(FIRST_BATCH);
+  const [tip, setTip] = createSignal<{ x: number; y: number; id: string } | null>(null);
+  const total = () => props.state.turns().length;
+
+  // grow the rendered turns frame by frame until all are in
+  onMount(() => {
+    let raf = 0;
+    const grow = () => {
+      if (shown() < total()) {
+        setShown((n) => n + BATCH);
+        raf = requestAnimationFrame(grow);
+      } else props.onReady?.();
+    };
+    raf = requestAnimationFrame(grow);
+    onCleanup(() => cancelAnimationFrame(raf));
+    props.ref?.(root);
+  });
+
+  const bars = createMemo(() =>
+    layoutBars(
+      props.state.turns(),
+      props.state.segments().map((s) => ({ id: s.id, layer: s.coderId, codeId: s.codeId, start: s.start, end: s.end, orphaned: s.orphaned })),
+      props.lanes(),
+    ),
+  );
+  const flagsByTurn = createMemo(() => {
+    const m = new Map<number, Flag[]>();
+    const turns = props.state.turns();
+    let t = 0;
+    for (const f of props.state.flags()) {
+      while (t + 1 < turns.length && turns[t + 1]!.start <= f.start) t++;
+      m.set(t, [...(m.get(t) ?? []), f]);
+    }
+    return m;
+  });
+  const segById = createMemo(() => new Map(props.state.segments().map((s) => [s.id, s])));
+
+  // highlights: own keyboard selection, the chosen segment, and other people's selections
+  const paint = () => {
+    const reg = (globalThis as { CSS?: { highlights?: Map<string, unknown> } }).CSS?.highlights;
+    const H = (globalThis as { Highlight?: new (...r: Range[]) => unknown }).Highlight;
+    if (!reg || !H || !root) return;
+    const seg = props.selectedSegment() ? segById().get(props.selectedSegment()!) : undefined;
+    const r1 = seg ? rangeFor(root, seg.start, seg.end) : null;
+    reg.set('gloss-segment', new H(...(r1 ? [r1] : [])));
+    const byColour = new Map<string, Range[]>();
+    for (const c of props.remote()) {
+      if (c.end <= c.start) continue;
+      const r = rangeFor(root, c.start, c.end);
+      if (r) byColour.set(c.colour, [...(byColour.get(c.colour) ?? []), r]);
+    }
+    for (let i = 0; i < 7; i++) reg.delete(`gloss-p${i}`);
+    [...byColour.values()].slice(0, 7).forEach((rs, i) => reg.set(`gloss-p${i}`, new H(...rs)));
+  };
+  createEffect(() => {
+    props.selectedSegment();
+    props.remote();
+    shown();
+    props.state.words();
+    queueMicrotask(paint);
+  });
+
+  // carets of other people
+  const [carets, setCarets] = createSignal<Array<{ name: string; colour: string; x: number; y: number; h: number }>>([]);
+  createEffect(() => {
+    const list = props.remote();
+    shown();
+    props.state.words();
+    queueMicrotask(() => {
+      const base = root.getBoundingClientRect();
+      const out = [];
+      for (const c of list) {
+        const r = rangeFor(root, c.end, c.end);
+        const rect = r?.getClientRects()[0] ?? r?.getBoundingClientRect();
+        if (!rect || (rect.width === 0 && rect.height === 0)) continue;
+        out.push({ name: c.name, colour: c.colour, x: rect.left - base.left + root.scrollLeft, y: rect.top - base.top + root.scrollTop, h: rect.height });
+      }
+      setCarets(out);
+    });
+  });
+
+  // mirror the keyboard selection into the page selection, so it shows and can be copied
+  const showSelection = (s: Sel | null) => {
+    const ds = document.getSelection();
+    if (!ds) return;
+    ds.removeAllRanges();
+    if (!s || s.anchor === s.head) return;
+    const o = ordered(s);
+    const r = rangeFor(root, o.start, o.end);
+    if (r) {
+      ds.addRange(r);
+      const rect = r.getBoundingClientRect();
+      const view = root.getBoundingClientRect();
+      if (rect.top < view.top || rect.bottom > view.bottom) (r.startContainer.parentElement as HTMLElement | null)?.scrollIntoView({ block: 'nearest' });
+    }
+  };
+
+  const onKeyDown = (e: KeyboardEvent) => {
+    const how = KEYS[e.key];
+    if (!how || e.altKey || e.ctrlKey || e.metaKey) return;
+    e.preventDefault();
+    const cur = props.selection() ?? { anchor: 0, head: 0 };
+    const next = move(props.state.words(), props.state.turns(), cur, how, e.shiftKey);
+    props.setSelection(next);
+    showSelection(next);
+  };
+  const onMouseUp = () => {
+    const s = readDomSelection(root);
+    if (s) props.setSelection({ anchor: s.start, head: s.end });
+  };
+
+  const tipSegment = () => (tip() ? segById().get(tip()!.id) : undefined);
+  const marginWidth = () => Math.max(1, props.lanes().length) * LANE_W + 14;
+
+  return (
+    <div
+      class="transcript"
+      ref={root}
+      tabindex="0"
+      role="document"
+      aria-label="Transcript. Arrow keys select by word and turn; Shift extends."
+      aria-describedby="coding-keys"
+      onKeyDown={onKeyDown}
+      onMouseUp={onMouseUp}
+      onMouseOver={(e) => {
+        const b = (e.target as HTMLElement).closest<HTMLElement>('.bar');
+        setTip(b ? { x: e.clientX, y: e.clientY, id: b.dataset.id! } : null);
+      }}
+      onMouseLeave={() => setTip(null)}
+      onClick={(e) => {
+        const b = (e.target as HTMLElement).closest<HTMLElement>('[data-id]');
+        if (b) props.selectSegment(b.dataset.id!);
+      }}
+      data-testid="transcript"
+    >
+      <Index each={props.state.turns().slice(0, shown())}>
+        {(turn, i) => (
+          <TurnRow
+            turn={turn}
+            bars={() => bars()[i] ?? []}
+            flags={() => flagsByTurn().get(i) ?? []}
+            marginWidth={marginWidth}
+            colourOf={(codeId) => codeColour(codeId, props.state.codeById().get(codeId)?.colour)}
+            selected={props.selectedSegment}
+          />
+        )}
+      </Index>
+      <Show when={shown() < total()}>
+        <p class="progress" role="progressbar" aria-valuemin={0} aria-valuemax={total()} aria-valuenow={shown()}>
+          Showing {shown()} of {total()} turns…
+        </p>
+      </Show>
+      <For each={carets()}>
+        {(c) => (
+          <span class="caret" style={{ left: `${c.x}px`, top: `${c.y}px`, height: `${c.h}px`, background: c.colour }} aria-hidden="true">
+            <span class="caret-name" style={{ background: c.colour }}>{c.name}</span>
+          </span>
+        )}
+      </For>
+      <Show when={tipSegment()}>
+        {(s) => {
+          const code = () => props.state.codeById().get(s().codeId);
+          return (
+            <div class="tip" role="tooltip" style={{ left: `${tip()!.x + 12}px`, top: `${tip()!.y + 12}px` }}>
+              <strong>{code()?.label ?? 'Unknown code'}</strong>
+              <Show when={code()?.briefDefinition}><p>{code()!.briefDefinition}</p></Show>
+              <p class="muted">Coder: {props.laneName(s().coderId)}</p>
+              <Show when={s().note}><p>Note: {s().note}</p></Show>
+            </div>
+          );
+        }}
+      </Show>
+    </div>
+  );
+}
+
+function TurnRow(props: {
+  turn: Accessor<ViewTurn>;
+  bars: Accessor<Bar[]>;
+  flags: Accessor<Flag[]>;
+  marginWidth: Accessor<number>;
+  colourOf: (codeId: string) => string;
+  selected: Accessor<string | null>;
+}) {
+  // keep the DOM of unchanged turns: only a different layout replaces the bars
+  const bars = createMemo(props.bars, [], { equals: (a, b) => barsKey(a) === barsKey(b) });
+  const words = () => props.turn().words;
+  return (
+    <div class="turn">
+      <div class="margin" style={{ width: `${props.marginWidth()}px` }} aria-hidden="true">
+        <For each={bars()}>
+          {(b) => (
+            <div
+              class="bar"
+              classList={{ opens: b.opens, closes: b.closes, orphaned: b.orphaned, chosen: props.selected() === b.id }}
+              data-id={b.id}
+              style={{
+                left: `${b.lane * LANE_W + b.column * COL_W}px`,
+                top: `${b.top * 100}%`,
+                height: `calc(${(b.bottom - b.top) * 100}% + 2px)`,
+                background: props.colourOf(b.codeId),
+              }}
+            />
+          )}
+        </For>
+        <For each={props.flags()}>
+          {(f) => <span class="flag-mark" data-id={f.segmentIds[0]} title={f.message}>!</span>}
+        </For>
+      </div>
+      <div class="turn-body">
+        <div class="turn-head">
+          <Show when={props.turn().speaker}><span class="speaker">{props.turn().speaker}</span></Show>
+          <Show when={props.turn().startMs != null}><span class="time">{formatTime(props.turn().startMs!)}</span></Show>
+        </div>
+        <p class="words" data-start={props.turn().start}>{words()}</p>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,99 @@
+/**
+ * The reactive state of one open text: its turns and words, every visible layer's resolved segments,
+ * the codebook's codes and exclusive sets, and the flags they give. Yjs changes bump a version signal;
+ * derived values are recomputed once per batch of changes, in bulk (one resolution pass per layer).
+ */
+import { createMemo, createSignal, onCleanup, type Accessor } from 'solid-js';
+import * as Y from 'yjs';
+import {
+  getCodes, getText, listExclusiveSets, listSegments, readTurns, resolveSegments,
+  type CodeGroup, type CodeView, type ResolvedTurn,
+} from '@gloss/model';
+import type { OpenDoc } from '../../sync/open-doc.js';
+import { computeFlags, type Flag, type Segment } from '../../doc/flags.js';
+
+export interface LayerHandle { coderId: string; name: string; mine: boolean; doc: OpenDoc }
+
+/** A turn as shown: its words without the separating newline, `end` just past the last word. */
+export type ViewTurn = ResolvedTurn & { words: string };
+
+export interface CodingState {
+  turns: Accessor<ViewTurn[]>;
+  words: Accessor<string>;
+  segments: Accessor<Segment[]>;
+  codes: Accessor<CodeView[]>;
+  codeById: Accessor<Map<string, CodeView>>;
+  exclusiveSets: Accessor<CodeGroup[]>;
+  flags: Accessor<Flag[]>;
+}
+
+/** A signal bumped (at most once per animation frame) whenever `type` or anything inside it changes. */
+function version(types: Array<Y.AbstractType<any>>): Accessor<number> {
+  const [v, setV] = createSignal(0);
+  let queued = false;
+  const bump = () => {
+    if (queued) return;
+    queued = true;
+    queueMicrotask(() => {
+      queued = false;
+      setV((n) => n + 1);
+    });
+  };
+  for (const t of types) t.observeDeep(bump);
+  onCleanup(() => types.forEach((t) => t.unobserveDeep(bump)));
+  return v;
+}
+
+export function useCodingState(text: OpenDoc, layers: Accessor<LayerHandle[]>, codebook: OpenDoc, opts: { showDisagreement: Accessor<boolean> }): CodingState {
+  const textV = version([getText(text.doc), text.doc.getArray('turns')]);
+  const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets')]);
+  const layerVersions = new Map<string, Accessor<number>>();
+  const layerV = (l: LayerHandle) => {
+    let v = layerVersions.get(l.doc.room);
+    if (!v) {
+      v = version([l.doc.doc.getMap('segments')]);
+      layerVersions.set(l.doc.room, v);
+    }
+    return v();
+  };
+
+  const words = createMemo(() => (textV(), getText(text.doc).toString()));
+  const turns = createMemo(() => viewTurns(readTurns(text.doc), words()));
+  const segments = createMemo(() => {
+    textV();
+    const t = turns();
+    const out: Segment[] = [];
+    for (const l of layers()) {
+      layerV(l);
+      const records = listSegments(l.doc.doc);
+      resolveSegments(text.doc, records, t.length ? t : undefined).forEach((s, i) => {
+        const note = records[i]!.note;
+        out.push(note === undefined ? { ...s, coderId: l.coderId } : { ...s, coderId: l.coderId, note });
+      });
+    }
+    return out.sort((a, b) => a.start - b.start || a.end - b.end);
+  });
+  const codes = createMemo(() => (cbV(), getCodes(codebook.doc)));
+  const codeById = createMemo(() => new Map(codes().map((c) => [c.id, c])));
+  const exclusiveSets = createMemo(() => (cbV(), listExclusiveSets(codebook.doc)));
+  const flags = createMemo(() => computeFlags(segments(), codes(), exclusiveSets(), { showDisagreement: opts.showDisagreement() }));
+  return { turns, words, segments, codes, codeById, exclusiveSets, flags };
+}
+
+/** Turns with their words; a text without a turns array is read one turn per line. */
+export function viewTurns(turns: ResolvedTurn[], words: string): ViewTurn[] {
+  if (turns.length === 0) {
+    const out: ViewTurn[] = [];
+    let at = 0;
+    words.split('\n').forEach((line, index) => {
+      out.push({ index, speaker: null, startMs: null, endMs: null, start: at, end: at + line.length, words: line });
+      at += line.length + 1;
+    });
+    return out;
+  }
+  return turns.map((t) => {
+    let end = t.end;
+    if (end > t.start && words[end - 1] === '\n') end--;
+    return { ...t, end, words: words.slice(t.start, end) };
+  });
+}

@@ -1,0 +1,44 @@
+// Margin layout: fractions and lanes checked against hand-worked cases (common practice; no outside source applies).
+import { describe, expect, it } from 'vitest';
+import { assignColumns, layoutBars, type MarginSegment } from './margin.js';
+
+const turns = [
+  { start: 0, end: 10 },
+  { start: 11, end: 31 },
+  { start: 32, end: 40 },
+];
+const seg = (id: string, layer: string, start: number, end: number): MarginSegment => ({ id, layer, codeId: 'k', start, end, orphaned: start === end });
+
+describe('layoutBars', () => {
+  it('places a segment inside one turn at its character fractions', () => {
+    const bars = layoutBars(turns, [seg('a', 'L1', 16, 21)], ['L1']);
+    expect(bars[0]).toEqual([]);
+    expect(bars[1]).toHaveLength(1);
+    expect(bars[1]![0]).toMatchObject({ id: 'a', lane: 0, top: 0.25, bottom: 0.5, opens: true, closes: true });
+    expect(bars[2]).toEqual([]);
+  });
+
+  it('splits a segment that crosses turns into one bar per turn, capped only at its ends', () => {
+    const bars = layoutBars(turns, [seg('a', 'L2', 5, 35)], ['L1', 'L2']);
+    expect(bars.map((b) => b.length)).toEqual([1, 1, 1]);
+    expect(bars[0]![0]).toMatchObject({ lane: 1, top: 0.5, bottom: 1, opens: true, closes: false });
+    expect(bars[1]![0]).toMatchObject({ top: 0, bottom: 1, opens: false, closes: false });
+    expect(bars[2]![0]).toMatchObject({ top: 0, bottom: 3 / 8, opens: false, closes: true });
+  });
+
+  it('leaves out layers that are hidden and keeps an orphaned segment as a point', () => {
+    const bars = layoutBars(turns, [seg('a', 'hidden', 0, 5), seg('o', 'L1', 20, 20)], ['L1']);
+    expect(bars.flat().map((b) => b.id)).toEqual(['o']);
+    expect(bars[1]![0]).toMatchObject({ orphaned: true, top: 0.45, bottom: 0.45 });
+  });
+});
+
+describe('assignColumns', () => {
+  it('puts overlapping segments of one layer side by side and reuses freed columns', () => {
+    const cols = assignColumns([seg('a', 'L', 0, 10), seg('b', 'L', 5, 15), seg('c', 'L', 12, 20), seg('x', 'M', 0, 10)]);
+    expect(cols.get('a')).toBe(0);
+    expect(cols.get('b')).toBe(1);
+    expect(cols.get('c')).toBe(0);
+    expect(cols.get('x')).toBe(0);
+  });
+});

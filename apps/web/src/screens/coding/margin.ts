@@ -1,0 +1,92 @@
+/**
+ * Margin layout (pure): which segment bars each turn shows, in which lane (one per visible layer)
+ * and sub-column (overlapping segments of one layer sit side by side), and how far down the turn
+ * each bar starts and ends, as fractions of the turn's characters.
+ */
+export interface MarginSegment { id: string; layer: string; codeId: string; start: number; end: number; orphaned: boolean }
+export interface TurnSpan { start: number; end: number }
+export interface Bar {
+  id: string;
+  layer: string;
+  lane: number;
+  column: number;
+  codeId: string;
+  /** 0..1 from the top of the turn */
+  top: number;
+  bottom: number;
+  /** The segment begins (ends) in this turn: draw a cap. */
+  opens: boolean;
+  closes: boolean;
+  orphaned: boolean;
+}
+
+export const MAX_COLUMNS = 3;
+
+/** Sub-columns per segment: a greedy sweep per layer; more than MAX_COLUMNS deep overlaps share the last. */
+export function assignColumns(segments: readonly MarginSegment[]): Map<string, number> {
+  const out = new Map<string, number>();
+  const byLayer = new Map<string, MarginSegment[]>();
+  for (const s of segments) byLayer.set(s.layer, [...(byLayer.get(s.layer) ?? []), s]);
+  for (const list of byLayer.values()) {
+    list.sort((a, b) => a.start - b.start || b.end - a.end);
+    const colEnds: number[] = [];
+    for (const s of list) {
+      let c = colEnds.findIndex((e) => e <= s.start);
+      if (c < 0) c = colEnds.length < MAX_COLUMNS ? colEnds.push(0) - 1 : MAX_COLUMNS - 1;
+      colEnds[c] = Math.max(colEnds[c] ?? 0, s.end);
+      out.set(s.id, c);
+    }
+  }
+  return out;
+}
+
+/** First turn whose end is past `offset` (turns sorted by start). */
+function firstTurnFrom(turns: readonly TurnSpan[], offset: number): number {
+  let lo = 0;
+  let hi = turns.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (turns[mid]!.end < offset) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+export function layoutBars(turns: readonly TurnSpan[], segments: readonly MarginSegment[], lanes: readonly string[]): Bar[][] {
+  const out: Bar[][] = turns.map(() => []);
+  const laneOf = new Map(lanes.map((l, i) => [l, i]));
+  const cols = assignColumns(segments);
+  for (const s of segments) {
+    const lane = laneOf.get(s.layer);
+    if (lane === undefined) continue;
+    for (let t = firstTurnFrom(turns, s.start); t < turns.length; t++) {
+      const turn = turns[t]!;
+      if (turn.start > s.end || (turn.start === s.end && !s.orphaned)) break;
+      if (s.end < turn.start || s.start > turn.end) continue;
+      const len = Math.max(1, turn.end - turn.start);
+      const a = Math.max(s.start, turn.start) - turn.start;
+      const b = Math.min(s.end, turn.end) - turn.start;
+      out[t]!.push({
+        id: s.id,
+        layer: s.layer,
+        lane,
+        column: cols.get(s.id) ?? 0,
+        codeId: s.codeId,
+        top: a / len,
+        bottom: Math.max(b, a) / len,
+        opens: s.start >= turn.start,
+        closes: s.end <= turn.end,
+        orphaned: s.orphaned,
+      });
+      if (s.orphaned) break;
+    }
+  }
+  return out;
+}
+
+/** A cheap signature of a turn's bars, so unchanged turns keep their DOM. */
+export function barsKey(bars: readonly Bar[]): string {
+  let k = '';
+  for (const b of bars) k += `${b.id}:${b.codeId}:${b.lane}:${b.column}:${b.top.toFixed(4)}:${b.bottom.toFixed(4)}:${+b.opens}${+b.closes}${+b.orphaned};`;
+  return k;
+}

@@ -1,0 +1,81 @@
+/**
+ * Shared helpers for the browser tests: people from the demo accounts, each in their own browser
+ * context (so cookies, IndexedDB and awareness are separate, as for different people), and waits on
+ * conditions rather than time.
+ */
+import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { test as base, expect, type Browser, type BrowserContext, type Page } from '@playwright/test';
+
+export const CHROMIUM = '/usr/bin/chromium';
+
+interface Account { email: string; password: string; role: string; name: string }
+export const accounts: Account[] = JSON.parse(readFileSync(fileURLToPath(new URL('../../demo/accounts.json', import.meta.url)), 'utf8'));
+export const account = (role: string, n = 1): Account => {
+  const list = accounts.filter((a) => a.role === role);
+  const a = list[n - 1];
+  if (!a) throw new Error(`no demo account with role ${role} #${n}`);
+  return a;
+};
+
+export const ARTIFACTS = fileURLToPath(new URL('../../test-results/screens/', import.meta.url));
+mkdirSync(ARTIFACTS, { recursive: true });
+
+export const test = base.extend({});
+test.skip(!existsSync(CHROMIUM) && !process.env.CI, `${CHROMIUM} is absent: browser tests skipped (set CI to make this a failure)`);
+export { expect };
+
+export interface Person { context: BrowserContext; page: Page; name: string }
+
+export async function signIn(browser: Browser, who: Account, baseURL: string): Promise<Person> {
+  const context = await browser.newContext({ baseURL, viewport: { width: 1400, height: 900 } });
+  const page = await context.newPage();
+  page.on('pageerror', (err) => process.stderr.write(`[${who.email}] page error: ${err.message}\n`));
+  await page.goto('/');
+  await page.getByLabel('Email').fill(who.email);
+  await page.getByLabel('Password').fill(who.password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+  return { context, page, name: who.name };
+}
+
+/** Opens the demo study, then the text with the given title (or the first text). */
+export async function openText(p: Person, title?: string): Promise<void> {
+  await p.page.getByRole('list', { name: 'Studies' }).getByRole('link').first().click();
+  await expect(p.page.getByRole('heading', { name: 'Texts' })).toBeVisible();
+  const links = p.page.locator('table.texts a');
+  await (title ? p.page.getByRole('link', { name: title }) : links.first()).click();
+  await expect(p.page.getByTestId('coding-view')).toHaveAttribute('data-ready', 'yes', { timeout: 20_000 });
+  await expect(p.page.getByTestId('connection-status')).toHaveAttribute('data-state', 'online');
+}
+
+/** Selects [start, end) of the transcript's characters by setting the page selection, as a drag would. */
+export async function selectWords(page: Page, phrase: string, occurrence = 0): Promise<void> {
+  await page.evaluate(
+    ([phrase, occurrence]) => {
+      const words = [...document.querySelectorAll<HTMLElement>('.transcript .words')];
+      let seen = 0;
+      for (const el of words) {
+        const text = el.firstChild?.textContent ?? '';
+        for (let i = text.indexOf(phrase); i >= 0; i = text.indexOf(phrase, i + 1)) {
+          if (seen++ < occurrence) continue;
+          const r = document.createRange();
+          r.setStart(el.firstChild!, i);
+          r.setEnd(el.firstChild!, i + phrase.length);
+          const s = document.getSelection()!;
+          s.removeAllRanges();
+          s.addRange(r);
+          el.scrollIntoView({ block: 'center' });
+          el.dispatchEvent(new MouseEvent('mouseup', { bubbles: true }));
+          return;
+        }
+      }
+      throw new Error(`phrase not in the transcript: ${phrase}`);
+    },
+    [phrase, occurrence] as const,
+  );
+}
+
+export async function shot(page: Page, name: string): Promise<void> {
+  await page.screenshot({ path: `${ARTIFACTS}${name}.png`, fullPage: false });
+}
