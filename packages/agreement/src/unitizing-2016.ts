@@ -64,8 +64,6 @@ export function unitizingAlpha2016(
     coders: m,
     n: m >= 2 ? l : 0,
   });
-  if (m < 2) return undefinedAll('no-pairable-values');
-
   const parts: Section[][] = coders.map((coder) =>
     partition(
       spans.filter((s) => s.coder === coder).map((s) => {
@@ -77,6 +75,7 @@ export function unitizingAlpha2016(
       `coder ${coder}`,
     ).map((s) => (s.value < 0 ? { ...s, value: 0 } : s)),
   );
+  if (m < 2) return undefinedAll('no-pairable-values');
 
   const o = new Float64Array(V * V);
   const S = new Float64Array(V);
