@@ -5,8 +5,9 @@ import mammoth from 'mammoth';
 import { ImportError } from './import-error.js';
 import { checkSize } from './limits.js';
 import { DEFAULT_MAX_BYTES, type ImportOptions } from './options.js';
-import { parseTranscriptLines, requireWords, withTitle, type SourceLine } from './plain-text.js';
+import { requireWords, transcriptLineSteps, withTitle, type SourceLine } from './plain-text.js';
 import { ProgressReporter } from './progress.js';
+import { runAsync } from './steps.js';
 
 /** A DOCX compresses text about tenfold; past this many unpacked bytes per packed byte it is refused. */
 const MAX_UNPACK_RATIO = 40;
@@ -34,7 +35,7 @@ export async function importDocx(bytes: Uint8Array, opts: ImportOptions = {}): P
     for (const line of text.split('\n')) lines.push({ text: line, at: k + 1 });
     lines.push({ text: '', at: k + 1 });
   });
-  const turns = parseTranscriptLines(lines, { format: 'docx', unit: 'paragraph' }, progress.part(0.5, 1));
+  const turns = await runAsync(transcriptLineSteps(lines, { format: 'docx', unit: 'paragraph' }, progress.part(0.5, 1)));
   requireWords(turns, 'docx');
   progress.done();
   return withTitle(turns, opts.title);

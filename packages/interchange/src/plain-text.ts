@@ -5,6 +5,7 @@ import { checkSize } from './limits.js';
 import type { ImportOptions } from './options.js';
 import { ProgressReporter } from './progress.js';
 import { matchLabelCandidate, SpeakerJudge } from './speaker-label.js';
+import { runAsync, runSync, STEP_SIZE, type Steps } from './steps.js';
 import { matchStamp } from './transcript-stamp.js';
 
 /** One line of source text and where it came from (a line number, or a DOCX paragraph number). */
@@ -30,6 +31,11 @@ export interface LineRules {
  *   unlabelled turn, so field notes without speakers become one turn per paragraph.
  */
 export function parseTranscriptLines(lines: readonly SourceLine[], rules: LineRules, progress?: ProgressReporter): TranscriptTurn[] {
+  return runSync(transcriptLineSteps(lines, rules, progress));
+}
+
+/** {@link parseTranscriptLines} as resumable steps, pausing every {@link STEP_SIZE} lines. */
+export function* transcriptLineSteps(lines: readonly SourceLine[], rules: LineRules, progress?: ProgressReporter): Steps<TranscriptTurn[]> {
   const judge = SpeakerJudge.fromLines(
     lines.map((l) => l.text),
     candidateLabel,
@@ -45,6 +51,7 @@ export function parseTranscriptLines(lines: readonly SourceLine[], rules: LineRu
   };
 
   for (let i = 0; i < lines.length; i++) {
+    if (i % STEP_SIZE === STEP_SIZE - 1) yield;
     progress?.tick(i, lines.length);
     const { text: raw, at } = lines[i]!;
     const line = raw.trim();
@@ -135,13 +142,17 @@ export function requireWords(turns: TranscriptTurn[], format: ImportFormat): voi
 
 /** A plain-text transcript from already decoded text. */
 export function parsePlainText(text: string, opts: ImportOptions = {}): Transcript {
+  return runSync(plainTextSteps(text, opts));
+}
+
+function* plainTextSteps(text: string, opts: ImportOptions): Steps<Transcript> {
   const progress = new ProgressReporter(opts.onProgress);
   const lines = text
     .replace(/^\uFEFF/, '')
     .replace(/\r\n?/g, '\n')
     .split('\n')
     .map((t, i) => ({ text: t, at: i + 1 }));
-  const turns = parseTranscriptLines(lines, { format: 'text', unit: 'line' }, progress);
+  const turns = yield* transcriptLineSteps(lines, { format: 'text', unit: 'line' }, progress);
   requireWords(turns, 'text');
   return withTitle(turns, opts.title);
 }
@@ -149,7 +160,7 @@ export function parsePlainText(text: string, opts: ImportOptions = {}): Transcri
 /** A plain-text transcript (UTF-8 unless `opts.encoding` says otherwise). */
 export async function importPlainText(bytes: Uint8Array, opts: ImportOptions = {}): Promise<Transcript> {
   checkSize(bytes, 'text', opts.maxBytes);
-  return parsePlainText(decodeText(bytes, 'text', opts.encoding), opts);
+  return runAsync(plainTextSteps(decodeText(bytes, 'text', opts.encoding), opts));
 }
 
 export function withTitle(turns: TranscriptTurn[], title: string | undefined): Transcript {

@@ -8,6 +8,7 @@ import type { ImportOptions } from './options.js';
 import { requireWords, withTitle } from './plain-text.js';
 import { ProgressReporter } from './progress.js';
 import { SpeakerJudge } from './speaker-label.js';
+import { runAsync, runSync, STEP_SIZE, type Steps } from './steps.js';
 
 // `hh:mm:ss,mmm --> hh:mm:ss,mmm`, then optional display coordinates (`X1:... Y2:...`), ignored.
 // A '.' decimal mark and a missing hours field are accepted: both are common in files in the wild.
@@ -25,6 +26,10 @@ const FORMATTING = /<\/?(?:i|b|u|s|font)(?:\s[^>]*)?>|\{\\[^}]*\}/gi;
  * A missing blank line before a cue number is tolerated; an unreadable or backwards timing is refused.
  */
 export function parseSrt(text: string, opts: ImportOptions = {}): Transcript {
+  return runSync(srtSteps(text, opts));
+}
+
+function* srtSteps(text: string, opts: ImportOptions): Steps<Transcript> {
   const progress = new ProgressReporter(opts.onProgress);
   const lines = text.replace(/^\uFEFF/, '').replace(/\r\n?/g, '\n').split('\n');
   const isCueStart = (i: number): boolean =>
@@ -32,7 +37,12 @@ export function parseSrt(text: string, opts: ImportOptions = {}): Transcript {
 
   const raw: Array<{ startMs: number; endMs: number; payload: string[] }> = [];
   let pos = 0;
+  let pauseAt = STEP_SIZE;
   while (pos < lines.length) {
+    if (pos >= pauseAt) {
+      pauseAt = pos + STEP_SIZE;
+      yield;
+    }
     progress.tick(pos, lines.length * 2);
     const line = lines[pos]!;
     if (line.trim() === '') {
@@ -64,10 +74,13 @@ export function parseSrt(text: string, opts: ImportOptions = {}): Transcript {
     raw.flatMap((c) => c.payload),
     cueLineCandidate,
   );
-  const cues: Cue[] = raw.map((c, k) => {
+  const cues: Cue[] = [];
+  for (let k = 0; k < raw.length; k++) {
+    if (k % STEP_SIZE === STEP_SIZE - 1) yield;
     progress.tick(raw.length + k, raw.length * 2);
-    return { startMs: c.startMs, endMs: c.endMs, pieces: piecesFromLines(c.payload, judge) };
-  });
+    const c = raw[k]!;
+    cues.push({ startMs: c.startMs, endMs: c.endMs, pieces: piecesFromLines(c.payload, judge) });
+  }
   const turns = turnsFromCues(cues, opts.mergeCues ?? true);
   requireWords(turns, 'srt');
   progress.done();
@@ -106,5 +119,5 @@ function clip(s: string): string {
 /** An SRT file from its bytes (UTF-8 unless `opts.encoding` names another encoding). */
 export async function importSrt(bytes: Uint8Array, opts: ImportOptions = {}): Promise<Transcript> {
   checkSize(bytes, 'srt', opts.maxBytes);
-  return parseSrt(decodeText(bytes, 'srt', opts.encoding), opts);
+  return runAsync(srtSteps(decodeText(bytes, 'srt', opts.encoding), opts));
 }

@@ -8,6 +8,7 @@ import type { ImportOptions } from './options.js';
 import { requireWords, withTitle } from './plain-text.js';
 import { ProgressReporter } from './progress.js';
 import { SpeakerJudge } from './speaker-label.js';
+import { runAsync, runSync, STEP_SIZE, type Steps } from './steps.js';
 import { readCueText } from './vtt-cue-text.js';
 
 const SIGNATURE = /^WEBVTT(?:[ \t].*)?$/;
@@ -41,6 +42,10 @@ export function parseVttTimestamp(s: string): number | null {
  * before it starts is refused too (the syntax requires end > start; end = start is tolerated).
  */
 export function parseWebVtt(text: string, opts: ImportOptions = {}): Transcript {
+  return runSync(webvttSteps(text, opts));
+}
+
+function* webvttSteps(text: string, opts: ImportOptions): Steps<Transcript> {
   const progress = new ProgressReporter(opts.onProgress);
   const lines = text.replace(/^\uFEFF/, '').replace(/\r\n?/g, '\n').replace(/\0/g, '\ufffd').split('\n');
   if (!SIGNATURE.test(lines[0]!)) {
@@ -56,7 +61,12 @@ export function parseWebVtt(text: string, opts: ImportOptions = {}): Transcript 
   while (pos < lines.length && lines[pos] !== '' && !lines[pos]!.includes('-->')) pos++;
 
   const raw: Array<{ startMs: number; endMs: number; payload: string[]; payloadLine: number }> = [];
+  let pauseAt = STEP_SIZE;
   while (pos < lines.length) {
+    if (pos >= pauseAt) {
+      pauseAt = pos + STEP_SIZE;
+      yield;
+    }
     progress.tick(pos, lines.length * 2);
     if (lines[pos] === '') {
       pos++;
@@ -93,10 +103,13 @@ export function parseWebVtt(text: string, opts: ImportOptions = {}): Transcript 
     raw.flatMap((c) => c.payload),
     cueLineCandidate,
   );
-  const cues: Cue[] = raw.map((c, k) => {
+  const cues: Cue[] = [];
+  for (let k = 0; k < raw.length; k++) {
+    if (k % STEP_SIZE === STEP_SIZE - 1) yield;
     progress.tick(raw.length + k, raw.length * 2);
-    return { startMs: c.startMs, endMs: c.endMs, pieces: cuePieces(c.payload, c.payloadLine, judge) };
-  });
+    const c = raw[k]!;
+    cues.push({ startMs: c.startMs, endMs: c.endMs, pieces: cuePieces(c.payload, c.payloadLine, judge) });
+  }
   const turns = turnsFromCues(cues, opts.mergeCues ?? true);
   requireWords(turns, 'webvtt');
   progress.done();
@@ -153,5 +166,5 @@ function clip(s: string): string {
 /** A WebVTT file from its bytes (always UTF-8, per the specification). */
 export async function importWebVtt(bytes: Uint8Array, opts: ImportOptions = {}): Promise<Transcript> {
   checkSize(bytes, 'webvtt', opts.maxBytes);
-  return parseWebVtt(decodeText(bytes, 'webvtt'), opts);
+  return runAsync(webvttSteps(decodeText(bytes, 'webvtt'), opts));
 }
