@@ -33,8 +33,9 @@ export async function createRedisRelay(redisUrl: string, options: RedisRelayOpti
   const nodeId = randomBytes(NODE_ID_BYTES);
   const connectTimeout = options.connectTimeoutMs ?? 5_000;
   const redisOptions = { lazyConnect: true, connectTimeout, maxRetriesPerRequest: 3 };
-  const pub = new Redis(redisUrl, redisOptions);
-  const sub = new Redis(redisUrl, redisOptions);
+  // Named so operators (and tests) can tell the connections apart in CLIENT LIST.
+  const pub = new Redis(redisUrl, { ...redisOptions, connectionName: `gloss-pub-${nodeId.toString('hex')}` });
+  const sub = new Redis(redisUrl, { ...redisOptions, connectionName: `gloss-sub-${nodeId.toString('hex')}` });
   for (const client of [pub, sub]) client.on('error', () => {}); // reconnects by itself; failures surface as rejections
   try {
     await Promise.all([pub.connect(), sub.connect()]);
