@@ -35,7 +35,10 @@ export function checkRange(start: number, end: number, length: number): void {
  * into another type. This is the reference that the bulk resolver must match.
  */
 export function resolveAnchor(textDoc: Y.Doc, anchor: Uint8Array): number | null {
+  // Define the root as Y.Text first: in a doc built by applyUpdate alone the root is still a generic
+  // type, and getText() afterwards would swap in a new instance that the resolved type can't equal.
+  const text = getText(textDoc);
   const abs = Y.createAbsolutePositionFromRelativePosition(Y.decodeRelativePosition(anchor), textDoc, false);
-  if (abs === null || abs.type !== getText(textDoc)) return null;
+  if (abs === null || abs.type !== text) return null;
   return abs.index;
 }
