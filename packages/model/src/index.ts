@@ -12,3 +12,5 @@ export * from './memos-doc.js';
 export * from './cases.js';
 export * from './undo.js';
 export * from './palette.js';
+export * from './field-edits.js';
+export * from './flags/index.js';
