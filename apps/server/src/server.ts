@@ -14,6 +14,7 @@ import type { ServerConfig } from './config.js';
 import { buildApp } from './http/app.js';
 import { createLogger, type Logger } from './logger.js';
 import { createRedisRelay, noRelay } from './relay/index.js';
+import { createProjector, withProjection } from './projection/index.js';
 import { createPgUpdateStore } from './store/index.js';
 import { attachSync } from './sync/index.js';
 import type { Relay } from './sync/contracts.js';
@@ -38,9 +39,12 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     const sessions = createSessionService(database.db, config.sessionMs);
     const relay: Relay = config.redisUrl ? await createRedisRelay(config.redisUrl) : noRelay();
     cleanups.push(() => relay.close());
-    const store = createPgUpdateStore(database, {
+    const logStore = createPgUpdateStore(database, {
       onCompactionError: (err, docId) => logger.error({ err, docId }, 'compaction failed'),
     });
+    // Segments, codes and memos follow each committed change into relational tables (projection/).
+    const projector = createProjector({ db: database.db, store: logStore, onError: (err, docId) => logger.error({ err, docId }, 'projection failed') });
+    const store = withProjection(logStore, projector);
     cleanups.push(() => store.close());
 
     let syncStats: () => Record<string, unknown> = () => ({});
@@ -48,6 +52,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
       {
         db: database.db,
         dbKind: database.kind,
+        store,
         sessions,
         signInLimiter: createRateLimiter(config.signInMaxFailures, config.signInWindowMs),
         config,

@@ -3,10 +3,13 @@ import type { Db, DbKind } from '@gloss/db';
 import type { RateLimiter } from '../auth/rate-limit.js';
 import type { SessionService, ValidSession } from '../auth/sessions.js';
 import type { ServerConfig } from '../config.js';
+import type { UpdateStore } from '../sync/contracts.js';
 
 export interface AppDeps {
   db: Db;
   dbKind: DbKind;
+  /** Documents' current state (segments, versions, agreement read it); absent in bare app tests. */
+  store?: Pick<UpdateStore, 'load'>;
   sessions: SessionService;
   signInLimiter: RateLimiter;
   config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist'>;

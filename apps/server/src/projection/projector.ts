@@ -1,0 +1,84 @@
+/**
+ * Keeps the projection current: `notify(docId)` after each committed change; per document, the work
+ * is debounced (`delayMs` after the last change) and then run on one serial queue, so two rewrites of
+ * the same rows never interleave. A failure is logged and the document is projected again on its next
+ * change: projection never breaks sync.
+ */
+import type { Db } from '@gloss/db';
+import type { DocLoader } from './load-doc.js';
+import { projectDocument } from './write.js';
+
+export interface ProjectorOptions {
+  db: Db;
+  store: DocLoader;
+  /** Quiet time after a change before the document is projected (default 200 ms). */
+  delayMs?: number;
+  onError?: (err: unknown, docId: string) => void;
+  /** The projection step itself; replaceable so the scheduling can be tested on its own. */
+  project?: (docId: string) => Promise<void>;
+}
+
+export interface Projector {
+  notify(docId: string): void;
+  /** Projects everything noted so far, now, and resolves when the queue is empty. */
+  flush(): Promise<void>;
+  /** Flushes, then ignores later notifications. */
+  close(): Promise<void>;
+  /** Documents projected so far (successfully). */
+  readonly projected: number;
+}
+
+export function createProjector(o: ProjectorOptions): Projector {
+  const delay = o.delayMs ?? 200;
+  const project = o.project ?? ((id: string) => projectDocument(o.db, o.store, id));
+  const timers = new Map<string, NodeJS.Timeout>();
+  const queued = new Set<string>();
+  let queue: Promise<void> = Promise.resolve();
+  let projected = 0;
+  let closed = false;
+
+  const enqueue = (docId: string) => {
+    const t = timers.get(docId);
+    if (t) clearTimeout(t);
+    timers.delete(docId);
+    // Already waiting in the queue: that run will read the newest state anyway.
+    if (queued.has(docId)) return;
+    queued.add(docId);
+    queue = queue.then(async () => {
+      queued.delete(docId);
+      try {
+        await project(docId);
+        projected++;
+      } catch (err) {
+        o.onError?.(err, docId);
+      }
+    });
+  };
+
+  return {
+    notify(docId) {
+      if (closed) return;
+      const t = timers.get(docId);
+      if (t) clearTimeout(t);
+      const timer = setTimeout(() => enqueue(docId), delay);
+      timer.unref();
+      timers.set(docId, timer);
+    },
+    async flush() {
+      // A change may arrive while we wait: loop until nothing is pending or queued.
+      for (;;) {
+        for (const id of [...timers.keys()]) enqueue(id);
+        const seen = queue;
+        await seen;
+        if (seen === queue && timers.size === 0) return;
+      }
+    },
+    async close() {
+      await this.flush();
+      closed = true;
+    },
+    get projected() {
+      return projected;
+    },
+  };
+}
