@@ -1,5 +1,5 @@
 /** Adding texts to a study and finding or creating a coder's layer on a text. */
-import { type Db, documents, snapshots, texts } from '@gloss/db';
+import { type Db, documents, texts, updates } from '@gloss/db';
 import type { Transcript } from '@gloss/model';
 import { and, eq } from 'drizzle-orm';
 import { HttpError } from '../errors.js';
@@ -15,8 +15,8 @@ export interface NewText {
 }
 
 /**
- * Creates the text row and its text document, whose first state goes in as the snapshot at seq 0
- * (the log's bigserial starts at 1, so every later update folds on top of it).
+ * Creates the text row and its text document, whose first state goes in as the document's first
+ * log update (the store reads snapshots only above seq 0, and compaction folds the log later).
  */
 export async function addTextFromTranscript(db: Db, studyId: string, input: NewText) {
   if (input.transcript.turns.length === 0) throw new HttpError(400, 'invalid_body', 'The transcript has no words.');
@@ -28,7 +28,7 @@ export async function addTextFromTranscript(db: Db, studyId: string, input: NewT
       .values({ studyId, title: input.title, sourceFormat: input.sourceFormat, wordCount: wordCount(text), createdBy: input.createdBy })
       .returning();
     const [doc] = await t.insert(documents).values({ kind: 'text', studyId, textId: row!.id }).returning({ id: documents.id });
-    await t.insert(snapshots).values({ docId: doc!.id, seq: 0, data: update, bytes: update.byteLength });
+    await t.insert(updates).values({ docId: doc!.id, data: update, bytes: update.byteLength, userId: input.createdBy });
     await recordAudit(t, {
       userId: input.createdBy,
       studyId,
