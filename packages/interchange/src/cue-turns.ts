@@ -14,7 +14,8 @@ export interface Cue {
   pieces: CuePiece[];
 }
 
-const DASH = /^[-‐‑–—]\s*/;
+// A dialogue dash: '- What?' or '-What?', but not '-5 degrees' or '--'.
+const DASH = /^[-‐‑–—](?=[\s\p{L}"'‘“(\[])\s*/u;
 
 /**
  * Splits caption lines that carry no voice markup into speaker pieces: a dialogue dash (`- `) starts
@@ -27,7 +28,7 @@ export function piecesFromLines(lines: readonly string[], judge: SpeakerJudge): 
   for (const raw of lines) {
     let line = raw.trim();
     if (line === '') continue;
-    const dashed = DASH.test(line) && !/^-->/.test(line);
+    const dashed = DASH.test(line);
     if (dashed) line = line.replace(DASH, '');
     const cand = matchLabelCandidate(line);
     if (cand && judge.accepts(cand.label)) {

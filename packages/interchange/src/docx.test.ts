@@ -66,6 +66,11 @@ describe('DOCX: a real package built in the test', () => {
     ]);
   });
 
+  it('tracked changes: inserted text is read, deleted text is not (w:ins, w:del)', async () => {
+    const body = para(run('P1: we '), `<w:ins w:id="1" w:author="x">${run('never ')}</w:ins>`, `<w:del w:id="2" w:author="x"><w:r><w:delText>always </w:delText></w:r></w:del>`, run('went back'));
+    expect((await importDocx(docx(body))).turns[0]!.text).toBe('we never went back');
+  });
+
   it('error locations are paragraph numbers', async () => {
     const body = para(run('I: fine')) + para() + para(run('P1: [00:99] bad'));
     const e = await importError(docx(body));

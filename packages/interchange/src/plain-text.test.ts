@@ -80,6 +80,9 @@ describe('plain text: speaker prefixes', () => {
     ['Ana de Souza: hello', 'Ana de Souza'],
     ["Siobhán O'Neill: hello", "Siobhán O'Neill"],
     ['MARISOL: hello', 'MARISOL'],
+    ['Ольга: hello', 'Ольга'],
+    ['田中：hello', '田中'],
+    ['سارة: hello', 'سارة'],
   ])('%s has speaker %s', (line, speaker) => {
     expect(parsePlainText(line).turns[0]).toMatchObject({ speaker, text: 'hello' });
   });
@@ -104,6 +107,7 @@ describe('plain text: speaker prefixes', () => {
     'we arrived at 10:30 and left',
     'See https://example.org: a link',
     'My grandmother Rosa Lindqvist Berg Amundsen: four names',
+    '我们那时候都觉得生活很难：没有工作',
   ])('"%s" is an ordinary sentence, not a turn with a speaker', (line) => {
     expect(parsePlainText(line).turns).toEqual([{ speaker: null, startMs: null, endMs: null, text: line }]);
   });

@@ -17,10 +17,11 @@ export interface LabelCandidate {
 }
 
 // A label word: capitalised letters with inner apostrophes, dots and hyphens, or a number.
-const WORD = String.raw`[\p{Lu}\p{Lt}][\p{L}\p{M}\d'’.\-]*|\d+[\p{L}]?|[\p{Ll}]{1,5}`;
+// Scripts without case (Chinese, Japanese, Arabic, ...) have no capitals: a short word of them counts.
+const WORD = String.raw`[\p{Lu}\p{Lt}][\p{L}\p{M}\d'’.\-]*|\p{Lo}[\p{Lo}\p{M}]{0,7}(?![\p{L}])|\d+[\p{L}]?|[\p{Ll}]{1,5}`;
 const STAMP = String.raw`[\[(]\s*\d{1,2}:\d{2}(?::\d{2})?(?:[.,]\d{1,3})?\s*[\])]`;
 const CANDIDATE = new RegExp(
-  String.raw`^(${WORD})((?:[ \t]+(?:${WORD})){0,2})[ \t]*(${STAMP})?[ \t]*:(?=\s|$)`,
+  String.raw`^(${WORD})((?:[ \t]+(?:${WORD})){0,2})[ \t]*(${STAMP})?[ \t]*(?::(?=\s|$)|：)`, // ASCII or fullwidth colon
   'u',
 );
 
@@ -34,7 +35,7 @@ export function matchLabelCandidate(s: string): LabelCandidate | null {
   // Lowercase words are allowed only as name particles ("Ana de Souza"), never first or last.
   const first = words[0]!;
   const last = words[words.length - 1]!;
-  if (!/^[\p{Lu}\p{Lt}]/u.test(first)) return null;
+  if (!/^[\p{Lu}\p{Lt}\p{Lo}]/u.test(first)) return null;
   if (words.length > 1 && /^\p{Ll}/u.test(last)) return null;
   if (words.some((w) => /^\p{Ll}/u.test(w) && !PARTICLES.has(w))) return null;
   const out: LabelCandidate = { label, end: m[0].length };
@@ -74,7 +75,7 @@ export function looksLikeName(label: string): boolean {
   const words = label.split(' ');
   if (words.length > 3) return false;
   if (NOT_NAMES.has(words[0]!.toLowerCase().replace(/[.]$/, ''))) return false;
-  return words.every((w) => /^[\p{Lu}\p{Lt}][\p{L}\p{M}\d'’.\-]*$/u.test(w) || PARTICLES.has(w) || /^\d+$/.test(w));
+  return words.every((w) => /^[\p{Lu}\p{Lt}\p{Lo}][\p{L}\p{M}\d'’.\-]*$/u.test(w) || PARTICLES.has(w) || /^\d+$/.test(w));
 }
 
 /**

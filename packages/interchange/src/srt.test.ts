@@ -52,6 +52,11 @@ describe('SRT: cues', () => {
     ]);
   });
 
+  it("a dash before a number is not a dialogue dash; '-Word' without a space is", () => {
+    const file = '1\n00:00:01,000 --> 00:00:02,000\nit was\n-5 degrees\n-Really?\n';
+    expect(parseSrt(file).turns.map((t) => t.text)).toEqual(['it was -5 degrees', 'Really?']);
+  });
+
   it('mergeCues: false keeps one turn per cue', () => {
     const file = '1\n00:00:01,000 --> 00:00:02,000\nKOFI: one\n\n2\n00:00:02,000 --> 00:00:03,000\nKOFI: two\n';
     expect(parseSrt(file, { mergeCues: false }).turns.map((t) => t.text)).toEqual(['one', 'two']);

@@ -217,6 +217,14 @@ describe('WebVTT: own files, each form', () => {
     ]);
   });
 
+  it('voice names in any script, with entities decoded', () => {
+    const file = 'WEBVTT\n\n00:01.000 --> 00:02.000\n<v Zoë Ñúñez &amp; co>hola\n\n00:02.000 --> 00:03.000\n<v 田中 さくら>はい\n';
+    expect(parseWebVtt(file).turns.map((t) => [t.speaker, t.text])).toEqual([
+      ['Zoë Ñúñez & co', 'hola'],
+      ['田中 さくら', 'はい'],
+    ]);
+  });
+
   it('cues of no speaker are never merged; a cue may follow another without a blank line', () => {
     const file = 'WEBVTT\n\n00:01.000 --> 00:02.000\nfirst\n00:02.000 --> 00:03.000\nsecond\n';
     expect(parseWebVtt(file).turns.map((t) => t.text)).toEqual(['first', 'second']);
