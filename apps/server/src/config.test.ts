@@ -1,0 +1,63 @@
+/** Environment parsing: defaults as documented in the brief; bad values stop the start with a clear ConfigError. */
+import { describe, expect, it } from 'vitest';
+import { loadConfig } from './config.js';
+import { ConfigError } from './errors.js';
+
+describe('loadConfig', () => {
+  it('has the documented defaults', () => {
+    const c = loadConfig({});
+    expect(c.port).toBe(8080);
+    expect(c.databaseUrl).toBeUndefined();
+    expect(c.dataDir.endsWith('/data')).toBe(true);
+    expect(c.sessionMs).toBe(30 * 86_400_000);
+    expect(c.logLevel).toBe('info');
+    expect(c.webDist.endsWith('/apps/web/dist')).toBe(true);
+  });
+
+  it('reads every variable', () => {
+    const c = loadConfig({
+      PORT: '0',
+      HOST: '0.0.0.0',
+      DATABASE_URL: 'postgres://u@db:5432/gloss',
+      DATA_DIR: '/var/lib/gloss',
+      REDIS_URL: 'redis://cache:6379',
+      PUBLIC_URL: 'https://gloss.example.org/some/path',
+      MAX_MESSAGE_BYTES: '2048',
+      SESSION_DAYS: '0.5',
+      WEB_DIST: '/srv/web',
+      LOG_LEVEL: 'warn',
+    });
+    expect(c).toMatchObject({
+      port: 0,
+      host: '0.0.0.0',
+      databaseUrl: 'postgres://u@db:5432/gloss',
+      dataDir: '/var/lib/gloss',
+      redisUrl: 'redis://cache:6379',
+      publicUrl: 'https://gloss.example.org',
+      maxMessageBytes: 2048,
+      sessionMs: 43_200_000,
+      webDist: '/srv/web',
+      logLevel: 'warn',
+    });
+  });
+
+  it.each([
+    ['PORT', '70000'],
+    ['PORT', 'eighty'],
+    ['DATABASE_URL', 'mysql://x'],
+    ['REDIS_URL', 'not a url'],
+    ['PUBLIC_URL', 'ftp://x'],
+    ['SESSION_DAYS', '-1'],
+    ['LOG_LEVEL', 'loud'],
+    ['MAX_MESSAGE_BYTES', '10'],
+  ])('refuses %s=%s with a ConfigError naming the variable', (name, value) => {
+    let err: unknown;
+    try {
+      loadConfig({ [name]: value });
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(ConfigError);
+    expect((err as ConfigError).message).toContain(name);
+  });
+});
