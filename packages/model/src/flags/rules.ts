@@ -60,14 +60,14 @@ export function overlapFlags(s: FlagSegment, index: IntervalIndex, facts: Codebo
   const others = new Map<string, { refs: FlagSegment[]; same: boolean }>();
   index.overlapping(s.start, s.end, (o) => {
     if (o.layerId === s.layerId && o.id === s.id) return;
+    const [a, b] = segKey(s.layerId, s.id) < segKey(o.layerId, o.id) ? [s, o] : [o, s];
     if (o.layerId === s.layerId && o.effectiveCode === s.effectiveCode) {
-      out.push({ kind: 'duplicate', key: pairKey('duplicate', s, o), segments: [refOf(s), refOf(o)], codeIds: [s.effectiveCode], people: [s.coder] });
+      out.push({ kind: 'duplicate', key: pairKey('duplicate', s, o), segments: [refOf(a), refOf(b)], codeIds: [s.effectiveCode], people: [s.coder] });
     }
     if (mySets !== undefined && o.effectiveCode !== s.effectiveCode) {
       const theirs = facts.exclusiveSets.get(o.effectiveCode);
       const shared = theirs?.filter((x) => mySets.includes(x));
       if (shared !== undefined && shared.length > 0) {
-        const [a, b] = segKey(s.layerId, s.id) < segKey(o.layerId, o.id) ? [s, o] : [o, s];
         out.push({
           kind: 'exclusive', key: pairKey('exclusive', s, o), segments: [refOf(a), refOf(b)],
           codeIds: [a.effectiveCode, b.effectiveCode], people: [...new Set([a.coder, b.coder])], detail: shared.join(','),
