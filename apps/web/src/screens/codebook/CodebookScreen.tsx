@@ -1,11 +1,98 @@
+/** The codebook: tree, themes and exclusive sets on the left; the chosen entry and second-cycle actions on the right. */
+import { Show, createMemo, createResource, createSignal } from 'solid-js';
+import { addCode, codeTree, getCodes, listChanges, listExclusiveSets, listThemes } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
+import { useY } from '../../ui/use-ydoc.js';
+import { go, route } from '../../ui/router.js';
+import { api } from '../../api/client.js';
+import { errorMessage } from '../../api/errors.js';
+import { CodeTree, GroupList } from './CodeTree.js';
+import { EntryEditor } from './EntryEditor.js';
+import { SecondCycle } from './SecondCycle.js';
+import type { OpenDoc } from '../../sync/open-doc.js';
 
-export function CodebookScreen(props: { studyId: string; scope: StudyScope; me: Me; textId?: string }) {
+export function CodebookScreen(props: { studyId: string; scope: StudyScope; me: Me }) {
   return (
     <main class="page">
       <StudyNav studyId={props.studyId} scope={props.scope} current="codebook" />
+      <Show when={props.scope.codebook()} keyed fallback={<p class="progress">Opening the codebook…</p>}>
+        {(cb) => <Codebook cb={cb} {...props} />}
+      </Show>
     </main>
+  );
+}
+
+function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: Me }) {
+  const doc = props.cb.doc;
+  const [members] = createResource(() => props.studyId, (id) => api.members(id).catch(() => []));
+  const nameOf = (id: string) => members()?.find((m) => m.userId === id)?.name ?? id;
+  const codes = useY(doc.getMap('codes'), () => getCodes(doc));
+  const tree = createMemo(() => (codes(), codeTree(doc)));
+  const groups = useY(doc.getMap('exclusiveSets'), () => listExclusiveSets(doc));
+  const themes = useY(doc.getMap('themes'), () => listThemes(doc));
+  const history = useY(doc.getArray('changes'), () => listChanges(doc));
+  const byId = createMemo(() => new Map(codes().map((c) => [c.id, c])));
+  const chosenId = () => {
+    const r = route();
+    return r.name === 'codebook' ? r.codeId : undefined;
+  };
+  const chosen = createMemo(() => (chosenId() ? byId().get(chosenId()!) : undefined));
+  const choose = (id: string) => go({ name: 'codebook', studyId: props.studyId, codeId: id });
+  const role = () => props.scope.study()?.role;
+  const canEdit = () => role() === 'owner' || role() === 'lead';
+  const [label, setLabel] = createSignal('');
+  const [message, setMessage] = createSignal('');
+
+  return (
+    <div class="codebook">
+      <nav class="codebook-nav" aria-label="Codebook">
+        <Show when={canEdit()}>
+          <form class="inline-form" aria-label="Add a code" onSubmit={(e) => {
+            e.preventDefault();
+            try {
+              const id = addCode(doc, { label: label() }, { by: props.me.id });
+              setLabel('');
+              choose(id);
+            } catch (err) {
+              setMessage(errorMessage(err));
+            }
+          }}>
+            <label>New code <input value={label()} onInput={(e) => setLabel(e.currentTarget.value)} /></label>
+            <button type="submit">Add</button>
+          </form>
+          <Show when={message()}><p class="error" role="alert">{message()}</p></Show>
+        </Show>
+        <CodeTree nodes={tree()} chosen={chosenId()} onChoose={choose} />
+        <GroupList title="Themes" groups={themes()} codes={byId()} onChoose={choose} testid="themes" />
+        <GroupList title="Mutually exclusive sets" groups={groups()} codes={byId()} onChoose={choose} testid="exclusive-sets" />
+      </nav>
+      <div class="codebook-entry">
+        {/* keyed on the id only: edits to the entry must not remount the fields being typed in */}
+        <Show when={chosen() ? chosenId() : undefined} keyed fallback={<p class="muted">Choose a code to read or edit its entry.</p>}>
+          {(id) => {
+            const c = () => byId().get(id)!;
+            return (
+            <>
+              <EntryEditor
+                codebook={doc}
+                awareness={props.cb.provider.awareness}
+                code={c()}
+                codes={byId()}
+                history={history().filter((h) => h.codeIds.includes(id))}
+                nameOf={nameOf}
+                canEdit={canEdit()}
+                by={props.me.id}
+              />
+              <Show when={canEdit()}>
+                <SecondCycle studyId={props.studyId} codebook={doc} code={c()} codes={codes()} by={props.me.id} />
+              </Show>
+            </>
+            );
+          }}
+        </Show>
+      </div>
+    </div>
   );
 }

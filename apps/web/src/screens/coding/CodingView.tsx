@@ -3,7 +3,7 @@ import { For, Show, createMemo, createSignal, onCleanup, onMount } from 'solid-j
 import * as Y from 'yjs';
 import {
   addCode, addExample, addInVivoCode, addMemo, addSegment, correctText, createUndoManager, getSegmentsMap,
-  recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments,
+  recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments, reconcileLayer, withOrigin,
 } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -49,6 +49,17 @@ export function CodingView(props: CodingViewProps) {
   };
   undo?.on('stack-item-added', refreshUndo);
   undo?.on('stack-item-popped', refreshUndo);
+
+  // Bring my layer up to date with merges and splits made while it was closed or offline
+  // (not through undo: the origin is not the one the undo manager tracks).
+  if (mine) {
+    const reconcile = () => withOrigin(mine.doc.doc, 'reconcile', () => reconcileLayer(props.codebook.doc, mine.doc.doc));
+    const codesMap = props.codebook.doc.getMap('codes');
+    const onCodes = () => queueMicrotask(reconcile);
+    codesMap.observeDeep(onCodes);
+    onCleanup(() => codesMap.unobserveDeep(onCodes));
+    reconcile();
+  }
 
   const recent = useRecentCodes(props.studyId);
   const presence = useTextPresence(props.text, props.me);
