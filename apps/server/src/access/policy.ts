@@ -20,6 +20,7 @@ export const ACTIONS = [
   'members.manage',
   'export',
   'audit.view',
+  'agreement.read', // intercoder agreement: compares everyone's layers, so not for those still coding
 ] as const;
 export type Action = (typeof ACTIONS)[number];
 
@@ -43,6 +44,7 @@ const TABLE: Record<Action, Record<Role, boolean>> = {
   'members.manage':     { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'export':             { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'audit.view':         { owner: o, lead: o, coder: _, trainee: _, observer: _ },
+  'agreement.read':     { owner: o, lead: o, coder: _, trainee: _, observer: o },
 };
 
 export function can(role: Role, action: Action): boolean {
