@@ -17,3 +17,17 @@ export { landisKoch, krippendorffBand, type LandisKochBand, type KrippendorffBan
 export type { Span, Continuum } from './spans.js';
 export { unitizingAlpha1995, type Unitizing1995Result, type UnitizingCategory } from './unitizing-1995.js';
 export { unitizingAlpha2016, type Unitizing2016Result, type ValueUAlpha } from './unitizing-2016.js';
+export type { CodedSegment, CodedText, TextUnit } from './coded-text.js';
+export { fixedUnitData, characterData, unitizingSpans, partitionSpans } from './adapters.js';
+export {
+  agreementReport,
+  type AgreementReport,
+  type BinaryAgreement,
+  type CodeReport,
+  type PairReport,
+  type ReportOptions,
+  type StudyData,
+  type TextReport,
+  type UnitizingSummary,
+} from './report.js';
+export { codeConfusion, NO_CODE, type CodeConfusion } from './code-confusion.js';
