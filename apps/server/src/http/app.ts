@@ -12,6 +12,10 @@ import { sessionRoutes } from './session.js';
 import { staticRoutes } from './static.js';
 import { studyRoutes } from './studies.js';
 import { studyTextRoutes, textRoutes } from './texts.js';
+import { agreementRoutes } from './agreement.js';
+import { importRoutes } from './imports.js';
+import { segmentRoutes } from './segments.js';
+import { versionRoutes } from './versions.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
   const app = new Hono<AppEnv>();
@@ -35,6 +39,10 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/studies/:studyId/members', memberRoutes(deps));
   api.route('/studies/:studyId/texts', studyTextRoutes(deps));
   api.route('/texts', textRoutes(deps));
+  api.route('/studies/:studyId/texts/import', importRoutes(deps));
+  api.route('/studies/:studyId/agreement', agreementRoutes(deps));
+  api.route('/texts', segmentRoutes(deps));
+  api.route('/documents', versionRoutes(deps));
   api.notFound(onNotFound);
   api.all('*', onNotFound);
   app.route('/api', api);

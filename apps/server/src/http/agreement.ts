@@ -1,0 +1,180 @@
+/**
+ * GET /api/studies/:studyId/agreement — intercoder agreement over the current state of the layers.
+ * Query: texts=<ids> (default all), coders=<user ids> (default everyone with a layer on them),
+ * unit=turn|paragraph|sentence|character|span (default turn), statistic=krippendorff-alpha|cohen-kappa|
+ * scott-pi|fleiss-kappa|percent-agreement (default krippendorff-alpha; span always unitizing alpha),
+ * codes=<ids> (default every code applied), bootstrap=<replicates> and seed=<n> (alpha only).
+ * Who: owner, lead and observer (`agreement.read`); coders and trainees are refused so the figures
+ * cannot steer coding still under way. Every report is audited. A study in reflexive mode gets no
+ * coefficient: the units coded differently, side by side (DESIGN §5).
+ */
+import { type Db, documents, studies, texts, users } from '@gloss/db';
+import { effectiveCodeId, getCodes, listSegments, readText, readTurns, resolveSegments } from '@gloss/model';
+import { AgreementError } from '@gloss/agreement';
+import { and, eq, inArray } from 'drizzle-orm';
+import { Hono } from 'hono';
+import type * as Y from 'yjs';
+import { z } from 'zod';
+import { recordAudit } from '../admin/audit.js';
+import { agreementReport } from '../agreement/report.js';
+import { differences } from '../agreement/differences.js';
+import { STATISTICS } from '../agreement/statistics.js';
+import { UNIT_KINDS, fixedUnits } from '../agreement/units.js';
+import type { CodedSpan, TextInput } from '../agreement/data.js';
+import { isUuid } from '../access/membership.js';
+import { HttpError, notFound } from '../errors.js';
+import { withDocs } from '../projection/load-doc.js';
+import type { AppDeps, AppEnv } from './context.js';
+import { requireSession } from './middleware.js';
+import { requireStore } from './segments.js';
+import { codebookDocId } from './text-layers.js';
+import { studyRole } from './study-access.js';
+
+const idList = (what: string) =>
+  z
+    .string()
+    .optional()
+    .transform((s, ctx) => {
+      if (s === undefined || s.trim() === '') return undefined;
+      const ids = [...new Set(s.split(',').map((x) => x.trim()).filter(Boolean))];
+      return ids;
+    })
+    .describe(what);
+
+export const AgreementQuery = z.object({
+  texts: idList('text ids, comma-separated'),
+  coders: idList('coder user ids, comma-separated'),
+  codes: idList('code ids, comma-separated'),
+  unit: z.enum(UNIT_KINDS).default('turn'),
+  statistic: z.enum(STATISTICS).default('krippendorff-alpha'),
+  bootstrap: z.coerce.number().int().min(0).max(10_000).default(0),
+  seed: z.coerce.number().int().min(0).max(0xffffffff).default(1),
+});
+
+export function agreementRoutes(deps: AppDeps) {
+  const app = new Hono<AppEnv>();
+  app.use('*', requireSession(deps));
+
+  app.get('/', async (c) => {
+    const store = requireStore(deps);
+    const { studyId } = await studyRole(deps, c, 'agreement.read');
+    const parsed = AgreementQuery.safeParse(c.req.query());
+    if (!parsed.success) {
+      const i = parsed.error.issues[0]!;
+      throw new HttpError(400, 'bad_request', `${i.path.join('.') || 'query'}: ${i.message}`);
+    }
+    const q = parsed.data;
+    for (const [name, ids] of [['texts', q.texts], ['coders', q.coders]] as const) {
+      const bad = ids?.find((id) => !isUuid(id));
+      if (bad) throw new HttpError(400, 'bad_request', `${name}: ${bad} is not an id`);
+    }
+    const [study] = await deps.db.select().from(studies).where(eq(studies.id, studyId));
+    if (!study) throw notFound('Study');
+
+    const textRows = await deps.db
+      .select({ id: texts.id, title: texts.title })
+      .from(texts)
+      .where(q.texts ? and(eq(texts.studyId, studyId), inArray(texts.id, q.texts)) : eq(texts.studyId, studyId));
+    if (q.texts && textRows.length !== q.texts.length) throw new HttpError(400, 'bad_request', 'texts: some of these texts are not in this study.');
+    const order = new Map((q.texts ?? []).map((id, i) => [id, i]));
+    textRows.sort((a, b) => (order.get(a.id) ?? 0) - (order.get(b.id) ?? 0) || a.title.localeCompare(b.title));
+    const docs = textRows.length
+      ? await deps.db.select().from(documents).where(inArray(documents.textId, textRows.map((t) => t.id)))
+      : [];
+    const layerDocs = docs.filter((d) => d.kind === 'layer' && (!q.coders || q.coders.includes(d.coderId!)));
+    const coderIds = q.coders ?? [...new Set(layerDocs.map((d) => d.coderId!))];
+    const names = await coderNames(deps.db, coderIds);
+    if (!q.coders) coderIds.sort((a, b) => (names.get(a) ?? '').localeCompare(names.get(b) ?? '') || (a < b ? -1 : 1));
+
+    const cbId = await codebookDocId(deps.db, studyId);
+    const textDocIds = textRows.map((t) => docs.find((d) => d.kind === 'text' && d.textId === t.id)!.id);
+    const ids = [...textDocIds, ...layerDocs.map((d) => d.id), ...(cbId ? [cbId] : [])];
+    const reflexive = study.mode === 'reflexive';
+
+    const body = await withDocs(store, ids, (loaded) => {
+      const textYs = loaded.slice(0, textRows.length);
+      const layerYs = loaded.slice(textRows.length, textRows.length + layerDocs.length);
+      const cb: Y.Doc | undefined = cbId ? loaded[loaded.length - 1] : undefined;
+      const effective = (codeId: string) => (cb ? effectiveCodeId(cb, codeId) : codeId);
+      const inputs: TextInput[] = textRows.map((t, i) => {
+        const textDoc = textYs[i]!;
+        const text = readText(textDoc);
+        const turns = readTurns(textDoc);
+        const unitKind = q.unit === 'span' || (reflexive && q.unit === 'character') ? 'turn' : q.unit;
+        const layers = new Map<string, CodedSpan[]>();
+        layerDocs.forEach((d, j) => {
+          if (d.textId !== t.id) return;
+          const spans = resolveSegments(textDoc, listSegments(layerYs[j]!), turns)
+            .filter((s) => !s.unresolved && !s.orphaned)
+            .map((s) => ({ codeId: effective(s.codeId), start: s.start, end: s.end }));
+          layers.set(d.coderId!, spans);
+        });
+        return { textId: t.id, text, units: q.unit === 'span' && !reflexive ? [] : fixedUnits(unitKind, text, turns), layers };
+      });
+      const codebookCodes = cb ? getCodes(cb) : [];
+      const labels = new Map(codebookCodes.map((k) => [k.id, k.label]));
+      const codes = q.codes ?? usedCodes(inputs, coderIds, codebookCodes.map((k) => k.id));
+      const head = {
+        studyId,
+        mode: study.mode,
+        unit: q.unit,
+        coders: coderIds.map((id) => ({ id, name: names.get(id) ?? '' })),
+        texts: textRows,
+        codes: codes.map((id) => ({ id, label: labels.get(id) ?? '' })),
+      };
+      if (reflexive) {
+        return {
+          ...head,
+          coefficients: null,
+          note: 'This study is run in the reflexive mode: no agreement coefficient is computed. Units coded differently are listed side by side for discussion.',
+          differences: differences(inputs, codes, coderIds),
+        };
+      }
+      const report = agreementReport({
+        unit: q.unit,
+        statistic: q.statistic,
+        texts: inputs,
+        codes,
+        coders: coderIds,
+        ...(q.bootstrap > 0 ? { options: { bootstrap: { replicates: q.bootstrap, seed: q.seed } } } : {}),
+      });
+      return {
+        ...head,
+        statistic: q.unit === 'span' ? 'unitizing-alpha' : q.statistic,
+        method:
+          q.unit === 'span'
+            ? 'Binary unitizing alpha per code over the coders\' segments, texts laid end to end.'
+            : `Each (text, code, ${q.unit}) is a unit valued 1 when the coder applied the code to it, 0 otherwise; missing when the coder has no layer on the text. Nominal level.`,
+        ...report,
+      };
+    }).catch((err: unknown) => {
+      if (err instanceof AgreementError) throw new HttpError(400, 'bad_request', err.message);
+      throw err;
+    });
+
+    await recordAudit(deps.db, {
+      userId: c.get('session').user.id,
+      studyId,
+      action: 'agreement.view',
+      target: studyId,
+      detail: { texts: textRows.map((t) => t.id), coders: coderIds, unit: q.unit, statistic: q.statistic, reflexive },
+    });
+    return c.json(body);
+  });
+
+  return app;
+}
+
+/** Codes applied by the chosen coders, in codebook order (codes missing from the codebook last). */
+function usedCodes(inputs: TextInput[], coders: string[], codebookOrder: string[]): string[] {
+  const used = new Set<string>();
+  for (const t of inputs) for (const c of coders) for (const s of t.layers.get(c) ?? []) used.add(s.codeId);
+  const rank = new Map(codebookOrder.map((id, i) => [id, i]));
+  return [...used].sort((a, b) => (rank.get(a) ?? 1e9) - (rank.get(b) ?? 1e9) || (a < b ? -1 : 1));
+}
+
+async function coderNames(db: Db, ids: string[]): Promise<Map<string, string>> {
+  if (ids.length === 0) return new Map();
+  const rows = await db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, ids));
+  return new Map(rows.map((r) => [r.id, r.name]));
+}

@@ -1,0 +1,126 @@
+/**
+ * POST /api/studies/:studyId/texts/import — a transcript file (txt, vtt, srt, docx) becomes a text.
+ * Body: multipart/form-data with a `file` field (and optional `title`), or the raw bytes with
+ * `?filename=` (and optional `&title=`). Owner and lead. The importer's failures are 422
+ * `{error:{code, message, details:{format, line, column}}}`, the message naming the place in the file;
+ * nothing is created then (the text, its document and the audit entry go in one transaction).
+ * With `Accept: application/x-ndjson` the answer streams `{"progress":0.42}` lines and ends with
+ * `{"text":{id,title,room,…}}` or, if the import fails after the stream began, `{"error":{…}}`.
+ */
+import { ImportError, detectFormat, importTranscript } from '@gloss/interchange';
+import type { Context } from 'hono';
+import { Hono } from 'hono';
+import { addTextFromTranscript } from '../admin/texts.js';
+import { HttpError } from '../errors.js';
+import type { AppDeps, AppEnv } from './context.js';
+import { errorBody } from './errors.js';
+import { requireSession } from './middleware.js';
+import { studyRole } from './study-access.js';
+
+interface Upload {
+  filename: string;
+  bytes: Uint8Array;
+  mediaType?: string;
+  title?: string;
+}
+
+export function importRoutes(deps: AppDeps) {
+  const app = new Hono<AppEnv>();
+  app.use('*', requireSession(deps));
+
+  app.post('/', async (c) => {
+    const { studyId } = await studyRole(deps, c, 'text.import');
+    const upload = await readUpload(c);
+    const userId = c.get('session').user.id;
+    const run = async (onProgress?: (f: number) => void) => {
+      const transcript = await importTranscript(
+        { filename: upload.filename, bytes: upload.bytes, ...(upload.mediaType ? { mediaType: upload.mediaType } : {}) },
+        { maxBytes: deps.config.maxBodyBytes, ...(onProgress ? { onProgress } : {}), ...(upload.title ? { title: upload.title } : {}) },
+      );
+      const title = (upload.title ?? transcript.title ?? upload.filename).trim().slice(0, 300) || upload.filename;
+      const text = await addTextFromTranscript(deps.db, studyId, { title, transcript, sourceFormat: sourceFormat(upload), createdBy: userId });
+      return {
+        id: text.id,
+        title: text.title,
+        room: text.room,
+        sourceFormat: text.sourceFormat,
+        wordCount: text.wordCount,
+        createdAt: text.createdAt.toISOString(),
+      };
+    };
+
+    if (!/application\/x-ndjson/i.test(c.req.header('accept') ?? '')) {
+      try {
+        return c.json(await run(), 201);
+      } catch (err) {
+        if (err instanceof ImportError) return c.json(importErrorBody(err), err.code === 'too-large' ? 413 : 422);
+        throw err;
+      }
+    }
+
+    const encoder = new TextEncoder();
+    const body = new ReadableStream<Uint8Array>({
+      async start(controller) {
+        const line = (obj: unknown) => controller.enqueue(encoder.encode(JSON.stringify(obj) + '\n'));
+        let last = -1;
+        try {
+          const text = await run((f) => {
+            // Two decimals are plenty for a progress bar; skip repeats.
+            const rounded = Math.round(f * 100) / 100;
+            if (rounded > last) line({ progress: (last = rounded) });
+          });
+          line({ text });
+        } catch (err) {
+          if (err instanceof ImportError) line(importErrorBody(err));
+          else {
+            console.error(err);
+            line(errorBody('internal', 'Something went wrong on the server; nothing was imported.'));
+          }
+        }
+        controller.close();
+      },
+    });
+    return new Response(body, { status: 200, headers: { 'content-type': 'application/x-ndjson; charset=utf-8', 'cache-control': 'no-store' } });
+  });
+
+  return app;
+}
+
+function importErrorBody(err: ImportError) {
+  return errorBody(err.code.replace(/-/g, '_'), err.message, { format: err.format, line: err.line, column: err.column ?? null });
+}
+
+const SHORT_NAME: Record<string, string> = { text: 'txt', webvtt: 'vtt', srt: 'srt', docx: 'docx' };
+
+/** The short format name stored with the text (txt, vtt, srt, docx), as the importer chose it. */
+function sourceFormat(upload: Upload): string {
+  return SHORT_NAME[detectFormat(upload)] ?? 'txt';
+}
+
+async function readUpload(c: Context<AppEnv>): Promise<Upload> {
+  const type = c.req.header('content-type') ?? '';
+  const title = c.req.query('title') || undefined;
+  if (/^multipart\/form-data/i.test(type)) {
+    let form: Record<string, string | File | (string | File)[]>;
+    try {
+      form = await c.req.parseBody();
+    } catch (err) {
+      if (err instanceof HttpError) throw err;
+      throw new HttpError(400, 'bad_request', 'The multipart body could not be read.');
+    }
+    const file = form.file;
+    if (!(file instanceof File)) throw new HttpError(400, 'invalid_body', 'file: send the transcript as a form field named "file".');
+    const formTitle = typeof form.title === 'string' && form.title.trim() ? form.title.trim() : undefined;
+    return {
+      filename: file.name || 'transcript',
+      bytes: new Uint8Array(await file.arrayBuffer()),
+      ...(file.type ? { mediaType: file.type } : {}),
+      ...(formTitle ?? title ? { title: formTitle ?? title } : {}),
+    };
+  }
+  const filename = c.req.query('filename');
+  if (!filename) throw new HttpError(400, 'invalid_body', 'Send multipart/form-data with a "file" field, or the raw file with ?filename=<name>.');
+  const bytes = new Uint8Array(await c.req.arrayBuffer());
+  const mediaType = type && !/^application\/octet-stream/i.test(type) ? type : undefined;
+  return { filename, bytes, ...(mediaType ? { mediaType } : {}), ...(title ? { title } : {}) };
+}

@@ -1,0 +1,99 @@
+/**
+ * GET /api/texts/:textId/segments — the segments of every layer the caller may see, resolved from the
+ * documents' current state (not the projection, which may lag), with the flags the model computes over
+ * the text, those layers and the codebook. Shape (outside scripts rely on it):
+ * `[{"id","coderId","codeId","start","end","quote","flags":["orphaned",…]}]`, ordered by start.
+ */
+import { texts } from '@gloss/db';
+import { computeFlags, createCodebookDoc, readTurns, resolveSegments, listSegments } from '@gloss/model';
+import { eq } from 'drizzle-orm';
+import { Hono } from 'hono';
+import type * as Y from 'yjs';
+import { roleIn } from '../access/membership.js';
+import { recordAudit } from '../admin/audit.js';
+import { HttpError, notFound } from '../errors.js';
+import { withDocs, type DocLoader } from '../projection/load-doc.js';
+import type { AppDeps, AppEnv } from './context.js';
+import { requireSession } from './middleware.js';
+import { codebookDocId, textDocuments, type VisibleLayer } from './text-layers.js';
+import { idParam } from './validate.js';
+
+export interface SegmentOut {
+  id: string;
+  coderId: string;
+  codeId: string;
+  start: number;
+  end: number;
+  quote: string;
+  flags: string[];
+}
+
+export function requireStore(deps: AppDeps): DocLoader {
+  if (!deps.store) throw new HttpError(503, 'internal', 'Document storage is not available on this server.');
+  return deps.store;
+}
+
+/** Pure: resolved segments of the given layers plus each segment's flag kinds. */
+export function segmentsWithFlags(textDoc: Y.Doc, codebook: Y.Doc, layers: Array<VisibleLayer & { doc: Y.Doc }>): SegmentOut[] {
+  const turns = readTurns(textDoc);
+  const flags = computeFlags({ textDoc, codebook, layers: layers.map((l) => ({ layerId: l.layerDocId, coder: l.coderId, doc: l.doc })) });
+  const kinds = new Map<string, Set<string>>();
+  for (const f of flags) {
+    for (const ref of f.segments) {
+      const key = `${ref.layerId}/${ref.segmentId}`;
+      let set = kinds.get(key);
+      if (!set) kinds.set(key, (set = new Set()));
+      set.add(f.kind);
+    }
+  }
+  const out: SegmentOut[] = [];
+  for (const l of layers) {
+    for (const s of resolveSegments(textDoc, listSegments(l.doc), turns)) {
+      if (s.unresolved) continue; // names text this server has not stored: nothing true to say about it
+      out.push({
+        id: s.id,
+        coderId: l.coderId,
+        codeId: s.codeId,
+        start: s.start,
+        end: s.end,
+        quote: s.quote,
+        flags: [...(kinds.get(`${l.layerDocId}/${s.id}`) ?? [])].sort(),
+      });
+    }
+  }
+  return out.sort((a, b) => a.start - b.start || a.end - b.end || (a.coderId < b.coderId ? -1 : a.coderId > b.coderId ? 1 : a.id < b.id ? -1 : 1));
+}
+
+export function segmentRoutes(deps: AppDeps) {
+  const app = new Hono<AppEnv>();
+  app.use('*', requireSession(deps));
+
+  app.get('/:textId/segments', async (c) => {
+    const store = requireStore(deps);
+    const textId = idParam(c, 'textId', 'Text');
+    const [text] = await deps.db.select().from(texts).where(eq(texts.id, textId));
+    if (!text) throw notFound('Text');
+    const me = c.get('session').user.id;
+    const role = await roleIn(deps.db, text.studyId, me);
+    if (!role) throw notFound('Text');
+    const { textDocId, layers } = await textDocuments(deps.db, textId, role, me);
+    const cbId = await codebookDocId(deps.db, text.studyId);
+    const ids = [textDocId, ...layers.map((l) => l.layerDocId), ...(cbId ? [cbId] : [])];
+    const result = await withDocs(store, ids, ([textDoc, ...rest]) => {
+      const codebook = cbId ? rest.pop()! : createCodebookDoc();
+      return segmentsWithFlags(
+        textDoc!,
+        codebook,
+        layers.map((l, i) => ({ ...l, doc: rest[i]! })),
+      );
+    });
+    const others = layers.filter((l) => l.coderId !== me).map((l) => l.coderId);
+    if (others.length > 0) {
+      // Who read whose coding is part of the access log (DESIGN §6), as when a layer room is opened.
+      await recordAudit(deps.db, { userId: me, studyId: text.studyId, action: 'segments.view', target: textId, detail: { coderIds: others } });
+    }
+    return c.json(result);
+  });
+
+  return app;
+}
