@@ -46,6 +46,8 @@ describe('plain text: timestamp forms at the start of a turn', () => {
     ['I: [1:02:03] a', 3_723_000],
     ['I (02:03): a', 123_000],
     ['[02:03] a', 123_000],
+    ['01:02:03 I: a', 3_723_000],
+    ['0:02:03.5 a', 123_500],
   ])('%s starts at %i ms', (line, ms) => {
     const [turn] = parsePlainText(line).turns;
     expect(turn).toMatchObject({ startMs: ms, text: 'a' });
@@ -59,6 +61,25 @@ describe('plain text: timestamp forms at the start of a turn', () => {
     const e = errorOf(() => parsePlainText('I: fine\n\nP2:  [00:75] no'));
     expect([e.code, e.line, e.column, e.format]).toEqual(['bad-timestamp', 3, 6, 'text']);
     expect(e.message).toBe("line 3, column 6: timestamp '[00:75]' has minutes or seconds of 60 or more");
+  });
+
+  it('a speaker-and-time line heads the turn whose words follow (transcription-service exports)', () => {
+    const text = 'Dana Whitfield  0:03\nSo we started early.\nVery early.\n\nTomas Reyes  1:02:15\nRight.\n\nDana Whitfield [2:10]\nYes.';
+    expect(parsePlainText(text).turns).toEqual([
+      { speaker: 'Dana Whitfield', startMs: 3000, endMs: null, text: 'So we started early.\nVery early.' },
+      { speaker: 'Tomas Reyes', startMs: 3_735_000, endMs: null, text: 'Right.' },
+      { speaker: 'Dana Whitfield', startMs: 130_000, endMs: null, text: 'Yes.' },
+    ]);
+  });
+
+  it('a line of a time of day or a heading word and a time is not a speaker heading', () => {
+    for (const line of ['Chapter 3 10:30', 'Total 4:05', 'we met 10:30', 'Meeting at 10:30']) {
+      expect(parsePlainText(line).turns).toEqual([{ speaker: null, startMs: null, endMs: null, text: line }]);
+    }
+  });
+
+  it('a time of day with two fields opening a sentence is text, not a timestamp', () => {
+    expect(parsePlainText('10:30 was when the bus came').turns[0]).toMatchObject({ startMs: null, text: '10:30 was when the bus came' });
   });
 
   it('a timestamp later in a line is part of the text', () => {

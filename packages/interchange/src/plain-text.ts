@@ -4,9 +4,9 @@ import { ImportError, type ImportFormat } from './import-error.js';
 import { checkSize } from './limits.js';
 import type { ImportOptions } from './options.js';
 import { ProgressReporter } from './progress.js';
-import { matchLabelCandidate, SpeakerJudge } from './speaker-label.js';
+import { matchLabelCandidate, matchSpeakerHeading, SpeakerJudge } from './speaker-label.js';
 import { runAsync, runSync, STEP_SIZE, type Steps } from './steps.js';
-import { matchStamp } from './transcript-stamp.js';
+import { matchStamp, matchWholeStamp } from './transcript-stamp.js';
 
 /** One line of source text and where it came from (a line number, or a DOCX paragraph number). */
 export interface SourceLine {
@@ -22,8 +22,11 @@ export interface LineRules {
 
 /**
  * Transcript turns from lines of text.
- * - A line that starts with a speaker label and/or a bracketed timestamp starts a turn; the timestamp
- *   may come before or after the label (`[00:01:02] I: ...`, `I: [00:01:02] ...`, `I [00:01:02]: ...`).
+ * - A line that starts with a speaker label and/or a timestamp starts a turn; the timestamp may come
+ *   before or after the label (`[00:01:02] I: ...`, `I: [00:01:02] ...`, `I [00:01:02]: ...`), and may
+ *   be bare if it has three fields (`00:01:02 I: ...`).
+ * - A line holding only a speaker and a time (`Dana Whitfield  0:03`) starts that speaker's turn,
+ *   whose words follow on the next lines.
  * - A line holding only a timestamp gives its time to the turn that starts on the next line.
  * - Other lines continue the current turn (joined with a line break). After a blank line, a line
  *   without a label continues the current speaker's turn as a new paragraph (joined with a blank
@@ -101,6 +104,14 @@ function readHead(raw: string, at: number, judge: SpeakerJudge, rules: LineRules
     s = s.slice(st.length).trimStart();
   };
   takeStamp();
+  if (startMs === null) {
+    const heading = matchSpeakerHeading(s);
+    if (heading && judge.accepts(heading.label)) {
+      const st = matchWholeStamp(heading.stamp);
+      if (st && !st.ok) throw badStamp(st.text, at, column() + heading.stampIndex, rules);
+      return { labelled: true, speaker: heading.label, startMs: st?.ok ? st.ms : null, rest: '' };
+    }
+  }
   const cand = matchLabelCandidate(s);
   if (cand && judge.accepts(cand.label)) {
     if (cand.stamp) {
@@ -119,7 +130,7 @@ function candidateLabel(line: string): string | null {
   let s = line.trimStart();
   const st = matchStamp(s);
   if (st) s = s.slice(st.length).trimStart();
-  return matchLabelCandidate(s)?.label ?? null;
+  return matchLabelCandidate(s)?.label ?? (st ? null : (matchSpeakerHeading(s)?.label ?? null));
 }
 
 function badStamp(text: string, at: number, column: number, rules: LineRules): ImportError {

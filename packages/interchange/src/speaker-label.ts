@@ -29,7 +29,32 @@ const CANDIDATE = new RegExp(
 export function matchLabelCandidate(s: string): LabelCandidate | null {
   const m = CANDIDATE.exec(s);
   if (!m) return null;
-  const label = (m[1]! + m[2]!).trim().replace(/[ \t]+/g, ' ');
+  const label = shortLabel(m[1]! + m[2]!);
+  if (label === null) return null;
+  const out: LabelCandidate = { label, end: m[0].length };
+  if (m[3]) out.stamp = { text: m[3], index: m.index + m[0].indexOf(m[3], m[1]!.length) };
+  return out;
+}
+
+const HEADING = new RegExp(
+  String.raw`^(${WORD})((?:[ \t]+(?:${WORD})){0,2})[ \t]+([[(]?\d{1,2}:\d{2}(?::\d{2})?(?:[.,]\d{1,3})?[\])]?)[ \t]*$`,
+  'u',
+);
+
+/**
+ * A line holding only a speaker and a time, with the words on the following lines, as transcription
+ * services export them: `Dana Whitfield  0:03`. Returns the label and the time as written.
+ */
+export function matchSpeakerHeading(s: string): { label: string; stamp: string; stampIndex: number } | null {
+  const m = HEADING.exec(s);
+  if (!m) return null;
+  const label = shortLabel(m[1]! + m[2]!);
+  return label === null ? null : { label, stamp: m[3]!, stampIndex: m[0].lastIndexOf(m[3]!) };
+}
+
+/** The label normalised, if it is short and capitalised as a speaker label must be. */
+function shortLabel(raw: string): string | null {
+  const label = raw.trim().replace(/[ \t]+/g, ' ');
   if (label.length > 40) return null;
   const words = label.split(' ');
   // Lowercase words are allowed only as name particles ("Ana de Souza"), never first or last.
@@ -38,9 +63,7 @@ export function matchLabelCandidate(s: string): LabelCandidate | null {
   if (!/^[\p{Lu}\p{Lt}\p{Lo}]/u.test(first)) return null;
   if (words.length > 1 && /^\p{Ll}/u.test(last)) return null;
   if (words.some((w) => /^\p{Ll}/u.test(w) && !PARTICLES.has(w))) return null;
-  const out: LabelCandidate = { label, end: m[0].length };
-  if (m[3]) out.stamp = { text: m[3], index: m.index + m[0].indexOf(m[3], m[1]!.length) };
-  return out;
+  return label;
 }
 
 const PARTICLES = new Set(['de', 'da', 'do', 'dos', 'das', 'del', 'della', 'di', 'du', 'van', 'von', 'der', 'den', 'la', 'le', 'bin', 'bint', 'al', 'el', 'ter', 'ten', 'y']);
