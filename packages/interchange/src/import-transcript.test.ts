@@ -50,6 +50,8 @@ describe('importTranscript: choosing the importer', () => {
     expect(sniff(fixture('allotment-interview.txt'))).toBe('text');
     expect(sniff(zipSync({ 'a.txt': strToU8('a') }))).toBe('docx');
     expect(sniff(new Uint8Array([0x00, 0x01, 0x02, 0x03]))).toBe('unknown');
+    // UTF-16LE with its byte order mark: "I: hi"
+    expect(sniff(new Uint8Array([0xff, 0xfe, 0x49, 0, 0x3a, 0, 0x20, 0, 0x68, 0, 0x69, 0]))).toBe('text');
     const t = await importTranscript({ filename: 'paste', bytes: fixture('ferry-interview.srt') });
     expect(t.turns).toHaveLength(2);
   });

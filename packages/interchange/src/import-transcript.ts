@@ -79,7 +79,8 @@ export function detectFormat(input: ImportInput): ImportFormat {
 /** Recognises a format from content: ZIP signature, WEBVTT signature, SRT cue shape, else text. */
 export function sniff(bytes: Uint8Array): ImportFormat {
   if (bytes[0] === 0x50 && bytes[1] === 0x4b && bytes[2] === 3 && bytes[3] === 4) return 'docx';
-  const head = new TextDecoder('utf-8').decode(bytes.subarray(0, 1024)).replace(/^\uFEFF/, '');
+  const label = bytes[0] === 0xff && bytes[1] === 0xfe ? 'utf-16le' : bytes[0] === 0xfe && bytes[1] === 0xff ? 'utf-16be' : 'utf-8';
+  const head = new TextDecoder(label).decode(bytes.subarray(0, 1024)).replace(/^\uFEFF/, '');
   if (/^WEBVTT(?:[ \t\r\n]|$)/.test(head)) return 'webvtt';
   if (/^\s*\d+\r?\n[ \t]*(?:\d{1,3}:)?\d{1,2}:\d{1,2}[,.]\d{1,3}[ \t]*-->/.test(head)) return 'srt';
   if (head.length > 0 && !/[\u0000-\u0008\u000e-\u001f]/.test(head)) return 'text';
