@@ -14,3 +14,5 @@ export * from './undo.js';
 export * from './palette.js';
 export * from './field-edits.js';
 export * from './flags/index.js';
+export * from './word-diff.js';
+export * from './versions.js';
