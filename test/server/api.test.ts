@@ -48,7 +48,7 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
   const anon = () => apiClient(server.url);
 
   beforeAll(async () => {
-    server = await spawnServer({ db: kind, seed: seedBasic, env: { MAX_BODY_BYTES: '65536' } });
+    server = await spawnServer({ db: kind, seed: seedBasic, env: { MAX_BODY_BYTES: '65536', SESSION_DAYS: '30' } });
     seed = server.seeded;
     for (const p of Object.keys(PEOPLE) as Person[]) cookies[p] = await signIn(server.url, PEOPLE[p].email, PASSWORD);
   });
@@ -279,6 +279,13 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
     const readExpiry = async () =>
       (await server.withDb((db) => db.select({ e: sessions.expiresAt }).from(sessions).where(sql`${sessions.id} = ${id}`)))[0]?.e;
 
+    // 29 of 30 days left: first half of its life → not renewed, no cookie sent.
+    if (kind === 'pglite') await server.restart(setExpiry('29 days'));
+    else await server.withDb(setExpiry('29 days'));
+    const fresh = await as('coder').call('GET', '/api/me');
+    expect(fresh.status).toBe(200);
+    expect(sessionCookieFrom(fresh.headers)).toBeNull();
+
     // One hour left of 30 days: past half-life → renewed, cookie re-sent.
     if (kind === 'pglite') await server.restart(setExpiry('1 hour'));
     else await server.withDb(setExpiry('1 hour'));
@@ -295,7 +302,7 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
     expect((await as('coder').call('GET', '/api/me')).status).toBe(401);
     if (kind === 'pglite') await server.kill();
     expect(await readExpiry()).toBeUndefined();
-  });
+  }, 120_000); // PGlite is single-process: three stop/seed/start cycles
 
   it('logged study creation, member changes and text import in the audit log', async () => {
     await server.kill();

@@ -4,12 +4,14 @@ import { loadConfig } from './config.js';
 import { ConfigError } from './errors.js';
 
 describe('loadConfig', () => {
-  it('has the documented defaults', () => {
+  it('has the defaults documented in the root README', () => {
     const c = loadConfig({});
     expect(c.port).toBe(8080);
     expect(c.databaseUrl).toBeUndefined();
     expect(c.dataDir.endsWith('/data')).toBe(true);
-    expect(c.sessionMs).toBe(30 * 86_400_000);
+    expect(c.host).toBe('0.0.0.0');
+    expect(c.maxMessageBytes).toBe(10_485_760);
+    expect(c.sessionMs).toBe(14 * 86_400_000);
     expect(c.logLevel).toBe('info');
     expect(c.webDist.endsWith('/apps/web/dist')).toBe(true);
   });

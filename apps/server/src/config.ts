@@ -63,14 +63,14 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
   const publicUrl = url(env, 'PUBLIC_URL', ['http:', 'https:']);
   return {
     port: int(env, 'PORT', 8080, 0, 65535),
-    host: env.HOST || '127.0.0.1',
+    host: env.HOST || '0.0.0.0',
     databaseUrl: url(env, 'DATABASE_URL', ['postgres:', 'postgresql:']),
     dataDir: resolve(env.DATA_DIR || './data'),
     redisUrl: url(env, 'REDIS_URL', ['redis:', 'rediss:']),
     publicUrl: publicUrl ? new URL(publicUrl).origin : undefined,
-    maxMessageBytes: int(env, 'MAX_MESSAGE_BYTES', 8 * 1024 * 1024, 1024),
+    maxMessageBytes: int(env, 'MAX_MESSAGE_BYTES', 10 * 1024 * 1024, 1024),
     // SESSION_DAYS may be fractional so tests can use seconds-long sessions.
-    sessionMs: Math.round(positive(env, 'SESSION_DAYS', 30) * 86_400_000),
+    sessionMs: Math.round(positive(env, 'SESSION_DAYS', 14) * 86_400_000),
     webDist: resolve(env.WEB_DIST || new URL('../../web/dist', import.meta.url).pathname),
     logLevel,
     maxBodyBytes: int(env, 'MAX_BODY_BYTES', 5 * 1024 * 1024, 1024),
