@@ -104,6 +104,8 @@ describe('plain text: speaker prefixes', () => {
     ['Ольга: hello', 'Ольга'],
     ['田中：hello', '田中'],
     ['سارة: hello', 'سارة'],
+    ['interviewer: hello', 'interviewer'],
+    ['participant 3: hello', 'participant 3'],
   ])('%s has speaker %s', (line, speaker) => {
     expect(parsePlainText(line).turns[0]).toMatchObject({ speaker, text: 'hello' });
   });

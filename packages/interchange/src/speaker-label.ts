@@ -28,7 +28,11 @@ const CANDIDATE = new RegExp(
 /** The speaker candidate at the start of `s`, or null. */
 export function matchLabelCandidate(s: string): LabelCandidate | null {
   const m = CANDIDATE.exec(s);
-  if (!m) return null;
+  if (!m) {
+    // Role words are speakers in any case: "interviewer:", "RESPONDENT 2:".
+    const r = LOWER_ROLE.exec(s);
+    return r ? { label: r[1]!.replace(/[ \t]+/g, ' '), end: r[0].length } : null;
+  }
   const label = shortLabel(m[1]! + m[2]!);
   if (label === null) return null;
   const out: LabelCandidate = { label, end: m[0].length };
@@ -73,7 +77,9 @@ export function isCodeLabel(label: string): boolean {
   return /^[A-Z]{1,4}\d{0,3}$/.test(label) || ROLE.test(label);
 }
 
-const ROLE = /^(Interviewer|Interviewee|Participant|Respondent|Moderator|Facilitator|Speaker|Researcher|Informant|Student|Teacher|Nurse|Patient|Parent|Child|Doctor)( \d{1,3}| [A-Z])?$/;
+const ROLE_WORDS = 'Interviewer|Interviewee|Participant|Respondent|Moderator|Facilitator|Speaker|Researcher|Informant|Student|Teacher|Nurse|Patient|Parent|Child|Doctor';
+const ROLE = new RegExp(`^(?:${ROLE_WORDS})(?: \\d{1,3}| [A-Z])?$`, 'i');
+const LOWER_ROLE = new RegExp(`^((?:${ROLE_WORDS})(?:[ \\t]+(?:\\d{1,3}|[A-Za-z]))?)[ \\t]*:(?=\\s|$)`, 'i');
 
 // Words that open sentences, headings or metadata lines, never a speaker on their own.
 const NOT_NAMES = new Set(
