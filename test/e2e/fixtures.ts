@@ -79,3 +79,39 @@ export async function selectWords(page: Page, phrase: string, occurrence = 0): P
 export async function shot(page: Page, name: string): Promise<void> {
   await page.screenshot({ path: `${ARTIFACTS}${name}.png`, fullPage: false });
 }
+
+/** Goes to the study's codebook screen (from anywhere inside the study or the studies list). */
+export async function openCodebook(p: Person): Promise<void> {
+  if (!(await p.page.getByRole('navigation', { name: 'Study screens' }).isVisible())) {
+    await p.page.getByRole('list', { name: 'Studies' }).getByRole('link').first().click();
+  }
+  await p.page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Codebook' }).click();
+  await expect(p.page.getByRole('navigation', { name: 'Codebook' })).toBeVisible();
+}
+
+/** A lead adds codes through the codebook screen; returns when each is in the tree. */
+export async function addCodes(lead: Person, labels: string[]): Promise<void> {
+  await openCodebook(lead);
+  for (const label of labels) {
+    await lead.page.getByRole('form', { name: 'Add a code' }).getByLabel('New code').fill(label);
+    await lead.page.getByRole('form', { name: 'Add a code' }).getByRole('button', { name: 'Add' }).click();
+    await expect(lead.page.getByRole('tree', { name: 'Codes' }).getByRole('button', { name: label, exact: true })).toBeVisible();
+  }
+}
+
+/** Applies a code to the current selection through the type-ahead picker (mouse path). */
+export async function applyCode(page: Page, label: string): Promise<void> {
+  await page.getByTestId('code-search').fill(label);
+  await page.getByRole('listbox', { name: 'Codes' }).getByRole('button', { name: label, exact: true }).click();
+  await expect(page.getByTestId('coding-message')).toHaveText(`Coded “${label}”.`);
+}
+
+/** Number of segment bars in the margin (optionally of one coder's layer). */
+export function bars(page: Page) {
+  return page.locator('.transcript .margin .bar');
+}
+
+/** Distinct segments drawn in the margin (a segment spanning turns has one bar per turn). */
+export async function segmentIds(page: Page): Promise<string[]> {
+  return page.locator('.transcript .margin .bar').evaluateAll((els) => [...new Set(els.map((e) => (e as HTMLElement).dataset.id!))]);
+}

@@ -1,6 +1,6 @@
 /** The codebook: tree, themes and exclusive sets on the left; the chosen entry and second-cycle actions on the right. */
-import { Show, createMemo, createResource, createSignal } from 'solid-js';
-import { addCode, codeTree, getCodes, listChanges, listExclusiveSets, listThemes } from '@gloss/model';
+import { For, Show, createMemo, createResource, createSignal } from 'solid-js';
+import { addCode, addExclusiveSet, addTheme, codeTree, getCodes, listChanges, listExclusiveSets, listThemes } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
@@ -67,6 +67,16 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
         <CodeTree nodes={tree()} chosen={chosenId()} onChoose={choose} />
         <GroupList title="Themes" groups={themes()} codes={byId()} onChoose={choose} testid="themes" />
         <GroupList title="Mutually exclusive sets" groups={groups()} codes={byId()} onChoose={choose} testid="exclusive-sets" />
+        <Show when={canEdit()}>
+          <GroupForm codes={codes().filter((c) => c.status === 'active')} onCreate={(kind, label, ids) => {
+            try {
+              (kind === 'theme' ? addTheme : addExclusiveSet)(doc, label, ids, { by: props.me.id });
+              setMessage('');
+            } catch (err) {
+              setMessage(errorMessage(err));
+            }
+          }} />
+        </Show>
       </nav>
       <div class="codebook-entry">
         {/* keyed on the id only: edits to the entry must not remount the fields being typed in */}
@@ -94,5 +104,37 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
         </Show>
       </div>
     </div>
+  );
+}
+
+/** Groups codes into a theme or a mutually exclusive set. */
+function GroupForm(props: { codes: Array<{ id: string; label: string }>; onCreate: (kind: 'theme' | 'exclusive', label: string, ids: string[]) => void }) {
+  const [kind, setKind] = createSignal<'theme' | 'exclusive'>('exclusive');
+  const [label, setLabel] = createSignal('');
+  const [ids, setIds] = createSignal<string[]>([]);
+  return (
+    <details class="group-form">
+      <summary>Group codes</summary>
+      <form aria-label="Group codes" onSubmit={(e) => { e.preventDefault(); props.onCreate(kind(), label(), ids()); setLabel(''); setIds([]); }}>
+        <label>Kind
+          <select value={kind()} onChange={(e) => setKind(e.currentTarget.value as 'theme' | 'exclusive')}>
+            <option value="exclusive">mutually exclusive set</option>
+            <option value="theme">theme</option>
+          </select>
+        </label>
+        <label>Name <input value={label()} onInput={(e) => setLabel(e.currentTarget.value)} required /></label>
+        <fieldset>
+          <legend>Codes</legend>
+          <For each={props.codes}>
+            {(c) => (
+              <label class="check">
+                <input type="checkbox" checked={ids().includes(c.id)} onChange={(e) => setIds(e.currentTarget.checked ? [...ids(), c.id] : ids().filter((x) => x !== c.id))} /> {c.label}
+              </label>
+            )}
+          </For>
+        </fieldset>
+        <button type="submit" disabled={ids().length < 2}>Create group</button>
+      </form>
+    </details>
   );
 }

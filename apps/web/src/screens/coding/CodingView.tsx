@@ -37,7 +37,7 @@ export function CodingView(props: CodingViewProps) {
   const role = () => props.scope.study()?.role;
   const isLead = () => role() === 'owner' || role() === 'lead';
   const reflexive = () => props.scope.study()?.mode === 'reflexive';
-  const state = useCodingState(props.text, visibleLayers, props.codebook, { showDisagreement: () => !reflexive() && props.layers.length > 1 });
+  const state = useCodingState(props.text, props.layers, visibleLayers, props.codebook, { showDisagreement: () => !reflexive() && props.layers.length > 1 });
   const mine = props.layers.find((l) => l.mine);
   const undo = mine ? createUndoManager(getSegmentsMap(mine.doc.doc) as unknown as Y.AbstractType<unknown>, null) : undefined;
   onCleanup(() => undo?.destroy());

@@ -14,8 +14,8 @@ import type { CodingState, ViewTurn } from './coding-state.js';
 import type { RemoteCaret } from './text-presence.js';
 import type { Flag } from '../../doc/flags.js';
 
-export const LANE_W = 18;
-const COL_W = 5;
+export const LANE_W = 20;
+const COL_W = 6;
 const FIRST_BATCH = 80;
 const BATCH = 400;
 
@@ -232,6 +232,7 @@ function TurnRow(props: {
               class="bar"
               classList={{ opens: b.opens, closes: b.closes, orphaned: b.orphaned, chosen: props.selected() === b.id }}
               data-id={b.id}
+              data-layer={b.layer}
               style={{
                 left: `${b.lane * LANE_W + b.column * COL_W}px`,
                 top: `${b.top * 100}%`,

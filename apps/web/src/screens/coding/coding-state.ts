@@ -44,18 +44,15 @@ function version(types: Array<Y.AbstractType<any>>): Accessor<number> {
   return v;
 }
 
-export function useCodingState(text: OpenDoc, layers: Accessor<LayerHandle[]>, codebook: OpenDoc, opts: { showDisagreement: Accessor<boolean> }): CodingState {
+/**
+ * `allLayers` are every layer opened for the text (their observers are set up once, here);
+ * `visible` says which of them are drawn and checked for flags.
+ */
+export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, codebook: OpenDoc, opts: { showDisagreement: Accessor<boolean> }): CodingState {
   const textV = version([getText(text.doc), text.doc.getArray('turns')]);
   const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets')]);
-  const layerVersions = new Map<string, Accessor<number>>();
-  const layerV = (l: LayerHandle) => {
-    let v = layerVersions.get(l.doc.room);
-    if (!v) {
-      v = version([l.doc.doc.getMap('segments')]);
-      layerVersions.set(l.doc.room, v);
-    }
-    return v();
-  };
+  const layerVersions = new Map<string, Accessor<number>>(allLayers.map((l) => [l.doc.room, version([l.doc.doc.getMap('segments')])]));
+  const layerV = (l: LayerHandle) => layerVersions.get(l.doc.room)?.();
 
   const words = createMemo(() => (textV(), getText(text.doc).toString()));
   const turns = createMemo(() => viewTurns(readTurns(text.doc), words()));
@@ -63,7 +60,7 @@ export function useCodingState(text: OpenDoc, layers: Accessor<LayerHandle[]>, c
     textV();
     const t = turns();
     const out: Segment[] = [];
-    for (const l of layers()) {
+    for (const l of visible()) {
       layerV(l);
       const records = listSegments(l.doc.doc);
       resolveSegments(text.doc, records, t.length ? t : undefined).forEach((s, i) => {
