@@ -7,8 +7,11 @@ import * as Y from 'yjs';
  * In the browser each user has their own replica: local changes carry the provider-free origin `null`
  * unless one is given, and remote ones the provider, so `createUndoManager(scope, null)` is per-user there.
  */
+/** A type, several types, or a whole document (as Y.UndoManager accepts). */
+export type UndoScope = ConstructorParameters<typeof Y.UndoManager>[0];
+
 export function createUndoManager(
-  scope: Y.AbstractType<unknown> | Array<Y.AbstractType<unknown>>,
+  scope: UndoScope,
   origin: unknown,
   opts: { captureTimeout?: number } = {},
 ): Y.UndoManager {
