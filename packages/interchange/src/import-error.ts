@@ -46,4 +46,9 @@ export class ImportError extends Error {
     this.line = line;
     this.column = init.column;
   }
+
+  /** Plain fields for JSON answers and logs (an Error's message is not enumerable). */
+  toJSON(): { code: ImportErrorCode; message: string; format: ImportFormat; line: number | null; column: number | null } {
+    return { code: this.code, message: this.message, format: this.format, line: this.line, column: this.column ?? null };
+  }
 }

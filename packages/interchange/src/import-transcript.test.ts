@@ -79,6 +79,7 @@ describe('importTranscript: refusals', () => {
     const e = await refusalOf(importTranscript({ filename: 'big.txt', bytes: new Uint8Array(2048).fill(0x61) }, { maxBytes: 1024 }));
     expect([e.code, e.line]).toEqual(['too-large', null]);
     expect(e.message).toBe('the file is 2.0 KiB, over the limit of 1.0 KiB');
+    expect(JSON.parse(JSON.stringify(e))).toEqual({ code: 'too-large', message: e.message, format: 'text', line: null, column: null });
   });
 
   it('never returns a partial transcript: a late error fails the whole import', async () => {
