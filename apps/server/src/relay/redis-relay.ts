@@ -61,6 +61,7 @@ export async function createRedisRelay(redisUrl: string, options: RedisRelayOpti
 
   return {
     nodeId: nodeId.toString('hex'),
+    lossy: true,
     async subscribe(room, onMessage) {
       const channel = CHANNEL_PREFIX + room;
       handlers.set(channel, onMessage);

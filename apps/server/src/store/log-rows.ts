@@ -27,16 +27,14 @@ export async function readLog(db: Db, docId: string, afterSeq: number): Promise<
 }
 
 /** The updates of a read in order (snapshot first) and the highest seq included (at least afterSeq). */
-export function flatten(read: LogRead, afterSeq: number): { updates: Uint8Array[]; seq: number } {
+export function flatten(read: LogRead, afterSeq: number): { updates: Uint8Array[]; seq: number; seqs: number[] } {
   const updates: Uint8Array[] = [];
+  const seqs: number[] = [];
   let seq = afterSeq;
-  if (read.snapshot !== null) {
-    updates.push(read.snapshot.data);
-    seq = Math.max(seq, read.snapshot.seq);
-  }
-  for (const row of read.log) {
+  for (const row of read.snapshot === null ? read.log : [read.snapshot, ...read.log]) {
     updates.push(row.data);
+    seqs.push(row.seq);
     seq = Math.max(seq, row.seq);
   }
-  return { updates, seq };
+  return { updates, seq, seqs };
 }

@@ -11,7 +11,7 @@ export function createMemoryUpdateStore(): UpdateStore & { rows(docId: string): 
   };
   const since = (docId: string, seq: number) => {
     const entries = log(docId).filter((entry) => entry.seq > seq);
-    return { updates: entries.map((entry) => entry.data), seq: entries.at(-1)?.seq ?? seq };
+    return { updates: entries.map((entry) => entry.data), seq: entries.at(-1)?.seq ?? seq, seqs: entries.map((entry) => entry.seq) };
   };
   return {
     load: async (docId) => since(docId, 0),

@@ -61,8 +61,9 @@ describe.each(dbKinds())('PgUpdateStore on %s', (kind) => {
     const later = await store.since(docIds[2]!, seqs[6]!);
     expect(later.updates).toEqual(updates.slice(7));
     expect(later.seq).toBe(seqs[9]);
+    expect(later.seqs).toEqual(seqs.slice(7));
     const none = await store.since(docIds[2]!, seqs[9]!);
-    expect(none).toEqual({ updates: [], seq: seqs[9] });
+    expect(none).toEqual({ updates: [], seq: seqs[9], seqs: [] });
     await store.close();
   });
 

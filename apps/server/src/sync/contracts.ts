@@ -31,8 +31,11 @@ export interface UpdateStore {
   load(docId: string): Promise<{ updates: Uint8Array[]; seq: number }>;
   /** Resolves once the update is committed (group commit inside). Returns its sequence number. */
   append(docId: string, update: Uint8Array, userId: string | null): Promise<number>;
-  /** Updates committed after `seq` (for catch-up after a relay subscription or a lost message). */
-  since(docId: string, seq: number): Promise<{ updates: Uint8Array[]; seq: number }>;
+  /**
+   * Updates committed after `seq` (for catch-up after a relay subscription or a lost message).
+   * `seqs`, when given, is each update's own sequence number (a snapshot's is the highest it folds).
+   */
+  since(docId: string, seq: number): Promise<{ updates: Uint8Array[]; seq: number; seqs?: number[] }>;
   /** Waits for in-flight commits; after this resolves nothing appended earlier is pending. */
   flush(): Promise<void>;
   close(): Promise<void>;
@@ -45,6 +48,8 @@ export interface Relay {
   unsubscribe(room: string): Promise<void>;
   publish(room: string, payload: Uint8Array): Promise<void>;
   close(): Promise<void>;
+  /** True when messages can be lost (pub/sub), so open rooms re-read the log now and then. Absent: false. */
+  readonly lossy?: boolean;
   /** Optional: calls `listener` after the relay reconnected (messages may have been lost); returns an unsubscribe. */
   onReconnect?(listener: () => void): () => void;
 }

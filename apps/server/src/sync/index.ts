@@ -21,7 +21,7 @@ export interface SyncOptions {
   maxMessageBytes: number;
   /** A connection that has not answered the previous ping by the next one is terminated. */
   pingIntervalMs: number;
-  /** How often an open room re-reads the log for updates the relay lost (default 5 s; 0 = never). */
+  /** How often an open room re-reads the log for updates the relay lost (default: 5 s for a lossy relay, else never). */
   catchUpIntervalMs?: number;
   logger?: SyncLogger;
 }
@@ -43,7 +43,7 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
     store: options.store,
     relay: options.relay,
     logger,
-    catchUpIntervalMs: options.catchUpIntervalMs ?? 5_000,
+    catchUpIntervalMs: options.catchUpIntervalMs ?? (options.relay.lossy ? 5_000 : 0),
   });
   const wss = new WebSocketServer({ noServer: true, maxPayload: options.maxMessageBytes });
   const connections = new Set<Connection>();

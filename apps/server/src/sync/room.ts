@@ -44,6 +44,8 @@ export class Room {
   private cursor = 0;
   private lastHigh = 0;
   private catchingUp = false;
+  /** Seqs above the cursor already applied here (own commits, relayed updates): catch-up skips them. */
+  private readonly applied = new Set<number>();
   private timer: NodeJS.Timeout | null = null;
 
   constructor(
@@ -87,9 +89,10 @@ export class Room {
     this.tail = this.tail.then(
       () =>
         committed.then(
-          () => {
+          (seq) => {
             this.applySafely(update, from);
-            this.publish(encodeRelayFrame({ kind: 'update', data: update }));
+            if (this.deps.catchUpIntervalMs > 0) this.applied.add(seq);
+            this.publish(encodeRelayFrame({ kind: 'update', seq, data: update }));
           },
           (cause: unknown) => {
             this.deps.logger.error({ err: cause, room: this.name }, 'update not stored; closing its connection');
@@ -134,11 +137,14 @@ export class Room {
     if (this.stateValue !== 'ready' || this.catchingUp) return;
     this.catchingUp = true;
     try {
-      const { updates, seq } = await this.deps.store.since(this.docId, this.cursor);
+      const { updates, seq, seqs } = await this.deps.store.since(this.docId, this.cursor);
       if (this.stateValue !== 'ready') return;
-      applyAll(this.doc, updates, FROM_STORE, this.deps.logger, this.docId);
+      const missing = seqs === undefined ? updates : updates.filter((_, i) => !this.applied.has(seqs[i]!));
+      applyAll(this.doc, missing, FROM_STORE, this.deps.logger, this.docId);
+      if (seqs !== undefined) for (const s of seqs) this.applied.add(s);
       this.cursor = Math.min(this.lastHigh, seq);
       this.lastHigh = Math.max(this.lastHigh, seq);
+      for (const s of this.applied) if (s <= this.cursor) this.applied.delete(s);
     } catch (error) {
       this.deps.logger.warn({ err: error, room: this.name }, 'catch-up from the log failed; will retry');
     } finally {
@@ -173,8 +179,10 @@ export class Room {
     const frame = decodeRelayFrame(payload);
     if (frame === null) return;
     try {
-      if (frame.kind === 'update') Y.applyUpdate(this.doc, frame.data, FROM_RELAY);
-      else this.submitAwareness(decodeAwarenessUpdate(frame.data), null);
+      if (frame.kind === 'update') {
+        Y.applyUpdate(this.doc, frame.data, FROM_RELAY);
+        if (this.deps.catchUpIntervalMs > 0) this.applied.add(frame.seq);
+      } else this.submitAwareness(decodeAwarenessUpdate(frame.data), null);
     } catch (error) {
       this.deps.logger.warn({ err: error, room: this.name }, 'ignored an unreadable relay message');
     }

@@ -1,0 +1,284 @@
+/**
+ * Relay latency and server CPU per update, Gloss beside the reference: y-websocket 2.1.0's own server
+ * utilities (bin/utils.cjs setupWSConnection, in memory). 10 and 50 clients each make 5 edits/s in one
+ * room; one more client only listens and times each update from send to arrival. Each server runs in
+ * its own child process, which reports its own process.cpuUsage(). Gloss runs as in production:
+ * the real server (startServer), signed-in clients, durable on PGlite (and PostgreSQL when DATABASE_URL
+ * is set). Target (DESIGN.md §9): p99 and CPU per update within 1.2x of the reference at 50 clients.
+ *
+ * Run as a child with BENCH_SERVER=gloss|reference it is the server under test instead.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { createServer } from 'node:http';
+import { createRequire } from 'node:module';
+import type { AddressInfo } from 'node:net';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { createInterface } from 'node:readline';
+import { fileURLToPath } from 'node:url';
+import * as decoding from 'lib0/decoding';
+import * as encoding from 'lib0/encoding';
+import { WebSocket, WebSocketServer } from 'ws';
+import * as Y from 'yjs';
+
+const here = dirname(fileURLToPath(import.meta.url));
+const repoRoot = join(here, '..');
+const EDITS_PER_SEC = 5;
+const WARMUP_MS = 1_000;
+const MEASURE_MS = 5_000;
+
+export type ServerKind = 'reference' | 'gloss-pglite' | 'gloss-postgres';
+
+export interface BenchServer {
+  kind: ServerKind;
+  /** ws://host:port/<prefix>: append the room. */
+  wsBase: string;
+  room: string;
+  headers: Record<string, string>;
+  cpu(): Promise<{ user: number; system: number }>;
+  stop(): Promise<void>;
+}
+
+// ---------------------------------------------------------------------------------------------- child
+
+async function serveReference(): Promise<{ port: number; room: string; wsPath: string }> {
+  const require = createRequire(join(here, 'package.json'));
+  const { setupWSConnection } = require('y-websocket/bin/utils') as {
+    setupWSConnection: (ws: WebSocket, req: unknown, opts: { docName: string }) => void;
+  };
+  const http = createServer((_req, res) => res.writeHead(404).end());
+  const wss = new WebSocketServer({ noServer: true });
+  http.on('upgrade', (req, socket, head) => {
+    wss.handleUpgrade(req, socket, head, (ws) => setupWSConnection(ws, req, { docName: (req.url ?? '/').slice(1).split('?')[0]! }));
+  });
+  await new Promise<void>((resolve) => http.listen(0, '127.0.0.1', resolve));
+  return { port: (http.address() as AddressInfo).port, room: 'bench-room', wsPath: '' };
+}
+
+async function serveGloss(): Promise<{ port: number; room: string; wsPath: string; email: string; password: string; cleanup: string }> {
+  const { startServer } = await import('../apps/server/src/server.js');
+  const { loadConfig } = await import('../apps/server/src/config.js');
+  const admin = await import('../apps/server/src/admin/index.js');
+  const dataDir = process.env.DATABASE_URL ? '' : mkdtempSync(join(tmpdir(), 'gloss-bench-'));
+  const config = loadConfig({
+    PORT: '0',
+    HOST: '127.0.0.1',
+    LOG_LEVEL: 'silent',
+    DATA_DIR: dataDir || join(tmpdir(), 'unused'),
+    DATABASE_URL: process.env.DATABASE_URL ?? '',
+    MAX_MESSAGE_BYTES: String(4 * 1024 * 1024),
+  });
+  const server = await startServer(config);
+  const password = 'bench-password-1';
+  const email = `bench-${Date.now()}@example.test`;
+  const user = await admin.createUser(server.db, { email, name: 'Bench Coder', password });
+  const study = await admin.createStudy(server.db, { title: 'Bench study', createdBy: user.id });
+  return { port: server.port, room: study.memosRoom, wsPath: '/sync', email, password, cleanup: dataDir };
+}
+
+async function childMain(kind: string): Promise<void> {
+  const info = kind === 'reference' ? await serveReference() : await serveGloss();
+  process.stdout.write(JSON.stringify({ event: 'ready', ...info }) + '\n');
+  // Answers "cpu" with this process's CPU time so far (microseconds).
+  createInterface({ input: process.stdin }).on('line', (line) => {
+    if (line === 'cpu') process.stdout.write(JSON.stringify({ event: 'cpu', ...process.cpuUsage() }) + '\n');
+  });
+  process.stdin.on('end', () => {
+    const folder = 'cleanup' in info ? String(info.cleanup) : '';
+    if (folder) rmSync(folder, { recursive: true, force: true });
+    process.exit(0);
+  });
+}
+
+// --------------------------------------------------------------------------------------------- parent
+
+/** Starts a server of `kind` in a child process (tsx via --import, so the pid is the server's own). */
+export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
+  const env: NodeJS.ProcessEnv = { ...process.env, BENCH_SERVER: kind === 'reference' ? 'reference' : 'gloss' };
+  if (kind === 'gloss-pglite') delete env.DATABASE_URL;
+  const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', fileURLToPath(import.meta.url)], {
+    cwd: repoRoot,
+    env,
+    stdio: ['pipe', 'pipe', 'inherit'],
+  });
+  const lines = createInterface({ input: child.stdout! });
+  const waiters: Array<(msg: Record<string, unknown>) => boolean> = [];
+  lines.on('line', (line) => {
+    if (!line.startsWith('{')) return;
+    const msg = JSON.parse(line) as Record<string, unknown>;
+    const i = waiters.findIndex((w) => w(msg));
+    if (i >= 0) waiters.splice(i, 1);
+  });
+  const next = (event: string) =>
+    new Promise<Record<string, unknown>>((resolve, reject) => {
+      const timer = setTimeout(() => reject(new Error(`bench server (${kind}): no ${event} line`)), 60_000);
+      waiters.push((msg) => (msg.event === event ? (clearTimeout(timer), resolve(msg), true) : false));
+    });
+  const ready = await next('ready');
+  const http = `http://127.0.0.1:${ready.port as number}`;
+  let headers: Record<string, string> = {};
+  if (kind !== 'reference') {
+    const res = await fetch(`${http}/api/session`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', origin: http },
+      body: JSON.stringify({ email: ready.email, password: ready.password }),
+    });
+    const cookie = res.headers.getSetCookie().map((c) => c.split(';', 1)[0]!).find((c) => c.startsWith('gloss_session='));
+    if (!cookie) throw new Error(`bench sign-in failed: ${res.status}`);
+    headers = { cookie, origin: http };
+  }
+  return {
+    kind,
+    wsBase: `ws://127.0.0.1:${ready.port as number}${ready.wsPath as string}`,
+    room: ready.room as string,
+    headers,
+    async cpu() {
+      const reply = next('cpu');
+      child.stdin!.write('cpu\n');
+      const msg = await reply;
+      return { user: msg.user as number, system: msg.system as number };
+    },
+    async stop() {
+      const exited = new Promise((resolve) => child.once('exit', resolve));
+      child.stdin!.end();
+      await exited;
+    },
+  };
+}
+
+/** A bare protocol client: answers nothing, decodes only what it is asked to time. */
+export function openSocket(server: BenchServer, onMessage?: (data: Uint8Array) => void): Promise<WebSocket> {
+  const ws = new WebSocket(`${server.wsBase}/${server.room}`, { headers: server.headers });
+  ws.binaryType = 'nodebuffer';
+  if (onMessage) ws.on('message', (data: Buffer) => onMessage(new Uint8Array(data.buffer, data.byteOffset, data.byteLength)));
+  return new Promise((resolve, reject) => {
+    ws.once('open', () => resolve(ws));
+    ws.once('error', reject);
+  });
+}
+
+function syncMessage(step: number, payload: Uint8Array): Uint8Array {
+  const e = encoding.createEncoder();
+  encoding.writeVarUint(e, 0);
+  encoding.writeVarUint(e, step);
+  encoding.writeVarUint8Array(e, payload);
+  return encoding.toUint8Array(e);
+}
+
+/** The (client, clock) ids of the structs in a sync update message, or [] for other messages. */
+function updateIds(message: Uint8Array): string[] {
+  const d = decoding.createDecoder(message);
+  if (decoding.readVarUint(d) !== 0) return [];
+  const step = decoding.readVarUint(d);
+  if (step !== 2 && step !== 1) return [];
+  const update = decoding.readVarUint8Array(d);
+  return Y.decodeUpdate(update).structs.map((s) => `${s.id.client}:${s.id.clock}`);
+}
+
+export function percentile(sorted: number[], p: number): number {
+  if (sorted.length === 0) return NaN;
+  return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!;
+}
+
+const round = (n: number, digits = 2) => Math.round(n * 10 ** digits) / 10 ** digits;
+
+async function measure(kind: ServerKind, clients: number): Promise<Record<string, unknown> & { name: string }> {
+  const server = await startBenchServer(kind);
+  try {
+    const sentAt = new Map<string, number>();
+    const latencies: number[] = [];
+    let measuring = false;
+    const listener = await openSocket(server, (message) => {
+      const now = performance.now();
+      for (const id of updateIds(message)) {
+        const t = sentAt.get(id);
+        if (t !== undefined) {
+          sentAt.delete(id);
+          if (measuring) latencies.push(now - t);
+        }
+      }
+    });
+    listener.send(syncMessage(0, Y.encodeStateVector(new Y.Doc())));
+    const editors = await Promise.all(Array.from({ length: clients }, () => openSocket(server)));
+    let sent = 0;
+    const timers = editors.map((ws, i) => {
+      const doc = new Y.Doc();
+      const text = doc.getText('text');
+      let pending: Uint8Array | null = null;
+      doc.on('update', (u: Uint8Array) => (pending = u));
+      const edit = () => {
+        const clock = Y.getState(doc.store, doc.clientID);
+        text.insert(Math.floor(Math.random() * (text.length + 1)), 'a coded remark ');
+        sentAt.set(`${doc.clientID}:${clock}`, performance.now());
+        ws.send(syncMessage(2, pending!));
+        if (measuring) sent++;
+      };
+      // Stagger the clients across the 200 ms period.
+      let interval: NodeJS.Timeout | undefined;
+      const start = setTimeout(() => {
+        edit();
+        interval = setInterval(edit, 1000 / EDITS_PER_SEC);
+      }, (i * 1000) / EDITS_PER_SEC / clients);
+      return () => (clearTimeout(start), clearInterval(interval));
+    });
+    await new Promise((resolve) => setTimeout(resolve, WARMUP_MS));
+    const cpu0 = await server.cpu();
+    measuring = true;
+    await new Promise((resolve) => setTimeout(resolve, MEASURE_MS));
+    measuring = false;
+    const cpu1 = await server.cpu();
+    for (const stop of timers) stop();
+    // Let the last measured updates arrive (bounded) before counting losses.
+    const deadline = Date.now() + 3_000;
+    while (Date.now() < deadline && latencies.length < sent) await new Promise((resolve) => setTimeout(resolve, 20));
+    for (const ws of [...editors, listener]) ws.terminate();
+    latencies.sort((a, b) => a - b);
+    const cpuUs = cpu1.user - cpu0.user + (cpu1.system - cpu0.system);
+    return {
+      name: 'relay',
+      server: kind === 'reference' ? 'y-websocket-2.1.0-utils (memory)' : kind,
+      clients,
+      editsPerSecPerClient: EDITS_PER_SEC,
+      updatesSent: sent,
+      updatesTimed: latencies.length,
+      p50Ms: round(percentile(latencies, 50)),
+      p99Ms: round(percentile(latencies, 99)),
+      serverCpuUsPerUpdate: round(cpuUs / Math.max(1, sent), 1),
+      serverCpuPercent: round((cpuUs / 1000 / MEASURE_MS) * 100, 1),
+    };
+  } finally {
+    await server.stop();
+  }
+}
+
+export async function run(): Promise<Array<Record<string, unknown> & { name: string }>> {
+  const kinds: ServerKind[] = ['reference', 'gloss-pglite'];
+  if (process.env.DATABASE_URL) kinds.push('gloss-postgres');
+  const records: Array<Record<string, unknown> & { name: string }> = [];
+  for (const clients of [10, 50]) {
+    const byKind = new Map<ServerKind, Record<string, unknown>>();
+    for (const kind of kinds) {
+      const record = await measure(kind, clients);
+      byKind.set(kind, record);
+      records.push(record);
+    }
+    const ref = byKind.get('reference')!;
+    for (const kind of kinds.filter((k) => k !== 'reference')) {
+      const r = byKind.get(kind)!;
+      records.push({
+        name: 'relay-vs-reference',
+        server: kind,
+        clients,
+        p99Ratio: round((r.p99Ms as number) / (ref.p99Ms as number)),
+        cpuPerUpdateRatio: round((r.serverCpuUsPerUpdate as number) / (ref.serverCpuUsPerUpdate as number)),
+        target: clients === 50 ? '<= 1.2' : 'informative',
+      });
+    }
+  }
+  return records;
+}
+
+if (process.env.BENCH_SERVER && process.argv[1] === fileURLToPath(import.meta.url)) {
+  await childMain(process.env.BENCH_SERVER);
+}
