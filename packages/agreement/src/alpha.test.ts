@@ -1,7 +1,9 @@
 import fc from 'fast-check';
 import { alpha as npmAlpha } from 'krippendorff';
 import { describe, expect, it } from 'vitest';
-import { krippendorffAlpha } from './alpha.js';
+import { alphaFromCoincidences, krippendorffAlpha } from './alpha.js';
+import { coincidences } from './coincidence.js';
+import { encodeReliabilityData } from './encode.js';
 import { scottPi } from './kappa.js';
 import type { Level } from './types.js';
 import { tableFromData } from './table.js';
@@ -158,6 +160,25 @@ describe('krippendorffAlpha: properties (fast-check)', () => {
           if (want === null) expect(pv.value).toBeNull();
           else expect(pv.value).toBeCloseTo(want, 10);
         }
+      }),
+    );
+  });
+});
+
+describe('krippendorffAlpha: the one-pass nominal path agrees with the full coincidence matrix', () => {
+  it('same value, D_o, D_e and per-value alphas (property)', () => {
+    fc.assert(
+      fc.property(matrix(5, true), (data) => {
+        const fast = krippendorffAlpha(data);
+        const enc = encodeReliabilityData(data);
+        const full = alphaFromCoincidences(coincidences(enc), enc.values, 'nominal');
+        expect(fast.reason).toBe(full.reason);
+        expect(fast.n).toBe(full.n);
+        expect(fast.units).toBe(full.units);
+        if (full.value !== null) expect(fast.value).toBeCloseTo(full.value, 10);
+        if (full.D_o !== null) expect(fast.D_o).toBeCloseTo(full.D_o, 10);
+        expect((fast.perValue ?? []).map((v) => v.category)).toEqual((full.perValue ?? []).map((v) => v.category));
+        (fast.perValue ?? []).forEach((v, i) => (v.value === null ? expect(full.perValue![i]!.value).toBeNull() : expect(v.value).toBeCloseTo(full.perValue![i]!.value!, 10)));
       }),
     );
   });

@@ -1,6 +1,7 @@
 import { coincidences, type Coincidences } from './coincidence.js';
 import { distanceMatrix } from './distance.js';
 import { encodeReliabilityData, type EncodedData } from './encode.js';
+import { nominalTallies, type NominalTallies } from './nominal-fast.js';
 import type { Estimate, Level, ReliabilityData, Value } from './types.js';
 
 export interface AlphaOptions {
@@ -36,6 +37,7 @@ export interface AlphaResult extends Estimate {
  */
 export function krippendorffAlpha(data: ReliabilityData, options: AlphaOptions = {}): AlphaResult {
   const level = options.level ?? 'nominal';
+  if (level === 'nominal' && !options.order) return nominalAlpha(nominalTallies(data));
   const enc = encodeReliabilityData(data, { level, order: options.order });
   return alphaFromEncoded(enc, level);
 }
@@ -62,21 +64,37 @@ export function alphaFromCoincidences(co: Coincidences, values: ReadonlyArray<Va
   const D_e = exp / (n * (n - 1));
   const result: AlphaResult =
     D_e === 0 ? { ...base, value: null, reason: 'no-variation', D_o, D_e } : { ...base, value: 1 - D_o / D_e, D_o, D_e };
-  if (level === 'nominal') result.perValue = valueAlphas(co, values);
+  if (level === 'nominal') result.perValue = valueAlphas(values, Float64Array.from({ length: k }, (_, c) => o[c * k + c]!), nc, n);
   return result;
 }
 
+/** Nominal alpha from the diagonal and marginals alone: D_o = (n - sum o_cc)/n, D_e = (n^2 - sum n_c^2)/(n(n-1)). */
+function nominalAlpha(t: NominalTallies): AlphaResult {
+  const { n, nc, diag } = t;
+  const base = { statistic: 'krippendorff-alpha' as const, level: 'nominal' as const, n, units: t.pairableUnits };
+  if (n < 2 || t.pairableUnits === 0) return { ...base, value: null, reason: 'no-pairable-values', D_o: null, D_e: null };
+  let agree = 0;
+  let squares = 0;
+  for (let c = 0; c < nc.length; c++) {
+    agree += diag[c]!;
+    squares += nc[c]! * nc[c]!;
+  }
+  const D_o = (n - agree) / n;
+  const D_e = (n * n - squares) / (n * (n - 1));
+  const perValue = valueAlphas(t.values, diag, nc, n);
+  return D_e === 0 ? { ...base, value: null, reason: 'no-variation', D_o, D_e, perValue } : { ...base, value: 1 - D_o / D_e, D_o, D_e, perValue };
+}
+
 /** alpha_c = 1 - (n-1)(n_c - o_cc) / (n_c (n - n_c)): nominal alpha of the data recoded to c vs. not c. */
-function valueAlphas(co: Coincidences, values: ReadonlyArray<Value>): ValueAlpha[] {
-  const { k, o, nc, n } = co;
+function valueAlphas(values: ReadonlyArray<Value>, diag: ArrayLike<number>, nc: ArrayLike<number>, n: number): ValueAlpha[] {
   const out: ValueAlpha[] = [];
-  for (let c = 0; c < k; c++) {
+  for (let c = 0; c < values.length; c++) {
     const nC = nc[c]!;
     const denom = nC * (n - nC);
     out.push(
       denom === 0
         ? { category: values[c]!, n: nC, value: null, reason: 'no-variation' }
-        : { category: values[c]!, n: nC, value: 1 - ((n - 1) * (nC - o[c * k + c]!)) / denom },
+        : { category: values[c]!, n: nC, value: 1 - ((n - 1) * (nC - diag[c]!)) / denom },
     );
   }
   return out;
