@@ -4,7 +4,7 @@
  * Names, places and words are made up.
  */
 import { addTextFromTranscript, transcriptFromPlainText } from '../../apps/server/src/admin/index.js';
-import { type Db, updates } from '@gloss/db';
+import { type Db, asc, eq, snapshots, updates } from '@gloss/db';
 import { addCode, createCodebookDoc } from '@gloss/model';
 import * as Y from 'yjs';
 import { apiClient, type ApiClient } from '../support/http.js';
@@ -23,8 +23,8 @@ export interface CodingSeed extends BasicSeed {
   codes: { tools: string; access: string; time: string; place: string };
 }
 
-/** Writes codebook state as a log update (the server reads snapshot + log). */
-async function appendUpdate(db: Db, docId: string, doc: Y.Doc): Promise<void> {
+/** Writes a document's state as a log update (the server reads snapshot + log). */
+export async function appendUpdate(db: Db, docId: string, doc: Y.Doc): Promise<void> {
   const data = Y.encodeStateAsUpdate(doc);
   await db.insert(updates).values({ docId, data, bytes: data.byteLength });
 }
@@ -66,4 +66,14 @@ export async function until(check: () => boolean | Promise<boolean>, what: strin
     if (Date.now() > deadline) throw new Error(`timed out waiting for: ${what}`);
     await new Promise((resolve) => setTimeout(resolve, 20));
   }
+}
+
+/** A stored document (snapshot, then log) read straight from the tables, for seeding before a start. */
+export async function loadStoredDoc(db: Db, docId: string): Promise<Y.Doc> {
+  const doc = new Y.Doc({ gc: false });
+  const [snap] = await db.select().from(snapshots).where(eq(snapshots.docId, docId));
+  if (snap) Y.applyUpdate(doc, snap.data);
+  const rows = await db.select().from(updates).where(eq(updates.docId, docId)).orderBy(asc(updates.seq));
+  for (const r of rows) if (!snap || r.seq > snap.seq) Y.applyUpdate(doc, r.data);
+  return doc;
 }
