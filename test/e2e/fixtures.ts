@@ -41,7 +41,9 @@ export async function signIn(browser: Browser, who: Account, baseURL: string): P
 
 /** Opens the demo study, then the text with the given title (or the first text). */
 export async function openText(p: Person, title?: string): Promise<void> {
-  await p.page.getByRole('list', { name: 'Studies' }).getByRole('link').first().click();
+  const tabs = p.page.getByRole('navigation', { name: 'Study screens' });
+  if (await tabs.isVisible()) await tabs.getByRole('link', { name: 'Texts' }).click();
+  else await p.page.getByRole('list', { name: 'Studies' }).getByRole('link').first().click();
   await expect(p.page.getByRole('heading', { name: 'Texts' })).toBeVisible();
   const links = p.page.locator('table.texts a');
   await (title ? p.page.getByRole('link', { name: title }) : links.first()).click();

@@ -19,6 +19,7 @@ import { commandFor, KEY_HELP, type Command } from './coding-keys.js';
 import { nextWordEnd, ordered, prevWordStart, type Sel } from './keyboard-selection.js';
 import { rangeFor } from './dom-selection.js';
 import { errorMessage } from '../../api/errors.js';
+import { diff } from '../../ui/ytext-binding.js';
 
 export interface CodingViewProps {
   studyId: string;
@@ -226,7 +227,9 @@ export function CodingView(props: CodingViewProps) {
           <form class="inline-form" aria-label="Correct the selected words" onSubmit={(e) => {
             e.preventDefault();
             const s = sel();
-            if (s) attempt('Words corrected.', () => correctText(props.text.doc, s.start, s.end - s.start, correction()!));
+            // only the changed middle is rewritten, so anchors on untouched characters stay where they are
+            const [i, del, ins] = s ? diff(state.words().slice(s.start, s.end), correction()!) : [0, 0, ''];
+            if (s) attempt('Words corrected.', () => correctText(props.text.doc, s.start + i, del, ins));
             setCorrection(null);
             setSelection(null);
           }}>
