@@ -10,7 +10,10 @@ import { dbKinds, spawnServer, type SpawnedServer } from '../support/server.js';
 import { clientFor, gcOffClient, seedCoding, until, type CodingSeed } from './support.js';
 
 // fflate is the interchange package's ZIP library; borrowed from there to build a real .docx.
-const { zipSync, strToU8 } = createRequire(new URL('../../packages/interchange/package.json', import.meta.url))('fflate') as typeof import('fflate');
+const { zipSync, strToU8 } = createRequire(new URL('../../packages/interchange/package.json', import.meta.url))('fflate') as {
+  zipSync(files: Record<string, Uint8Array>): Uint8Array;
+  strToU8(s: string): Uint8Array;
+};
 
 const VTT = `WEBVTT
 

@@ -6,9 +6,12 @@ import { Hono } from 'hono';
 import { z } from 'zod';
 import type { AppEnv } from './context.js';
 import * as S from './schemas.js';
+import { codingPaths } from './openapi-coding.js';
 
 const components = {
   AddMemberBody: S.AddMemberBody,
+  AuditEntry: S.AuditEntry,
+  UpdateStudyBody: S.UpdateStudyBody,
   ChangeRoleBody: S.ChangeRoleBody,
   Error: S.ErrorResponse,
   Health: S.Health,
@@ -95,6 +98,25 @@ export function buildOpenApi() {
           parameters: [idParam('studyId')],
           responses: { ...ok('Study', 'The study'), ...errors(401, 404) },
         },
+        patch: {
+          summary: 'Change title, description, mode or retention date; owner',
+          security: secured,
+          parameters: [idParam('studyId')],
+          requestBody: body('UpdateStudyBody'),
+          responses: { ...ok('Study', 'Changed'), ...errors(400, 401, 403, 404) },
+        },
+      },
+      '/api/studies/{studyId}/audit': {
+        get: {
+          summary: 'Access and change log of the study, newest first; owner and lead',
+          security: secured,
+          parameters: [
+            idParam('studyId'),
+            { name: 'limit', in: 'query', required: false, schema: { type: 'integer', minimum: 1, maximum: 500, default: 100 } },
+            { name: 'before', in: 'query', required: false, description: 'Only entries with a smaller id (paging)', schema: { type: 'integer', minimum: 1 } },
+          ],
+          responses: { ...list('AuditEntry', 'Entries'), ...errors(400, 401, 403, 404) },
+        },
       },
       '/api/studies/{studyId}/members': {
         get: { summary: 'Members', security: secured, parameters: [idParam('studyId')], responses: { ...list('Member', 'Members'), ...errors(401, 404) } },
@@ -139,6 +161,7 @@ export function buildOpenApi() {
           responses: { ...ok('TextDetail', 'The text'), ...errors(401, 404) },
         },
       },
+      ...codingPaths,
     },
   };
 }

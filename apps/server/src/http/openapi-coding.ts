@@ -1,0 +1,99 @@
+/** OpenAPI paths of the coding-model endpoints (segments, import, versions, agreement); openapi.ts spreads them in. */
+import { z } from 'zod';
+import { AgreementQuery } from './agreement.js';
+import { NewVersionBody } from './versions.js';
+
+const secured = [{ session: [] }];
+const err = { $ref: '#/components/schemas/Error' };
+const json = (schema: object) => ({ content: { 'application/json': { schema } } });
+const errors = (...codes: number[]) => Object.fromEntries(codes.map((c) => [String(c), { description: 'Error', ...json(err) }]));
+const path = (name: string) => ({ name, in: 'path', required: true, schema: { type: 'string', format: 'uuid' } });
+const toSchema = (s: z.ZodType) => {
+  const { $schema: _drop, ...rest } = z.toJSONSchema(s, { target: 'draft-2020-12', io: 'input' }) as Record<string, unknown>;
+  return rest;
+};
+
+const segment = {
+  type: 'object',
+  required: ['id', 'coderId', 'codeId', 'start', 'end', 'quote', 'flags'],
+  properties: {
+    id: { type: 'string' },
+    coderId: { type: 'string', format: 'uuid' },
+    codeId: { type: 'string' },
+    start: { type: 'integer', description: 'UTF-16 offset into the current text' },
+    end: { type: 'integer' },
+    quote: { type: 'string' },
+    flags: { type: 'array', items: { type: 'string', enum: ['disagreement', 'exclusive', 'duplicate', 'retired-code', 'orphaned', 'definition-race', 'stale-definition'] } },
+  },
+};
+const version = {
+  type: 'object',
+  properties: { id: { type: 'string', format: 'uuid' }, name: { type: 'string' }, createdAt: { type: 'string' }, createdBy: { type: ['object', 'null'] } },
+};
+const agreementParams = Object.entries((toSchema(AgreementQuery) as { properties: Record<string, object> }).properties).map(([name, schema]) => ({
+  name,
+  in: 'query',
+  required: false,
+  schema,
+}));
+
+export const codingPaths = {
+  '/api/texts/{textId}/segments': {
+    get: {
+      summary: 'Segments of every layer the caller may see, resolved from the current documents, with their flags',
+      security: secured,
+      parameters: [path('textId')],
+      responses: { '200': { description: 'Segments, ordered by start', ...json({ type: 'array', items: segment }) }, ...errors(401, 404) },
+    },
+  },
+  '/api/studies/{studyId}/texts/import': {
+    post: {
+      summary: 'Import a transcript file (txt, vtt, srt, docx); owner and lead. Accept: application/x-ndjson streams {"progress"} lines then {"text"}',
+      security: secured,
+      parameters: [
+        path('studyId'),
+        { name: 'filename', in: 'query', required: false, schema: { type: 'string' }, description: 'Required with a raw body' },
+        { name: 'title', in: 'query', required: false, schema: { type: 'string' } },
+      ],
+      requestBody: {
+        required: true,
+        content: {
+          'multipart/form-data': { schema: { type: 'object', properties: { file: { type: 'string', format: 'binary' }, title: { type: 'string' } }, required: ['file'] } },
+          'application/octet-stream': { schema: { type: 'string', format: 'binary' } },
+        },
+      },
+      responses: {
+        '201': { description: 'Created', ...json({ $ref: '#/components/schemas/TextSummary' }) },
+        '200': { description: 'NDJSON stream', content: { 'application/x-ndjson': { schema: { type: 'string' } } } },
+        '422': { description: 'The importer refused the file; details give format, line and column', ...json(err) },
+        ...errors(400, 401, 403, 404, 413),
+      },
+    },
+  },
+  '/api/documents/{room}/versions': {
+    get: { summary: 'Named versions of a text or codebook document', security: secured, parameters: [path('room')], responses: { '200': { description: 'Versions', ...json({ type: 'array', items: version }) }, ...errors(400, 401, 403, 404) } },
+    post: {
+      summary: 'Name the current state of a text or codebook document; whoever may edit it (owner, lead). Audited',
+      security: secured,
+      parameters: [path('room')],
+      requestBody: { required: true, ...json(toSchema(NewVersionBody)) },
+      responses: { '201': { description: 'Created', ...json(version) }, ...errors(400, 401, 403, 404) },
+    },
+  },
+  '/api/documents/{room}/versions/{versionId}': {
+    get: {
+      summary: 'A version read-only (text and turns, or codebook entries) and its comparison with the current state',
+      security: secured,
+      parameters: [path('room'), path('versionId')],
+      responses: { '200': { description: 'The version' }, ...errors(400, 401, 403, 404) },
+    },
+  },
+  '/api/studies/{studyId}/agreement': {
+    get: {
+      summary: 'Intercoder agreement (pooled, per code, per text, per coder pair); owner, lead, observer; reflexive studies get differences instead. Audited',
+      security: secured,
+      parameters: [path('studyId'), ...agreementParams],
+      responses: { '200': { description: 'The report' }, ...errors(400, 401, 403, 404) },
+    },
+  },
+};
