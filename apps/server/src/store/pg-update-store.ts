@@ -3,15 +3,16 @@
  * RETURNING seq per batch, across documents), and compaction when a document's log outgrows its
  * snapshot, run off the append path.
  */
-import { updates, type Database } from '@gloss/db';
+import type { Database } from '@gloss/db';
 import type { UpdateStore } from '../sync/contracts.js';
 import { compactDocument, type CompactionResult } from './compaction.js';
 import { StoreError } from './errors.js';
 import { GroupCommit } from './group-commit.js';
+import { insertBatch, type LogRow } from './insert-batch.js';
 import { flatten, readLog } from './log-rows.js';
 
 export interface PgUpdateStoreOptions {
-  /** Most rows in one INSERT (default 2,000; 4 parameters each stays far below PostgreSQL's 65,535). */
+  /** Most rows in one INSERT (default 2,000). */
   maxBatch?: number;
   /** Fold when the log's bytes pass the snapshot's and at least this many (default 64 KiB); 0 disables. */
   compactMinBytes?: number;
@@ -27,12 +28,6 @@ export interface PgUpdateStore extends UpdateStore {
   stats(): { batches: number; rows: number; compactions: number };
 }
 
-interface Row {
-  docId: string;
-  data: Uint8Array;
-  userId: string | null;
-}
-
 /** Byte counts of documents seen by this node; other nodes' appends and folds make them estimates. */
 interface Sizes {
   logBytes: number;
@@ -46,17 +41,12 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
   let closed = false;
   const counts = { batches: 0, rows: 0, compactions: 0 };
 
-  const commits = new GroupCommit<Row, number>(async (rows) => {
-    const inserted = await database.db
-      .insert(updates)
-      .values(rows.map((row) => ({ docId: row.docId, data: row.data, bytes: row.data.length, userId: row.userId })))
-      .returning({ seq: updates.seq });
-    if (inserted.length !== rows.length) throw new StoreError('append-failed', 'insert returned a different row count');
+  const commits = new GroupCommit<LogRow, number>(async (rows) => {
+    const seqs = await insertBatch(database.db, rows);
     counts.batches++;
     counts.rows += rows.length;
     for (const row of rows) noteAppend(row.docId, row.data.length);
-    // PostgreSQL returns the rows of INSERT … VALUES … RETURNING in VALUES order.
-    return inserted.map((r) => Number(r.seq));
+    return seqs;
   }, options.maxBatch ?? 2_000);
 
   function noteAppend(docId: string, bytes: number): void {

@@ -1,0 +1,47 @@
+/**
+ * One multi-row INSERT for a batch of log rows, with a fixed number of parameters: the updates travel
+ * as one concatenated bytea plus offset/length arrays and are cut apart by the database. (Building a
+ * 1,000-row VALUES list through the query builder cost ~60 ms of CPU here; this costs well under 1.)
+ */
+import { rowsOf, type Db } from '@gloss/db';
+import { sql } from 'drizzle-orm';
+import { StoreError } from './errors.js';
+
+export interface LogRow {
+  docId: string;
+  data: Uint8Array;
+  userId: string | null;
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** Inserts the rows in order; returns their seqs in the same order. */
+export async function insertBatch(db: Db, rows: readonly LogRow[]): Promise<number[]> {
+  const blob = Buffer.allocUnsafe(rows.reduce((n, row) => n + row.data.length, 0));
+  const offsets: number[] = [];
+  const lengths: number[] = [];
+  let offset = 0;
+  for (const row of rows) {
+    // Ids go into array literals below, so they must be plain UUIDs.
+    if (!UUID.test(row.docId) || (row.userId !== null && !UUID.test(row.userId))) {
+      throw new StoreError('append-failed', `not a UUID: ${row.docId} / ${row.userId}`);
+    }
+    blob.set(row.data, offset);
+    offsets.push(offset);
+    lengths.push(row.data.length);
+    offset += row.data.length;
+  }
+  const docIds = `{${rows.map((row) => row.docId).join(',')}}`;
+  const userIds = `{${rows.map((row) => row.userId ?? 'NULL').join(',')}}`;
+  const result = await db.execute(sql`
+    insert into updates (doc_id, data, bytes, user_id)
+    select d.doc_id, substring(${blob}::bytea from d.off + 1 for d.len), d.len, d.user_id
+    from unnest(${docIds}::uuid[], ${`{${offsets.join(',')}}`}::int[], ${`{${lengths.join(',')}}`}::int[], ${userIds}::uuid[])
+      with ordinality as d(doc_id, off, len, user_id, n)
+    order by d.n
+    returning seq`);
+  // nextval() runs in insertion order, so ascending seqs are the rows in order.
+  const seqs = rowsOf<{ seq: number | string }>(result).map((r) => Number(r.seq)).sort((a, b) => a - b);
+  if (seqs.length !== rows.length) throw new StoreError('append-failed', `inserted ${seqs.length} of ${rows.length} rows`);
+  return seqs;
+}
