@@ -1,4 +1,5 @@
 import { coincidences, type Coincidences } from './coincidence.js';
+import { AgreementError } from './errors.js';
 import { distanceMatrix } from './distance.js';
 import { encodeReliabilityData, type EncodedData } from './encode.js';
 import { nominalTallies, type NominalTallies } from './nominal-fast.js';
@@ -60,6 +61,8 @@ export function alphaFromCoincidences(co: Coincidences, values: ReadonlyArray<Va
       obs += o[c * k + d]! * dd;
       exp += nc[c]! * nc[d]! * dd;
     }
+  if (!Number.isFinite(obs) || !Number.isFinite(exp))
+    throw new AgreementError('invalid-value', 'values too large: the disagreement sums overflow; rescale the values');
   const D_o = obs / n;
   const D_e = exp / (n * (n - 1));
   const result: AlphaResult =

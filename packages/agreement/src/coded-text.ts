@@ -29,7 +29,7 @@ export interface CodedText {
 export function checkCodedText(text: CodedText): void {
   if (!text || typeof text !== 'object') throw new AgreementError('invalid-input', 'a text must be an object');
   const where = `text ${String(text.textId)}`;
-  if (!Number.isInteger(text.textLength) || text.textLength < 0) throw new AgreementError('invalid-input', `${where}: textLength must be a non-negative integer`);
+  if (!Number.isSafeInteger(text.textLength) || text.textLength < 0) throw new AgreementError('invalid-input', `${where}: textLength must be a non-negative integer`);
   if (!Array.isArray(text.segments)) throw new AgreementError('invalid-input', `${where}: segments must be an array`);
   for (const s of text.segments) {
     if (!s || typeof s.coderId !== 'string' || typeof s.codeId !== 'string')
@@ -43,7 +43,8 @@ export function checkCodedText(text: CodedText): void {
 }
 
 function checkRange(r: { start: number; end: number }, length: number, what: string): void {
-  if (!Number.isInteger(r.start) || !Number.isInteger(r.end) || r.start >= r.end)
+  if (!r || typeof r !== 'object') throw new AgreementError('invalid-input', `${what} must be an object with start and end`);
+  if (!Number.isSafeInteger(r.start) || !Number.isSafeInteger(r.end) || r.start >= r.end)
     throw new AgreementError('invalid-value', `${what} needs integer offsets with start < end, got [${r.start}, ${r.end})`);
   if (r.start < 0 || r.end > length) throw new AgreementError('span-outside-continuum', `${what} [${r.start}, ${r.end}) lies outside the text (length ${length})`);
 }

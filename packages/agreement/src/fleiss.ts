@@ -33,13 +33,14 @@ export interface FleissResult extends Estimate {
  */
 export function fleissKappa(counts: ReadonlyArray<ReadonlyArray<number>>, categories?: ReadonlyArray<Value>): FleissResult {
   if (!Array.isArray(counts) || counts.length === 0) throw new AgreementError('invalid-input', 'counts must be a non-empty array of unit rows');
-  const k = counts[0]!.length;
+  if (!Array.isArray(counts[0])) throw new AgreementError('invalid-input', 'every unit row must be an array of counts');
+  const k = counts[0].length;
   let raters = -1;
   for (const row of counts) {
     if (!Array.isArray(row) || row.length !== k) throw new AgreementError('invalid-input', 'every unit row needs one count per category');
     let s = 0;
     for (const x of row) {
-      if (typeof x !== 'number' || !Number.isInteger(x) || x < 0) throw new AgreementError('invalid-value', 'counts must be non-negative integers');
+      if (typeof x !== 'number' || !Number.isSafeInteger(x) || x < 0 || x > 1e6) throw new AgreementError('invalid-value', 'counts must be integers from 0 to 1,000,000');
       s += x;
     }
     if (raters === -1) raters = s;

@@ -1,3 +1,4 @@
+import { AgreementError } from './errors.js';
 import { checkTable } from './table.js';
 import type { Estimate } from './types.js';
 
@@ -40,6 +41,7 @@ function margins(table: ReadonlyArray<ReadonlyArray<number>>): Margins {
   const k = table.length;
   let n = 0;
   for (const row of table) for (const x of row) n += x;
+  if (!Number.isFinite(n)) throw new AgreementError('invalid-value', 'table total overflows');
   const p = table.map((row) => row.map((x) => (n > 0 ? x / n : 0)));
   const rows = p.map((row) => row.reduce((s, x) => s + x, 0));
   const cols = p[0]!.map((_, j) => p.reduce((s, row) => s + row[j]!, 0));

@@ -96,6 +96,9 @@ const MAX_CODERS = 30;
 export function agreementReport(study: StudyData, options: ReportOptions = {}): AgreementReport {
   if (!study || !Array.isArray(study.texts)) throw new AgreementError('invalid-input', 'study.texts must be an array');
   for (const t of study.texts) checkCodedText(t);
+  for (const list of [study.coders, study.codes, ...study.texts.map((t) => t.coders)])
+    if (list !== undefined && (!Array.isArray(list) || list.some((x) => typeof x !== 'string')))
+      throw new AgreementError('invalid-input', 'coders and codes must be arrays of strings');
   const coders = study.coders
     ? [...study.coders]
     : [...new Set(study.texts.flatMap((t) => [...(t.coders ?? []), ...t.segments.map((s: CodedSegment) => s.coderId)]))];

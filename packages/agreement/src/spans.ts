@@ -22,14 +22,14 @@ export interface Section {
 }
 
 export function checkContinuum(c: Continuum): void {
-  if (!c || !Number.isInteger(c.start) || !Number.isInteger(c.end) || c.end <= c.start)
+  if (!c || typeof c !== 'object' || !Number.isSafeInteger(c.start) || !Number.isSafeInteger(c.end) || c.end <= c.start)
     throw new AgreementError('invalid-input', 'continuum needs integer start < end');
 }
 
 export function checkSpan(s: Span, c: Continuum): void {
   if (!s || typeof s.coder !== 'string' || (typeof s.value !== 'string' && typeof s.value !== 'number'))
     throw new AgreementError('invalid-input', 'each span needs a coder (string), a value, a start and an end');
-  if (!Number.isInteger(s.start) || !Number.isInteger(s.end) || s.end <= s.start)
+  if (!Number.isSafeInteger(s.start) || !Number.isSafeInteger(s.end) || s.end <= s.start)
     throw new AgreementError('invalid-value', `span of ${s.coder} needs integer start < end, got [${s.start}, ${s.end})`);
   if (s.start < c.start || s.end > c.end)
     throw new AgreementError('span-outside-continuum', `span [${s.start}, ${s.end}) of ${s.coder} lies outside [${c.start}, ${c.end})`);
