@@ -15,6 +15,8 @@ export interface LogRow {
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
+export const isUuid = (id: string): boolean => UUID.test(id);
+
 /** Inserts the rows in order; returns their seqs in the same order. */
 export async function insertBatch(db: Db, rows: readonly LogRow[]): Promise<number[]> {
   const blob = Buffer.allocUnsafe(rows.reduce((n, row) => n + row.data.length, 0));

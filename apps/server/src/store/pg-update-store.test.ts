@@ -53,6 +53,15 @@ describe.each(dbKinds())('PgUpdateStore on %s', (kind) => {
     await store.close();
   });
 
+  it('refuses a malformed document id alone, without failing the batch it would have joined', async () => {
+    const store = createPgUpdateStore(database, { compactMinBytes: 0 });
+    const [good] = typedUpdates(1).updates;
+    const results = await Promise.allSettled([store.append('x},{y', good!, null), store.append(docIds[2]!, good!, null)]);
+    expect(results[0]).toMatchObject({ status: 'rejected', reason: { code: 'append-failed' } });
+    expect(results[1]!.status).toBe('fulfilled');
+    await store.close();
+  });
+
   it('since() returns only what came after a seq', async () => {
     const store = createPgUpdateStore(database, { compactMinBytes: 0 });
     const { updates } = typedUpdates(10);

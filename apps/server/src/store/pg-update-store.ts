@@ -8,7 +8,7 @@ import type { UpdateStore } from '../sync/contracts.js';
 import { compactDocument, type CompactionResult } from './compaction.js';
 import { StoreError } from './errors.js';
 import { GroupCommit } from './group-commit.js';
-import { insertBatch, type LogRow } from './insert-batch.js';
+import { insertBatch, isUuid, type LogRow } from './insert-batch.js';
 import { flatten, readLog } from './log-rows.js';
 
 export interface PgUpdateStoreOptions {
@@ -87,6 +87,10 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
     },
     append(docId, update, userId) {
       if (closed) return Promise.reject(new StoreError('store-closed', 'update store is closed'));
+      // Checked here too, so one bad id fails its own append rather than everyone's batch.
+      if (!isUuid(docId) || (userId !== null && !isUuid(userId))) {
+        return Promise.reject(new StoreError('append-failed', `not a UUID: ${docId} / ${userId}`));
+      }
       return commits.submit({ docId, data: update, userId });
     },
     async since(docId, seq) {
