@@ -40,7 +40,7 @@ export function CodingView(props: CodingViewProps) {
   const reflexive = () => props.scope.study()?.mode === 'reflexive';
   const state = useCodingState(props.text, props.layers, visibleLayers, props.codebook, { showDisagreement: () => !reflexive() && props.layers.length > 1 });
   const mine = props.layers.find((l) => l.mine);
-  const undo = mine ? createUndoManager(getSegmentsMap(mine.doc.doc) as unknown as Y.AbstractType<unknown>, null) : undefined;
+  const undo = mine ? createUndoManager(getSegmentsMap(mine.doc.doc) as unknown as Y.AbstractType<unknown>, null, { captureTimeout: 0 }) : undefined;
   onCleanup(() => undo?.destroy());
   const [canUndo, setCanUndo] = createSignal(false);
   const [canRedo, setCanRedo] = createSignal(false);
