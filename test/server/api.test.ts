@@ -254,6 +254,35 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
     });
   });
 
+  describe('study settings and audit log', () => {
+    it('lets only the owner change a study, e.g. set a retention date (DESIGN §8)', async () => {
+      const path = `/api/studies/${seed.studyId}`;
+      expect((await as('lead').call('PATCH', path, { title: 'Renamed' })).status).toBe(403);
+      expect((await as('owner').call('PATCH', path, {})).status).toBe(400);
+      expect((await as('owner').call('PATCH', path, { retentionUntil: '31/12/2031' })).status).toBe(400);
+      const res = await as('owner').call<{ retentionUntil: string; title: string }>('PATCH', path, { retentionUntil: '2031-12-31T00:00:00Z' });
+      expect(res.status).toBe(200);
+      expect(res.body.retentionUntil).toBe('2031-12-31T00:00:00.000Z');
+      expect((await as('coder').call<{ retentionUntil: string }>('GET', path)).body.retentionUntil).toBe('2031-12-31T00:00:00.000Z');
+    });
+
+    it('shows the audit log to owner and lead, newest first, with paging; not to coders', async () => {
+      const path = `/api/studies/${seed.studyId}/audit`;
+      expect((await as('coder').call('GET', path)).status).toBe(403);
+      expect((await as('lead').call('GET', `${path}?limit=0`)).status).toBe(400);
+      const all = await as('lead').call<Array<{ id: number; action: string; userName: string | null }>>('GET', path);
+      expect(all.status).toBe(200);
+      const ids = all.body.map((e) => e.id);
+      expect([...ids].sort((a, b) => b - a)).toEqual(ids);
+      expect(all.body.map((e) => e.action)).toEqual(expect.arrayContaining(['study.create', 'member.add', 'text.import', 'study.update']));
+      expect(all.body.find((e) => e.action === 'study.create')?.userName).toBe(PEOPLE.owner.name);
+      const page = await as('lead').call<Array<{ id: number }>>('GET', `${path}?limit=2&before=${ids[1]}`);
+      expect(page.body.map((e) => e.id)).toEqual(ids.slice(2, 4));
+      const schemaCheck = S.AuditEntry.safeParse(all.body[0]);
+      expect(schemaCheck.success).toBe(true);
+    });
+  });
+
   describe('sync upgrade authorization', () => {
     it('answers 403 for a foreign origin, 401 without a session, 404 for an unknown room, 403 for a non-member, 101 for a member', async () => {
       const origin = server.url;

@@ -109,6 +109,7 @@ export async function spawnServer<T = undefined>(options: SpawnOptions<T>): Prom
       }, timeoutMs);
       const onExit = (code: number | null) => {
         clearTimeout(timer);
+        child = null;
         reject(new Error(`server exited (${code}) before listening\n${stderr}`));
       };
       proc.once('exit', onExit);
@@ -169,7 +170,7 @@ export async function spawnServer<T = undefined>(options: SpawnOptions<T>): Prom
       await start();
     },
     async withDb(fn) {
-      if (options.db === 'pglite' && child) throw new Error('withDb on PGlite needs the server stopped (single process)');
+      if (options.db === 'pglite' && child && child.exitCode === null && child.signalCode === null) throw new Error('withDb on PGlite needs the server stopped (single process)');
       return withDb(fn);
     },
   };

@@ -4,6 +4,7 @@ import { bodyLimit } from 'hono/body-limit';
 import { HttpError } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { errorBody, onError, onNotFound } from './errors.js';
+import { auditRoutes } from './audit.js';
 import { healthRoutes } from './health.js';
 import { memberRoutes } from './members.js';
 import { csrf } from './middleware.js';
@@ -37,6 +38,7 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/', sessionRoutes(deps));
   api.route('/studies', studyRoutes(deps));
   api.route('/studies/:studyId/members', memberRoutes(deps));
+  api.route('/studies/:studyId/audit', auditRoutes(deps));
   api.route('/studies/:studyId/texts', studyTextRoutes(deps));
   api.route('/texts', textRoutes(deps));
   api.route('/studies/:studyId/texts/import', importRoutes(deps));

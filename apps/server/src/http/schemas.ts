@@ -17,6 +17,16 @@ export const NewStudyBody = z.object({
   retentionUntil: z.iso.datetime({ offset: true }).nullable().optional(),
 });
 
+export const UpdateStudyBody = z
+  .object({
+    title: z.string().trim().min(1).max(200).optional(),
+    description: z.string().max(5000).optional(),
+    mode: StudyModeSchema.optional(),
+    /** When the study's data should be deleted (DESIGN §8); null clears it. */
+    retentionUntil: z.iso.datetime({ offset: true }).nullable().optional(),
+  })
+  .refine((b) => Object.keys(b).length > 0, { message: 'Nothing to change.' });
+
 export const AddMemberBody = z.object({ email: z.string().trim().min(3).max(320), role: RoleSchema });
 export const ChangeRoleBody = z.object({ role: RoleSchema });
 
@@ -56,3 +66,12 @@ export const TextSummary = z.object({
 });
 export const Layer = z.object({ room: z.uuid(), coderId: z.uuid(), name: z.string(), mine: z.boolean(), canWrite: z.boolean() });
 export const TextDetail = TextSummary.extend({ studyId: z.uuid(), canWrite: z.boolean(), layers: z.array(Layer) });
+export const AuditEntry = z.object({
+  id: z.number().int(),
+  at: z.string(),
+  userId: z.uuid().nullable(),
+  userName: z.string().nullable(),
+  action: z.string(),
+  target: z.string().nullable(),
+  detail: z.record(z.string(), z.unknown()).nullable(),
+});

@@ -1,13 +1,15 @@
-/** GET/POST /api/studies, GET /api/studies/:studyId. */
+/** GET/POST /api/studies, GET/PATCH /api/studies/:studyId. */
 import { documents, memberships, studies } from '@gloss/db';
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import { Hono } from 'hono';
 import { ACTIONS, can } from '../access/policy.js';
 import { createStudy } from '../admin/studies.js';
+import { recordAudit } from '../admin/audit.js';
 import { notFound } from '../errors.js';
+import type { Role } from '../sync/contracts.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
-import { NewStudyBody } from './schemas.js';
+import { NewStudyBody, UpdateStudyBody } from './schemas.js';
 import { studyRole } from './study-access.js';
 import { readJson } from './validate.js';
 
@@ -64,13 +66,31 @@ export function studyRoutes(deps: AppDeps) {
 
   app.get('/:studyId', async (c) => {
     const { studyId, role } = await studyRole(deps, c);
+    return c.json(await describe(studyId, role));
+  });
+
+  app.patch('/:studyId', async (c) => {
+    const { studyId, role } = await studyRole(deps, c, 'study.update');
+    const body = await readJson(c, UpdateStudyBody);
+    const changes = {
+      ...(body.title !== undefined && { title: body.title }),
+      ...(body.description !== undefined && { description: body.description }),
+      ...(body.mode !== undefined && { mode: body.mode }),
+      ...(body.retentionUntil !== undefined && { retentionUntil: body.retentionUntil ? new Date(body.retentionUntil) : null }),
+    };
+    await deps.db.update(studies).set(changes).where(eq(studies.id, studyId));
+    await recordAudit(deps.db, { userId: c.get('session').user.id, studyId, action: 'study.update', target: studyId, detail: body });
+    return c.json(await describe(studyId, role));
+  });
+
+  async function describe(studyId: string, role: Role) {
     const [study] = await deps.db.select().from(studies).where(eq(studies.id, studyId));
     if (!study) throw notFound('Study');
     const docs = await deps.db
       .select({ id: documents.id, kind: documents.kind })
       .from(documents)
       .where(and(eq(documents.studyId, studyId), inArray(documents.kind, ['codebook', 'memos'])));
-    return c.json({
+    return {
       id: study.id,
       title: study.title,
       description: study.description,
@@ -81,8 +101,8 @@ export function studyRoutes(deps: AppDeps) {
       codebookRoom: docs.find((d) => d.kind === 'codebook')?.id ?? null,
       memosRoom: docs.find((d) => d.kind === 'memos')?.id ?? null,
       permissions: ACTIONS.filter((a) => can(role, a)),
-    });
-  });
+    };
+  }
 
   return app;
 }
