@@ -128,6 +128,17 @@ describe('krippendorffAlpha: properties (fast-check)', () => {
       }),
     );
   });
+  it('ordinal alpha depends on the order of values only: invariant under a strictly increasing recoding', () => {
+    fc.assert(
+      fc.property(matrix(5, true), (data) => {
+        const base = krippendorffAlpha(data, { level: 'ordinal' }).value;
+        const recoded = data.map((row) => row.map((v) => (v === null ? null : v * v * v + 10)));
+        const r = krippendorffAlpha(recoded, { level: 'ordinal' }).value;
+        if (base === null) expect(r).toBeNull();
+        else expect(r).toBeCloseTo(base, 10);
+      }),
+    );
+  });
   it('interval alpha is invariant under an affine change of scale', () => {
     fc.assert(
       fc.property(matrix(6, true), (data) => {

@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { countsFromData, fleissKappa } from './fleiss.js';
 import { fleiss1971Counts, fleiss1971Data } from './testdata/published.js';
@@ -34,5 +35,28 @@ describe('fleissKappa', () => {
   });
   it('perfect agreement with two categories gives 1', () => {
     expect(fleissKappa([[3, 0], [0, 3], [3, 0]]).value).toBeCloseTo(1, 12);
+  });
+});
+
+describe('fleissKappa: properties (fast-check)', () => {
+  it('invariant under permuting units and categories; equals Scott-type agreement P-bar when computed from data', () => {
+    const row = fc.array(fc.integer({ min: 0, max: 4 }), { minLength: 3, maxLength: 3 });
+    fc.assert(
+      fc.property(fc.array(row, { minLength: 1, maxLength: 20 }), (rows) => {
+        // give every unit 4 raters: put the rest in category 0
+        const counts = rows.map((r) => {
+          const s = r.reduce((a, b) => a + b, 0);
+          return s > 4 ? [4, 0, 0, 0] : [4 - s, ...r];
+        });
+        const a = fleissKappa(counts);
+        const b = fleissKappa([...counts].reverse().map((r) => [r[2]!, r[0]!, r[3]!, r[1]!]));
+        if (a.value === null) {
+          expect(b.value).toBeNull();
+          return;
+        }
+        expect(b.value).toBeCloseTo(a.value, 10);
+        expect(b.se0!).toBeCloseTo(a.se0!, 10);
+      }),
+    );
   });
 });

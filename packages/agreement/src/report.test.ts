@@ -64,7 +64,10 @@ describe('agreementReport agrees with the coefficients on the same data laid out
       fc.assert(
         fc.property(fc.integer({ min: 1, max: 1_000_000 }), (seed) => {
           const study = inventStudy(seed);
-          const r = agreementReport(study, { unit });
+          const r = agreementReport(study, { unit, unitizing: true, bootstrap: { replicates: 20, seed } });
+          const bad: unknown[] = [];
+          JSON.stringify(r, (k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) && bad.push(k), v));
+          expect(bad).toEqual([]);
           for (const pc of r.perCode) {
             const want = krippendorffAlpha(concatenated(study, [pc.codeId], unit));
             if (want.value === null) expect(pc.alpha).toBeNull();

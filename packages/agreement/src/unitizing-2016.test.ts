@@ -1,5 +1,7 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { Span } from './spans.js';
+import { unitizingAlpha1995 } from './unitizing-1995.js';
 import { unitizingAlpha2016 } from './unitizing-2016.js';
 
 const spans = (rows: Array<[string, string, number, number]>): Span[] => rows.map(([coder, value, start, end]) => ({ coder, value, start, end }));
@@ -54,6 +56,53 @@ describe('unitizingAlpha2016 (provisional check values)', () => {
     expect(unitizingAlpha2016(spans([['A', 'x', 0, 5]]), L20).u).toMatchObject({ value: null, reason: 'no-pairable-values' });
     expect(() => unitizingAlpha2016(spans([['A', 'x', 0, 5], ['A', 'y', 4, 8]]), L20)).toThrow(
       expect.objectContaining({ code: 'overlapping-units' }),
+    );
+  });
+});
+
+describe('unitizing alphas: properties (fast-check)', () => {
+  // Random disjoint spans per coder on [0, 30): cut points, then every other piece gets a value.
+  const partitionOf = (coder: string) =>
+    fc.uniqueArray(fc.integer({ min: 1, max: 29 }), { maxLength: 8 }).chain((cuts) => {
+      const points = [0, ...cuts.sort((a, b) => a - b), 30];
+      return fc.array(fc.constantFrom('x', 'y', null), { minLength: points.length - 1, maxLength: points.length - 1 }).map((vals) =>
+        vals.flatMap((v, i) => (v === null ? [] : [{ coder, value: v, start: points[i]!, end: points[i + 1]! }])),
+      );
+    });
+  const study = fc.tuple(partitionOf('A'), partitionOf('B'), partitionOf('C')).map((p) => p.flat());
+  const same = (a: number | null, b: number | null) => (a === null ? expect(b).toBeNull() : expect(b).toBeCloseTo(a, 10));
+  it('invariant under reordering coders and shifting the continuum', () => {
+    fc.assert(
+      fc.property(study, (spans) => {
+        const c = { start: 0, end: 30 };
+        const a = unitizingAlpha2016(spans, c, { coders: ['A', 'B', 'C'] });
+        const b = unitizingAlpha2016([...spans].reverse(), c, { coders: ['C', 'A', 'B'] });
+        const shifted = unitizingAlpha2016(spans.map((s) => ({ ...s, start: s.start + 100, end: s.end + 100 })), { start: 100, end: 130 }, { coders: ['A', 'B', 'C'] });
+        for (const other of [b, shifted]) {
+          same(a.u.value, other.u.value);
+          same(a.binary.value, other.binary.value);
+          same(a.cu.value, other.cu.value);
+        }
+        const o95 = unitizingAlpha1995(spans, c, { coders: ['A', 'B', 'C'] });
+        same(o95.value, unitizingAlpha1995([...spans].reverse(), c, { coders: ['B', 'C', 'A'] }).value);
+        same(o95.value, unitizingAlpha1995(spans.map((s) => ({ ...s, start: s.start + 7, end: s.end + 7 })), { start: 7, end: 37 }, { coders: ['A', 'B', 'C'] }).value);
+      }),
+    );
+  });
+  it('u-alpha never exceeds 1; no NaN or Infinity anywhere (undefined values are null with a reason)', () => {
+    fc.assert(
+      fc.property(study, (spans) => {
+        const r = unitizingAlpha2016(spans, { start: 0, end: 30 }, { coders: ['A', 'B', 'C'] });
+        const r95 = unitizingAlpha1995(spans, { start: 0, end: 30 }, { coders: ['A', 'B', 'C'] });
+        if (r.u.value !== null) expect(r.u.value).toBeLessThanOrEqual(1 + 1e-12);
+        const bad: unknown[] = [];
+        JSON.stringify([r, r95], (k, v: unknown) => {
+          if (typeof v === 'number' && !Number.isFinite(v)) bad.push(k);
+          if (v && typeof v === 'object' && 'value' in v && (v as { value: unknown }).value === null && !('reason' in v)) bad.push(v);
+          return v;
+        });
+        expect(bad).toEqual([]);
+      }),
     );
   });
 });

@@ -135,6 +135,16 @@ export function unitizingAlpha2016(
   }
   const sumSv = used.reduce((s, c) => s + Sv[c]!, 0);
   const den2 = lv - sumSv / (lv * (m - 1));
+  // No room for chance: all valued matter meets in single intersections (e.g. one overlap only).
+  if (!(den2 > 1e-12 * lv)) {
+    const perValue: ValueUAlpha[] = labels.map((label, i) => ({
+      category: label,
+      value: null,
+      reason: 'no-variation',
+      coverage: n[i + 1]! > 0 ? (100 * nv[i + 1]!) / n[i + 1]! : 0,
+    }));
+    return { statistic: 'unitizing-alpha', u, binary, cu: { value: null, reason: 'no-variation', coverage }, perValue, coders: m, n: l };
+  }
   const ev = (c: number, k: number) => (nv[c]! * nv[k]! - (c === k ? Sv[c]! / (m - 1) : 0)) / den2;
   let oVal = 0;
   let eVal = 0;
