@@ -48,5 +48,8 @@ export const api = {
   removeMember: async (id: string, userId: string): Promise<void> =>
     void (await call('DELETE', `/api/studies/${enc(id)}/members/${enc(userId)}`)),
   texts: async (id: string): Promise<TextSummary[]> => n.toList(await call('GET', `/api/studies/${enc(id)}/texts`), n.toTextSummary, 'texts'),
+  /** Every visible layer's segments on a text, resolved by the server: [{id, coderId, codeId, start, end, quote, flags}]. */
+  textSegments: async (id: string): Promise<Array<{ id: string; coderId: string; codeId: string; quote: string; flags: string[] }>> =>
+    n.toList(await call('GET', `/api/texts/${enc(id)}/segments`), (x) => x as { id: string; coderId: string; codeId: string; quote: string; flags: string[] }, 'segments'),
   text: async (id: string): Promise<TextDetail> => n.toTextDetail(await call('GET', `/api/texts/${enc(id)}`), id),
 };

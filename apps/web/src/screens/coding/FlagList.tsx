@@ -1,5 +1,5 @@
 import { For } from 'solid-js';
-import type { Flag } from '../../doc/flags.js';
+import type { Flag } from '../../doc/flag-view.js';
 
 const KIND: Record<Flag['kind'], string> = {
   exclusive: 'Exclusive codes together',
@@ -7,6 +7,8 @@ const KIND: Record<Flag['kind'], string> = {
   'retired-code': 'Retired or merged code',
   orphaned: 'Words deleted',
   disagreement: 'Coders differ',
+  'definition-race': 'Definition edited at once',
+  'stale-definition': 'Definition changed since',
 };
 
 /** Live flags on this text; each goes to its segment. */

@@ -1,7 +1,7 @@
 /** The chosen segment: its code, words, coder and note, and what may be done to it. */
 import { Show, createEffect, createSignal } from 'solid-js';
 import type { CodeView } from '@gloss/model';
-import type { Segment } from '../../doc/flags.js';
+import type { Segment } from '../../doc/flag-view.js';
 import { codeColour } from '../../doc/palette.js';
 
 export function SegmentPanel(props: {

@@ -12,7 +12,7 @@ import { move, ordered, type Move, type Sel } from './keyboard-selection.js';
 import { rangeFor, readDomSelection } from './dom-selection.js';
 import type { CodingState, ViewTurn } from './coding-state.js';
 import type { RemoteCaret } from './text-presence.js';
-import type { Flag } from '../../doc/flags.js';
+import type { Flag } from '../../doc/flag-view.js';
 
 export const LANE_W = 20;
 const COL_W = 6;

@@ -6,11 +6,11 @@
 import { createMemo, createSignal, onCleanup, type Accessor } from 'solid-js';
 import * as Y from 'yjs';
 import {
-  getCodes, getText, listExclusiveSets, listSegments, readTurns, resolveSegments,
+  FlagEngine, getCodes, getText, listExclusiveSets, listSegments, readTurns, resolveSegments,
   type CodeGroup, type CodeView, type ResolvedTurn,
 } from '@gloss/model';
 import type { OpenDoc } from '../../sync/open-doc.js';
-import { computeFlags, type Flag, type Segment } from '../../doc/flags.js';
+import { viewFlags, type Flag, type Segment } from '../../doc/flag-view.js';
 
 export interface LayerHandle { coderId: string; name: string; mine: boolean; doc: OpenDoc }
 
@@ -73,7 +73,21 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
   const codes = createMemo(() => (cbV(), getCodes(codebook.doc)));
   const codeById = createMemo(() => new Map(codes().map((c) => [c.id, c])));
   const exclusiveSets = createMemo(() => (cbV(), listExclusiveSets(codebook.doc)));
-  const flags = createMemo(() => computeFlags(segments(), codes(), exclusiveSets(), { showDisagreement: opts.showDisagreement() }));
+  // The model's flag engine observes the documents and re-evaluates only what each change touched.
+  const source = (l: LayerHandle) => ({ layerId: l.doc.room, coder: l.coderId, doc: l.doc.doc });
+  const engine = new FlagEngine({ textDoc: text.doc, codebook: codebook.doc, layers: visible().map(source), independentCoding: !opts.showDisagreement() });
+  onCleanup(() => engine.destroy());
+  let shown = new Set(visible().map((l) => l.doc.room));
+  const flags = createMemo(() => {
+    const now = visible();
+    for (const l of now) if (!shown.has(l.doc.room)) engine.addLayer(source(l));
+    for (const room of shown) if (!now.some((l) => l.doc.room === room)) engine.removeLayer(room);
+    shown = new Set(now.map((l) => l.doc.room));
+    engine.setIndependentCoding(!opts.showDisagreement());
+    const segs = segments(); // also subscribes to text and layer changes
+    cbV();
+    return viewFlags(engine.flags(), new Map(segs.map((s) => [s.id, s])), codeById());
+  });
   return { turns, words, segments, codes, codeById, exclusiveSets, flags };
 }
 

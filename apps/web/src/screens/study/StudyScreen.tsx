@@ -9,6 +9,19 @@ import { PresenceList } from './PresenceList.js';
 
 export function StudyScreen(props: { studyId: string; scope: StudyScope }) {
   const [texts] = createResource(() => props.studyId, (id) => api.texts(id));
+  const [members] = createResource(() => props.studyId, (id) => api.members(id).catch(() => []));
+  // progress per coder: segments per visible layer, counted from the server's resolution of each text
+  const [progress] = createResource(texts, async (list) => {
+    const out = new Map<string, Array<{ coderId: string; segments: number }>>();
+    await Promise.all(list.map(async (t) => {
+      const segs = await api.textSegments(t.id).catch(() => []);
+      const by = new Map<string, number>();
+      for (const s of segs) by.set(s.coderId, (by.get(s.coderId) ?? 0) + 1);
+      out.set(t.id, [...by].map(([coderId, segments]) => ({ coderId, segments })));
+    }));
+    return out;
+  });
+  const nameOf = (id: string) => members()?.find((m) => m.userId === id)?.name ?? 'a coder';
   return (
     <main class="page">
       <StudyNav studyId={props.studyId} scope={props.scope} current="study" />
@@ -26,8 +39,8 @@ export function StudyScreen(props: { studyId: string; scope: StudyScope }) {
                     <tr>
                       <td><a href={href({ name: 'coding', studyId: props.studyId, textId: t.id })}>{t.title}</a></td>
                       <td>
-                        <Show when={t.progress?.length} fallback={<span class="muted">no segments yet</span>}>
-                          <For each={t.progress}>{(p) => <span class="tag">{p.name ?? p.coderId}: {p.segments}</span>}</For>
+                        <Show when={progress()?.get(t.id)?.length} fallback={<span class="muted">{progress.loading ? 'counting…' : 'no segments yet'}</span>}>
+                          <For each={progress()!.get(t.id)}>{(p) => <span class="tag">{nameOf(p.coderId)}: {p.segments}</span>}</For>
                         </Show>
                       </td>
                       <td>
