@@ -28,8 +28,6 @@ export function nominalTallies(data: ReliabilityData): NominalTallies {
   const small = new Int32Array(SMALL).fill(-1);
   const seen = new Map<Value, number>();
   const met: Value[] = [];
-  let numbers = 0;
-  let strings = 0;
   const diag: number[] = [];
   const nc: number[] = [];
   const counts: number[] = [];
@@ -47,9 +45,8 @@ export function nominalTallies(data: ReliabilityData): NominalTallies {
       if (idx < 0) {
         if (typeof v === 'number') {
           if (!Number.isFinite(v)) throw new AgreementError('invalid-value', `value at coder ${c}, unit ${u} is not a finite number`);
-          numbers++;
-        } else if (typeof v === 'string') strings++;
-        else throw new AgreementError('invalid-value', `value at coder ${c}, unit ${u} must be a number, a string or null`);
+        } else if (typeof v !== 'string')
+          throw new AgreementError('invalid-value', `value at coder ${c}, unit ${u} must be a number, a string or null`);
         idx = met.length;
         met.push(v);
         seen.set(v, idx);
@@ -83,8 +80,6 @@ export function nominalTallies(data: ReliabilityData): NominalTallies {
       if (typeof x !== typeof y) return typeof x === 'number' ? -1 : 1;
       return x < y ? -1 : x > y ? 1 : 0;
     });
-  void numbers;
-  void strings;
   return {
     values: order.map((i) => met[i]!),
     diag: Float64Array.from(order, (i) => diag[i]!),
