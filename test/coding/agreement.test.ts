@@ -8,14 +8,14 @@ import { auditLog, eq, studies, type Db } from '@gloss/db';
 import { addSegment, newLayerDoc } from '@gloss/model';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
-  bootstrapAlpha,
+  agreementReport,
   cohenKappa,
   countsFromData,
   fleissKappa,
   krippendorffAlpha,
   tableFromData,
-  unitizingAlpha2016,
   type Cell,
+  type CodedText,
 } from '../../packages/agreement/src/index.js';
 import { ensureLayer } from '../../apps/server/src/admin/texts.js';
 import { dbKinds, spawnServer, type SpawnedServer } from '../support/server.js';
@@ -40,7 +40,7 @@ const PLAN: Plan = [
 
 interface Seeded extends CodingSeed {
   spans: Array<{ who: Who; text: string; code: string; start: number; end: number }>;
-  codingLength: number;
+  words: { coding: string; basic: string };
 }
 
 async function seedAgreement(db: Db): Promise<Seeded> {
@@ -61,7 +61,7 @@ async function seedAgreement(db: Db): Promise<Seeded> {
     const docId = await ensureLayer(db, s.studyId, textIds[t], s.users[who].id);
     await appendUpdate(db, docId, layer);
   }
-  return { ...s, spans, codingLength: textDocs.coding.getText('text').length };
+  return { ...s, spans, words: { coding: textDocs.coding.getText('text').toString(), basic: textDocs.basic.getText('text').toString() } };
 }
 
 interface Result {
@@ -100,6 +100,27 @@ function row(who: Who, texts: Array<'coding' | 'basic'>, codeIdx = [0, 1, 2, 3])
   });
 }
 
+/** The package's input for the same data, built here: speaker turns are the lines (each with its line break). */
+function codedText(s: Seeded, which: 'coding' | 'basic', who: Who[]): CodedText {
+  const words = s.words[which];
+  const textId = which === 'coding' ? s.codingTextId : s.textId;
+  const units: Array<{ start: number; end: number }> = [];
+  let at = 0;
+  for (const line of words.split('\n')) {
+    const end = Math.min(words.length, at + line.length + 1);
+    units.push({ start: at, end });
+    at = end;
+  }
+  const withLayer = who.filter((w) => BY_HAND[w][which] !== null);
+  return {
+    textId,
+    textLength: words.length,
+    units,
+    coders: withLayer.map((w) => s.users[w].id),
+    segments: s.spans.filter((x) => x.text === textId && withLayer.includes(x.who)).map((x) => ({ coderId: s.users[x.who].id, codeId: x.code, start: x.start, end: x.end })),
+  };
+}
+
 describe.each(dbKinds())('agreement endpoint on %s', (db) => {
   let server: SpawnedServer<Seeded>;
   beforeAll(async () => {
@@ -124,7 +145,13 @@ describe.each(dbKinds())('agreement endpoint on %s', (db) => {
     expect(alpha.value).not.toBeNull();
     expect(res.body.statistic).toBe('krippendorff-alpha');
     expect(res.body.pooled!.value).toBeCloseTo(alpha.value!, 12);
-    expect(res.body.pooled!.ci).toEqual(bootstrapAlpha(data, { replicates: 200, seed: 7 }).ci);
+    // The interval: the package's study report on the same texts (bootstrap over texts).
+    const direct = agreementReport(
+      { texts: [codedText(s, 'coding', ['coder', 'coder2']), codedText(s, 'basic', ['coder', 'coder2'])], codes: codeList().split(','), coders: [s.users.coder.id, s.users.coder2.id] },
+      { unit: 'fixed', bootstrap: { replicates: 200, seed: 7, scheme: 'texts' } },
+    );
+    expect(direct.pooled.alpha).toBeCloseTo(alpha.value!, 12);
+    expect(res.body.pooled!.ci).toEqual(direct.pooled.ci);
 
     const tools = krippendorffAlpha([row('coder', both, [0]), row('coder2', both, [0])]);
     expect(res.body.perCode!.find((p) => p.codeId === s.codes.tools)!.result.value).toBe(tools.value); // 1: both coded the same turns
@@ -155,17 +182,21 @@ describe.each(dbKinds())('agreement endpoint on %s', (db) => {
     expect(three.body.perCoderPair).toHaveLength(3);
   }, 60_000);
 
-  it('free spans: binary unitizing alpha per code matches the package on the same spans', async () => {
+  it('free spans: unitizing alpha matches the package on the same spans', async () => {
     const s = server.seeded;
     const lead = await clientFor(server.url, 'lead');
-    const res = await lead.call<Report>('GET', query({ texts: s.codingTextId, coders: `${s.users.coder.id},${s.users.coder2.id}`, unit: 'span' }));
+    const res = await lead.call<Report>('GET', query({ texts: s.codingTextId, coders: `${s.users.coder.id},${s.users.coder2.id}`, codes: codeList(), unit: 'span' }));
     expect(res.status).toBe(200);
     expect(res.body.statistic).toBe('unitizing-alpha');
-    const spans = s.spans
-      .filter((x) => x.text === s.codingTextId && x.code === s.codes.tools && (x.who === 'coder' || x.who === 'coder2'))
-      .map((x) => ({ coder: x.who, value: 'coded', start: x.start, end: x.end }));
-    const direct = unitizingAlpha2016(spans, { start: 0, end: s.codingLength }, { coders: ['coder', 'coder2'], categories: ['coded'] });
-    expect(res.body.perCode!.find((p) => p.codeId === s.codes.tools)!.result.value).toBeCloseTo(direct.binary.value!, 12);
+    const direct = agreementReport(
+      { texts: [codedText(s, 'coding', ['coder', 'coder2'])], codes: codeList().split(','), coders: [s.users.coder.id, s.users.coder2.id] },
+      { unit: 'character', unitizing: true },
+    );
+    const tools = direct.perCode.find((c) => c.codeId === s.codes.tools)!.unitizing!;
+    expect(tools.value).not.toBeNull();
+    expect(res.body.perCode!.find((p) => p.codeId === s.codes.tools)!.result.value).toBeCloseTo(tools.value!, 12);
+    // One text: the pooled figure is the package's per-text unitizing alpha over all codes.
+    expect(res.body.pooled!.value).toBeCloseTo(direct.perText[0]!.unitizing!.value!, 12);
   }, 60_000);
 
   it('refuses coders, trainees and outsiders, and bad parameters', async () => {

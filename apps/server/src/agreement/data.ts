@@ -1,29 +1,18 @@
 /**
- * From coded segments to reliability data (coders x units), pure. Each code is judged on its own:
- * a coder's value for a (code, unit) pair is 1 when one of their segments with that code overlaps the
- * unit and 0 when none does; missing (null) when the coder has no layer on that text. This is the
- * usual presence/absence coding of multi-code qualitative data (common practice). Free spans go to
- * unitizing alpha instead (spans.ts).
+ * Reliability data (coders x units) for the coefficients the study report does not carry (Cohen's
+ * kappa over all codes, Fleiss' kappa, Scott's pi, percent agreement), built with packages/agreement's
+ * adapters: each (text, code, unit) column holds 1 when the coder applied the code there, 0 when not
+ * (any shared character; adapters.ts), and is missing (null) for a coder with no layer on that text.
  */
-import type { Cell } from '@gloss/agreement';
-import type { Unit } from './units.js';
+import { characterData, fixedUnitData, type Cell, type CodedText } from '@gloss/agreement';
 
-export interface CodedSpan {
-  codeId: string;
-  start: number;
-  end: number;
-}
-
-export interface TextInput {
-  textId: string;
-  /** The current text (its length is the continuum for spans). */
+/** A text as the server hands it to agreement: the package's CodedText plus its words (for quotes). */
+export interface TextInput extends CodedText {
   text: string;
-  units: Unit[];
-  /** coderId -> that coder's segments on the text; a coder absent here has no layer on it. */
-  layers: Map<string, CodedSpan[]>;
+  /** Those with a layer on the text (a layer with no segments still counts: every code absent). */
+  coders: string[];
 }
 
-/** One column of reliability data: which text, which code, which unit. */
 export interface Column {
   textId: string;
   codeId: string;
@@ -37,38 +26,21 @@ export interface Matrix {
   rows: Cell[][];
 }
 
-/** Marks, per code, which units each segment overlaps (segments of zero length mark nothing). */
-function presence(units: readonly Unit[], spans: readonly CodedSpan[], codeId: string): Uint8Array {
-  const hit = new Uint8Array(units.length);
-  const mine = spans.filter((s) => s.codeId === codeId && s.end > s.start);
-  if (mine.length === 0) return hit;
-  // Units are sorted and disjoint: binary-search the first unit ending after the span starts.
-  for (const s of mine) {
-    let lo = 0;
-    let hi = units.length;
-    while (lo < hi) {
-      const mid = (lo + hi) >> 1;
-      if (units[mid]!.end <= s.start) lo = mid + 1;
-      else hi = mid;
-    }
-    for (let u = lo; u < units.length && units[u]!.start < s.end; u++) hit[u] = 1;
-  }
-  return hit;
-}
-
-export function buildMatrix(texts: readonly TextInput[], codes: readonly string[], coders: readonly string[]): Matrix {
+export function buildMatrix(texts: readonly TextInput[], codes: readonly string[], coders: readonly string[], unit: 'fixed' | 'character'): Matrix {
   const columns: Column[] = [];
   const rows: Cell[][] = coders.map(() => []);
   for (const t of texts) {
+    const own = t.coders.filter((c) => coders.includes(c));
     for (const codeId of codes) {
-      const marks = coders.map((c) => {
-        const spans = t.layers.get(c);
-        return spans ? presence(t.units, spans, codeId) : null;
+      const data = unit === 'character' ? characterData(t, codeId, own) : fixedUnitData(t, codeId, own);
+      const width = unit === 'character' ? t.textLength : t.units!.length;
+      for (let u = 0; u < width; u++) columns.push({ textId: t.textId, codeId, unit: u });
+      coders.forEach((c, ci) => {
+        const at = own.indexOf(c);
+        const target = rows[ci]!;
+        if (at < 0) for (let u = 0; u < width; u++) target.push(null);
+        else for (const v of data[at]!) target.push(v);
       });
-      for (let u = 0; u < t.units.length; u++) {
-        columns.push({ textId: t.textId, codeId, unit: u });
-        coders.forEach((_, ci) => rows[ci]!.push(marks[ci] ? marks[ci]![u]! : null));
-      }
     }
   }
   return { coders: [...coders], columns, rows };

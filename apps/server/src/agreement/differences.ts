@@ -17,16 +17,15 @@ export function differences(texts: readonly TextInput[], codes: readonly string[
   const wanted = new Set(codes);
   const out: Difference[] = [];
   for (const t of texts) {
-    const present = coders.filter((c) => t.layers.has(c));
+    const present = coders.filter((c) => t.coders.includes(c));
     if (present.length < 2) continue;
-    for (const u of t.units) {
+    for (const u of t.units ?? []) {
       const byCoder = present.map((coderId) => ({
         coderId,
         codeIds: [
           ...new Set(
-            t.layers
-              .get(coderId)!
-              .filter((s) => wanted.has(s.codeId) && s.end > s.start && s.start < u.end && u.start < s.end)
+            t.segments
+              .filter((s) => s.coderId === coderId && wanted.has(s.codeId) && s.start < u.end && u.start < s.end)
               .map((s) => s.codeId),
           ),
         ].sort(),

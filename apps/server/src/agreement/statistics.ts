@@ -4,7 +4,6 @@
  * coder pairs (for kappa this is Light's kappa, Light 1971) and the pairs are listed.
  */
 import {
-  bootstrapAlpha,
   cohenKappa,
   countsFromData,
   fleissKappa,
@@ -28,10 +27,6 @@ export interface Coefficient {
   band?: string;
   ci?: [number, number] | null;
   detail?: Record<string, unknown>;
-}
-
-export interface StatOptions {
-  bootstrap?: { replicates: number; seed: number };
 }
 
 const pairs = <T>(xs: readonly T[]): Array<[T, T]> => xs.flatMap((a, i) => xs.slice(i + 1).map((b) => [a, b] as [T, T]));
@@ -63,15 +58,13 @@ function twoCoder(statistic: 'cohen-kappa' | 'scott-pi', rows: Cell[][]): Coeffi
   };
 }
 
-export function coefficient(statistic: Statistic, rows: Cell[][], o: StatOptions = {}): Coefficient {
+export function coefficient(statistic: Statistic, rows: Cell[][]): Coefficient {
   const out = ((): Coefficient => {
     if (rows.length < 2) return { statistic, value: null, reason: 'fewer-than-two-coders' };
     switch (statistic) {
       case 'krippendorff-alpha': {
         const { value, reason, statistic: _s, ...rest } = krippendorffAlpha(rows, { level: 'nominal' });
-        const c: Coefficient = { statistic, value, ...(reason ? { reason } : {}), detail: rest };
-        if (o.bootstrap && value !== null) c.ci = bootstrapAlpha(rows, { level: 'nominal', ...o.bootstrap }).ci;
-        return c;
+        return { statistic, value, ...(reason ? { reason } : {}), detail: rest };
       }
       case 'percent-agreement': {
         const { value, reason, statistic: _s, ...rest } = percentAgreement(rows);

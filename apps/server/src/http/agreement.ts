@@ -20,7 +20,7 @@ import { agreementReport } from '../agreement/report.js';
 import { differences } from '../agreement/differences.js';
 import { STATISTICS } from '../agreement/statistics.js';
 import { UNIT_KINDS, fixedUnits } from '../agreement/units.js';
-import type { CodedSpan, TextInput } from '../agreement/data.js';
+import type { TextInput } from '../agreement/data.js';
 import { isUuid } from '../access/membership.js';
 import { HttpError, notFound } from '../errors.js';
 import { withDocs } from '../projection/load-doc.js';
@@ -96,20 +96,25 @@ export function agreementRoutes(deps: AppDeps) {
       const layerYs = loaded.slice(textRows.length, textRows.length + layerDocs.length);
       const cb: Y.Doc | undefined = cbId ? loaded[loaded.length - 1] : undefined;
       const effective = (codeId: string) => (cb ? effectiveCodeId(cb, codeId) : codeId);
+      const unitKind = q.unit === 'span' || q.unit === 'character' ? 'turn' : q.unit;
       const inputs: TextInput[] = textRows.map((t, i) => {
         const textDoc = textYs[i]!;
         const text = readText(textDoc);
         const turns = readTurns(textDoc);
-        const unitKind = q.unit === 'span' || (reflexive && q.unit === 'character') ? 'turn' : q.unit;
-        const layers = new Map<string, CodedSpan[]>();
+        const coders: string[] = [];
+        const segments: TextInput['segments'][number][] = [];
         layerDocs.forEach((d, j) => {
           if (d.textId !== t.id) return;
-          const spans = resolveSegments(textDoc, listSegments(layerYs[j]!), turns)
-            .filter((s) => !s.unresolved && !s.orphaned)
-            .map((s) => ({ codeId: effective(s.codeId), start: s.start, end: s.end }));
-          layers.set(d.coderId!, spans);
+          coders.push(d.coderId!);
+          for (const s of resolveSegments(textDoc, listSegments(layerYs[j]!), turns)) {
+            // Collapsed (orphaned) segments cover no text; unresolved ones cannot be placed.
+            if (s.unresolved || s.end <= s.start) continue;
+            segments.push({ coderId: d.coderId!, codeId: effective(s.codeId), start: s.start, end: s.end });
+          }
         });
-        return { textId: t.id, text, units: q.unit === 'span' && !reflexive ? [] : fixedUnits(unitKind, text, turns), layers };
+        const own = coderIds.filter((c) => coders.includes(c));
+        // Units: the asked-for fixed units; speaker turns for showing differences at character or span level.
+        return { textId: t.id, textLength: text.length, text, units: fixedUnits(unitKind, text, turns), coders: own, segments };
       });
       const codebookCodes = cb ? getCodes(cb) : [];
       const labels = new Map(codebookCodes.map((k) => [k.id, k.label]));
@@ -136,15 +141,14 @@ export function agreementRoutes(deps: AppDeps) {
         texts: inputs,
         codes,
         coders: coderIds,
-        ...(q.bootstrap > 0 ? { options: { bootstrap: { replicates: q.bootstrap, seed: q.seed } } } : {}),
+        ...(q.bootstrap > 0 ? { bootstrap: { replicates: q.bootstrap, seed: q.seed } } : {}),
       });
       return {
         ...head,
-        statistic: q.unit === 'span' ? 'unitizing-alpha' : q.statistic,
         method:
           q.unit === 'span'
-            ? 'Binary unitizing alpha per code over the coders\' segments, texts laid end to end.'
-            : `Each (text, code, ${q.unit}) is a unit valued 1 when the coder applied the code to it, 0 otherwise; missing when the coder has no layer on the text. Nominal level.`,
+            ? "Krippendorff's unitizing alpha (1995/2004) over the coders' segments, overlaps within one coder and code merged; texts laid end to end."
+            : `Each (text, code, ${q.unit}) is a unit valued 1 when the coder applied the code to it (any shared character), 0 otherwise; a coder without a layer on a text is missing there. Nominal level.`,
         ...report,
       };
     }).catch((err: unknown) => {
@@ -168,7 +172,8 @@ export function agreementRoutes(deps: AppDeps) {
 /** Codes applied by the chosen coders, in codebook order (codes missing from the codebook last). */
 function usedCodes(inputs: TextInput[], coders: string[], codebookOrder: string[]): string[] {
   const used = new Set<string>();
-  for (const t of inputs) for (const c of coders) for (const s of t.layers.get(c) ?? []) used.add(s.codeId);
+  const wanted = new Set(coders);
+  for (const t of inputs) for (const s of t.segments) if (wanted.has(s.coderId)) used.add(s.codeId);
   const rank = new Map(codebookOrder.map((id, i) => [id, i]));
   return [...used].sort((a, b) => (rank.get(a) ?? 1e9) - (rank.get(b) ?? 1e9) || (a < b ? -1 : 1));
 }
