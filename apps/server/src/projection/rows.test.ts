@@ -16,7 +16,7 @@ describe('projection rows', () => {
     correctText(text, text.getText('text').toString().indexOf(' every Sunday'), ' every Sunday'.length);
     const rows = segmentRows(text, layer, info);
     expect(rows.find((r) => r.id === a)).toMatchObject({ ...info, codeId: 'c1', start: 5, end: 16, quote: 'mended nets', orphaned: false, note: 'craft', createdAt: new Date(5) });
-    expect(rows.find((r) => r.id === b)).toMatchObject({ quote: '', orphaned: true, start: 28, end: 28 } // where "every" stood: after "They mended nets on the quay");
+    expect(rows.find((r) => r.id === b)).toMatchObject({ quote: '', orphaned: true, start: 28, end: 28 }); // where "every" stood: after "They mended nets on the quay"
   });
 
   it('codes, cases with values and text links, memos with what they attach to', () => {
