@@ -68,7 +68,14 @@ export interface PairReport extends BinaryAgreement {
   kappa: KappaResult;
   /** pooled 2x2 table: [[absent/absent, absent/present], [present/absent, present/present]] */
   table: [[number, number], [number, number]];
-  perCode: Array<{ codeId: string; alpha: number | null; reason?: UndefinedReason; kappa: number | null; percentAgreement: number | null }>;
+  perCode: Array<{
+    codeId: string;
+    alpha: number | null;
+    reason?: UndefinedReason;
+    kappa: number | null;
+    kappaReason?: UndefinedReason;
+    percentAgreement: number | null;
+  }>;
 }
 
 export interface AgreementReport {
@@ -189,7 +196,15 @@ export function agreementReport(study: StudyData, options: ReportOptions = {}): 
       const t: [[number, number], [number, number]] = [[pairTables[at]!, pairTables[at + 1]!], [pairTables[at + 2]!, pairTables[at + 3]!]];
       for (let x = 0; x < 2; x++) for (let y = 0; y < 2; y++) sum[x]![y]! += t[x]![y]!;
       const al = tableAlpha(t);
-      return { codeId, alpha: al.value, ...(al.reason ? { reason: al.reason } : {}), kappa: cohenKappa(t).value, percentAgreement: al.percentAgreement };
+      const k = cohenKappa(t);
+      return {
+        codeId,
+        alpha: al.value,
+        ...(al.reason ? { reason: al.reason } : {}),
+        kappa: k.value,
+        ...(k.reason ? { kappaReason: k.reason } : {}),
+        percentAgreement: al.percentAgreement,
+      };
     });
     const al = tableAlpha(sum);
     const { value, ...rest } = al;
