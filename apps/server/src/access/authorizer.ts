@@ -31,7 +31,7 @@ export function createRoomAuthorizer({ db, sessions, publicUrl }: AuthorizerDeps
         throw new HttpError(403, 'bad_origin', 'This origin may not open sync connections.');
       }
       const token = readSessionToken(header('cookie'));
-      const session = token ? await sessions.validate(token) : null;
+      const session = token ? await sessions.validate(token, { extend: false }) : null;
       if (!session) throw unauthenticated();
 
       const doc = await findDocument(db, room);

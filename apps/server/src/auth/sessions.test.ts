@@ -43,7 +43,13 @@ describe('sessions (PGlite)', () => {
     expect(late?.renewed).toBe(true);
     expect(late?.expiresAt.getTime()).toBe(now + 30 * DAY);
 
-    now += 30 * DAY + 1;
+    // Checking without extending (the WebSocket upgrade) leaves the expiry where it is.
+    now += 20 * DAY;
+    const unchanged = await service.validate(token, { extend: false });
+    expect(unchanged?.renewed).toBe(false);
+    expect(unchanged?.expiresAt.getTime()).toBe(late!.expiresAt.getTime());
+
+    now += 10 * DAY + 1;
     expect(await service.validate(token)).toBeNull();
     const left = await database.db.select().from(sessionsTable).where(eq(sessionsTable.id, sessionIdFromToken(token)));
     expect(left).toEqual([]);

@@ -22,7 +22,12 @@ export interface ValidSession {
 
 export interface SessionService {
   create(userId: string): Promise<{ token: string; expiresAt: Date }>;
-  validate(token: string): Promise<ValidSession | null>;
+  /**
+   * The session behind a token, or null. `extend: false` checks without sliding the expiry: for
+   * callers that cannot send the renewed cookie back (the WebSocket upgrade), so the browser's
+   * cookie and the stored expiry stay in step.
+   */
+  validate(token: string, options?: { extend?: boolean }): Promise<ValidSession | null>;
   invalidate(token: string): Promise<void>;
   invalidateAllFor(userId: string): Promise<void>;
   deleteExpired(): Promise<number>;
@@ -37,7 +42,7 @@ export function createSessionService(db: Db, sessionMs: number, now: () => numbe
       return { token, expiresAt };
     },
 
-    async validate(token) {
+    async validate(token, { extend = true } = {}) {
       if (!looksLikeToken(token)) return null;
       const sessionId = sessionIdFromToken(token);
       const [row] = await db
@@ -53,7 +58,7 @@ export function createSessionService(db: Db, sessionMs: number, now: () => numbe
       }
       let expiresAt = row.expiresAt;
       let renewed = false;
-      if (t >= expiresAt.getTime() - sessionMs / 2) {
+      if (extend && t >= expiresAt.getTime() - sessionMs / 2) {
         expiresAt = new Date(t + sessionMs);
         renewed = true;
         await db.update(sessions).set({ expiresAt }).where(eq(sessions.id, sessionId));
