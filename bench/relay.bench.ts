@@ -12,7 +12,6 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { createServer } from 'node:http';
 import { createRequire } from 'node:module';
 import type { AddressInfo } from 'node:net';
-import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { createInterface } from 'node:readline';
@@ -26,7 +25,7 @@ const here = dirname(fileURLToPath(import.meta.url));
 const repoRoot = join(here, '..');
 const EDITS_PER_SEC = 5;
 const WARMUP_MS = 1_000;
-const MEASURE_MS = 5_000;
+const MEASURE_MS = 4_000;
 
 export type ServerKind = 'reference' | 'gloss-pglite' | 'gloss-postgres';
 
@@ -56,17 +55,21 @@ async function serveReference(): Promise<{ port: number; room: string; wsPath: s
   return { port: (http.address() as AddressInfo).port, room: 'bench-room', wsPath: '' };
 }
 
-async function serveGloss(): Promise<{ port: number; room: string; wsPath: string; email: string; password: string; cleanup: string }> {
+async function serveGloss(): Promise<{ port: number; room: string; wsPath: string; email: string; password: string; cleanup: () => Promise<void> }> {
   const { startServer } = await import('../apps/server/src/server.js');
   const { loadConfig } = await import('../apps/server/src/config.js');
   const admin = await import('../apps/server/src/admin/index.js');
-  const dataDir = process.env.DATABASE_URL ? '' : mkdtempSync(join(tmpdir(), 'gloss-bench-'));
+  // Its own database either way: a fresh PostgreSQL database, or a copy of the migrated PGlite template.
+  const { freshPgliteDir } = await import('../test/support/pglite-template.js');
+  const { freshPostgresDatabase } = await import('../test/support/postgres.js');
+  const pg = process.env.DATABASE_URL ? await freshPostgresDatabase() : null;
+  const folder = pg ? null : await freshPgliteDir();
   const config = loadConfig({
     PORT: '0',
     HOST: '127.0.0.1',
     LOG_LEVEL: 'silent',
-    DATA_DIR: dataDir || join(tmpdir(), 'unused'),
-    DATABASE_URL: process.env.DATABASE_URL ?? '',
+    DATA_DIR: folder?.dir ?? join(tmpdir(), 'unused'),
+    DATABASE_URL: pg?.url ?? '',
     MAX_MESSAGE_BYTES: String(4 * 1024 * 1024),
   });
   const server = await startServer(config);
@@ -74,20 +77,29 @@ async function serveGloss(): Promise<{ port: number; room: string; wsPath: strin
   const email = `bench-${Date.now()}@example.test`;
   const user = await admin.createUser(server.db, { email, name: 'Bench Coder', password });
   const study = await admin.createStudy(server.db, { title: 'Bench study', createdBy: user.id });
-  return { port: server.port, room: study.memosRoom, wsPath: '/sync', email, password, cleanup: dataDir };
+  const cleanup = async () => {
+    await server.close();
+    folder?.remove();
+    await pg?.drop();
+  };
+  return { port: server.port, room: study.memosRoom, wsPath: '/sync', email, password, cleanup };
 }
 
 async function childMain(kind: string): Promise<void> {
-  const info = kind === 'reference' ? await serveReference() : await serveGloss();
+  const { cleanup, ...info } = kind === 'reference' ? { ...(await serveReference()), cleanup: async () => {} } : await serveGloss();
   process.stdout.write(JSON.stringify({ event: 'ready', ...info }) + '\n');
   // Answers "cpu" with this process's CPU time so far (microseconds).
   createInterface({ input: process.stdin }).on('line', (line) => {
     if (line === 'cpu') process.stdout.write(JSON.stringify({ event: 'cpu', ...process.cpuUsage() }) + '\n');
   });
   process.stdin.on('end', () => {
-    const folder = 'cleanup' in info ? String(info.cleanup) : '';
-    if (folder) rmSync(folder, { recursive: true, force: true });
-    process.exit(0);
+    cleanup().then(
+      () => process.exit(0),
+      (error: unknown) => {
+        process.stderr.write(`bench server cleanup failed: ${String(error)}\n`);
+        process.exit(1);
+      },
+    );
   });
 }
 
@@ -97,7 +109,9 @@ async function childMain(kind: string): Promise<void> {
 export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
   const env: NodeJS.ProcessEnv = { ...process.env, BENCH_SERVER: kind === 'reference' ? 'reference' : 'gloss' };
   if (kind === 'gloss-pglite') delete env.DATABASE_URL;
-  const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', fileURLToPath(import.meta.url)], {
+  // BENCH_SERVER_NODE_ARGS: extra node flags for the server only (e.g. --cpu-prof when looking into a figure).
+  const nodeArgs = (process.env.BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean);
+  const child: ChildProcess = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', fileURLToPath(import.meta.url)], {
     cwd: repoRoot,
     env,
     stdio: ['pipe', 'pipe', 'inherit'],
@@ -183,7 +197,7 @@ export function percentile(sorted: number[], p: number): number {
 
 const round = (n: number, digits = 2) => Math.round(n * 10 ** digits) / 10 ** digits;
 
-async function measure(kind: ServerKind, clients: number): Promise<Record<string, unknown> & { name: string }> {
+export async function measure(kind: ServerKind, clients: number): Promise<Record<string, unknown> & { name: string }> {
   const server = await startBenchServer(kind);
   try {
     const sentAt = new Map<string, number>();
