@@ -1,0 +1,92 @@
+/**
+ * The room authorizer against a real PGlite database: the grant each role gets in each kind of room
+ * (the role table, brief and DESIGN §2), the error statuses, and the access-log entry for viewing
+ * someone else's layer (DESIGN §6).
+ */
+import type { IncomingMessage } from 'node:http';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { auditLog, eq, type Database } from '@gloss/db';
+import { openTestDatabase } from '../../../../test/support/database.js';
+import { seedBasic, type BasicSeed, type Person } from '../../../../test/support/seed.js';
+import { ensureLayer } from '../admin/texts.js';
+import { createSessionService, type SessionService } from '../auth/sessions.js';
+import { HttpError } from '../errors.js';
+import type { RoomAuthorizer } from '../sync/contracts.js';
+import { createRoomAuthorizer } from './authorizer.js';
+
+const HOST = 'gloss.test:8080';
+const req = (headers: Record<string, string>) => ({ headers: { host: HOST, ...headers } }) as unknown as IncomingMessage;
+
+describe('room authorizer', () => {
+  let database: Database;
+  let seed: BasicSeed;
+  let sessions: SessionService;
+  let authorizer: RoomAuthorizer;
+  let coderLayer: string;
+  const cookie: Partial<Record<Person, string>> = {};
+
+  beforeAll(async () => {
+    database = await openTestDatabase('pglite');
+    seed = await seedBasic(database.db);
+    sessions = createSessionService(database.db, 86_400_000);
+    authorizer = createRoomAuthorizer({ db: database.db, sessions, publicUrl: undefined });
+    for (const p of ['owner', 'lead', 'coder', 'coder2', 'trainee', 'observer', 'outsider'] as const) {
+      cookie[p] = `gloss_session=${(await sessions.create(seed.users[p].id)).token}`;
+    }
+    coderLayer = await ensureLayer(database.db, seed.studyId, seed.textId, seed.users.coder.id);
+  });
+  afterAll(() => database?.close());
+
+  const grant = (p: Person, room: string) => authorizer.authorize(req({ origin: `http://${HOST}`, cookie: cookie[p]! }), room);
+  const status = async (p: Promise<unknown>) => {
+    try {
+      await p;
+      return 200;
+    } catch (e) {
+      expect(e).toBeInstanceOf(HttpError);
+      return (e as HttpError).status;
+    }
+  };
+
+  it('grants write by kind and role', async () => {
+    const table: Array<[Person, string, boolean]> = [
+      ['owner', seed.textRoom, true],
+      ['lead', seed.textRoom, true],
+      ['coder', seed.textRoom, false],
+      ['observer', seed.textRoom, false],
+      ['lead', seed.codebookRoom, true],
+      ['trainee', seed.codebookRoom, false],
+      ['trainee', seed.memosRoom, true],
+      ['observer', seed.memosRoom, false],
+    ];
+    for (const [person, room, canWrite] of table) {
+      const g = await grant(person, room);
+      expect(g.canWrite, `${person} in ${room}`).toBe(canWrite);
+      expect(g.userId).toBe(seed.users[person].id);
+    }
+    const own = await grant('coder', coderLayer);
+    expect(own).toMatchObject({ kind: 'layer', canWrite: true, role: 'coder', docId: coderLayer, userName: 'Rua Taliaferro' });
+    expect((await grant('lead', coderLayer)).canWrite).toBe(false);
+    expect((await grant('coder2', coderLayer)).canWrite).toBe(false);
+  });
+
+  it('refuses: 403 foreign or missing origin, 401 no or unknown session, 404 unknown room, 403 non-member', async () => {
+    expect(await status(authorizer.authorize(req({ origin: 'http://evil.example', cookie: cookie.coder! }), seed.textRoom))).toBe(403);
+    expect(await status(authorizer.authorize(req({ cookie: cookie.coder! }), seed.textRoom))).toBe(403);
+    expect(await status(authorizer.authorize(req({ origin: `http://${HOST}` }), seed.textRoom))).toBe(401);
+    expect(await status(authorizer.authorize(req({ origin: `http://${HOST}`, cookie: 'gloss_session=zzzz' }), seed.textRoom))).toBe(401);
+    expect(await status(grant('coder', '6f1c1d2e-0000-4000-8000-000000000000'))).toBe(404);
+    expect(await status(grant('coder', '../etc/passwd'))).toBe(404);
+    expect(await status(grant('outsider', seed.textRoom))).toBe(403);
+  });
+
+  it('logs who opened whose layer, and not a coder opening their own', async () => {
+    const before = await database.db.select().from(auditLog).where(eq(auditLog.action, 'layer.view'));
+    await grant('coder', coderLayer);
+    await grant('lead', coderLayer);
+    const after = await database.db.select().from(auditLog).where(eq(auditLog.action, 'layer.view'));
+    const added = after.filter((a) => !before.some((b) => b.id === a.id));
+    expect(added.map((a) => a.userId)).toEqual([seed.users.lead.id]);
+    expect(added[0]!.detail).toMatchObject({ coderId: seed.users.coder.id, textId: seed.textId });
+  });
+});
