@@ -4,7 +4,7 @@
  * hand below (presence/absence of each code in each speaker turn; common practice for multi-code
  * data) and handed to the package's functions. Reflexive mode gives no coefficient (DESIGN §5).
  */
-import { auditLog, eq, studies, type Db } from '@gloss/db';
+import { auditLog, eq, projectedSegments, studies, type Db } from '@gloss/db';
 import { addSegment, newLayerDoc } from '@gloss/model';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
@@ -213,7 +213,7 @@ describe.each(dbKinds())('agreement endpoint on %s', (db) => {
     expect((await lead.call('GET', query({ texts: '00000000-0000-4000-8000-000000000000' }))).status).toBe(400);
   }, 60_000);
 
-  it('in reflexive mode there is no coefficient: the differing turns side by side; every report is audited', async () => {
+  it('in reflexive mode there is no coefficient: the differing turns side by side; reports are audited; seeded layers were projected', async () => {
     const s = server.seeded;
     await server.restart((d) => d.update(studies).set({ mode: 'reflexive' }).where(eq(studies.id, s.studyId)));
     const lead = await clientFor(server.url, 'lead');
@@ -237,5 +237,8 @@ describe.each(dbKinds())('agreement endpoint on %s', (db) => {
     await server.kill('SIGTERM');
     const audited = await server.withDb((d) => d.select().from(auditLog).where(eq(auditLog.action, 'agreement.view')));
     expect(audited.length).toBeGreaterThanOrEqual(5);
+    // The layers were seeded straight into the log, not through sync: the catch-up at start projected them.
+    const projected = await server.withDb((d) => d.select().from(projectedSegments).where(eq(projectedSegments.studyId, s.studyId)));
+    expect(projected).toHaveLength(PLAN.length);
   }, 90_000);
 });

@@ -14,7 +14,7 @@ import type { ServerConfig } from './config.js';
 import { buildApp } from './http/app.js';
 import { createLogger, type Logger } from './logger.js';
 import { createRedisRelay, noRelay } from './relay/index.js';
-import { createProjector, withProjection } from './projection/index.js';
+import { createProjector, scheduleCatchUp, withProjection } from './projection/index.js';
 import { createPgUpdateStore } from './store/index.js';
 import { attachSync } from './sync/index.js';
 import type { Relay } from './sync/contracts.js';
@@ -45,6 +45,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     // Segments, codes and memos follow each committed change into relational tables (projection/).
     const projector = createProjector({ db: database.db, store: logStore, onError: (err, docId) => logger.error({ err, docId }, 'projection failed') });
     const store = withProjection(logStore, projector);
+    scheduleCatchUp(database.db, projector).catch((err: unknown) => logger.warn({ err }, 'projection catch-up could not start'));
     cleanups.push(() => store.close());
 
     let syncStats: () => Record<string, unknown> = () => ({});

@@ -3,3 +3,4 @@ export { withProjection } from './with-projection.js';
 export { projectDocument } from './write.js';
 export { loadDoc, withDocs, type DocLoader } from './load-doc.js';
 export { segmentRows, codeRows, caseRows, memoRows, type LayerInfo } from './rows.js';
+export { scheduleCatchUp } from './catch-up.js';
