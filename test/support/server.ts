@@ -24,6 +24,11 @@ export interface SpawnOptions<T> {
   env?: Record<string, string>;
   /** Runs against the database before the server starts; its result is `seeded`. */
   seed?: (db: Db) => Promise<T>;
+  /**
+   * Another node on the same database (PostgreSQL only): reuses `sameDatabaseAs`'s database, which
+   * stays owned by the first server (stop() of this one leaves it in place).
+   */
+  sameDatabaseAs?: SpawnedServer<unknown>;
   /** How long to wait for the listening line (default 60 s: a cold tsx start on a busy 2-core box). */
   startTimeoutMs?: number;
 }
@@ -33,6 +38,8 @@ export interface SpawnedServer<T> {
   readonly port: number;
   readonly seeded: T;
   readonly dbKind: DbKindUnderTest;
+  /** The database variables the process runs with (DATA_DIR or DATABASE_URL). */
+  readonly dbEnv: Readonly<Record<string, string>>;
   /** Output so far (for failure messages). */
   readonly stderr: string;
   /** Sends a signal and waits for the exit; returns the exit code (null when killed by the signal). */
@@ -48,7 +55,11 @@ export interface SpawnedServer<T> {
 export async function spawnServer<T = undefined>(options: SpawnOptions<T>): Promise<SpawnedServer<T>> {
   let env: Record<string, string>;
   let cleanup: () => Promise<void>;
-  if (options.db === 'pglite') {
+  if (options.sameDatabaseAs) {
+    if (options.db !== 'postgres') throw new Error('spawnServer: only PostgreSQL can be shared by several nodes');
+    env = { ...options.sameDatabaseAs.dbEnv };
+    cleanup = async () => undefined;
+  } else if (options.db === 'pglite') {
     const folder = await freshPgliteDir();
     env = { DATA_DIR: folder.dir };
     cleanup = async () => folder.remove();
@@ -159,6 +170,7 @@ export async function spawnServer<T = undefined>(options: SpawnOptions<T>): Prom
     },
     seeded,
     dbKind: options.db,
+    dbEnv: env,
     kill,
     async stop() {
       await kill('SIGTERM');

@@ -1,0 +1,69 @@
+/**
+ * Two server processes on one PostgreSQL database with Redis (DESIGN §6, "Several nodes"): an edit
+ * made through node A reaches a client of node B live, and both nodes serve the same sessions.
+ * Runs when DATABASE_URL and REDIS_URL are set (CI sets both); skipped otherwise.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { WebSocket } from 'ws';
+import { WebsocketProvider } from 'y-websocket';
+import * as Y from 'yjs';
+import { apiClient, signIn, webSocketWithHeaders } from '../support/http.js';
+import { PASSWORD, PEOPLE, seedBasic, type BasicSeed } from '../support/seed.js';
+import { spawnServer, type SpawnedServer } from '../support/server.js';
+
+const enabled = Boolean(process.env.DATABASE_URL && process.env.REDIS_URL);
+
+async function waitFor(what: string, check: () => boolean, timeoutMs = 20_000): Promise<void> {
+  const deadline = Date.now() + timeoutMs;
+  while (!check()) {
+    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
+    await new Promise((r) => setTimeout(r, 20));
+  }
+}
+
+describe.runIf(enabled)('two nodes on PostgreSQL and Redis', () => {
+  let a: SpawnedServer<BasicSeed>;
+  let b: SpawnedServer<undefined>;
+  const providers: WebsocketProvider[] = [];
+
+  beforeAll(async () => {
+    const redis = { REDIS_URL: process.env.REDIS_URL! };
+    a = await spawnServer({ db: 'postgres', seed: seedBasic, env: redis });
+    b = await spawnServer({ db: 'postgres', sameDatabaseAs: a, env: redis });
+  });
+  afterAll(async () => {
+    for (const p of providers) p.destroy();
+    await b?.stop();
+    await a?.stop();
+  });
+
+  const connect = (server: SpawnedServer<unknown>, cookie: string, room: string) => {
+    const doc = new Y.Doc();
+    const provider = new WebsocketProvider(server.url.replace(/^http/, 'ws') + '/sync', room, doc, {
+      WebSocketPolyfill: webSocketWithHeaders(WebSocket, { cookie, origin: server.url }) as never,
+      disableBc: true,
+    });
+    providers.push(provider);
+    return { doc, provider };
+  };
+
+  it('accepts a session made on node A at node B', async () => {
+    const cookie = await signIn(a.url, PEOPLE.coder.email, PASSWORD);
+    const me = await apiClient(b.url, cookie).call<{ id: string }>('GET', '/api/me');
+    expect(me.status).toBe(200);
+    expect(me.body.id).toBe(a.seeded.users.coder.id);
+  });
+
+  it('relays a codebook edit from a client of node A to a client of node B', async () => {
+    const leadCookie = await signIn(a.url, PEOPLE.lead.email, PASSWORD);
+    const coderCookie = await signIn(b.url, PEOPLE.coder.email, PASSWORD);
+    const room = a.seeded.codebookRoom;
+    const writer = connect(a, leadCookie, room);
+    const reader = connect(b, coderCookie, room);
+    await waitFor('both synced', () => writer.provider.synced && reader.provider.synced);
+    const code = new Y.Map<unknown>();
+    writer.doc.getMap('codes').set('code-shared-tools', code);
+    code.set('label', 'Shared tools');
+    await waitFor('node B client sees the code', () => (reader.doc.getMap('codes').get('code-shared-tools') as Y.Map<unknown> | undefined)?.get('label') === 'Shared tools');
+  });
+});
