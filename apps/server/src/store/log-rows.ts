@@ -26,12 +26,17 @@ export async function readLog(db: Db, docId: string, afterSeq: number): Promise<
   return read;
 }
 
-/** The updates of a read in order (snapshot first) and the highest seq included (at least afterSeq). */
+/** The updates of a read in order (snapshot first, its seqs entry 0) and the highest seq included (at least afterSeq). */
 export function flatten(read: LogRead, afterSeq: number): { updates: Uint8Array[]; seq: number; seqs: number[] } {
   const updates: Uint8Array[] = [];
   const seqs: number[] = [];
   let seq = afterSeq;
-  for (const row of read.snapshot === null ? read.log : [read.snapshot, ...read.log]) {
+  if (read.snapshot !== null) {
+    updates.push(read.snapshot.data);
+    seqs.push(0); // a snapshot folds many rows: it has no single seq a reader may already have applied
+    seq = Math.max(seq, read.snapshot.seq);
+  }
+  for (const row of read.log) {
     updates.push(row.data);
     seqs.push(row.seq);
     seq = Math.max(seq, row.seq);

@@ -12,6 +12,9 @@ import { encodePermissionDenied, encodeSyncStep1, encodeSyncStep2, peekKind, rea
 import type { Room, RoomPeer } from './room.js';
 import { checkUpdate } from './update-check.js';
 
+/** Messages held per connection while its room loads; a client needs a handful (sync step 1, awareness, edits). */
+const MAX_BACKLOG = 1_000;
+
 export class Connection implements RoomPeer {
   /** Messages that arrive before the room is ready, handled in order once it is. */
   private backlog: Uint8Array[] | null = [];
@@ -70,8 +73,9 @@ export class Connection implements RoomPeer {
       return;
     }
     const message = new Uint8Array(data.buffer, data.byteOffset, data.byteLength);
-    if (this.backlog !== null) this.backlog.push(message);
-    else this.handle(message);
+    if (this.backlog === null) this.handle(message);
+    else if (this.backlog.length < MAX_BACKLOG) this.backlog.push(message);
+    else this.fail(new SyncError('unsupported-message', 'too many messages before the document loaded', CloseCode.tryAgainLater));
   }
 
   private handle(message: Uint8Array): void {

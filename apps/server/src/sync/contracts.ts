@@ -33,7 +33,7 @@ export interface UpdateStore {
   append(docId: string, update: Uint8Array, userId: string | null): Promise<number>;
   /**
    * Updates committed after `seq` (for catch-up after a relay subscription or a lost message).
-   * `seqs`, when given, is each update's own sequence number (a snapshot's is the highest it folds).
+   * `seqs`, when given, is each update's own sequence number (0 for a snapshot, which folds many).
    */
   since(docId: string, seq: number): Promise<{ updates: Uint8Array[]; seq: number; seqs?: number[] }>;
   /** Waits for in-flight commits; after this resolves nothing appended earlier is pending. */

@@ -18,5 +18,6 @@ export const CloseCode = {
   invalidPayload: 1007,
   tooBig: 1009,
   internalError: 1011,
+  tryAgainLater: 1013,
   goingAway: 1001,
 } as const;

@@ -117,6 +117,8 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
       httpServer.off('upgrade', onUpgrade);
       for (const connection of connections) connection.ws.close(CloseCode.goingAway, 'server closing');
       await registry.closeAll();
+      // Peers that did not finish the closing handshake by now are dropped.
+      for (const connection of connections) connection.ws.terminate();
       await new Promise<void>((resolve) => wss.close(() => resolve()));
     },
     stats() {
