@@ -50,7 +50,7 @@ describe('second-cycle operations', () => {
         });
         expect(effectiveCodeId(cb, 'c2')).toBe('c0');
       }),
-      { numRuns: 200 },
+      { numRuns: Number(process.env.FC_RUNS ?? 200) },
     );
   });
 

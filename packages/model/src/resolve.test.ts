@@ -131,7 +131,7 @@ describe('resolveSegments (bulk, one pass)', () => {
           });
         },
       ),
-      { numRuns: 250 },
+      { numRuns: Number(process.env.FC_RUNS ?? 250) },
     );
   });
 

@@ -13,72 +13,81 @@ import type { SegmentRecord } from './layer-doc.js';
  *    a deleted target resolves to where it stood; a live one to its offset (+1 when assoc < 0).
  */
 
-// Decoding is a measurable part of the cost; the Uint8Array values read from a layer are stable objects
-// until the segment changes, so decoded positions are cached by identity.
-const decoded = new WeakMap<Uint8Array, Y.RelativePosition>();
-function decode(anchor: Uint8Array): Y.RelativePosition {
-  let r = decoded.get(anchor);
-  if (r === undefined) {
-    r = Y.decodeRelativePosition(anchor);
-    decoded.set(anchor, r);
-  }
-  return r;
+// Decoding and locating an anchor's item cost more than the walk itself, so both are cached on the
+// anchor (the Uint8Array values read from a layer stay the same objects until the segment changes).
+// The cache is a non-enumerable symbol property: invisible to encoders and JSON, and about twenty times
+// cheaper to read than a WeakMap lookup, which mattered at 20,000 anchors. A cached item is re-checked
+// before use: an item split by a later edit keeps its object but may no longer hold the clock.
+interface Located {
+  rpos: Y.RelativePosition;
+  store: unknown;
+  item: Y.Item | null | undefined;
 }
+const CACHE = Symbol('gloss.anchor');
+type Cached = Uint8Array & { [CACHE]?: Located };
 
 interface StoreLike {
   clients: Map<number, Array<Y.Item | Y.GC>>;
 }
 
+/** The text item an anchor names: null = the anchor names the type's start/end; undefined = not resolvable here. */
+function locate(anchor: Uint8Array, textDoc: Y.Doc, text: Y.Text): Located {
+  let c = (anchor as Cached)[CACHE];
+  const store = textDoc.store;
+  if (c !== undefined && c.store === store) {
+    const it = c.item;
+    const id = c.rpos.item;
+    if (it === null || (it !== undefined && id !== null && it.id.clock <= id.clock && id.clock < it.id.clock + it.length)) return c;
+  }
+  const rpos = c?.rpos ?? Y.decodeRelativePosition(anchor);
+  const id = rpos.item;
+  let item: Y.Item | null | undefined;
+  if (id === null) {
+    item = rpos.tname !== null && (textDoc.share.get(rpos.tname) as unknown) === text ? null : undefined;
+  } else {
+    const structs = (store as unknown as StoreLike).clients.get(id.client);
+    const last = structs?.[structs.length - 1];
+    if (structs === undefined || last === undefined || last.id.clock + last.length <= id.clock) item = undefined; // not received yet
+    else {
+      const struct = structs[Y.findIndexSS(structs as never, id.clock)]!;
+      item = struct instanceof Y.Item && struct.parent === text ? struct : undefined;
+    }
+  }
+  if (item === undefined) return { rpos, store, item }; // may become resolvable later: not cached
+  c = { rpos, store, item };
+  if (Object.isExtensible(anchor)) Object.defineProperty(anchor, CACHE, { value: c, writable: true, configurable: true, enumerable: false });
+  return c;
+}
+
 /** Resolve many anchors against one text document; null where an anchor cannot be resolved here. */
 export function resolveAnchors(textDoc: Y.Doc, anchors: readonly Uint8Array[]): Array<number | null> {
   const text = getText(textDoc);
-  const store = textDoc.store as unknown as StoreLike;
-  const rposList = anchors.map(decode);
-  const targets: Array<Y.Item | null | undefined> = new Array(anchors.length);
+  const n = anchors.length;
+  const located: Located[] = new Array(n);
   const offsets = new Map<Y.Item, number>();
-  for (let i = 0; i < rposList.length; i++) {
-    const id = rposList[i]!.item;
-    if (id === null) {
-      targets[i] = null;
-      continue;
-    }
-    const structs = store.clients.get(id.client);
-    const last = structs?.[structs.length - 1];
-    if (structs === undefined || last === undefined || last.id.clock + last.length <= id.clock) {
-      targets[i] = undefined; // not received yet
-      continue;
-    }
-    const struct = structs[Y.findIndexSS(structs as never, id.clock)]!;
-    if (!(struct instanceof Y.Item) || struct.parent !== text) {
-      targets[i] = undefined;
-      continue;
-    }
-    targets[i] = struct;
-    offsets.set(struct, -1);
+  for (let i = 0; i < n; i++) {
+    const l = locate(anchors[i]!, textDoc, text);
+    located[i] = l;
+    if (l.item) offsets.set(l.item, -1);
   }
   if (offsets.size > 0) {
     let pos = 0;
     let remaining = offsets.size;
-    for (let n = text._start; n !== null && remaining > 0; n = n.right) {
-      if (offsets.has(n)) {
-        offsets.set(n, pos);
+    for (let it = text._start; it !== null && remaining > 0; it = it.right) {
+      if (offsets.has(it)) {
+        offsets.set(it, pos);
         remaining--;
       }
-      if (!n.deleted && n.countable) pos += n.length;
+      if (!it.deleted && it.countable) pos += it.length;
     }
   }
-  const out: Array<number | null> = new Array(anchors.length);
+  const out: Array<number | null> = new Array(n);
   const length = text.length;
-  for (let i = 0; i < rposList.length; i++) {
-    const rpos = rposList[i]!;
-    const item = targets[i];
-    if (item === undefined) {
-      out[i] = null;
-    } else if (item === null) {
-      // No item: the anchor names the start or the end of the root type itself.
-      const ours = rpos.tname !== null ? (textDoc.share.get(rpos.tname) as unknown) === text : false;
-      out[i] = ours ? (rpos.assoc >= 0 ? length : 0) : null;
-    } else {
+  for (let i = 0; i < n; i++) {
+    const { rpos, item } = located[i]!;
+    if (item === undefined) out[i] = null;
+    else if (item === null) out[i] = rpos.assoc >= 0 ? length : 0; // the start or end of the text itself
+    else {
       const before = offsets.get(item)!;
       out[i] = item.deleted || !item.countable ? before : before + (rpos.item!.clock - item.id.clock) + (rpos.assoc >= 0 ? 0 : 1);
     }

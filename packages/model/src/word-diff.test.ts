@@ -35,7 +35,7 @@ describe('diffWords (Myers 1986)', () => {
         const { kept, rebuilt } = apply(a, b, changes);
         expect(kept).toEqual(rebuilt);
       }),
-      { numRuns: 300 },
+      { numRuns: Number(process.env.FC_RUNS ?? 300) },
     );
   });
 });

@@ -1,9 +1,8 @@
 import * as Y from 'yjs';
 import { getText } from '../text-doc.js';
-import { readTurns } from '../turns.js';
-import { resolveSegments } from '../resolve.js';
-import { getSegmentsMap, listSegments, readSegment, type SegmentRecord } from '../layer-doc.js';
-import { CODES_ROOT, CHANGES_ROOT, EXCLUSIVE_ROOT } from '../codebook-doc.js';
+import { resolveAnchors } from '../resolve.js';
+import { getSegmentsMap, readSegment, type SegmentRecord } from '../layer-doc.js';
+import { CODES_ROOT, CHANGES_ROOT, EXCLUSIVE_ROOT, META_ROOT } from '../codebook-doc.js';
 import { FIELD_EDITS_ROOT } from '../field-edits.js';
 import { ConflictError, NotFoundError } from '../errors.js';
 import { readCodebookFacts, type CodebookFacts } from './codebook-facts.js';
@@ -11,7 +10,7 @@ import { definitionRaceFlags } from './definition-race.js';
 import { IntervalIndex } from './interval-index.js';
 import { overlapFlags, singleSegmentFlags, type RuleOptions } from './rules.js';
 import { segKey, type Flag, type FlagSegment } from './types.js';
-import { dirtyFromTextDeltas, type TextDelta } from './text-delta.js';
+import { mapRange, type TextDelta } from './text-delta.js';
 
 export interface LayerSource {
   layerId: string;
@@ -27,34 +26,45 @@ export interface FlagEngineOptions {
   independentCoding?: boolean;
 }
 
-interface LayerState {
+/** What one refresh changed, for a client that redraws only that. */
+export interface FlagChanges {
+  added: Flag[];
+  removed: string[];
+}
+
+interface Entry {
   src: LayerSource;
-  unobserve: () => void;
+  rec: SegmentRecord;
+  seg: FlagSegment;
 }
 
 /**
- * Live flags for one text: the visible layers and the study's codebook. It observes the documents and
- * marks what each change touched; `flags()` then recomputes only the flags owned by the touched segments
- * and their overlap neighbours (old and new positions). A text edit re-resolves every segment in one
- * pass (a few ms) but re-evaluates only segments whose endpoints fell in a deleted range or did not move
- * with the edit; insertions alone cannot change any overlap (DESIGN §2 anchoring).
+ * Live flags for one text: the visible layers and the study's codebook. The engine observes the
+ * documents and marks what each change touched; `refresh()` (called by `flags()`) then re-evaluates
+ * only the flags owned by the touched segments and their overlap neighbours, before and after.
+ *
+ * A text edit moves every offset, but by one monotone map: the engine maps each segment through the
+ * edit's delta and re-resolves (against Yjs items) only endpoints at an edit point (see text-delta.ts),
+ * so an edit costs a pass over the segments plus a little work where it happened. Flags carry no
+ * offsets, so moved-but-untouched segments keep their flags as they are.
  */
 export class FlagEngine {
   private readonly textDoc: Y.Doc;
   private readonly codebook: Y.Doc;
-  private readonly layers = new Map<string, LayerState>();
+  private readonly layers = new Map<string, { src: LayerSource; unobserve: () => void }>();
   private opts: RuleOptions;
-  private segs = new Map<string, FlagSegment>();
+  private entries = new Map<string, Entry>();
   private index = IntervalIndex.build([]);
   private facts: CodebookFacts;
   private flagMap = new Map<string, Flag>();
   private owned = new Map<string, Set<string>>();
-  private raceFlags: Flag[] = [];
-  // pending changes since the last refresh
+  private raceFlags = new Map<string, Flag>();
   private full = true;
   private textDeltas: TextDelta[] = [];
   private changedSegs = new Map<string, Set<string>>();
   private codebookChanged = false;
+  private pendingAdded = new Map<string, Flag>();
+  private pendingRemoved = new Set<string>();
   private readonly cleanups: Array<() => void> = [];
   /** Segments re-evaluated by the last refresh (for tests and benchmarks). */
   lastRecomputed = 0;
@@ -65,16 +75,13 @@ export class FlagEngine {
     this.opts = { independentCoding: o.independentCoding ?? false };
     this.facts = readCodebookFacts(o.codebook);
     const text = getText(o.textDoc);
-    const onText = (e: Y.YTextEvent) => {
-      this.textDeltas.push(e.delta as TextDelta);
-    };
+    // The delta must be read inside the handler: Yjs computes it from the transaction.
+    const onText = (e: Y.YTextEvent) => void this.textDeltas.push(e.delta as TextDelta);
     text.observe(onText);
     this.cleanups.push(() => text.unobserve(onText));
-    const onCodebook = () => {
-      this.codebookChanged = true;
-    };
-    for (const root of [CODES_ROOT, EXCLUSIVE_ROOT, CHANGES_ROOT, FIELD_EDITS_ROOT, 'meta']) {
-      const t = o.codebook.get(root, root === CHANGES_ROOT ? Y.Array : Y.Map);
+    const onCodebook = () => void (this.codebookChanged = true);
+    for (const root of [CODES_ROOT, EXCLUSIVE_ROOT, CHANGES_ROOT, FIELD_EDITS_ROOT, META_ROOT]) {
+      const t = root === CHANGES_ROOT ? o.codebook.getArray(root) : o.codebook.getMap(root);
       t.observeDeep(onCodebook);
       this.cleanups.push(() => t.unobserveDeep(onCodebook));
     }
@@ -84,17 +91,17 @@ export class FlagEngine {
   addLayer(src: LayerSource): void {
     if (this.layers.has(src.layerId)) throw new ConflictError(`layer already added: ${src.layerId}`);
     const map = getSegmentsMap(src.doc);
+    const set = this.changed(src.layerId);
     const handler = (events: Array<Y.YEvent<Y.AbstractType<unknown>>>) => {
-      let set = this.changedSegs.get(src.layerId);
-      if (set === undefined) this.changedSegs.set(src.layerId, (set = new Set()));
+      const s = this.changed(src.layerId);
       for (const ev of events) {
-        if (ev.target === map) for (const k of (ev as Y.YMapEvent<unknown>).keysChanged) set.add(k);
-        else if (typeof ev.path[0] === 'string') set.add(ev.path[0]);
+        if (ev.target === map) for (const k of (ev as Y.YMapEvent<unknown>).keysChanged) s.add(k);
+        else if (typeof ev.path[0] === 'string') s.add(ev.path[0]);
       }
     };
     map.observeDeep(handler);
     this.layers.set(src.layerId, { src, unobserve: () => map.unobserveDeep(handler) });
-    this.changedSegs.set(src.layerId, new Set(listSegments(src.doc).map((s) => s.id)));
+    for (const id of map.keys()) set.add(id);
   }
 
   removeLayer(layerId: string): void {
@@ -102,9 +109,8 @@ export class FlagEngine {
     if (l === undefined) throw new NotFoundError('layer', layerId);
     l.unobserve();
     this.layers.delete(layerId);
-    const set = new Set<string>();
-    for (const s of this.segs.values()) if (s.layerId === layerId) set.add(s.id);
-    this.changedSegs.set(layerId, set);
+    const set = this.changed(layerId);
+    for (const e of this.entries.values()) if (e.src.layerId === layerId) set.add(e.rec.id);
   }
 
   setIndependentCoding(on: boolean): void {
@@ -112,16 +118,16 @@ export class FlagEngine {
     this.opts = { independentCoding: on };
   }
 
-  /** Current flags, sorted by kind then key. */
+  /** Current flags, in no particular order (see `sortFlags`). */
   flags(): Flag[] {
     this.refresh();
-    return [...this.flagMap.values(), ...this.raceFlags].sort((a, b) => (a.kind < b.kind ? -1 : a.kind > b.kind ? 1 : a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
+    return [...this.flagMap.values(), ...this.raceFlags.values()];
   }
 
-  /** The resolved segments as the engine last saw them. */
+  /** The segments with their current offsets, as the engine sees them (copies). */
   segments(): FlagSegment[] {
     this.refresh();
-    return [...this.segs.values()];
+    return [...this.entries.values()].map((e) => ({ ...e.seg }));
   }
 
   destroy(): void {
@@ -130,92 +136,125 @@ export class FlagEngine {
     this.layers.clear();
   }
 
-  refresh(): void {
-    if (this.full) return this.recomputeAll();
-    if (this.textDeltas.length === 0 && this.changedSegs.size === 0 && !this.codebookChanged) return;
-    const dirty = new Set<string>();
-    const oldIndex = this.index;
-    const oldRanges: Array<{ start: number; end: number }> = [];
-    let positionsChanged = false;
-    const turns = readTurns(this.textDoc);
+  /** Bring flags up to date; returns the flags added (or replaced) and the keys removed since last time. */
+  refresh(): FlagChanges {
+    if (this.full) this.recomputeAll();
+    else if (this.textDeltas.length > 0 || this.changedSegs.size > 0 || this.codebookChanged) this.recomputeDirty();
+    const out: FlagChanges = { added: [...this.pendingAdded.values()], removed: [...this.pendingRemoved] };
+    this.pendingAdded.clear();
+    this.pendingRemoved.clear();
+    return out;
+  }
 
+  private changed(layerId: string): Set<string> {
+    let s = this.changedSegs.get(layerId);
+    if (s === undefined) this.changedSegs.set(layerId, (s = new Set()));
+    return s;
+  }
+
+  private recomputeDirty(): void {
+    const dirty = new Set<string>();
+    const closure = new Set<string>();
+    const neighbours = (r: { start: number; end: number }) => this.index.overlapping(r.start, r.end, (o) => closure.add(segKey(o.layerId, o.id)));
+
+    // 1. Before anything moves: neighbours of segments about to change, at their old offsets.
+    for (const [layerId, ids] of this.changedSegs) {
+      for (const id of ids) {
+        const k = segKey(layerId, id);
+        const e = this.entries.get(k);
+        if (e !== undefined) neighbours(e.seg);
+        dirty.add(k);
+      }
+    }
     if (this.textDeltas.length > 0) {
-      const before = this.segs;
-      const fresh = this.resolveAll(turns);
-      for (const k of dirtyFromTextDeltas(before, fresh, this.textDeltas)) dirty.add(k);
-      this.segs = fresh;
+      const exact: Entry[] = [];
+      const moved: Array<[FlagSegment, number, number]> = [];
+      const m = { start: 0, end: 0, touched: false };
+      for (const [k, e] of this.entries) {
+        const s = e.seg;
+        if (s.unresolved) {
+          exact.push(e);
+          dirty.add(k);
+          continue;
+        }
+        mapRange(s.start, s.end, this.textDeltas, m);
+        if (m.touched) {
+          neighbours(s); // the index still holds old offsets: nothing has moved yet
+          exact.push(e);
+          dirty.add(k);
+        } else if (m.start !== s.start || m.end !== s.end) moved.push([s, m.start, m.end]);
+      }
       this.textDeltas = [];
-      positionsChanged = true;
-      for (const k of dirty) {
-        const o = before.get(k);
-        if (o !== undefined) oldRanges.push(o);
+      // Untouched segments all move by one monotone map: their order in the index stays right.
+      for (const [s, a, b] of moved) {
+        s.start = a;
+        s.end = b;
+        this.index.noteWidth(b - a);
+      }
+      // 2. Touched endpoints are resolved against the Yjs items (one pass for all of them).
+      if (exact.length > 0) {
+        this.resolveInto(exact);
+        this.index.reorder(exact.map((e) => e.seg));
       }
     }
 
+    // 3. Layer changes: drop the old entry, read and resolve the new one.
     if (this.changedSegs.size > 0) {
-      const reread: Array<{ layer: LayerState; rec: SegmentRecord }> = [];
+      const fresh: Entry[] = [];
       for (const [layerId, ids] of this.changedSegs) {
         const layer = this.layers.get(layerId);
+        const map = layer === undefined ? undefined : getSegmentsMap(layer.src.doc);
         for (const id of ids) {
           const k = segKey(layerId, id);
-          const old = this.segs.get(k);
+          const old = this.entries.get(k);
           if (old !== undefined) {
-            oldRanges.push(old);
-            this.segs.delete(k);
+            this.index.remove(old.seg);
+            this.entries.delete(k);
           }
-          dirty.add(k);
-          const m = layer === undefined ? undefined : getSegmentsMap(layer.src.doc).get(id);
+          const m = map?.get(id);
           const rec = m instanceof Y.Map ? readSegment(id, m) : null;
-          if (layer !== undefined && rec !== null) reread.push({ layer, rec });
+          if (layer !== undefined && rec !== null) fresh.push(this.newEntry(layer.src, rec));
         }
       }
       this.changedSegs.clear();
-      const resolved = resolveSegments(this.textDoc, reread.map((r) => r.rec), turns);
-      resolved.forEach((r, i) => {
-        const { layer, rec } = reread[i]!;
-        this.segs.set(segKey(layer.src.layerId, rec.id), this.toFlagSegment(layer.src, rec, r));
-      });
-      positionsChanged = true;
+      this.resolveInto(fresh);
+      for (const e of fresh) {
+        this.entries.set(segKey(e.src.layerId, e.rec.id), e);
+        this.index.add(e.seg);
+      }
     }
 
+    // 4. Codebook: segments whose code's status, successor, exclusive sets or definition changed.
     if (this.codebookChanged) {
       this.codebookChanged = false;
       const old = this.facts;
       this.facts = readCodebookFacts(this.codebook);
-      this.raceFlags = definitionRaceFlags(this.codebook);
-      if (old.roundStarts.length !== this.facts.roundStarts.length) return this.recomputeAll();
+      this.updateRaceFlags();
+      if (old.roundStarts.join() !== this.facts.roundStarts.join()) return this.recomputeAll();
       const changedCodes = new Set<string>();
       for (const id of new Set([...old.signature.keys(), ...this.facts.signature.keys()])) {
         if (old.signature.get(id) !== this.facts.signature.get(id)) changedCodes.add(id);
       }
       if (changedCodes.size > 0) {
-        for (const [k, s] of this.segs) {
-          const eff = this.facts.effective.get(s.codeId) ?? s.codeId;
-          if (changedCodes.has(s.codeId) || changedCodes.has(eff) || changedCodes.has(s.effectiveCode)) {
-            if (eff !== s.effectiveCode) {
-              this.segs.set(k, { ...s, effectiveCode: eff });
-              positionsChanged = true;
-            }
-            dirty.add(k);
-          }
+        for (const [k, e] of this.entries) {
+          const s = e.seg;
+          if (!changedCodes.has(s.codeId) && !changedCodes.has(s.effectiveCode)) continue;
+          s.effectiveCode = this.facts.effective.get(s.codeId) ?? s.codeId;
+          dirty.add(k);
         }
       }
     }
 
-    if (positionsChanged) this.index = IntervalIndex.build(this.segs.values());
-    // Closure: the dirty segments plus everything overlapping them before or after the change.
-    const closure = new Set(dirty);
-    const addNeighbours = (idx: IntervalIndex, r: { start: number; end: number }) =>
-      idx.overlapping(r.start, r.end, (o) => closure.add(segKey(o.layerId, o.id)));
-    for (const r of oldRanges) addNeighbours(oldIndex, r);
+    // 5. After: neighbours at the new offsets; then re-evaluate the closure.
     for (const k of dirty) {
-      const s = this.segs.get(k);
-      if (s !== undefined) addNeighbours(this.index, s);
+      closure.add(k);
+      const e = this.entries.get(k);
+      if (e !== undefined) neighbours(e.seg);
     }
     for (const k of closure) this.dropOwned(k);
     for (const k of closure) {
-      const s = this.segs.get(k);
-      if (s !== undefined) this.evaluate(s);
+      const e = this.entries.get(k);
+      if (e !== undefined) this.evaluate(e.seg);
     }
     this.lastRecomputed = closure.size;
   }
@@ -226,32 +265,77 @@ export class FlagEngine {
     this.changedSegs.clear();
     this.codebookChanged = false;
     this.facts = readCodebookFacts(this.codebook);
-    this.raceFlags = definitionRaceFlags(this.codebook);
-    this.segs = this.resolveAll(readTurns(this.textDoc));
-    this.index = IntervalIndex.build(this.segs.values());
+    for (const k of this.flagMap.keys()) this.pendingRemoved.add(k);
+    this.pendingAdded.clear();
+    this.updateRaceFlags();
+    this.entries.clear();
+    const all: Entry[] = [];
+    for (const l of this.layers.values()) {
+      getSegmentsMap(l.src.doc).forEach((m, id) => {
+        const rec = m instanceof Y.Map ? readSegment(id, m) : null;
+        if (rec !== null) all.push(this.newEntry(l.src, rec));
+      });
+    }
+    this.resolveInto(all);
+    for (const e of all) this.entries.set(segKey(e.src.layerId, e.rec.id), e);
+    this.index = IntervalIndex.build(all.map((e) => e.seg));
     this.flagMap.clear();
     this.owned.clear();
-    for (const s of this.segs.values()) this.evaluate(s);
-    this.lastRecomputed = this.segs.size;
+    for (const e of all) this.evaluate(e.seg);
+    this.lastRecomputed = all.length;
   }
 
-  private resolveAll(turns: ReturnType<typeof readTurns>): Map<string, FlagSegment> {
-    const recs: Array<{ src: LayerSource; rec: SegmentRecord }> = [];
-    for (const l of this.layers.values()) for (const rec of listSegments(l.src.doc)) recs.push({ src: l.src, rec });
-    const resolved = resolveSegments(this.textDoc, recs.map((r) => r.rec), turns);
-    const out = new Map<string, FlagSegment>();
-    resolved.forEach((r, i) => {
-      const { src, rec } = recs[i]!;
-      out.set(segKey(src.layerId, rec.id), this.toFlagSegment(src, rec, r));
+  private newEntry(src: LayerSource, rec: SegmentRecord): Entry {
+    const seg: FlagSegment = {
+      id: rec.id, codeId: rec.codeId, start: 0, end: 0, quote: '', orphaned: false, unresolved: true, turn: null,
+      createdAt: rec.createdAt, layerId: src.layerId, coder: src.coder, effectiveCode: this.facts.effective.get(rec.codeId) ?? rec.codeId,
+    };
+    if (rec.round !== undefined) seg.round = rec.round;
+    if (rec.checkedAt !== undefined) seg.checkedAt = rec.checkedAt;
+    return { src, rec, seg };
+  }
+
+  /** Resolve entries' anchors exactly, in one pass. Flags need offsets only: quote and turn stay empty. */
+  private resolveInto(list: Entry[]): void {
+    if (list.length === 0) return;
+    const anchors: Uint8Array[] = new Array(list.length * 2);
+    list.forEach((e, i) => {
+      anchors[2 * i] = e.rec.start;
+      anchors[2 * i + 1] = e.rec.end;
     });
-    return out;
+    const idx = resolveAnchors(this.textDoc, anchors);
+    list.forEach((e, i) => {
+      const a = idx[2 * i];
+      const b = idx[2 * i + 1];
+      const s = e.seg;
+      if (a == null || b == null) {
+        s.start = s.end = 0;
+        s.unresolved = true;
+        s.orphaned = false;
+      } else {
+        s.start = Math.min(a, b);
+        s.end = b;
+        s.unresolved = false;
+        s.orphaned = s.start === s.end;
+      }
+    });
   }
 
-  private toFlagSegment(src: LayerSource, rec: SegmentRecord, r: ReturnType<typeof resolveSegments>[number]): FlagSegment {
-    const s: FlagSegment = { ...r, layerId: src.layerId, coder: src.coder, effectiveCode: this.facts.effective.get(rec.codeId) ?? rec.codeId };
-    if (rec.round !== undefined) s.round = rec.round;
-    if (rec.checkedAt !== undefined) s.checkedAt = rec.checkedAt;
-    return s;
+  private updateRaceFlags(): void {
+    const next = new Map(definitionRaceFlags(this.codebook).map((f) => [f.key, f]));
+    for (const k of this.raceFlags.keys()) if (!next.has(k)) this.noteRemoved(k);
+    for (const f of next.values()) if (JSON.stringify(this.raceFlags.get(f.key)) !== JSON.stringify(f)) this.noteAdded(f);
+    this.raceFlags = next;
+  }
+
+  private noteAdded(f: Flag): void {
+    this.pendingRemoved.delete(f.key);
+    this.pendingAdded.set(f.key, f);
+  }
+
+  private noteRemoved(key: string): void {
+    this.pendingAdded.delete(key);
+    this.pendingRemoved.add(key);
   }
 
   private dropOwned(k: string): void {
@@ -261,14 +345,16 @@ export class FlagEngine {
       const f = this.flagMap.get(fk);
       if (f === undefined) continue;
       this.flagMap.delete(fk);
+      this.noteRemoved(fk);
       for (const r of f.segments) this.owned.get(segKey(r.layerId, r.segmentId))?.delete(fk);
     }
     this.owned.delete(k);
   }
 
   private evaluate(s: FlagSegment): void {
-    for (const f of [...singleSegmentFlags(s, this.facts), ...overlapFlags(s, this.index, this.facts, this.opts)]) {
+    const add = (f: Flag) => {
       this.flagMap.set(f.key, f);
+      this.noteAdded(f);
       // single and pair flags are owned by every segment they name; disagreement only by the first
       const owners = f.kind === 'disagreement' ? [f.segments[0]!] : f.segments;
       for (const r of owners) {
@@ -277,15 +363,22 @@ export class FlagEngine {
         if (set === undefined) this.owned.set(ok, (set = new Set()));
         set.add(f.key);
       }
-    }
+    };
+    for (const f of singleSegmentFlags(s, this.facts)) add(f);
+    for (const f of overlapFlags(s, this.index, this.facts, this.opts)) add(f);
   }
 }
 
-/** All flags at once, without keeping state (same rules as the engine). */
+/** Flags in a stable order: by kind, then key. */
+export function sortFlags(flags: Flag[]): Flag[] {
+  return flags.sort((a, b) => (a.kind < b.kind ? -1 : a.kind > b.kind ? 1 : a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
+}
+
+/** All flags at once, without keeping state (same rules as the engine), sorted. */
 export function computeFlags(o: FlagEngineOptions): Flag[] {
   const e = new FlagEngine(o);
   try {
-    return e.flags();
+    return sortFlags(e.flags());
   } finally {
     e.destroy();
   }

@@ -5,7 +5,7 @@ import { newLayerDoc, addSegment, recheckSegment, listSegments, recodeSegment } 
 import { addCode, addExclusiveSet, createCodebookDoc, getDefinitionText, startRound, updateCodeField } from '../codebook-doc.js';
 import { mergeCodes, reconcileLayer, retireCode } from '../codebook-ops.js';
 import { trackFieldEdits } from '../field-edits.js';
-import { computeFlags, FlagEngine } from './engine.js';
+import { computeFlags, FlagEngine, sortFlags } from './engine.js';
 import { definitionRaceFlags } from './definition-race.js';
 import type { Flag, FlagKind } from './types.js';
 
@@ -223,10 +223,17 @@ describe('flags', () => {
     recodeSegment(ben, sb, A);
     engine.flags();
     expect(engine.lastRecomputed).toBe(1);
-    const r = at('Cold');
-    correctText(text, r.start, 0, 'Very '); // insertion only
-    expect(engine.flags()).toEqual(computeFlags({ textDoc: text, codebook: cb, layers }));
+    correctText(text, at('allotment').start + 3, 0, 'x'); // away from every segment boundary
+    expect(sortFlags(engine.flags())).toEqual(computeFlags({ textDoc: text, codebook: cb, layers }));
     expect(engine.lastRecomputed).toBe(0);
+    correctText(text, at('Cold').start, 0, 'Very '); // at a segment's start: that segment is re-resolved
+    expect(sortFlags(engine.flags())).toEqual(computeFlags({ textDoc: text, codebook: cb, layers }));
+    expect(engine.lastRecomputed).toBe(1);
+    const r = at('lonely');
+    correctText(text, r.start, r.end - r.start, ''); // a deletion inside ana's segment
+    const changes = engine.refresh();
+    expect([changes.added, changes.removed]).toEqual([[], []]);
+    expect(engine.lastRecomputed).toBe(1);
     engine.destroy();
   });
 });

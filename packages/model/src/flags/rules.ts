@@ -20,6 +20,9 @@ const pairKey = (kind: string, a: FlagSegment, b: FlagSegment) => {
   return `${kind}:${ka < kb ? `${ka}|${kb}` : `${kb}|${ka}`}`;
 };
 
+const ordered = (s: FlagSegment, o: FlagSegment): [FlagSegment, FlagSegment] =>
+  segKey(s.layerId, s.id) < segKey(o.layerId, o.id) ? [s, o] : [o, s];
+
 /** orphaned, retired-code, stale-definition */
 export function singleSegmentFlags(s: FlagSegment, facts: CodebookFacts): Flag[] {
   const out: Flag[] = [];
@@ -60,14 +63,15 @@ export function overlapFlags(s: FlagSegment, index: IntervalIndex, facts: Codebo
   const others = new Map<string, { refs: FlagSegment[]; same: boolean }>();
   index.overlapping(s.start, s.end, (o) => {
     if (o.layerId === s.layerId && o.id === s.id) return;
-    const [a, b] = segKey(s.layerId, s.id) < segKey(o.layerId, o.id) ? [s, o] : [o, s];
     if (o.layerId === s.layerId && o.effectiveCode === s.effectiveCode) {
+      const [a, b] = ordered(s, o);
       out.push({ kind: 'duplicate', key: pairKey('duplicate', s, o), segments: [refOf(a), refOf(b)], codeIds: [s.effectiveCode], people: [s.coder] });
     }
     if (mySets !== undefined && o.effectiveCode !== s.effectiveCode) {
       const theirs = facts.exclusiveSets.get(o.effectiveCode);
       const shared = theirs?.filter((x) => mySets.includes(x));
       if (shared !== undefined && shared.length > 0) {
+        const [a, b] = ordered(s, o);
         out.push({
           kind: 'exclusive', key: pairKey('exclusive', s, o), segments: [refOf(a), refOf(b)],
           codeIds: [a.effectiveCode, b.effectiveCode], people: [...new Set([a.coder, b.coder])], detail: shared.join(','),
