@@ -51,6 +51,10 @@ describe.runIf(enabled)('two nodes through Redis', () => {
       await waitFor(same, 'all see 30 memos across nodes', 20_000);
       for (let i = 0; i < 30; i++) expect(b.doc.getMap('memos').get(`k${i}`)).toBe(a.doc.getMap('memos').get(`k${i}`));
 
+      // Presence crosses nodes too, and so does its removal when the connection closes.
+      a.provider.awareness.setLocalStateField('user', { name: 'Rua' });
+      await waitFor(() => (b.provider.awareness.getStates().get(a.doc.clientID) as { user?: { name?: string } } | undefined)?.user?.name === 'Rua', 'presence on the other node', 20_000);
+
       // Committed to the log by a third party and never published: only the catch-up can deliver it.
       const outsider = new Y.Doc();
       Y.applyUpdate(outsider, Y.encodeStateAsUpdate(a.doc));
@@ -61,6 +65,8 @@ describe.runIf(enabled)('two nodes through Redis', () => {
       await store.append(room, lost[0]!, null);
       await store.close();
       await waitFor(() => clients.every((x) => x.doc.getMap('memos').get('lost') === 'recovered from the log'), 'lost update recovered on both nodes', 30_000);
+      a.destroy();
+      await waitFor(() => !b.provider.awareness.getStates().has(a.doc.clientID), 'presence removed on the other node', 20_000);
     } finally {
       for (const x of clients) x.destroy();
     }
