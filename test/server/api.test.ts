@@ -66,7 +66,7 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
     const res = await anon().call<{ openapi: string; paths: Record<string, object>; components: { schemas: Record<string, object> } }>('GET', '/api/openapi.json');
     expect(res.status).toBe(200);
     expect(res.body.openapi).toBe('3.1.0');
-    for (const path of ['/api/health', '/api/session', '/api/me', '/api/studies', '/api/studies/{studyId}', '/api/studies/{studyId}/members', '/api/studies/{studyId}/members/{userId}', '/api/studies/{studyId}/texts', '/api/texts/{textId}']) {
+    for (const path of ['/api/health', '/api/session', '/api/me', '/api/studies', '/api/studies/{studyId}', '/api/studies/{studyId}/members', '/api/studies/{studyId}/members/{userId}', '/api/studies/{studyId}/texts', '/api/texts/{textId}', '/api/studies/{studyId}/audit', '/api/texts/{textId}/segments', '/api/studies/{studyId}/texts/import', '/api/studies/{studyId}/agreement', '/api/documents/{room}/versions', '/api/documents/{room}/versions/{versionId}']) {
       expect(res.body.paths, path).toHaveProperty([path]);
     }
     // Every $ref resolves.
