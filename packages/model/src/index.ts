@@ -16,3 +16,4 @@ export * from './field-edits.js';
 export * from './flags/index.js';
 export * from './word-diff.js';
 export * from './versions.js';
+export * from './examples.js';
