@@ -1,12 +1,14 @@
 /**
  * Fresh PGlite data folders for tests, fast: initialising a folder takes seconds, copying a migrated
- * template takes a fraction. The template is built once per migration set (keyed by a hash of the
- * migration files) and shared by every worker and run; it is built in a private folder and renamed
- * into place, so concurrent workers never see a half-built one.
+ * template takes a fraction. The template is built once per migration set and PGlite build (keyed
+ * by a hash of the migration files and PGlite's resolved path) and shared by every worker and run;
+ * it is built in a private folder and renamed into place, so concurrent workers never see a
+ * half-built one.
  */
 import { createHash, randomBytes } from 'node:crypto';
 import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, renameSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
+import { createRequire } from 'node:module';
 import { join } from 'node:path';
 import { migrationsFolder, openDatabase } from '@gloss/db';
 
@@ -20,6 +22,8 @@ function migrationsHash(): string {
     }
   };
   walk(migrationsFolder);
+  // A data folder belongs to one PGlite build: its resolved path carries the version (pnpm store path).
+  hash.update(createRequire(join(migrationsFolder, '..', 'package.json')).resolve('@electric-sql/pglite'));
   return hash.digest('hex').slice(0, 16);
 }
 
