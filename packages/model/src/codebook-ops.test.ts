@@ -54,6 +54,41 @@ describe('second-cycle operations', () => {
     );
   });
 
+  it('split: every segment ends on its assigned new code or stays, flagged, on the old one (random layers)', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.array(fc.tuple(fc.boolean(), fc.nat(2)), { maxLength: 20 }), { minLength: 1, maxLength: 3 }),
+        (layerSpec) => {
+          const cb = createCodebookDoc();
+          const old = addCode(cb, { id: 'old', label: 'old' }, lead);
+          addCode(cb, { id: 'other', label: 'other' }, lead);
+          const assignment = new Map<string, string>();
+          const targets = ['n0', 'n1', 'n2'];
+          const layers = layerSpec.map((spec) => {
+            const l = newLayerDoc();
+            spec.forEach(([assigned, to], i) => {
+              const id = addSegment(l, text, { codeId: i % 4 === 3 ? 'other' : old, start: i, end: i + 3 }, lead.clock);
+              if (assigned && i % 4 !== 3) assignment.set(id, targets[to]!);
+            });
+            return l;
+          });
+          const before = layers.map((l) => listSegments(l));
+          splitCode(cb, old, targets.map((id) => ({ id, label: id })), assignment, lead);
+          layers.forEach((l) => reconcileLayer(cb, l));
+          layers.forEach((l, i) => {
+            const after = new Map(listSegments(l).map((s) => [s.id, s.codeId]));
+            expect([...after.keys()]).toEqual(before[i]!.map((s) => s.id));
+            for (const s of before[i]!) {
+              const want = s.codeId === old ? (assignment.get(s.id) ?? old) : s.codeId;
+              expect(after.get(s.id)).toBe(want);
+            }
+          });
+        },
+      ),
+      { numRuns: Number(process.env.FC_RUNS ?? 200) },
+    );
+  });
+
   it('merge refuses self-merges and merging into a merged code', () => {
     const cb = createCodebookDoc();
     const [a, b, c] = ['a', 'b', 'c'].map((id) => addCode(cb, { id, label: id }, lead));

@@ -213,6 +213,23 @@ describe('flags', () => {
     });
   });
 
+  it('the engine follows layers added and removed, and independent coding switched on', () => {
+    const { text, cb, A, B, ana, ben, at } = setup();
+    addSegment(ana, text, { codeId: A, ...at('soup rota') }, clock);
+    addSegment(ben, text, { codeId: B, ...at('soup') }, clock);
+    const engine = new FlagEngine({ textDoc: text, codebook: cb, layers: [{ layerId: 'L-ana', coder: 'ana', doc: ana }] });
+    expect(engine.flags()).toEqual([]);
+    engine.addLayer({ layerId: 'L-ben', coder: 'ben', doc: ben });
+    expect(kinds(engine.flags(), 'disagreement')).toHaveLength(2);
+    engine.setIndependentCoding(true);
+    expect(engine.flags()).toEqual([]);
+    engine.setIndependentCoding(false);
+    engine.removeLayer('L-ben');
+    expect(engine.flags()).toEqual([]);
+    expect(() => engine.removeLayer('L-ben')).toThrow(expect.objectContaining({ code: 'not-found' }));
+    engine.destroy();
+  });
+
   it('the engine updates incrementally: one edit re-evaluates only the segments it touched', () => {
     const { text, cb, A, B, ana, ben, layers, at } = setup();
     const engine = new FlagEngine({ textDoc: text, codebook: cb, layers });
