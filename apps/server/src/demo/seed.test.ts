@@ -1,10 +1,11 @@
-import { documents, memberships, snapshots, studies, texts, users } from '@gloss/db';
+import { documents, memberships, studies, texts, users } from '@gloss/db';
 import * as M from '@gloss/model';
 import { and, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
 import { dbKinds, openTestDatabase } from '../../../../test/support/database.js';
 import { loadDemo } from '../../../../demo/load.js';
+import { createPgUpdateStore } from '../store/index.js';
 import { seedDemo } from './seed.js';
 
 // The demo files are the source of truth here: the seeded database must hold exactly what they say.
@@ -18,12 +19,18 @@ describe.each(dbKinds())('demo seeding on %s', (kind) => {
   }, 120_000);
   afterAll(async () => database?.close());
 
+  // Read documents through the server's own update store, so this sees exactly what a sync room loads.
   async function docState(docId: string): Promise<Y.Doc> {
-    const [row] = await database.db.select().from(snapshots).where(eq(snapshots.docId, docId));
-    expect(row, `snapshot of ${docId}`).toBeDefined();
-    const doc = new Y.Doc({ gc: false });
-    Y.applyUpdate(doc, row!.data);
-    return doc;
+    const store = createPgUpdateStore(database);
+    try {
+      const { updates } = await store.load(docId);
+      expect(updates.length, `stored state of ${docId}`).toBeGreaterThan(0);
+      const doc = new Y.Doc({ gc: false });
+      for (const u of updates) Y.applyUpdate(doc, u);
+      return doc;
+    } finally {
+      await store.close();
+    }
   }
 
   it('loads accounts, members, texts, codebook, cases, memos and two coders\' layers', async () => {

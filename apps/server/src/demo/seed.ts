@@ -4,12 +4,13 @@
  * attributes, starter memos, the four transcripts, and two coders' layers on two texts so that
  * agreement, flags and review have something to show on first open.
  *
- * Every document's first state goes in as its snapshot at seq 0, exactly as a text import does.
+ * Every document's first state goes in as its first log update, exactly as a text import does
+ * (compaction folds it into a snapshot later).
  */
-import { type Db, documents, snapshots, studies } from '@gloss/db';
+import { type Db, studies, updates } from '@gloss/db';
 import { importTranscript } from '@gloss/interchange';
 import * as M from '@gloss/model';
-import { eq } from 'drizzle-orm';
+import { asc, eq } from 'drizzle-orm';
 import * as Y from 'yjs';
 import { loadDemo } from '../../../../demo/load.js';
 import { addMember, addTextFromTranscript, createStudy, createUser, ensureLayer, findUserByEmail } from '../admin/index.js';
@@ -46,15 +47,16 @@ async function hasAnyStudy(db: Db): Promise<boolean> {
   return rows.length > 0;
 }
 
-async function putSnapshot(db: Db, docId: string, doc: Y.Doc): Promise<void> {
+async function putFirstState(db: Db, docId: string, doc: Y.Doc, userId: string): Promise<void> {
   const data = Y.encodeStateAsUpdate(doc);
-  await db.insert(snapshots).values({ docId, seq: 0, data, bytes: data.byteLength });
+  await db.insert(updates).values({ docId, data, bytes: data.byteLength, userId });
 }
 
-async function loadSnapshotDoc(db: Db, docId: string): Promise<Y.Doc> {
-  const [row] = await db.select().from(snapshots).where(eq(snapshots.docId, docId));
+/** The text document as the import stored it (its log; nothing has been compacted yet). */
+async function loadTextDoc(db: Db, docId: string): Promise<Y.Doc> {
+  const rows = await db.select({ data: updates.data }).from(updates).where(eq(updates.docId, docId)).orderBy(asc(updates.seq));
   const doc = M.newTextDoc();
-  if (row) Y.applyUpdate(doc, row.data);
+  for (const row of rows) Y.applyUpdate(doc, row.data);
   return doc;
 }
 
@@ -111,7 +113,7 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
       createdBy: ownerId,
     });
     textIds.set(entry.file, row.id);
-    textDocs.set(entry.file, await loadSnapshotDoc(db, row.room));
+    textDocs.set(entry.file, await loadTextDoc(db, row.room));
   }
 
   // Codebook: entries, then examples anchored where their words stand in the texts.
@@ -158,7 +160,7 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
   for (const entry of index) {
     for (const c of entry.cases) if (caseIds.has(c)) M.linkText(cb, caseIds.get(c)!, textIds.get(entry.file)!);
   }
-  await putSnapshot(db, created.codebookRoom, cb);
+  await putFirstState(db, created.codebookRoom, cb, lead.by);
 
   // Memos.
   const memoDoc = M.createMemosDoc();
@@ -169,7 +171,7 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
       : { kind: 'study' };
     M.addMemo(memoDoc, { kind: 'memo', author: lead.by, title: m.title, body: m.body, attachedTo });
   }
-  await putSnapshot(db, created.memosRoom, memoDoc);
+  await putFirstState(db, created.memosRoom, memoDoc, lead.by);
 
   // Two coders' layers on two texts: both code the examples; the second coder also applies codes to
   // their near-misses, so the demo shows disagreement and (on P04) the exclusive-set flag.
@@ -187,7 +189,7 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
         }
       }
       const layerId = await ensureLayer(db, created.id, textIds.get(file)!, coderId);
-      await putSnapshot(db, layerId, layer);
+      await putFirstState(db, layerId, layer, coderId);
     }
   }
   return { seeded: true, studyId: created.id, accounts: listed };
