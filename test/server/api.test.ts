@@ -102,6 +102,16 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
       expect(after.body.error.code).toBe('unauthenticated');
     });
 
+    it('replaces the browser’s previous session on a new sign-in', async () => {
+      const first = await signIn(server.url, PEOPLE.coder2.email, PASSWORD);
+      const again = await apiClient(server.url, first).call('POST', '/api/session', { email: PEOPLE.coder2.email, password: PASSWORD });
+      expect(again.status).toBe(200);
+      const second = sessionCookieFrom(again.headers)!;
+      expect(second).not.toBe(first);
+      expect((await apiClient(server.url, first).call('GET', '/api/me')).status).toBe(401);
+      expect((await apiClient(server.url, second).call('GET', '/api/me')).status).toBe(200);
+    });
+
     it('refuses a wrong password and an unknown email alike (401, same message)', async () => {
       const wrong = await anon().call<{ error: { code: string; message: string } }>('POST', '/api/session', { email: PEOPLE.lead.email, password: 'not-it-at-all' });
       const unknown = await anon().call<{ error: { code: string; message: string } }>('POST', '/api/session', { email: 'nobody@example.test', password: 'not-it-at-all' });

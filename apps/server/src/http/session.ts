@@ -28,6 +28,9 @@ export function sessionRoutes(deps: AppDeps) {
       throw new HttpError(401, 'invalid_credentials', WRONG);
     }
     deps.signInLimiter.reset(key);
+    // A new sign-in replaces whatever session this browser held (no session outlives its cookie).
+    const previous = readSessionToken(c.req.header('cookie'));
+    if (previous) await deps.sessions.invalidate(previous);
     const { token, expiresAt } = await deps.sessions.create(user.id);
     c.header('Set-Cookie', sessionCookie(token, expiresAt, isSecure(c, deps.config.publicUrl)));
     return c.json({ id: user.id, email: user.email, name: user.name, expiresAt: expiresAt.toISOString() });
