@@ -42,7 +42,11 @@ export function setPaused(p: boolean): void {
 }
 export const isPaused = (): boolean => paused;
 
-export function openDoc(room: string, opts: { label: string; gc?: boolean }): OpenDoc {
+/**
+ * `offline: false` keeps no IndexedDB copy: for documents this person only reads (other coders' layers),
+ * which need not survive a lost connection and would cost storage and time on every open.
+ */
+export function openDoc(room: string, opts: { label: string; gc?: boolean; offline?: boolean }): OpenDoc {
   const existing = open.get(room);
   if (existing) {
     existing.refs++;
@@ -50,7 +54,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean }): Op
   }
   // Text documents are opened with gc:false so anchors into deleted text still resolve (DESIGN §2).
   const doc = new Y.Doc({ gc: opts.gc ?? true });
-  const local = new IndexeddbPersistence(`gloss:${room}`, doc);
+  const local = opts.offline === false ? null : new IndexeddbPersistence(`gloss:${room}`, doc);
   const provider = new WebsocketProvider(syncBaseUrl(), room, doc, { connect: !paused, maxBackoffTime: 2500 });
   const [state, setState] = createSignal<DocState>('loading');
   const [link, setLink] = createSignal<LinkState>(paused ? 'paused' : 'connecting');
@@ -71,7 +75,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean }): Op
     }
   });
   doc.on('update', (_u: Uint8Array, origin: unknown) => {
-    if (origin === provider || origin === local) return;
+    if (origin === provider || (local && origin === local)) return;
     if (!provider.wsconnected || !provider.synced) setPending(pending() + 1);
   });
 
@@ -85,7 +89,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean }): Op
     };
     provider.once('sync', (s: boolean) => s && finish());
     // Offline: the IndexedDB copy is good enough to work on if it holds anything.
-    void local.whenSynced.then(() => {
+    void local?.whenSynced.then(() => {
       if (doc.store.clients.size > 0 && !provider.wsconnected) finish();
     });
   });
@@ -106,7 +110,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean }): Op
       setState('unloading');
       unregisterDoc(handle);
       provider.destroy();
-      void local.destroy().finally(() => {
+      void (local ? local.destroy() : Promise.resolve()).finally(() => {
         doc.destroy();
         setState('closed');
       });

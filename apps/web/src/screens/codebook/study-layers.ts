@@ -28,7 +28,7 @@ export async function loadStudyLayers(studyId: string, onProgress: (done: number
   onProgress(0, all.length);
   await Promise.all(
     all.map(async ({ d, l }) => {
-      const h = openDoc(l.room, { label: `${l.name ?? 'a'} layer`, gc: false });
+      const h = openDoc(l.room, { label: `${l.name ?? 'a'} layer`, gc: false, offline: !!l.mine });
       handles.push(h);
       await h.whenReady;
       segments.set(l.room, listSegments(h.doc));

@@ -15,6 +15,7 @@ import type { LayerHandle } from './coding-state.js';
 export function CodingScreen(props: { studyId: string; textId: string; scope: StudyScope; me: Me }) {
   const [detail] = createResource(() => props.textId, (id) => api.text(id));
   const [docs, setDocs] = createSignal<{ text: OpenDoc; layers: LayerHandle[] }>();
+  const [loaded, setLoaded] = createSignal(false);
 
   createEffect(() => {
     const d = detail();
@@ -23,14 +24,24 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
       const text = openDoc(d.room, { label: `“${d.title || 'this text'}”`, gc: false });
       const layers = d.layers.map((l) => {
         const mine = l.mine ?? l.coderId === props.me.id;
-        return { coderId: l.coderId, name: mine ? `${l.name ?? props.me.name} (you)` : l.name ?? l.coderId, mine, doc: openDoc(l.room, { label: mine ? 'your coding' : `${l.name ?? 'a'} layer`, gc: false }) };
+        return { coderId: l.coderId, name: mine ? `${l.name ?? props.me.name} (you)` : l.name ?? l.coderId, mine, doc: openDoc(l.room, { label: mine ? 'your coding' : `${l.name ?? 'a'} layer`, gc: false, offline: mine || l.canWrite === true }) };
       });
       setDocs({ text, layers });
+      // draw once the text and every layer hold the server's state (or the offline copy)
+      let live = true;
+      performance.mark('gloss:docs-opening');
+      // the text first (its words can be read at once); layers draw as they arrive
+      void text.whenReady.then(() => {
+        performance.mark('gloss:text-ready');
+        if (live) setLoaded(true);
+      });
       props.scope.setWhere(props.textId, d.title);
       onCleanup(() => {
         props.scope.setWhere(undefined, undefined);
         text.release();
         layers.forEach((l) => l.doc.release());
+        live = false;
+        setLoaded(false);
         setDocs(undefined);
       });
     });
@@ -40,7 +51,7 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
     const d = docs();
     const cb = props.scope.codebook();
     const mm = props.scope.memos();
-    return d && cb && mm ? { ...d, codebook: cb, memos: mm } : undefined;
+    return d && cb && mm && loaded() ? { ...d, codebook: cb, memos: mm } : undefined;
   });
 
   return (

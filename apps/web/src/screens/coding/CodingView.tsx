@@ -75,6 +75,12 @@ export function CodingView(props: CodingViewProps) {
   const [jotting, setJotting] = createSignal<string | null>(null);
   const [correction, setCorrection] = createSignal<string | null>(null);
   const [ready, setReady] = createSignal(false);
+  const [layersIn, setLayersIn] = createSignal(false);
+  // every layer has arrived: mark the frame after they are drawn (the benchmark reads it)
+  void Promise.all(props.layers.map((l) => l.doc.whenReady)).then(() => {
+    setLayersIn(true);
+    requestAnimationFrame(() => performance.mark('gloss:layers-drawn'));
+  });
   let searchInput: HTMLInputElement | undefined;
   let noteInput: HTMLTextAreaElement | undefined;
   let jotInput: HTMLTextAreaElement | undefined;
@@ -208,7 +214,7 @@ export function CodingView(props: CodingViewProps) {
   const allCount = createMemo(() => new Map(props.layers.map((l) => [l.coderId, listSegments(l.doc.doc).length])));
 
   return (
-    <div class="coding" data-ready={ready() ? 'yes' : 'no'} data-testid="coding-view">
+    <div class="coding" data-ready={ready() && layersIn() ? 'yes' : 'no'} data-testid="coding-view">
       <div class="coding-main">
         <div class="toolbar" role="toolbar" aria-label="Coding tools">
           <button type="button" class="quiet" disabled={!canUndo()} onClick={() => run({ do: 'undo' })} aria-keyshortcuts="Control+Z">Undo</button>

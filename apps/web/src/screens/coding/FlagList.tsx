@@ -1,4 +1,4 @@
-import { For } from 'solid-js';
+import { For, Show, createMemo, createSignal } from 'solid-js';
 import type { Flag } from '../../doc/flag-view.js';
 
 const KIND: Record<Flag['kind'], string> = {
@@ -12,12 +12,24 @@ const KIND: Record<Flag['kind'], string> = {
 };
 
 /** Live flags on this text; each goes to its segment. */
+const PAGE = 50;
+
 export function FlagList(props: { flags: readonly Flag[]; onGo: (f: Flag) => void }) {
+  // a busy text can carry thousands of flags: list a page at a time, with counts per kind
+  const [limit, setLimit] = createSignal(PAGE);
+  const counts = createMemo(() => {
+    const c = new Map<Flag['kind'], number>();
+    for (const f of props.flags) c.set(f.kind, (c.get(f.kind) ?? 0) + 1);
+    return [...c];
+  });
   return (
     <section aria-labelledby="flags-h" class="flags">
       <h2 id="flags-h">Flags <span class="count" data-testid="flag-count">{props.flags.length}</span></h2>
+      <Show when={counts().length > 1}>
+        <p class="muted">{counts().map(([k, n]) => `${KIND[k]}: ${n}`).join(' · ')}</p>
+      </Show>
       <ul aria-live="polite">
-        <For each={props.flags} fallback={<li class="muted">No flags on this text.</li>}>
+        <For each={props.flags.slice(0, limit())} fallback={<li class="muted">No flags on this text.</li>}>
           {(f) => (
             <li>
               <button type="button" class="flag" data-kind={f.kind} onClick={() => props.onGo(f)}>
@@ -27,6 +39,9 @@ export function FlagList(props: { flags: readonly Flag[]; onGo: (f: Flag) => voi
           )}
         </For>
       </ul>
+      <Show when={props.flags.length > limit()}>
+        <button type="button" class="quiet" onClick={() => setLimit(limit() + PAGE * 4)}>Show more ({props.flags.length - limit()} left)</button>
+      </Show>
     </section>
   );
 }

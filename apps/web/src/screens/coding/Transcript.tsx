@@ -7,7 +7,7 @@
 import { For, Index, Show, createEffect, createMemo, createSignal, onCleanup, onMount, type Accessor } from 'solid-js';
 import { formatTime } from '../../doc/time.js';
 import { codeColour } from '../../doc/palette.js';
-import { barsKey, layoutBars, type Bar } from './margin.js';
+import { layoutBars, sameBars, type Bar } from './margin.js';
 import { move, ordered, type Move, type Sel } from './keyboard-selection.js';
 import { rangeFor, readDomSelection } from './dom-selection.js';
 import type { CodingState, ViewTurn } from './coding-state.js';
@@ -16,8 +16,8 @@ import type { Flag } from '../../doc/flag-view.js';
 
 export const LANE_W = 20;
 const COL_W = 6;
-const FIRST_BATCH = 80;
-const BATCH = 400;
+const FIRST_BATCH = 60;
+const BATCH = 300;
 
 export interface TranscriptProps {
   state: CodingState;
@@ -40,19 +40,48 @@ export function Transcript(props: TranscriptProps) {
   const [tip, setTip] = createSignal<{ x: number; y: number; id: string } | null>(null);
   const total = () => props.state.turns().length;
 
-  // grow the rendered turns frame by frame until all are in
+  // Grow the rendered turns frame by frame until all are in; start again if the text grows later.
+  let raf = 0;
+  let marked = false;
+  const grow = () => {
+    raf = 0;
+    if (shown() < total()) {
+      setShown((n) => n + BATCH);
+      raf = requestAnimationFrame(grow);
+    } else {
+      if (!marked && total() > 0) {
+        marked = true;
+        performance.mark('gloss:transcript-complete');
+      }
+      props.onReady?.();
+    }
+  };
+  createEffect(() => {
+    if (total() > shown() && raf === 0) raf = requestAnimationFrame(grow);
+  });
   onMount(() => {
-    let raf = 0;
-    const grow = () => {
-      if (shown() < total()) {
-        setShown((n) => n + BATCH);
-        raf = requestAnimationFrame(grow);
-      } else props.onReady?.();
-    };
-    raf = requestAnimationFrame(grow);
-    onCleanup(() => cancelAnimationFrame(raf));
+    if (total() > 0) performance.mark('gloss:transcript-first');
+    if (raf === 0) raf = requestAnimationFrame(grow);
     props.ref?.(root);
   });
+  onCleanup(() => cancelAnimationFrame(raf));
+
+  // Bars are drawn only for turns near the viewport: a text with 10,000 segments has ~13,000 bars.
+  const watchers = new Map<Element, (v: boolean) => void>();
+  const io = typeof IntersectionObserver === 'undefined' ? undefined : new IntersectionObserver(
+    (entries) => entries.forEach((e) => watchers.get(e.target)?.(e.isIntersecting)),
+    { root: null, rootMargin: '800px 0px' },
+  );
+  onCleanup(() => io?.disconnect());
+  const watch = (el: Element, set: (v: boolean) => void) => {
+    if (!io) return set(true);
+    watchers.set(el, set);
+    io.observe(el);
+    onCleanup(() => {
+      io.unobserve(el);
+      watchers.delete(el);
+    });
+  };
 
   const bars = createMemo(() =>
     layoutBars(
@@ -67,7 +96,9 @@ export function Transcript(props: TranscriptProps) {
     let t = 0;
     for (const f of props.state.flags()) {
       while (t + 1 < turns.length && turns[t + 1]!.start <= f.start) t++;
-      m.set(t, [...(m.get(t) ?? []), f]);
+      const list = m.get(t);
+      if (list) list.push(f);
+      else m.set(t, [f]);
     }
     return m;
   });
@@ -180,6 +211,7 @@ export function Transcript(props: TranscriptProps) {
             marginWidth={marginWidth}
             colourOf={(codeId) => codeColour(codeId, props.state.codeById().get(codeId)?.colour)}
             selected={props.selectedSegment}
+            watch={watch}
           />
         )}
       </Index>
@@ -219,14 +251,16 @@ function TurnRow(props: {
   marginWidth: Accessor<number>;
   colourOf: (codeId: string) => string;
   selected: Accessor<string | null>;
+  watch: (el: Element, set: (v: boolean) => void) => void;
 }) {
+  const [near, setNear] = createSignal(false);
   // keep the DOM of unchanged turns: only a different layout replaces the bars
-  const bars = createMemo(props.bars, [], { equals: (a, b) => barsKey(a) === barsKey(b) });
+  const bars = createMemo(props.bars, [], { equals: sameBars });
   const words = () => props.turn().words;
   return (
-    <div class="turn">
+    <div class="turn" ref={(el) => props.watch(el, setNear)}>
       <div class="margin" style={{ width: `${props.marginWidth()}px` }} aria-hidden="true">
-        <For each={bars()}>
+        <For each={near() ? bars() : []}>
           {(b) => (
             <div
               class="bar"
@@ -242,9 +276,11 @@ function TurnRow(props: {
             />
           )}
         </For>
-        <For each={props.flags()}>
-          {(f) => <span class="flag-mark" data-id={f.segmentIds[0]} title={f.message}>!</span>}
-        </For>
+        <Show when={props.flags().length > 0}>
+          <span class="flag-mark" data-id={props.flags()[0]!.segmentIds[0]} title={props.flags().map((f) => f.message).slice(0, 5).join('\n')}>
+            {props.flags().length > 1 ? props.flags().length : '!'}
+          </span>
+        </Show>
       </div>
       <div class="turn-body">
         <div class="turn-head">

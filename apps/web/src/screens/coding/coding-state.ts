@@ -6,10 +6,11 @@
 import { createMemo, createSignal, onCleanup, type Accessor } from 'solid-js';
 import * as Y from 'yjs';
 import {
-  FlagEngine, getCodes, getText, listExclusiveSets, listSegments, readTurns, resolveSegments,
+  getCodes, getText, listExclusiveSets, listSegments, readTurns, resolveSegments,
   type CodeGroup, type CodeView, type ResolvedTurn,
 } from '@gloss/model';
 import type { OpenDoc } from '../../sync/open-doc.js';
+import { useFlags } from './flags-source.js';
 import { viewFlags, type Flag, type Segment } from '../../doc/flag-view.js';
 
 export interface LayerHandle { coderId: string; name: string; mine: boolean; doc: OpenDoc }
@@ -73,20 +74,10 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
   const codes = createMemo(() => (cbV(), getCodes(codebook.doc)));
   const codeById = createMemo(() => new Map(codes().map((c) => [c.id, c])));
   const exclusiveSets = createMemo(() => (cbV(), listExclusiveSets(codebook.doc)));
-  // The model's flag engine observes the documents and re-evaluates only what each change touched.
-  const source = (l: LayerHandle) => ({ layerId: l.doc.room, coder: l.coderId, doc: l.doc.doc });
-  const engine = new FlagEngine({ textDoc: text.doc, codebook: codebook.doc, layers: visible().map(source), independentCoding: !opts.showDisagreement() });
-  onCleanup(() => engine.destroy());
-  let shown = new Set(visible().map((l) => l.doc.room));
+  const source = useFlags(text, codebook, allLayers, visible, () => !opts.showDisagreement());
   const flags = createMemo(() => {
-    const now = visible();
-    for (const l of now) if (!shown.has(l.doc.room)) engine.addLayer(source(l));
-    for (const room of shown) if (!now.some((l) => l.doc.room === room)) engine.removeLayer(room);
-    shown = new Set(now.map((l) => l.doc.room));
-    engine.setIndependentCoding(!opts.showDisagreement());
-    const segs = segments(); // also subscribes to text and layer changes
-    cbV();
-    return viewFlags(engine.flags(), new Map(segs.map((s) => [s.id, s])), codeById());
+    const segs = segments();
+    return viewFlags(source.flags(), new Map(segs.map((s) => [s.id, s])), codeById());
   });
   return { turns, words, segments, codes, codeById, exclusiveSets, flags };
 }

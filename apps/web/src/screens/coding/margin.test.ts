@@ -1,6 +1,6 @@
 // Margin layout: fractions and lanes checked against hand-worked cases (common practice; no outside source applies).
 import { describe, expect, it } from 'vitest';
-import { assignColumns, layoutBars, type MarginSegment } from './margin.js';
+import { assignColumns, layoutBars, sameBars, type MarginSegment } from './margin.js';
 
 const turns = [
   { start: 0, end: 10 },
@@ -40,5 +40,15 @@ describe('assignColumns', () => {
     expect(cols.get('b')).toBe(1);
     expect(cols.get('c')).toBe(0);
     expect(cols.get('x')).toBe(0);
+  });
+});
+
+describe('sameBars', () => {
+  it('is true for equal layouts and false when one bar moves', () => {
+    const a = layoutBars(turns, [seg('a', 'L1', 16, 21)], ['L1']);
+    const b = layoutBars(turns, [seg('a', 'L1', 16, 21)], ['L1']);
+    const c = layoutBars(turns, [seg('a', 'L1', 17, 21)], ['L1']);
+    expect(sameBars(a[1]!, b[1]!)).toBe(true);
+    expect(sameBars(a[1]!, c[1]!)).toBe(false);
   });
 });

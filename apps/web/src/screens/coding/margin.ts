@@ -26,7 +26,11 @@ export const MAX_COLUMNS = 3;
 export function assignColumns(segments: readonly MarginSegment[]): Map<string, number> {
   const out = new Map<string, number>();
   const byLayer = new Map<string, MarginSegment[]>();
-  for (const s of segments) byLayer.set(s.layer, [...(byLayer.get(s.layer) ?? []), s]);
+  for (const s of segments) {
+    const list = byLayer.get(s.layer);
+    if (list) list.push(s);
+    else byLayer.set(s.layer, [s]);
+  }
   for (const list of byLayer.values()) {
     list.sort((a, b) => a.start - b.start || b.end - a.end);
     const colEnds: number[] = [];
@@ -84,9 +88,15 @@ export function layoutBars(turns: readonly TurnSpan[], segments: readonly Margin
   return out;
 }
 
-/** A cheap signature of a turn's bars, so unchanged turns keep their DOM. */
-export function barsKey(bars: readonly Bar[]): string {
-  let k = '';
-  for (const b of bars) k += `${b.id}:${b.codeId}:${b.lane}:${b.column}:${b.top.toFixed(4)}:${b.bottom.toFixed(4)}:${+b.opens}${+b.closes}${+b.orphaned};`;
-  return k;
+/** Whether two turns' bars draw the same, so an unchanged turn keeps its DOM. */
+export function sameBars(a: readonly Bar[], b: readonly Bar[]): boolean {
+  if (a === b) return true;
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i]!;
+    const y = b[i]!;
+    if (x.id !== y.id || x.codeId !== y.codeId || x.lane !== y.lane || x.column !== y.column || x.top !== y.top || x.bottom !== y.bottom ||
+      x.opens !== y.opens || x.closes !== y.closes || x.orphaned !== y.orphaned) return false;
+  }
+  return true;
 }

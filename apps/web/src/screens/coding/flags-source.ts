@@ -1,0 +1,58 @@
+/**
+ * The flags of one open text as a signal. In a browser the model's FlagEngine runs in a worker fed with
+ * every Yjs update; where workers do not exist (unit tests) it runs here, on the page's documents.
+ */
+import { createEffect, createSignal, onCleanup, type Accessor } from 'solid-js';
+import * as Y from 'yjs';
+import { FlagEngine, type Flag } from '@gloss/model';
+import type { OpenDoc } from '../../sync/open-doc.js';
+import type { LayerHandle } from './coding-state.js';
+import type { FlagsReply, FlagsRequest } from './flags-protocol.js';
+
+export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, independent: Accessor<boolean>): { flags: Accessor<Flag[]>; error: Accessor<string> } {
+  const [flags, setFlags] = createSignal<Flag[]>([]);
+  const [error, setError] = createSignal('');
+  const ids = () => visible().map((l) => l.doc.room);
+
+  if (typeof Worker === 'undefined') {
+    const engine = new FlagEngine({ textDoc: text.doc, codebook: codebook.doc, layers: visible().map((l) => ({ layerId: l.doc.room, coder: l.coderId, doc: l.doc.doc })), independentCoding: independent() });
+    const refresh = () => setFlags(engine.flags());
+    const docs = [text.doc, codebook.doc, ...allLayers.map((l) => l.doc.doc)];
+    docs.forEach((d) => d.on('afterTransaction', refresh));
+    onCleanup(() => {
+      docs.forEach((d) => d.off('afterTransaction', refresh));
+      engine.destroy();
+    });
+    refresh();
+    return { flags, error };
+  }
+
+  const worker = new Worker(new URL('./flags.worker.ts', import.meta.url), { type: 'module' });
+  const send = (m: FlagsRequest) => worker.postMessage(m);
+  worker.onmessage = (e: MessageEvent<FlagsReply>) => {
+    if (e.data.type === 'flags') setFlags(e.data.flags);
+    else setError(e.data.message);
+  };
+  send({
+    type: 'init',
+    text: Y.encodeStateAsUpdate(text.doc),
+    codebook: Y.encodeStateAsUpdate(codebook.doc),
+    layers: allLayers.map((l) => ({ layerId: l.doc.room, coder: l.coderId, update: Y.encodeStateAsUpdate(l.doc.doc) })),
+    visible: ids(),
+    independentCoding: independent(),
+  });
+  const forward = (key: string) => (update: Uint8Array) => send({ type: 'update', doc: key, update });
+  const pairs: Array<[Y.Doc, (u: Uint8Array) => void]> = [
+    [text.doc, forward('text')],
+    [codebook.doc, forward('codebook')],
+    ...allLayers.map((l) => [l.doc.doc, forward(l.doc.room)] as [Y.Doc, (u: Uint8Array) => void]),
+  ];
+  for (const [d, f] of pairs) d.on('update', f);
+  createEffect(() => send({ type: 'visible', layerIds: ids() }));
+  createEffect(() => send({ type: 'independent', on: independent() }));
+  onCleanup(() => {
+    for (const [d, f] of pairs) d.off('update', f);
+    worker.terminate();
+  });
+  return { flags, error };
+}

@@ -1,0 +1,187 @@
+/**
+ * Opening a 30,000-word text with 5 layers x 2,000 segments in Chromium (DESIGN §9 target: < 1 s to
+ * interactive). A real server on a fresh PGlite folder holds the text, the layers and a 20-code codebook
+ * (written as each document's first log update, as an import does); a real browser signs in and opens
+ * the coding view. Figures, from navigation start, measured in the page:
+ *   first_text_ms   the first turns of the transcript are on screen (performance mark)
+ *   full_render_ms  every turn is rendered and every layer has arrived and been drawn (performance marks;
+ *                   bars are drawn for turns near the viewport, the rest as they scroll into view)
+ *   interactive_ms  full render done and no long task (> 50 ms, PerformanceObserver 'longtask') after it
+ *                   for a quiet window of 500 ms: the end of the last long task, if later than full render
+ * Skipped with a record when /usr/bin/chromium is absent.
+ */
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import * as Y from 'yjs';
+import { chromium } from '@playwright/test';
+import { documents, updates } from '@gloss/db';
+import { addCode, addSegment, createCodebookDoc, newLayerDoc } from '@gloss/model';
+import { admin, loadConfig, startServer } from '@gloss/server';
+
+const CHROMIUM = '/usr/bin/chromium';
+const WORDS = 30_000;
+const LAYERS = 5;
+const SEGMENTS = 2_000;
+const RUNS = 2;
+
+/** Deterministic invented words (mulberry32), so every run opens the same text. */
+function rng(seed: number) {
+  return () => {
+    seed = (seed + 0x6d2b79f5) | 0;
+    let t = Math.imul(seed ^ (seed >>> 15), 1 | seed);
+    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+const VOCAB = 'we the hall film night tea rota volunteer projector ticket door money season friends kettle screen chair committee grant bus late quiet always never maybe honestly people work paid staff trust keys'.split(' ');
+
+function transcript(rand: () => number) {
+  const turns = [];
+  let words = 0;
+  let t = 0;
+  while (words < WORDS) {
+    const n = 40 + Math.floor(rand() * 120);
+    const text = Array.from({ length: n }, () => VOCAB[Math.floor(rand() * VOCAB.length)]).join(' ') + '.';
+    turns.push({ speaker: turns.length % 2 ? 'P01' : 'I', startMs: t, endMs: null, text });
+    t += 5_000 + Math.floor(rand() * 40_000);
+    words += n;
+  }
+  return { title: 'Long interview (benchmark)', turns };
+}
+
+const OBSERVE_LONG_TASKS = `
+  window.__long = [];
+  new PerformanceObserver(function (l) {
+    l.getEntries().forEach(function (e) { window.__long.push({ start: e.startTime, end: e.startTime + e.duration }); });
+  }).observe({ type: 'longtask', buffered: true });`;
+
+/** Waits for a 500 ms window without long tasks after full render, then reads the figures. */
+const MEASURE = `(async function () {
+  function mark(n) { var e = performance.getEntriesByName(n)[0]; return e ? e.startTime : NaN; }
+  function lastEnd() { return window.__long.reduce(function (m, l) { return Math.max(m, l.end); }, 0); }
+  function full() { return Math.max(mark('gloss:transcript-complete'), mark('gloss:layers-drawn')); }
+  while (!(full() >= 0) || performance.now() - Math.max(lastEnd(), full()) < 500) {
+    await new Promise(function (r) { setTimeout(r, 100); });
+  }
+  var done = full();
+  return {
+    first: mark('gloss:transcript-first'),
+    full: done,
+    interactive: Math.max(done, lastEnd()),
+    longest: window.__long.reduce(function (m, l) { return Math.max(m, l.end - l.start); }, 0),
+    bars: document.querySelectorAll('.transcript .bar').length,
+    marks: performance.getEntriesByType('mark').filter(function (m) { return m.name.indexOf('gloss:') === 0; }).map(function (m) { return m.name + '=' + Math.round(m.startTime); }).join(' '),
+    long: window.__long.map(function (l) { return Math.round(l.start) + '+' + Math.round(l.end - l.start); }).join(' '),
+  };
+})()`;
+
+export async function run(): Promise<Array<Record<string, unknown> & { name: string }>> {
+  const name = 'open-text-30k-words-5x2000-segments';
+  if (!existsSync(CHROMIUM)) return [{ name, skipped: 'no chromium' }];
+  const webDist = fileURLToPath(new URL('../apps/web/dist', import.meta.url));
+  if (!existsSync(join(webDist, 'index.html'))) throw new Error('apps/web/dist is missing: run `pnpm --filter @gloss/web build` first');
+
+  const dataDir = mkdtempSync(join(tmpdir(), 'gloss-bench-open-'));
+  const env: NodeJS.ProcessEnv = { ...process.env, PORT: '0', DATA_DIR: dataDir, LOG_LEVEL: 'warn', WEB_DIST: webDist };
+  delete env.DATABASE_URL;
+  delete env.REDIS_URL;
+  delete env.PUBLIC_URL;
+  const server = await startServer(loadConfig(env));
+  const browser = await chromium.launch({
+    executablePath: CHROMIUM,
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+  try {
+    const t0 = performance.now();
+    const db = server.db;
+    const rand = rng(20260101);
+    const coders = [];
+    for (let i = 0; i < LAYERS; i++) coders.push(await admin.createUser(db, { email: `bench${i}@example.org`, name: `Bench Coder ${i + 1}`, password: 'bench-password-1' }));
+    const study = await admin.createStudy(db, { title: 'Benchmark study', createdBy: coders[0]!.id });
+    for (const c of coders.slice(1)) await admin.addMember(db, study.id, c.id, 'coder');
+    const t = transcript(rand);
+    const text = await admin.addTextFromTranscript(db, study.id, { title: t.title, transcript: t, sourceFormat: 'api', createdBy: coders[0]!.id });
+
+    // the text document exactly as stored, to anchor the layers' segments into
+    const textDoc = new Y.Doc({ gc: false });
+    // (few rows exist yet: filtering in JS keeps this file free of a query-builder import)
+    const first = (await db.select().from(updates)).find((u) => u.docId === text.room);
+    Y.applyUpdate(textDoc, first!.data);
+    const length = textDoc.getText('text').length;
+
+    const cb = createCodebookDoc();
+    const codeIds = Array.from({ length: 20 }, (_, i) => addCode(cb, { label: `Code ${i + 1}`, briefDefinition: `Benchmark code ${i + 1}.` }, { by: coders[0]!.id }));
+    const cbRow = (await db.select().from(documents)).find((d) => d.studyId === study.id && d.kind === 'codebook');
+    const cbUpdate = Y.encodeStateAsUpdate(cb);
+    await db.insert(updates).values({ docId: cbRow!.id, data: cbUpdate, bytes: cbUpdate.byteLength, userId: coders[0]!.id });
+
+    for (const c of coders) {
+      const layerId = await admin.ensureLayer(db, study.id, text.id, c.id);
+      const layer = newLayerDoc();
+      layer.transact(() => {
+        for (let i = 0; i < SEGMENTS; i++) {
+          const start = Math.floor(rand() * (length - 400));
+          addSegment(layer, textDoc, { codeId: codeIds[Math.floor(rand() * codeIds.length)]!, start, end: start + 15 + Math.floor(rand() * 300) });
+        }
+      });
+      const u = Y.encodeStateAsUpdate(layer);
+      await db.insert(updates).values({ docId: layerId, data: u, bytes: u.byteLength, userId: c.id });
+    }
+
+    const seeded_s = (performance.now() - t0) / 1000;
+    const samples: Array<{ first: number; full: number; interactive: number; longest: number }> = [];
+    for (let r = 0; r < RUNS; r++) {
+      const context = await browser.newContext({ baseURL: server.url, viewport: { width: 1400, height: 900 } });
+      const res = await context.request.post('/api/session', { data: { email: 'bench0@example.org', password: 'bench-password-1' }, headers: { origin: server.url } });
+      if (!res.ok()) throw new Error(`sign-in failed: ${res.status()}`);
+      await context.addInitScript(OBSERVE_LONG_TASKS);
+      const page = await context.newPage();
+      const cdp = process.env.BENCH_PROFILE ? await context.newCDPSession(page) : undefined;
+      if (cdp) {
+        await cdp.send('Profiler.enable');
+        await cdp.send('Profiler.start');
+      }
+      await page.goto(`/#/study/${study.id}/text/${text.id}`);
+      await page.waitForSelector('[data-testid="coding-view"][data-ready="yes"]', { timeout: 60_000 });
+      // wait for a quiet window of 500 ms with no long task, then read the figures
+      // (a string, not a function: the TypeScript runner would add helpers the page does not have)
+      const figures = (await page.evaluate(MEASURE)) as { first: number; full: number; interactive: number; longest: number; bars: number; marks: string; long: string };
+      if (cdp) {
+        const { profile } = (await cdp.send('Profiler.stop')) as { profile: { nodes: Array<{ id: number; callFrame: { functionName: string; url: string; lineNumber: number } }>; samples: number[]; timeDeltas: number[] } };
+        const self = new Map<string, number>();
+        const byId = new Map(profile.nodes.map((n) => [n.id, n]));
+        profile.samples.forEach((id, i) => {
+          const n = byId.get(id)!;
+          const key = `${n.callFrame.functionName || '(anon)'} ${n.callFrame.url.split('/').pop()}:${n.callFrame.lineNumber}`;
+          self.set(key, (self.get(key) ?? 0) + (profile.timeDeltas[i] ?? 0) / 1000);
+        });
+        process.stderr.write([...self].sort((a, b) => b[1] - a[1]).slice(0, 25).map(([k, v]) => `${v.toFixed(0).padStart(6)} ms  ${k}`).join('\n') + '\n');
+      }
+      if (process.env.BENCH_DEBUG) process.stderr.write(JSON.stringify(figures) + '\n');
+      if (figures.bars === 0) throw new Error('no segment bars were drawn');
+      samples.push(figures);
+      await context.close();
+    }
+    const median = (k: keyof (typeof samples)[number]) => [...samples.map((s) => s[k])].sort((a, b) => a - b)[Math.floor(samples.length / 2)]!;
+    return [{
+      name,
+      words: WORDS,
+      characters: length,
+      layers: LAYERS,
+      segments_per_layer: SEGMENTS,
+      runs: RUNS,
+      first_text_ms: Math.round(median('first')),
+      full_render_ms: Math.round(median('full')),
+      interactive_ms: Math.round(median('interactive')),
+      longest_task_ms: Math.round(median('longest')),
+      target_ms: 1000,
+      setup_s: Math.round(seeded_s * 10) / 10,
+    }];
+  } finally {
+    await browser.close();
+    await server.close();
+    rmSync(dataDir, { recursive: true, force: true });
+  }
+}

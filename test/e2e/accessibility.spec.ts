@@ -1,0 +1,57 @@
+// axe-core (the reference accessibility engine, via @axe-core/playwright) finds no serious or critical
+// violations on each main screen, for WCAG 2 A/AA rules. Screenshots of each screen are kept.
+import AxeBuilder from '@axe-core/playwright';
+import type { Page } from '@playwright/test';
+import { test, expect, account, signIn, openText, openCodebook, addCodes, shot } from './fixtures.js';
+
+async function audit(page: Page, screen: string): Promise<void> {
+  const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa']).analyze();
+  const bad = result.violations
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+    .map((v) => `${v.id} (${v.impact}): ${v.help} — ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join('; ')}`);
+  await shot(page, screen);
+  expect(bad, `axe on the ${screen} screen`).toEqual([]);
+}
+
+test('no serious or critical axe violations on the main screens', async ({ browser, baseURL }) => {
+  const anon = await browser.newContext({ baseURL, viewport: { width: 1400, height: 900 } });
+  const p0 = await anon.newPage();
+  await p0.goto('/');
+  await expect(p0.getByRole('button', { name: 'Sign in' })).toBeVisible();
+  await audit(p0, 'signin');
+  await anon.close();
+
+  const lead = await signIn(browser, account('lead'), baseURL!);
+  await addCodes(lead, ['Unpaid hours']);
+  const page = lead.page;
+  await page.getByRole('tree', { name: 'Codes' }).getByRole('button', { name: 'Unpaid hours', exact: true }).click();
+  await expect(page.getByTestId('entry-editor')).toBeVisible();
+  await audit(page, 'codebook-entry');
+
+  await page.getByRole('link', { name: 'Gloss' }).click();
+  await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+  await audit(page, 'studies');
+
+  await page.getByRole('list', { name: 'Studies' }).getByRole('link').first().click();
+  await expect(page.getByRole('heading', { name: 'Texts' })).toBeVisible();
+  await expect(page.locator('table.texts a').first()).toBeVisible();
+  await audit(page, 'study');
+
+  await openText(lead);
+  await audit(page, 'coding-lead');
+
+  await page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Memos' }).click();
+  await expect(page.getByRole('heading', { name: 'New memo' })).toBeVisible();
+  await page.getByLabel('Title').fill('Calibration round one');
+  await page.getByLabel('Memo', { exact: true }).fill('Coders split on whether tea-making counts as sociability. Revisit after round two.');
+  await page.getByRole('button', { name: 'Keep memo' }).click();
+  await expect(page.locator('.memo-list')).toContainText('Calibration round one');
+  await audit(page, 'memos');
+
+  await page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Members' }).click();
+  await expect(page.getByRole('heading', { name: 'Members and roles' })).toBeVisible();
+  await expect(page.locator('table.members tbody tr').first()).toBeVisible();
+  await audit(page, 'members');
+  await openCodebook(lead);
+  await lead.context.close();
+});
