@@ -19,9 +19,12 @@ import { fileURLToPath } from 'node:url';
 import * as decoding from 'lib0/decoding';
 import * as encoding from 'lib0/encoding';
 import { WebSocket, WebSocketServer } from 'ws';
-import * as Y from 'yjs';
+import type * as YT from 'yjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
+// Yjs is loaded only by the measuring parent: the reference server child loads its own (CommonJS) copy,
+// and two copies in one process would trip Yjs's duplicate-import warning.
+let Y: typeof YT;
 const repoRoot = join(here, '..');
 const EDITS_PER_SEC = 5;
 const WARMUP_MS = 1_000;
@@ -198,6 +201,7 @@ export function percentile(sorted: number[], p: number): number {
 const round = (n: number, digits = 2) => Math.round(n * 10 ** digits) / 10 ** digits;
 
 export async function measure(kind: ServerKind, clients: number): Promise<Record<string, unknown> & { name: string }> {
+  Y = await import('yjs');
   const server = await startBenchServer(kind);
   try {
     const sentAt = new Map<string, number>();
