@@ -38,7 +38,13 @@ export function resolveAnchor(textDoc: Y.Doc, anchor: Uint8Array): number | null
   // Define the root as Y.Text first: in a doc built by applyUpdate alone the root is still a generic
   // type, and getText() afterwards would swap in a new instance that the resolved type can't equal.
   const text = getText(textDoc);
-  const abs = Y.createAbsolutePositionFromRelativePosition(Y.decodeRelativePosition(anchor), textDoc, false);
+  let rpos: Y.RelativePosition;
+  try {
+    rpos = Y.decodeRelativePosition(anchor);
+  } catch {
+    return null; // malformed bytes resolve nowhere, as in the bulk resolver
+  }
+  const abs = Y.createAbsolutePositionFromRelativePosition(rpos, textDoc, false);
   if (abs === null || abs.type !== text) return null;
   return abs.index;
 }

@@ -153,6 +153,17 @@ describe('resolveSegments (bulk, one pass)', () => {
     expect(text.toString()).toBe('Well, we moved to [the coast] when the mill shut');
   });
 
+  it('treats malformed anchor bytes as unresolved instead of throwing', () => {
+    const a = newTextDoc();
+    getText(a).insert(0, 'hello');
+    const good = anchorRange(a, 1, 3);
+    const out = resolveSegments(a, [
+      { id: 'bad', codeId: 'c', start: new Uint8Array([0, 0x80]), end: new Uint8Array([7]), createdAt: 0 },
+      { id: 'ok', codeId: 'c', ...good, createdAt: 0 },
+    ]);
+    expect(out.map((r) => [r.id, r.unresolved, r.quote])).toEqual([['bad', true, ''], ['ok', false, 'el']]);
+  });
+
   it('marks anchors into text this replica has not received as unresolved', () => {
     const a = newTextDoc();
     getText(a).insert(0, 'hello');

@@ -1,5 +1,6 @@
 import * as Y from 'yjs';
 import { getText } from './text-doc.js';
+import { decodeAnchor, type AnchorFields } from './anchor-codec.js';
 import { readTurns, turnIndexAt, type ResolvedTurn } from './turns.js';
 import type { SegmentRecord } from './layer-doc.js';
 
@@ -19,7 +20,7 @@ import type { SegmentRecord } from './layer-doc.js';
 // cheaper to read than a WeakMap lookup, which mattered at 20,000 anchors. A cached item is re-checked
 // before use: an item split by a later edit keeps its object but may no longer hold the clock.
 interface Located {
-  rpos: Y.RelativePosition;
+  f: AnchorFields;
   store: unknown;
   item: Y.Item | null | undefined;
 }
@@ -36,25 +37,29 @@ function locate(anchor: Uint8Array, textDoc: Y.Doc, text: Y.Text): Located {
   const store = textDoc.store;
   if (c !== undefined && c.store === store) {
     const it = c.item;
-    const id = c.rpos.item;
-    if (it === null || (it !== undefined && id !== null && it.id.clock <= id.clock && id.clock < it.id.clock + it.length)) return c;
+    if (it === null || (it !== undefined && it.id.clock <= c.f.clock && c.f.clock < it.id.clock + it.length)) return c;
   }
-  const rpos = c?.rpos ?? Y.decodeRelativePosition(anchor);
-  const id = rpos.item;
+  let f: AnchorFields;
+  try {
+    f = c?.f ?? decodeAnchor(anchor);
+  } catch {
+    // bytes from a misbehaving peer: the segment shows as unresolved rather than failing every resolution
+    return { f: { client: null, clock: 0, assoc: 0, tname: null }, store, item: undefined };
+  }
   let item: Y.Item | null | undefined;
-  if (id === null) {
-    item = rpos.tname !== null && (textDoc.share.get(rpos.tname) as unknown) === text ? null : undefined;
+  if (f.client === null) {
+    item = f.tname !== null && (textDoc.share.get(f.tname) as unknown) === text ? null : undefined;
   } else {
-    const structs = (store as unknown as StoreLike).clients.get(id.client);
+    const structs = (store as unknown as StoreLike).clients.get(f.client);
     const last = structs?.[structs.length - 1];
-    if (structs === undefined || last === undefined || last.id.clock + last.length <= id.clock) item = undefined; // not received yet
+    if (structs === undefined || last === undefined || last.id.clock + last.length <= f.clock) item = undefined; // not received yet
     else {
-      const struct = structs[Y.findIndexSS(structs as never, id.clock)]!;
+      const struct = structs[Y.findIndexSS(structs as never, f.clock)]!;
       item = struct instanceof Y.Item && struct.parent === text ? struct : undefined;
     }
   }
-  if (item === undefined) return { rpos, store, item }; // may become resolvable later: not cached
-  c = { rpos, store, item };
+  if (item === undefined) return { f, store, item }; // may become resolvable later: not cached
+  c = { f, store, item };
   if (Object.isExtensible(anchor)) Object.defineProperty(anchor, CACHE, { value: c, writable: true, configurable: true, enumerable: false });
   return c;
 }
@@ -84,12 +89,12 @@ export function resolveAnchors(textDoc: Y.Doc, anchors: readonly Uint8Array[]): 
   const out: Array<number | null> = new Array(n);
   const length = text.length;
   for (let i = 0; i < n; i++) {
-    const { rpos, item } = located[i]!;
+    const { f, item } = located[i]!;
     if (item === undefined) out[i] = null;
-    else if (item === null) out[i] = rpos.assoc >= 0 ? length : 0; // the start or end of the text itself
+    else if (item === null) out[i] = f.assoc >= 0 ? length : 0; // the start or end of the text itself
     else {
       const before = offsets.get(item)!;
-      out[i] = item.deleted || !item.countable ? before : before + (rpos.item!.clock - item.id.clock) + (rpos.assoc >= 0 ? 0 : 1);
+      out[i] = item.deleted || !item.countable ? before : before + (f.clock - item.id.clock) + (f.assoc >= 0 ? 0 : 1);
     }
   }
   return out;
