@@ -2,6 +2,7 @@
  * One multi-row INSERT for a batch of log rows, with a fixed number of parameters: the updates travel
  * as one concatenated bytea plus offset/length arrays and are cut apart by the database. (Building a
  * 1,000-row VALUES list through the query builder cost ~60 ms of CPU here; this costs well under 1.)
+ * Batches of up to 32 rows use a plain VALUES list instead, which plans cheaper.
  */
 import { rowsOf, type Db } from '@gloss/db';
 import { sql } from 'drizzle-orm';
@@ -33,6 +34,7 @@ export async function insertBatch(db: Db, rows: readonly LogRow[]): Promise<numb
     lengths.push(row.data.length);
     offset += row.data.length;
   }
+  if (rows.length <= SMALL_BATCH) return insertValues(db, rows);
   const docIds = `{${rows.map((row) => row.docId).join(',')}}`;
   const userIds = `{${rows.map((row) => row.userId ?? 'NULL').join(',')}}`;
   const result = await db.execute(sql`
@@ -42,8 +44,23 @@ export async function insertBatch(db: Db, rows: readonly LogRow[]): Promise<numb
       with ordinality as d(doc_id, off, len, user_id, n)
     order by d.n
     returning seq`);
+  return seqsOf(result, rows.length);
+}
+
+/** Small batches (the usual case at moderate load): a plain VALUES list plans cheaper (PGlite: ~1.0 vs ~1.7 ms CPU for one row). */
+const SMALL_BATCH = 32;
+
+async function insertValues(db: Db, rows: readonly LogRow[]): Promise<number[]> {
+  const values = rows.map(
+    (row) => sql`(${row.docId}::uuid, ${Buffer.from(row.data.buffer, row.data.byteOffset, row.data.byteLength)}::bytea, ${row.data.length}::int, ${row.userId}::uuid)`,
+  );
+  const result = await db.execute(sql`insert into updates (doc_id, data, bytes, user_id) values ${sql.join(values, sql`, `)} returning seq`);
+  return seqsOf(result, rows.length);
+}
+
+function seqsOf(result: unknown, expected: number): number[] {
   // nextval() runs in insertion order, so ascending seqs are the rows in order.
   const seqs = rowsOf<{ seq: number | string }>(result).map((r) => Number(r.seq)).sort((a, b) => a - b);
-  if (seqs.length !== rows.length) throw new StoreError('append-failed', `inserted ${seqs.length} of ${rows.length} rows`);
+  if (seqs.length !== expected) throw new StoreError('append-failed', `inserted ${seqs.length} of ${expected} rows`);
   return seqs;
 }
