@@ -37,3 +37,16 @@ describe('GroupCommit', () => {
     expect(group.pending).toBe(0);
   });
 });
+
+describe('GroupCommit with a commit delay', () => {
+  it('waits before a commit that follows another closely, so later arrivals join it', async () => {
+    const batches: number[][] = [];
+    const group = new GroupCommit<number, number>(async (items) => (batches.push(items), items), 100, 200, 60_000);
+    await group.submit(1); // idle: committed at once
+    const second = group.submit(2); // busy now: this commit waits 200 ms …
+    await new Promise((resolve) => setImmediate(resolve)); // (the drain has started and is waiting)
+    const third = group.submit(3); // … so this one arrives in time to share it
+    await Promise.all([second, third]);
+    expect(batches).toEqual([[1], [2, 3]]);
+  });
+});

@@ -6,9 +6,17 @@ export class GroupCommit<T, R> {
   private queue: Array<{ item: T; resolve: (r: R) => void; reject: (e: unknown) => void }> = [];
   private running: Promise<void> | null = null;
 
+  private lastCommitEnd = -Infinity;
+
+  /**
+   * `delayMs`: when a commit ended less than `busyWindowMs` ago (a steady stream, not one lone edit),
+   * wait this long before the next so more items share it — PostgreSQL's commit_delay idea. 0 = never.
+   */
   constructor(
     private readonly commit: (items: T[]) => Promise<R[]>,
     private readonly maxBatch: number,
+    private readonly delayMs = 0,
+    private readonly busyWindowMs = 50,
   ) {}
 
   submit(item: T): Promise<R> {
@@ -30,6 +38,9 @@ export class GroupCommit<T, R> {
 
   private async drain(): Promise<void> {
     while (this.queue.length > 0) {
+      if (this.delayMs > 0 && this.queue.length < this.maxBatch && performance.now() - this.lastCommitEnd < this.busyWindowMs) {
+        await new Promise((resolve) => setTimeout(resolve, this.delayMs));
+      }
       const batch = this.queue.splice(0, this.maxBatch);
       try {
         const results = await this.commit(batch.map((entry) => entry.item));
@@ -37,6 +48,7 @@ export class GroupCommit<T, R> {
       } catch (error) {
         for (const entry of batch) entry.reject(error);
       }
+      this.lastCommitEnd = performance.now();
     }
     this.running = null;
   }

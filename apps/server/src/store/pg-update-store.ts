@@ -14,6 +14,11 @@ import { flatten, readLog } from './log-rows.js';
 export interface PgUpdateStoreOptions {
   /** Most rows in one INSERT (default 2,000). */
   maxBatch?: number;
+  /**
+   * While commits follow each other closely, wait this long before the next so it carries more rows.
+   * Default: 2 ms on PGlite (each statement costs ~1 ms of this process's CPU), 0 on PostgreSQL.
+   */
+  commitDelayMs?: number;
   /** Fold when the log's bytes pass the snapshot's and at least this many (default 64 KiB); 0 disables. */
   compactMinBytes?: number;
   onCompactionError?: (error: unknown, docId: string) => void;
@@ -47,7 +52,7 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
     counts.rows += rows.length;
     for (const row of rows) noteAppend(row.docId, row.data.length);
     return seqs;
-  }, options.maxBatch ?? 2_000);
+  }, options.maxBatch ?? 2_000, options.commitDelayMs ?? (database.kind === 'pglite' ? 2 : 0));
 
   function noteAppend(docId: string, bytes: number): void {
     const size = sizes.get(docId);
