@@ -46,6 +46,12 @@ describe('text document', () => {
     expect(readText(doc).slice(turns[1]!.start, turns[1]!.end)).toBe('My aunt ran the bakery there.\n');
   });
 
+  it('refuses a malformed transcript with a typed error', () => {
+    expect(() => createTextDoc({ turns: [{ speaker: 'I', startMs: 0, endMs: null, text: 5 as never }] })).toThrow(expect.objectContaining({ code: 'invalid-argument' }));
+    expect(() => createTextDoc({} as never)).toThrow(expect.objectContaining({ code: 'invalid-argument' }));
+    expect(readText(createTextDoc({ turns: [] }))).toBe('');
+  });
+
   it('rejects corrections outside the text with a typed error and changes nothing', () => {
     const doc = createTextDoc(transcript);
     const before = readText(doc);
