@@ -4,12 +4,12 @@
  * segments of every layer on the text, and a document that cannot be projected is logged without
  * breaking the store, then projected on its next change.
  */
-import { type Database, eq, projectedCaseTexts, projectedCases, projectedCodes, projectedMemos, projectedSegments } from '@gloss/db';
+import { type Database, eq, sql, projectedCaseTexts, projectedCases, projectedCodes, projectedMemos, projectedSegments } from '@gloss/db';
 import { addCase, addMemo, addSegment, correctText, getSegmentsMap, linkText, updateCodeField } from '@gloss/model';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
 import { ensureLayer } from '../../apps/server/src/admin/texts.js';
-import { createProjector, loadDoc, withProjection, type Projector } from '../../apps/server/src/projection/index.js';
+import { createProjector, loadDoc, projectDocument, withProjection, type Projector } from '../../apps/server/src/projection/index.js';
 import { createPgUpdateStore, type PgUpdateStore } from '../../apps/server/src/store/index.js';
 import type { UpdateStore } from '../../apps/server/src/sync/contracts.js';
 import { dbKinds, openTestDatabase } from '../support/database.js';
@@ -86,35 +86,44 @@ describe.each(dbKinds())('projection on %s', (kind) => {
     expect(memos).toMatchObject([{ author: seed.users.coder.id, attachedKind: 'code', attachedRef: seed.codes.tools, title: 'Lending', body: 'Tools travel along the hedges.' }]);
   }, 60_000);
 
-  it('a document that cannot be projected is logged, the store keeps working, and the next change projects it', async () => {
+  it('a document the database refuses is logged, the store keeps working, and the next change projects it', async () => {
     const layer = await ensureLayer(database.db, seed.studyId, seed.codingTextId, seed.users.coder2.id);
     errors.length = 0;
-    // An anchor that is not an encoded RelativePosition (a broken client could send it).
+    // A real refusal by the database: a constraint (added for this test) that the projected row breaks.
+    await database.db.execute(sql`alter table segments add constraint test_refuse_keys check (quote <> 'keys')`);
+    const textDoc = await loadDoc(store, seed.codingTextRoom);
+    const at = textDoc.getText('text').toString().indexOf('keys');
+    let segId = '';
     await change(store, layer, (l) => {
-      const m = new Y.Map<unknown>();
-      m.set('codeId', seed.codes.place);
-      m.set('start', new Uint8Array([255, 255, 255]));
-      m.set('end', new Uint8Array([255, 255, 255]));
-      m.set('createdAt', 1);
-      getSegmentsMap(l).set('broken', m);
+      segId = addSegment(l, textDoc, { codeId: seed.codes.access, start: at, end: at + 4 });
     });
     await projector.flush();
     expect(errors.map((e) => e.docId)).toEqual([layer]);
-    // The log still took it: the store answers with the update in place.
+    // The log took the change all the same.
     const loaded = await loadDoc(store, layer);
-    expect(getSegmentsMap(loaded).has('broken')).toBe(true);
+    expect(getSegmentsMap(loaded).has(segId)).toBe(true);
     loaded.destroy();
+    expect((await segmentRows()).filter((r) => r.layerDocId === layer)).toEqual([]);
 
-    await change(store, layer, (l) => getSegmentsMap(l).delete('broken'));
-    const textDoc = await loadDoc(store, seed.codingTextRoom);
+    await database.db.execute(sql`alter table segments drop constraint test_refuse_keys`);
     await change(store, layer, (l) => {
-      const start = textDoc.getText('text').toString().indexOf('keys');
-      addSegment(l, textDoc, { codeId: seed.codes.access, start, end: start + 4 });
+      addSegment(l, textDoc, { codeId: seed.codes.access, start: at + 5, end: at + 7 });
     });
     textDoc.destroy();
     await projector.flush();
     const rows = (await segmentRows()).filter((r) => r.layerDocId === layer);
-    expect(rows.map((r) => r.quote)).toEqual(['keys']);
+    expect(rows.map((r) => r.quote).sort()).toEqual(['keys', 'to']);
     expect(errors).toHaveLength(1);
+  }, 60_000);
+
+  it('two nodes projecting the same text at once take turns instead of colliding', async () => {
+    // Each "node" is its own projection call on the shared database (PostgreSQL: separate connections).
+    const before = (await segmentRows()).map((r) => [r.id, r.quote]).sort();
+    expect(before.length).toBeGreaterThan(0);
+    // The text (all its layers) and single layers, interleaved: they all rewrite the same rows.
+    const layerIds = [...new Set((await segmentRows()).map((r) => r.layerDocId))];
+    const ids = Array.from({ length: 8 }, (_, i) => (i % 2 ? seed.codingTextRoom : layerIds[i % layerIds.length]!));
+    await Promise.all(ids.map((id) => projectDocument(database.db, inner, id)));
+    expect((await segmentRows()).map((r) => [r.id, r.quote]).sort()).toEqual(before);
   }, 60_000);
 });

@@ -37,4 +37,13 @@ describe('projection rows', () => {
     addMemo(memos, { author: 'U', body: 'Ask about the winter.', attachedTo: { kind: 'segment', textId: 'T', segmentId: 'seg' } });
     expect(memoRows(memos, 'S')).toMatchObject([{ studyId: 'S', author: 'U', kind: 'memo', attachedKind: 'segment', attachedRef: 'T', segmentId: 'seg', body: 'Ask about the winter.' }]);
   });
+
+  it('makes client-written values storable: U+0000 (not allowed in PostgreSQL text) and a NaN timestamp', () => {
+    const text = createTextDoc({ turns: [{ speaker: null, startMs: null, endMs: null, text: 'net\u0000work' }] });
+    const layer = newLayerDoc();
+    addSegment(layer, text, { codeId: 'c\u00001', start: 0, end: 7 }, () => Number.NaN);
+    const [row] = segmentRows(text, layer, info);
+    expect(row).toMatchObject({ quote: 'net\uFFFDwor', codeId: 'c\uFFFD1' });
+    expect(row!.createdAt.getTime()).toBe(0);
+  });
 });

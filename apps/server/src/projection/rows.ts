@@ -13,6 +13,14 @@ import type {
 import { getCodes, listAttributes, listCases, listMemos, listSegments, readTurns, resolveSegments } from '@gloss/model';
 import type * as Y from 'yjs';
 
+/**
+ * Values written by clients reach these rows. PostgreSQL text cannot hold U+0000 and a timestamp
+ * cannot be NaN, so both are made storable here rather than failing the whole document.
+ */
+const str = (v: string): string => (v.includes('\u0000') ? v.replace(/\u0000/g, '\uFFFD') : v);
+const strOrNull = (v: string | null | undefined): string | null => (v == null ? null : str(String(v)));
+const when = (ms: number): Date => new Date(Number.isFinite(ms) ? ms : 0);
+
 export interface LayerInfo {
   layerDocId: string;
   studyId: string;
@@ -28,36 +36,36 @@ export function segmentRows(textDoc: Y.Doc, layerDoc: Y.Doc, info: LayerInfo, tu
     .filter((s) => !s.unresolved)
     .map((s) => ({
       layerDocId: info.layerDocId,
-      id: s.id,
+      id: str(s.id),
       studyId: info.studyId,
       textId: info.textId,
       coderId: info.coderId,
-      codeId: s.codeId,
+      codeId: str(s.codeId),
       start: s.start,
       end: s.end,
-      quote: s.quote,
+      quote: str(s.quote),
       orphaned: s.orphaned,
-      note: byId.get(s.id)?.note ?? null,
-      createdAt: new Date(s.createdAt),
+      note: strOrNull(byId.get(s.id)?.note),
+      createdAt: when(s.createdAt),
     }));
 }
 
 export function codeRows(codebook: Y.Doc, studyId: string): ProjectedCodeRow[] {
   return getCodes(codebook).map((c) => ({
     studyId,
-    id: c.id,
-    label: c.label,
-    parentId: c.parentId,
-    status: c.status,
-    type: c.type,
-    briefDefinition: c.briefDefinition,
-    fullDefinition: c.fullDefinition,
-    inclusion: c.inclusion,
-    exclusion: c.exclusion,
-    colour: c.colour,
-    mergedInto: c.mergedInto,
+    id: str(c.id),
+    label: str(c.label),
+    parentId: strOrNull(c.parentId),
+    status: str(String(c.status)),
+    type: str(String(c.type)),
+    briefDefinition: str(c.briefDefinition),
+    fullDefinition: str(c.fullDefinition),
+    inclusion: str(c.inclusion),
+    exclusion: str(c.exclusion),
+    colour: str(c.colour),
+    mergedInto: strOrNull(c.mergedInto),
     inVivo: c.inVivo,
-    createdAt: new Date(c.createdAt),
+    createdAt: when(c.createdAt),
   }));
 }
 
@@ -72,10 +80,10 @@ export interface CaseRows {
 export function caseRows(codebook: Y.Doc, studyId: string): CaseRows {
   const cases = listCases(codebook);
   return {
-    cases: cases.map((c) => ({ studyId, id: c.id, name: c.name, kind: c.kind })),
-    attributes: listAttributes(codebook).map((a) => ({ studyId, id: a.id, name: a.name, type: a.type, choices: a.choices ?? null })),
-    values: cases.flatMap((c) => Object.entries(c.values).map(([attributeId, value]) => ({ studyId, caseId: c.id, attributeId, value }))),
-    texts: cases.flatMap((c) => [...new Set(c.textIds)].map((textId) => ({ studyId, caseId: c.id, textId }))),
+    cases: cases.map((c) => ({ studyId, id: str(c.id), name: str(String(c.name)), kind: str(String(c.kind)) })),
+    attributes: listAttributes(codebook).map((a) => ({ studyId, id: str(a.id), name: str(String(a.name)), type: str(String(a.type)), choices: a.choices ?? null })),
+    values: cases.flatMap((c) => Object.entries(c.values).map(([attributeId, value]) => ({ studyId, caseId: str(c.id), attributeId: str(attributeId), value: typeof value === 'string' ? str(value) : value }))),
+    texts: cases.flatMap((c) => [...new Set(c.textIds)].map((textId) => ({ studyId, caseId: str(c.id), textId: str(String(textId)) }))),
   };
 }
 
@@ -84,16 +92,16 @@ export function memoRows(memos: Y.Doc, studyId: string): ProjectedMemoRow[] {
     const a = m.attachedTo;
     return {
       studyId,
-      id: m.id,
-      author: m.author,
-      kind: m.kind,
-      attachedKind: a.kind,
-      attachedRef: (a.kind === 'study' ? null : a.kind === 'code' ? a.codeId : a.textId) ?? null,
-      segmentId: (a.kind === 'segment' ? a.segmentId : null) ?? null,
-      title: m.title,
-      body: m.body,
-      createdAt: new Date(m.createdAt),
-      updatedAt: new Date(m.updatedAt),
+      id: str(m.id),
+      author: str(String(m.author)),
+      kind: str(String(m.kind)),
+      attachedKind: str(String(a.kind)),
+      attachedRef: strOrNull(a.kind === 'study' ? null : a.kind === 'code' ? a.codeId : a.textId),
+      segmentId: strOrNull(a.kind === 'segment' ? a.segmentId : null),
+      title: str(String(m.title)),
+      body: str(String(m.body)),
+      createdAt: when(m.createdAt),
+      updatedAt: when(m.updatedAt),
     };
   });
 }

@@ -15,7 +15,7 @@ import {
   projectedSegments,
 } from '@gloss/db';
 import { readTurns } from '@gloss/model';
-import { and, eq, inArray } from 'drizzle-orm';
+import { and, eq, inArray, sql } from 'drizzle-orm';
 import type * as Y from 'yjs';
 import { withDocs, type DocLoader } from './load-doc.js';
 import { caseRows, codeRows, memoRows, segmentRows } from './rows.js';
@@ -49,6 +49,7 @@ async function projectLayers(db: Db, store: DocLoader, doc: DocumentRow): Promis
       segmentRows(textDoc!, layerDocs[i]!, { layerDocId: l.id, studyId: l.studyId, textId, coderId: l.coderId }, turns),
     );
     await db.transaction(async (tx) => {
+      await lockFor(tx, `text:${textId}`);
       const ids = layers.map((l) => l.id);
       if (ids.length > 0) await tx.delete(projectedSegments).where(inArray(projectedSegments.layerDocId, ids));
       for (const chunk of chunks(rows)) await tx.insert(projectedSegments).values(chunk);
@@ -60,6 +61,7 @@ async function writeCodebook(db: Db, studyId: string, cb: Y.Doc): Promise<void> 
   const codes = codeRows(cb, studyId);
   const c = caseRows(cb, studyId);
   await db.transaction(async (tx) => {
+    await lockFor(tx, `codebook:${studyId}`);
     for (const table of [projectedCodes, projectedCases, projectedAttributes, projectedCaseValues, projectedCaseTexts]) {
       await tx.delete(table).where(eq(table.studyId, studyId));
     }
@@ -74,9 +76,19 @@ async function writeCodebook(db: Db, studyId: string, cb: Y.Doc): Promise<void> 
 async function writeMemos(db: Db, studyId: string, doc: Y.Doc): Promise<void> {
   const rows = memoRows(doc, studyId);
   await db.transaction(async (tx) => {
+    await lockFor(tx, `memos:${studyId}`);
     await tx.delete(projectedMemos).where(and(eq(projectedMemos.studyId, studyId)));
     for (const chunk of chunks(rows)) await tx.insert(projectedMemos).values(chunk);
   });
+}
+
+/**
+ * Two nodes may project the same rows at once (each projects what it appended). Without a lock, the
+ * second transaction's delete would not see the first one's fresh rows and its insert would collide;
+ * a transaction-level advisory lock makes them take turns (released at commit).
+ */
+async function lockFor(tx: { execute: Db['execute'] }, key: string): Promise<void> {
+  await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`gloss:projection:${key}`}, 0))`);
 }
 
 /** Multi-row inserts in batches that stay under PostgreSQL's 65,535 bind parameters (12 columns x 4,000 rows). */
