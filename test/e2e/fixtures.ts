@@ -31,6 +31,7 @@ export async function signIn(browser: Browser, who: Account, baseURL: string): P
   const context = await browser.newContext({ baseURL, viewport: { width: 1400, height: 900 } });
   const page = await context.newPage();
   page.on('pageerror', (err) => process.stderr.write(`[${who.email}] page error: ${err.message}\n`));
+  if (process.env.E2E_CONSOLE) page.on('console', (m) => process.stderr.write(`[${who.email}] ${m.type()}: ${m.text()}\n`));
   await page.goto('/');
   await page.getByLabel('Email').fill(who.email);
   await page.getByLabel('Password').fill(who.password);
@@ -113,7 +114,13 @@ export function bars(page: Page) {
   return page.locator('.transcript .margin .bar');
 }
 
-/** Distinct segments drawn in the margin (a segment spanning turns has one bar per turn). */
-export async function segmentIds(page: Page): Promise<string[]> {
+/** Segments per layer as the coding view's layer list states them ("Name (12 segments)"), summed. */
+export async function segmentCount(page: Page): Promise<number> {
+  const rows = await page.locator('.coding-side .layers li').allTextContents();
+  return rows.reduce((n, r) => n + Number(/\((\d+) segments\)/.exec(r)?.[1] ?? 0), 0);
+}
+
+/** Distinct segments drawn in the margin near the viewport (bars far off-screen are not drawn). */
+export async function drawnSegmentIds(page: Page): Promise<string[]> {
   return page.locator('.transcript .margin .bar').evaluateAll((els) => [...new Set(els.map((e) => (e as HTMLElement).dataset.id!))]);
 }

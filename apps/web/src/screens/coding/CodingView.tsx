@@ -76,8 +76,8 @@ export function CodingView(props: CodingViewProps) {
   const [correction, setCorrection] = createSignal<string | null>(null);
   const [ready, setReady] = createSignal(false);
   const [layersIn, setLayersIn] = createSignal(false);
-  // every layer has arrived: mark the frame after they are drawn (the benchmark reads it)
-  void Promise.all(props.layers.map((l) => l.doc.whenReady)).then(() => {
+  // every layer and the codebook have arrived: mark the frame after they are drawn (the benchmark reads it)
+  void Promise.all([props.codebook.whenReady, ...props.layers.map((l) => l.doc.whenReady)]).then(() => {
     setLayersIn(true);
     requestAnimationFrame(() => performance.mark('gloss:layers-drawn'));
   });
