@@ -6,7 +6,7 @@
 import { snapshots, updates, type Database } from '@gloss/db';
 import { and, eq, inArray } from 'drizzle-orm';
 import * as Y from 'yjs';
-import { readLog } from './log-rows.js';
+import { FULL_READ, readLog } from './log-rows.js';
 
 export type CompactionResult =
   | { compacted: true; foldedRows: number; snapshotBytes: number; seq: number }
@@ -16,7 +16,7 @@ const DELETE_CHUNK = 5_000;
 
 export async function compactDocument(database: Database, docId: string): Promise<CompactionResult> {
   const outcome = await database.tryAdvisoryLock(`gloss:compact:${docId}`, async (tx) => {
-    const read = await readLog(tx, docId, 0);
+    const read = await readLog(tx, docId, FULL_READ);
     if (read.log.length === 0) return { compacted: false as const, reason: 'nothing-to-fold' as const };
     const parts = read.snapshot === null ? [] : [read.snapshot.data];
     let seq = read.snapshot?.seq ?? 0;

@@ -5,12 +5,17 @@
 import { rowsOf, toUint8Array, type Db } from '@gloss/db';
 import { sql } from 'drizzle-orm';
 
+export const FULL_READ = -1;
+
 export interface LogRead {
   snapshot: { seq: number; data: Uint8Array } | null;
   log: Array<{ seq: number; data: Uint8Array }>;
 }
 
-/** Snapshot (only if its seq > afterSeq) and log rows with seq > afterSeq, in seq order. */
+/**
+ * Snapshot (only if its seq > afterSeq) and log rows with seq > afterSeq, in seq order.
+ * FULL_READ takes everything, including a snapshot written with seq 0 (e.g. by an importer).
+ */
 export async function readLog(db: Db, docId: string, afterSeq: number): Promise<LogRead> {
   const result = await db.execute(sql`
     select 0 as part, seq, data from snapshots where doc_id = ${docId} and seq > ${afterSeq}

@@ -3,7 +3,7 @@
  * catch-up reads, and compaction that folds the log into a snapshot without losing anything.
  * Expected document contents come from Yjs itself (applying the same updates to a fresh Y.Doc).
  */
-import type { Database } from '@gloss/db';
+import { snapshots, type Database } from '@gloss/db';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
 import { dbKinds, openTestDatabase } from '../../../../test/support/database.js';
@@ -59,6 +59,18 @@ describe.each(dbKinds())('PgUpdateStore on %s', (kind) => {
     const results = await Promise.allSettled([store.append('x},{y', good!, null), store.append(docIds[2]!, good!, null)]);
     expect(results[0]).toMatchObject({ status: 'rejected', reason: { code: 'append-failed' } });
     expect(results[1]!.status).toBe('fulfilled');
+    await store.close();
+  });
+
+  it('loads a snapshot written with seq 0 (an importer that wrote no log rows)', async () => {
+    const [extra] = await seedDocuments(database, 1).then((f) => f.docIds);
+    const { updates, expected } = typedUpdates(5);
+    const data = Y.mergeUpdates(updates);
+    await database.db.insert(snapshots).values({ docId: extra!, seq: 0, data, bytes: data.length });
+    const store = createPgUpdateStore(database, { compactMinBytes: 0 });
+    const loaded = await store.load(extra!);
+    expect(textOf(loaded.updates)).toBe(expected);
+    expect(loaded.seq).toBe(0);
     await store.close();
   });
 

@@ -9,7 +9,7 @@ import { compactDocument, type CompactionResult } from './compaction.js';
 import { StoreError } from './errors.js';
 import { GroupCommit } from './group-commit.js';
 import { insertBatch, isUuid, type LogRow } from './insert-batch.js';
-import { flatten, readLog } from './log-rows.js';
+import { FULL_READ, flatten, readLog } from './log-rows.js';
 
 export interface PgUpdateStoreOptions {
   /** Most rows in one INSERT (default 2,000). */
@@ -83,7 +83,7 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
 
   return {
     async load(docId) {
-      const read = await readLog(database.db, docId, 0);
+      const read = await readLog(database.db, docId, FULL_READ);
       sizes.set(docId, {
         snapshotBytes: read.snapshot?.data.length ?? 0,
         logBytes: read.log.reduce((sum, row) => sum + row.data.length, 0),
