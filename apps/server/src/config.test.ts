@@ -9,7 +9,7 @@ describe('loadConfig', () => {
     expect(c.port).toBe(8080);
     expect(c.databaseUrl).toBeUndefined();
     expect(c.dataDir.endsWith('/data')).toBe(true);
-    expect(c.host).toBe('0.0.0.0');
+    expect(c.host).toBe('127.0.0.1');
     expect(c.maxMessageBytes).toBe(10_485_760);
     expect(c.sessionMs).toBe(14 * 86_400_000);
     expect(c.logLevel).toBe('info');

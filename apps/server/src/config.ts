@@ -63,7 +63,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
   const publicUrl = url(env, 'PUBLIC_URL', ['http:', 'https:']);
   return {
     port: int(env, 'PORT', 8080, 0, 65535),
-    host: env.HOST || '0.0.0.0',
+    // Loopback by default: a laptop running a study should not offer interview data to its network.
+    host: env.HOST || '127.0.0.1',
     databaseUrl: url(env, 'DATABASE_URL', ['postgres:', 'postgresql:']),
     dataDir: resolve(env.DATA_DIR || './data'),
     redisUrl: url(env, 'REDIS_URL', ['redis:', 'rediss:']),
