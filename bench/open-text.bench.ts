@@ -97,7 +97,7 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
     const t0 = performance.now();
     const db = server.db;
     const rand = rng(20260101);
-    const coders = [];
+    const coders: Array<{ id: string }> = [];
     for (let i = 0; i < LAYERS; i++) coders.push(await admin.createUser(db, { email: `bench${i}@example.org`, name: `Bench Coder ${i + 1}`, password: 'bench-password-1' }));
     const study = await admin.createStudy(db, { title: 'Benchmark study', createdBy: coders[0]!.id });
     for (const c of coders.slice(1)) await admin.addMember(db, study.id, c.id, 'coder');

@@ -56,7 +56,7 @@ export async function openText(p: Person, title?: string): Promise<void> {
 export async function selectWords(page: Page, phrase: string, occurrence = 0): Promise<void> {
   await page.evaluate(
     ([phrase, occurrence]) => {
-      const words = [...document.querySelectorAll<HTMLElement>('.transcript .words')];
+      const words = Array.from(document.querySelectorAll<HTMLElement>('.transcript .words'));
       let seen = 0;
       for (const el of words) {
         const text = el.firstChild?.textContent ?? '';

@@ -10,7 +10,7 @@ import { fileURLToPath } from 'node:url';
 import { loadConfig, seedDemo, startServer } from '../../apps/server/src/index.js';
 
 const dataDir = mkdtempSync(join(tmpdir(), 'gloss-e2e-'));
-const env = { ...process.env, DATA_DIR: dataDir, LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn', WEB_DIST: fileURLToPath(new URL('../../apps/web/dist', import.meta.url)) };
+const env: NodeJS.ProcessEnv = { ...process.env, DATA_DIR: dataDir, LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn', WEB_DIST: fileURLToPath(new URL('../../apps/web/dist', import.meta.url)) };
 // Browser tests own their database: never the shared PostgreSQL or Redis of other suites.
 delete env.DATABASE_URL;
 delete env.REDIS_URL;

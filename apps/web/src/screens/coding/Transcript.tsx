@@ -254,11 +254,38 @@ function TurnRow(props: {
   watch: (el: Element, set: (v: boolean) => void) => void;
 }) {
   const [near, setNear] = createSignal(false);
+  // Exact bar positions: once a turn is near the viewport, measure where its segments' words sit.
+  let rowEl!: HTMLDivElement;
+  let wordsEl!: HTMLParagraphElement;
+  const [measured, setMeasured] = createSignal<Map<string, { top: number; height: number }>>(new Map());
+  createEffect(() => {
+    const list = near() ? bars() : [];
+    props.turn().words;
+    if (list.length === 0) return;
+    requestAnimationFrame(() => {
+      const node = wordsEl.firstChild;
+      if (!node) return;
+      const base = rowEl.getBoundingClientRect().top;
+      const len = node.textContent?.length ?? 0;
+      const out = new Map<string, { top: number; height: number }>();
+      const r = document.createRange();
+      for (const b of list) {
+        r.setStart(node, Math.min(b.from, len));
+        r.setEnd(node, Math.min(Math.max(b.to, b.from), len));
+        const rects = r.getClientRects();
+        const first = rects[0];
+        const last = rects[rects.length - 1];
+        if (!first || !last) continue;
+        out.set(b.id, { top: first.top - base, height: Math.max(8, last.bottom - first.top) });
+      }
+      setMeasured(out);
+    });
+  });
   // keep the DOM of unchanged turns: only a different layout replaces the bars
   const bars = createMemo(props.bars, [], { equals: sameBars });
   const words = () => props.turn().words;
   return (
-    <div class="turn" ref={(el) => props.watch(el, setNear)}>
+    <div class="turn" ref={(el) => { rowEl = el; props.watch(el, setNear); }}>
       <div class="margin" style={{ width: `${props.marginWidth()}px` }} aria-hidden="true">
         <For each={near() ? bars() : []}>
           {(b) => (
@@ -269,8 +296,8 @@ function TurnRow(props: {
               data-layer={b.layer}
               style={{
                 left: `${b.lane * LANE_W + b.column * COL_W}px`,
-                top: `${b.top * 100}%`,
-                height: `calc(${(b.bottom - b.top) * 100}% + 2px)`,
+                top: measured().get(b.id) ? `${measured().get(b.id)!.top}px` : `${b.top * 100}%`,
+                height: measured().get(b.id) ? `${measured().get(b.id)!.height}px` : `calc(${(b.bottom - b.top) * 100}% + 2px)`,
                 background: props.colourOf(b.codeId),
               }}
             />
@@ -287,7 +314,7 @@ function TurnRow(props: {
           <Show when={props.turn().speaker}><span class="speaker">{props.turn().speaker}</span></Show>
           <Show when={props.turn().startMs != null}><span class="time">{formatTime(props.turn().startMs!)}</span></Show>
         </div>
-        <p class="words" data-start={props.turn().start}>{words()}</p>
+        <p class="words" ref={wordsEl} data-start={props.turn().start}>{words()}</p>
       </div>
     </div>
   );

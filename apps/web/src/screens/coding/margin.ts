@@ -11,9 +11,12 @@ export interface Bar {
   lane: number;
   column: number;
   codeId: string;
-  /** 0..1 from the top of the turn */
+  /** 0..1 from the top of the turn (an estimate by characters, until the words are measured) */
   top: number;
   bottom: number;
+  /** The part of the segment inside this turn, as offsets into the turn's words. */
+  from: number;
+  to: number;
   /** The segment begins (ends) in this turn: draw a cap. */
   opens: boolean;
   closes: boolean;
@@ -78,6 +81,8 @@ export function layoutBars(turns: readonly TurnSpan[], segments: readonly Margin
         codeId: s.codeId,
         top: a / len,
         bottom: Math.max(b, a) / len,
+        from: a,
+        to: Math.max(a, b),
         opens: s.start >= turn.start,
         closes: s.end <= turn.end,
         orphaned: s.orphaned,
