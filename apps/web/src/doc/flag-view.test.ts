@@ -5,9 +5,9 @@ import {
   addCode, addExclusiveSet, addSegment, computeFlags, createCodebookDoc, createTextDoc, getCodes, listSegments,
   newLayerDoc, resolveSegments,
 } from '@gloss/model';
-import { viewFlags, type Segment } from './flag-view.js';
+import { describeFlag, placeFlags, type Segment } from './flag-view.js';
 
-describe('viewFlags', () => {
+describe('placeFlags and describeFlag', () => {
   it('places an exclusive-set flag on the overlap and names both codes', () => {
     const text = createTextDoc({ turns: [{ speaker: 'P01', startMs: 0, endMs: null, text: 'We keep the projector running on goodwill alone.' }] });
     const cb = createCodebookDoc();
@@ -25,11 +25,11 @@ describe('viewFlags', () => {
     for (const [layer, coderId] of [[ann, 'ann'], [bo, 'bo']] as const) {
       for (const s of resolveSegments(text, listSegments(layer))) segs.set(s.id, { ...s, coderId });
     }
-    const view = viewFlags(flags, segs, new Map(getCodes(cb).map((c) => [c.id, c])));
-    const ex = view.filter((f) => f.kind === 'exclusive');
+    const ex = placeFlags(flags, segs).filter((f) => f.kind === 'exclusive');
     expect(ex).toHaveLength(1);
     expect(ex[0]).toMatchObject({ start: 20, end: 27 });
-    expect(ex[0]!.message).toContain('“Goodwill”');
-    expect(ex[0]!.message).toContain('“Obligation”');
+    const words = describeFlag(ex[0]!, new Map(getCodes(cb).map((c) => [c.id, c])));
+    expect(words).toContain('“Goodwill”');
+    expect(words).toContain('“Obligation”');
   });
 });

@@ -314,7 +314,7 @@ export function CodingView(props: CodingViewProps) {
             />
           )}
         </Show>
-        <FlagList flags={state.flags()} onGo={(f) => f.segmentIds[0] && goTo(f.segmentIds[0])} />
+        <FlagList flags={state.flags()} codes={state.codeById()} onGo={(f) => f.segmentIds[0] && goTo(f.segmentIds[0])} />
         <section aria-labelledby="layers-h">
           <h2 id="layers-h">Layers</h2>
           <ul class="layers">

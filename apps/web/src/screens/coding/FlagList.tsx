@@ -1,5 +1,6 @@
 import { For, Show, createMemo, createSignal } from 'solid-js';
-import type { Flag } from '../../doc/flag-view.js';
+import { describeFlag, type Flag } from '../../doc/flag-view.js';
+import type { CodeView } from '@gloss/model';
 
 const KIND: Record<Flag['kind'], string> = {
   exclusive: 'Exclusive codes together',
@@ -14,7 +15,7 @@ const KIND: Record<Flag['kind'], string> = {
 /** Live flags on this text; each goes to its segment. */
 const PAGE = 50;
 
-export function FlagList(props: { flags: readonly Flag[]; onGo: (f: Flag) => void }) {
+export function FlagList(props: { flags: readonly Flag[]; codes: ReadonlyMap<string, CodeView>; onGo: (f: Flag) => void }) {
   // a busy text can carry thousands of flags: list a page at a time, with counts per kind
   const [limit, setLimit] = createSignal(PAGE);
   const counts = createMemo(() => {
@@ -33,7 +34,7 @@ export function FlagList(props: { flags: readonly Flag[]; onGo: (f: Flag) => voi
           {(f) => (
             <li>
               <button type="button" class="flag" data-kind={f.kind} onClick={() => props.onGo(f)}>
-                <strong>{KIND[f.kind]}</strong>: {f.message}
+                <strong>{KIND[f.kind]}</strong>: {describeFlag(f, props.codes)}
               </button>
             </li>
           )}

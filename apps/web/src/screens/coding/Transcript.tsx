@@ -5,6 +5,7 @@
  * offset mapping trivial; highlights use the CSS Custom Highlight API instead of wrapping spans.
  */
 import { For, Index, Show, createEffect, createMemo, createSignal, onCleanup, onMount, type Accessor } from 'solid-js';
+import type { CodeView } from '@gloss/model';
 import { formatTime } from '../../doc/time.js';
 import { codeColour } from '../../doc/palette.js';
 import { layoutBars, sameBars, type Bar } from './margin.js';
@@ -12,7 +13,7 @@ import { move, ordered, type Move, type Sel } from './keyboard-selection.js';
 import { rangeFor, readDomSelection } from './dom-selection.js';
 import type { CodingState, ViewTurn } from './coding-state.js';
 import type { RemoteCaret } from './text-presence.js';
-import type { Flag } from '../../doc/flag-view.js';
+import { describeFlag, type Flag } from '../../doc/flag-view.js';
 
 export const LANE_W = 20;
 const COL_W = 6;
@@ -212,6 +213,7 @@ export function Transcript(props: TranscriptProps) {
             colourOf={(codeId) => codeColour(codeId, props.state.codeById().get(codeId)?.colour)}
             selected={props.selectedSegment}
             watch={watch}
+            codes={props.state.codeById}
           />
         )}
       </Index>
@@ -252,6 +254,7 @@ function TurnRow(props: {
   colourOf: (codeId: string) => string;
   selected: Accessor<string | null>;
   watch: (el: Element, set: (v: boolean) => void) => void;
+  codes: Accessor<Map<string, CodeView>>;
 }) {
   const [near, setNear] = createSignal(false);
   // Exact bar positions: once a turn is near the viewport, measure where its segments' words sit.
@@ -304,7 +307,7 @@ function TurnRow(props: {
           )}
         </For>
         <Show when={props.flags().length > 0}>
-          <span class="flag-mark" data-id={props.flags()[0]!.segmentIds[0]} title={props.flags().map((f) => f.message).slice(0, 5).join('\n')}>
+          <span class="flag-mark" data-id={props.flags()[0]!.segmentIds[0]} title={props.flags().slice(0, 5).map((f) => describeFlag(f, props.codes())).join('\n')}>
             {props.flags().length > 1 ? props.flags().length : '!'}
           </span>
         </Show>

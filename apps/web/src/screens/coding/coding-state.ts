@@ -11,7 +11,7 @@ import {
 } from '@gloss/model';
 import type { OpenDoc } from '../../sync/open-doc.js';
 import { useFlags } from './flags-source.js';
-import { viewFlags, type Flag, type Segment } from '../../doc/flag-view.js';
+import type { Flag, Segment } from '../../doc/flag-view.js';
 
 export interface LayerHandle { coderId: string; name: string; mine: boolean; doc: OpenDoc }
 
@@ -75,10 +75,7 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
   const codeById = createMemo(() => new Map(codes().map((c) => [c.id, c])));
   const exclusiveSets = createMemo(() => (cbV(), listExclusiveSets(codebook.doc)));
   const source = useFlags(text, codebook, allLayers, visible, () => !opts.showDisagreement());
-  const flags = createMemo(() => {
-    const segs = segments();
-    return viewFlags(source.flags(), new Map(segs.map((s) => [s.id, s])), codeById());
-  });
+  const flags = source.flags;
   return { turns, words, segments, codes, codeById, exclusiveSets, flags };
 }
 

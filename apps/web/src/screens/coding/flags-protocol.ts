@@ -1,5 +1,5 @@
 /** Messages between the coding view and the flags worker. */
-import type { Flag } from '@gloss/model';
+import type { Flag } from '../../doc/flag-view.js';
 
 export type FlagsRequest =
   | { type: 'init'; text: Uint8Array; codebook: Uint8Array; layers: Array<{ layerId: string; coder: string; update: Uint8Array }>; visible: string[]; independentCoding: boolean }

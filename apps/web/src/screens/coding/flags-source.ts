@@ -4,7 +4,8 @@
  */
 import { createEffect, createSignal, onCleanup, type Accessor } from 'solid-js';
 import * as Y from 'yjs';
-import { FlagEngine, type Flag } from '@gloss/model';
+import { FlagEngine } from '@gloss/model';
+import { placeFlags, type Flag } from '../../doc/flag-view.js';
 import type { OpenDoc } from '../../sync/open-doc.js';
 import type { LayerHandle } from './coding-state.js';
 import type { FlagsReply, FlagsRequest } from './flags-protocol.js';
@@ -16,7 +17,7 @@ export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly L
 
   if (typeof Worker === 'undefined') {
     const engine = new FlagEngine({ textDoc: text.doc, codebook: codebook.doc, layers: visible().map((l) => ({ layerId: l.doc.room, coder: l.coderId, doc: l.doc.doc })), independentCoding: independent() });
-    const refresh = () => setFlags(engine.flags());
+    const refresh = () => setFlags(placeFlags(engine.flags(), new Map(engine.segments().map((s) => [s.id, s]))));
     const docs = [text.doc, codebook.doc, ...allLayers.map((l) => l.doc.doc)];
     docs.forEach((d) => d.on('afterTransaction', refresh));
     onCleanup(() => {

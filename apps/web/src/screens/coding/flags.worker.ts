@@ -6,6 +6,7 @@
 import * as Y from 'yjs';
 import { FlagEngine } from '@gloss/model';
 import type { FlagsRequest, FlagsReply } from './flags-protocol.js';
+import { placeFlags } from '../../doc/flag-view.js';
 
 const docs = new Map<string, Y.Doc>();
 let engine: FlagEngine | undefined;
@@ -26,7 +27,9 @@ function post(): void {
   setTimeout(() => {
     queued = false;
     if (!engine) return;
-    const reply: FlagsReply = { type: 'flags', flags: engine.flags() };
+    const flags = engine.flags();
+    const segs = new Map(engine.segments().map((s) => [s.id, s]));
+    const reply: FlagsReply = { type: 'flags', flags: placeFlags(flags, segs) };
     (self as unknown as Worker).postMessage(reply);
   }, 120);
 }
