@@ -1,6 +1,9 @@
 /**
- * A real server process for integration tests: `tsx apps/server/src/main.ts` on PORT=0, ready once
- * it prints its `{"event":"listening"}` line (no sleeps). Each spawn gets its own database: a copy of
+ * A real server process for integration tests: `node --import tsx apps/server/src/main.ts` on PORT=0,
+ * ready once it prints its `{"event":"listening"}` line (no sleeps). Not the `tsx` command: it relays
+ * signals to a child of its own and, when the child does not acknowledge within 30 ms (common on a
+ * busy machine), sends the signal again and then SIGKILLs it and exits 143 — a graceful close looked
+ * like a crash. Each spawn gets its own database: a copy of
  * the migrated PGlite template, or a fresh PostgreSQL database from DATABASE_URL. PGlite is
  * single-process, so seeding happens before the server starts (and again between stop and restart).
  */
@@ -16,7 +19,6 @@ import { freshPostgresDatabase, type DbKindUnderTest } from './postgres.js';
 export { dbKinds } from './postgres.js';
 
 const repoRoot = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
-const tsx = join(repoRoot, 'node_modules', '.bin', 'tsx');
 const mainTs = join(repoRoot, 'apps', 'server', 'src', 'main.ts');
 
 export interface SpawnOptions<T> {
@@ -93,7 +95,8 @@ export async function spawnServer<T = undefined>(options: SpawnOptions<T>): Prom
 
   async function start(): Promise<void> {
     stderr = '';
-    const proc = spawn(tsx, [mainTs], {
+    // `--import tsx` resolves from cwd (the repo root); one process, so signals reach main.ts directly.
+    const proc = spawn(process.execPath, ['--import', 'tsx', mainTs], {
       cwd: repoRoot,
       env: {
         ...process.env,
