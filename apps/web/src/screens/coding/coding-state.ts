@@ -57,18 +57,20 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
 
   const words = createMemo(() => (textV(), getText(text.doc).toString()));
   const turns = createMemo(() => viewTurns(readTurns(text.doc), words()));
-  const segments = createMemo(() => {
+  // one resolution per layer, redone only when that layer or the text changed
+  const perLayer = new Map(allLayers.map((l) => [l.doc.room, createMemo(() => {
     textV();
+    layerV(l);
     const t = turns();
+    const records = listSegments(l.doc.doc);
+    return resolveSegments(text.doc, records, t.length ? t : undefined).map((s, i): Segment => {
+      const note = records[i]!.note;
+      return note === undefined ? { ...s, coderId: l.coderId } : { ...s, coderId: l.coderId, note };
+    });
+  })]));
+  const segments = createMemo(() => {
     const out: Segment[] = [];
-    for (const l of visible()) {
-      layerV(l);
-      const records = listSegments(l.doc.doc);
-      resolveSegments(text.doc, records, t.length ? t : undefined).forEach((s, i) => {
-        const note = records[i]!.note;
-        out.push(note === undefined ? { ...s, coderId: l.coderId } : { ...s, coderId: l.coderId, note });
-      });
-    }
+    for (const l of visible()) for (const s of perLayer.get(l.doc.room)?.() ?? []) out.push(s);
     return out.sort((a, b) => a.start - b.start || a.end - b.end);
   });
   const codes = createMemo(() => (cbV(), getCodes(codebook.doc)));

@@ -1,0 +1,33 @@
+// First-cycle extras: an in vivo code from the selected words, a jotting on a selection, and the jotting
+// promoted to a memo on the memos screen, found there by search.
+import { test, expect, account, signIn, openText, selectWords, shot } from './fixtures.js';
+
+const TEXT = 'P03 — sound and setup, Ferrowgate Film Club';
+
+test('in vivo code, jotting, and promoting the jotting to a memo', async ({ browser, baseURL }) => {
+  const coder = await signIn(browser, account('coder', 1), baseURL!);
+  const page = coder.page;
+  await openText(coder, TEXT);
+
+  await selectWords(page, 'the whole story of the film club');
+  await page.getByRole('button', { name: 'In vivo code' }).click();
+  await expect(page.getByTestId('coding-message')).toHaveText('In vivo code added and applied.');
+  await expect(page.getByTestId('segment-panel')).toContainText('“the whole story of the film club”');
+
+  await selectWords(page, 'a projector on a stack of hymn books');
+  await page.getByRole('button', { name: 'Jotting' }).click();
+  await page.getByLabel('Jotting', { exact: true }).fill('Makeshift start: compare with the borrowed projector in P04.');
+  await page.getByRole('button', { name: 'Keep jotting' }).click();
+  await expect(page.getByTestId('coding-message')).toHaveText('Jotting kept.');
+
+  await page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Memos' }).click();
+  await page.getByTestId('memo-search').fill('borrowed projector');
+  const item = page.locator('.memo-list .memo').filter({ hasText: 'borrowed projector' });
+  await expect(item).toHaveCount(1);
+  await expect(item).toHaveAttribute('data-kind', 'jotting');
+  await expect(item).toContainText('On “a projector on a stack of hymn books”');
+  await item.getByRole('button', { name: 'Promote to memo' }).click();
+  await expect(item).toHaveAttribute('data-kind', 'memo');
+  await shot(page, 'memos-promoted');
+  await coder.context.close();
+});
