@@ -36,7 +36,8 @@ export default defineConfig({
   },
   webServer: haveChromium || process.env.CI
     ? {
-        command: `pnpm --filter @gloss/web build && node_modules/.bin/tsx test/e2e/serve-demo.ts`,
+        // `node --import tsx` (not the tsx command, whose signal relay can orphan the server on a busy machine)
+        command: `pnpm --filter @gloss/web build && node --import tsx test/e2e/serve-demo.ts`,
         cwd: '../..',
         url: `http://127.0.0.1:${port}/api/health`,
         env: { PORT: String(port) },
