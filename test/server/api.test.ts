@@ -51,7 +51,7 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
     server = await spawnServer({ db: kind, seed: seedBasic, env: { MAX_BODY_BYTES: '65536', SESSION_DAYS: '30' } });
     seed = server.seeded;
     for (const p of Object.keys(PEOPLE) as Person[]) cookies[p] = await signIn(server.url, PEOPLE[p].email, PASSWORD);
-  });
+  }, 120_000); // a cold server start (tsx, PGlite) took 10-20 s here under load; spawnServer's own limit is 60 s
   afterAll(async () => {
     await server?.stop();
   });
@@ -347,5 +347,5 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
     await server.kill();
     const actions = await server.withDb(async (db) => (await db.select({ action: auditLog.action }).from(auditLog)).map((r) => r.action));
     for (const action of ['study.create', 'member.add', 'member.role', 'member.remove', 'text.import']) expect(actions).toContain(action);
-  });
+  }, 60_000); // a graceful stop, then PGlite opened in this process
 });

@@ -30,7 +30,7 @@ describe.runIf(enabled)('two nodes on PostgreSQL and Redis', () => {
     const redis = { REDIS_URL: process.env.REDIS_URL! };
     a = await spawnServer({ db: 'postgres', seed: seedBasic, env: redis });
     b = await spawnServer({ db: 'postgres', sameDatabaseAs: a, env: redis });
-  });
+  }, 180_000); // two cold server starts, each 10-20 s here under load (spawnServer's own limit: 60 s each)
   afterAll(async () => {
     for (const p of providers) p.destroy();
     await b?.stop();
@@ -52,7 +52,7 @@ describe.runIf(enabled)('two nodes on PostgreSQL and Redis', () => {
     const me = await apiClient(b.url, cookie).call<{ id: string }>('GET', '/api/me');
     expect(me.status).toBe(200);
     expect(me.body.id).toBe(a.seeded.users.coder.id);
-  });
+  }, 60_000);
 
   it('relays a codebook edit from a client of node A to a client of node B', async () => {
     const leadCookie = await signIn(a.url, PEOPLE.lead.email, PASSWORD);
@@ -65,5 +65,5 @@ describe.runIf(enabled)('two nodes on PostgreSQL and Redis', () => {
     writer.doc.getMap('codes').set('code-shared-tools', code);
     code.set('label', 'Shared tools');
     await waitFor('node B client sees the code', () => (reader.doc.getMap('codes').get('code-shared-tools') as Y.Map<unknown> | undefined)?.get('label') === 'Shared tools');
-  });
+  }, 60_000);
 });

@@ -8,12 +8,12 @@ describe('server start', () => {
     expect(err).toBeInstanceOf(Error);
     expect((err as Error).message).toMatch(/exited \(2\)/);
     expect((err as Error).message).toContain('PORT must be an integer');
-  });
+  }, 90_000); // a cold process start: 10 s seen here under load
 
   it('exits with a message when PostgreSQL cannot be reached', async () => {
     const err = await spawnServer({ db: 'pglite', env: { DATABASE_URL: 'postgres://nobody@127.0.0.1:1/none' } }).catch((e: unknown) => e as Error);
     expect(err).toBeInstanceOf(Error);
     expect((err as Error).message).toMatch(/exited \(1\)/);
     expect((err as Error).message).toContain('could not start: PostgreSQL connection failed');
-  });
+  }, 90_000);
 });

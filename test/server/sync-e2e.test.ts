@@ -27,7 +27,7 @@ describe.each(dbKinds())('sync through the composed server on %s', (kind) => {
 
   beforeAll(async () => {
     server = await spawnServer({ db: kind, seed: seedBasic });
-  });
+  }, 120_000); // a cold server start (tsx, PGlite) took 10-20 s here under load; spawnServer's own limit is 60 s
   afterAll(async () => {
     for (const p of providers) p.destroy();
     await server?.stop();
@@ -47,7 +47,7 @@ describe.each(dbKinds())('sync through the composed server on %s', (kind) => {
   it('loads the imported transcript into a member’s client', async () => {
     const { doc } = await open(PEOPLE.observer.email, server.seeded.textRoom);
     expect(doc.getText('text').toString()).toContain('My neighbour lent me a spade and a plot.');
-  });
+  }, 60_000);
 
   it('keeps a coder’s layer edits across a graceful restart and refuses an observer’s edits', async () => {
     const seed = server.seeded;
@@ -78,5 +78,5 @@ describe.each(dbKinds())('sync through the composed server on %s', (kind) => {
     const segments = after.doc.getMap('segments');
     expect((segments.get('seg-1') as Y.Map<unknown> | undefined)?.get('codeId')).toBe('code-harvest');
     expect(segments.has('seg-evil')).toBe(false);
-  });
+  }, 120_000); // a graceful stop and a second cold start
 });
