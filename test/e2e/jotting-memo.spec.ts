@@ -14,7 +14,7 @@ test('in vivo code, jotting, and promoting the jotting to a memo', async ({ brow
   await expect(page.getByTestId('coding-message')).toHaveText('In vivo code added and applied.');
   await expect(page.getByTestId('segment-panel')).toContainText('“the whole story of the film club”');
 
-  await selectWords(page, 'a projector on a stack of hymn books');
+  await selectWords(page, "the sound was so bad I couldn't follow the plot");
   await page.getByRole('button', { name: 'Jotting' }).click();
   await page.getByLabel('Jotting', { exact: true }).fill('Makeshift start: compare with the borrowed projector in P04.');
   await page.getByRole('button', { name: 'Keep jotting' }).click();
@@ -25,7 +25,7 @@ test('in vivo code, jotting, and promoting the jotting to a memo', async ({ brow
   const item = page.locator('.memo-list .memo').filter({ hasText: 'borrowed projector' });
   await expect(item).toHaveCount(1);
   await expect(item).toHaveAttribute('data-kind', 'jotting');
-  await expect(item).toContainText('On “a projector on a stack of hymn books”');
+  await expect(item).toContainText("On “the sound was so bad I couldn't follow the plot”");
   await item.getByRole('button', { name: 'Promote to memo' }).click();
   await expect(item).toHaveAttribute('data-kind', 'memo');
   await shot(page, 'memos-promoted');

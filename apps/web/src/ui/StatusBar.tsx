@@ -1,6 +1,6 @@
 /** Always-visible connection status, what is waiting to be sent, and the work-offline switch. */
 import { For, Show, createSignal } from 'solid-js';
-import { overall, waiting } from '../sync/status.js';
+import { openDocs, overall, waiting } from '../sync/status.js';
 import { isPaused, setPaused } from '../sync/open-doc.js';
 import { DataNotice } from './DataNotice.js';
 
@@ -29,9 +29,11 @@ export function StatusBar() {
             <For each={waiting()}>{(w, i) => <>{i() > 0 ? '; ' : ''}{w.count} change{w.count === 1 ? '' : 's'} to {w.label}</>}</For>
           </span>
         </Show>
-        <button type="button" class="link" onClick={toggle} aria-pressed={paused()}>
-          {paused() ? 'Resume syncing' : 'Work offline'}
-        </button>
+        <Show when={openDocs().length > 0 || paused()}>
+          <button type="button" class="link" onClick={toggle} aria-pressed={paused()}>
+            {paused() ? 'Resume syncing' : 'Work offline'}
+          </button>
+        </Show>
       </div>
       <DataNotice compact />
     </footer>
