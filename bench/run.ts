@@ -9,6 +9,10 @@ import { fileURLToPath, pathToFileURL } from 'node:url';
 
 export interface BenchRecord { name: string; [key: string]: unknown }
 
+// Servers that benchmarks start (in process or as children) log to stdout; keep their warnings
+// (expected ones, such as clients hanging up mid-upgrade) out of the JSON lines.
+process.env.LOG_LEVEL ??= 'error';
+
 const here = dirname(fileURLToPath(import.meta.url));
 const wanted = process.argv.slice(2);
 const files = readdirSync(here)
