@@ -17,7 +17,9 @@ test('two coders see each other’s segments appear live', async ({ browser, bas
   await applyCode(ann.page, 'Sociability');
   // the other coder's margin gains the new segment (polled; the time taken is recorded, not asserted)
   await expect.poll(async () => await segmentCount(bo.page), { timeout: 10_000 }).toBe(before + 1);
-  test.info().annotations.push({ type: 'propagation-ms', description: String(Date.now() - t0) });
+  const ms = Date.now() - t0;
+  test.info().annotations.push({ type: 'propagation-ms', description: String(ms) });
+  process.stdout.write(`two-coders: segment seen by the other coder after ${ms} ms (apply, sync, resolve and draw)\n`);
 
   await selectWords(bo.page, 'Ray texts me if I miss a Friday');
   await applyCode(bo.page, 'Sense of duty');
