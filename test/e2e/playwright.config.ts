@@ -6,7 +6,8 @@
 import { existsSync } from 'node:fs';
 import { defineConfig } from '@playwright/test';
 
-export const CHROMIUM = '/usr/bin/chromium';
+// GLOSS_CHROMIUM only lets the skip path itself be tried; the project's browser is Debian's.
+export const CHROMIUM = process.env.GLOSS_CHROMIUM ?? '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);
 if (!haveChromium && !process.env.CI) {
   process.stderr.write(`browser tests skipped: ${CHROMIUM} is absent (install it with: apt-get install -y chromium)\n`);
@@ -18,7 +19,8 @@ const port = Number(process.env.GLOSS_E2E_PORT);
 
 export default defineConfig({
   testDir: '.',
-  testMatch: '*.spec.ts',
+  // Without Chromium (and outside CI) only a notice runs: one skipped test saying why.
+  testMatch: haveChromium || process.env.CI ? '*.spec.ts' : 'no-chromium.notice.ts',
   outputDir: '../../test-results/e2e',
   timeout: 60_000,
   expect: { timeout: 10_000 },
