@@ -1,13 +1,13 @@
 import type { Transcript } from '@gloss/model';
-import { clockToMs, formatMs, fractionToMs } from './clock.js';
-import { cueLineCandidate, piecesFromLines, turnsFromCues, type Cue } from './cue-turns.js';
+import { clockToMs, fractionToMs } from './clock.js';
+import { clip, requireCueOrder } from './cue-timing.js';
+import { transcriptFromRawCues, type RawCue } from './cue-transcript.js';
+import { piecesFromLines } from './cue-turns.js';
 import { decodeText } from './decode-text.js';
 import { ImportError } from './import-error.js';
 import { checkSize } from './limits.js';
 import type { ImportOptions } from './options.js';
-import { requireWords, withTitle } from './plain-text.js';
 import { ProgressReporter } from './progress.js';
-import { SpeakerJudge } from './speaker-label.js';
 import { runAsync, runSync, STEP_SIZE, type Steps } from './steps.js';
 
 // `hh:mm:ss,mmm --> hh:mm:ss,mmm`, then optional display coordinates (`X1:... Y2:...`), ignored.
@@ -35,7 +35,7 @@ function* srtSteps(text: string, opts: ImportOptions): Steps<Transcript> {
   const isCueStart = (i: number): boolean =>
     (INDEX.test(lines[i] ?? '') && TIMING.test(lines[i + 1] ?? '')) || TIMING.test(lines[i] ?? '');
 
-  const raw: Array<{ startMs: number; endMs: number; payload: string[] }> = [];
+  const raw: RawCue[] = [];
   let pos = 0;
   let pauseAt = STEP_SIZE;
   while (pos < lines.length) {
@@ -70,21 +70,7 @@ function* srtSteps(text: string, opts: ImportOptions): Steps<Transcript> {
     raw.push({ startMs, endMs, payload: payload.map((l) => l.replace(FORMATTING, '')) });
   }
 
-  const judge = SpeakerJudge.fromLines(
-    raw.flatMap((c) => c.payload),
-    cueLineCandidate,
-  );
-  const cues: Cue[] = [];
-  for (let k = 0; k < raw.length; k++) {
-    if (k % STEP_SIZE === STEP_SIZE - 1) yield;
-    progress.tick(raw.length + k, raw.length * 2);
-    const c = raw[k]!;
-    cues.push({ startMs: c.startMs, endMs: c.endMs, pieces: piecesFromLines(c.payload, judge) });
-  }
-  const turns = turnsFromCues(cues, opts.mergeCues ?? true);
-  requireWords(turns, 'srt');
-  progress.done();
-  return withTitle(turns, opts.title);
+  return yield* transcriptFromRawCues(raw, (c, judge) => piecesFromLines(c.payload, judge), 'srt', opts, progress);
 }
 
 function readTiming(line: string, lineNo: number): { startMs: number; endMs: number } {
@@ -101,19 +87,8 @@ function readTiming(line: string, lineNo: number): { startMs: number; endMs: num
       message: `cannot read cue timing '${clip(line.trim())}' (expected 'hh:mm:ss,mmm --> hh:mm:ss,mmm' with minutes and seconds below 60)`,
     });
   }
-  if (endMs < startMs) {
-    throw new ImportError({
-      code: 'timing-order',
-      format: 'srt',
-      line: lineNo,
-      message: `cue timing '${clip(line.trim())}' ends before it starts (${formatMs(endMs)} < ${formatMs(startMs)})`,
-    });
-  }
+  requireCueOrder('srt', lineNo, line.trim(), startMs, endMs);
   return { startMs, endMs };
-}
-
-function clip(s: string): string {
-  return s.length > 60 ? `${s.slice(0, 57)}...` : s;
 }
 
 /** An SRT file from its bytes (UTF-8 unless `opts.encoding` names another encoding). */

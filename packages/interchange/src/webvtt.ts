@@ -1,13 +1,14 @@
 import type { Transcript } from '@gloss/model';
-import { clockToMs, formatMs } from './clock.js';
-import { cueLineCandidate, piecesFromLines, turnsFromCues, type Cue, type CuePiece } from './cue-turns.js';
+import { clockToMs } from './clock.js';
+import { clip, requireCueOrder } from './cue-timing.js';
+import { transcriptFromRawCues, type RawCue } from './cue-transcript.js';
+import { piecesFromLines, type CuePiece } from './cue-turns.js';
 import { decodeText } from './decode-text.js';
 import { ImportError } from './import-error.js';
 import { checkSize } from './limits.js';
 import type { ImportOptions } from './options.js';
-import { requireWords, withTitle } from './plain-text.js';
 import { ProgressReporter } from './progress.js';
-import { SpeakerJudge } from './speaker-label.js';
+import type { SpeakerJudge } from './speaker-label.js';
 import { runAsync, runSync, STEP_SIZE, type Steps } from './steps.js';
 import { readCueText } from './vtt-cue-text.js';
 
@@ -60,7 +61,7 @@ function* webvttSteps(text: string, opts: ImportOptions): Steps<Transcript> {
   // Header: lines up to the first blank line, unless a cue timing line comes first.
   while (pos < lines.length && lines[pos] !== '' && !lines[pos]!.includes('-->')) pos++;
 
-  const raw: Array<{ startMs: number; endMs: number; payload: string[]; payloadLine: number }> = [];
+  const raw: Array<RawCue & { payloadLine: number }> = [];
   let pauseAt = STEP_SIZE;
   while (pos < lines.length) {
     if (pos >= pauseAt) {
@@ -99,21 +100,7 @@ function* webvttSteps(text: string, opts: ImportOptions): Steps<Transcript> {
   }
 
   // Second pass: speakers, now that label recurrences over the whole file are known.
-  const judge = SpeakerJudge.fromLines(
-    raw.flatMap((c) => c.payload),
-    cueLineCandidate,
-  );
-  const cues: Cue[] = [];
-  for (let k = 0; k < raw.length; k++) {
-    if (k % STEP_SIZE === STEP_SIZE - 1) yield;
-    progress.tick(raw.length + k, raw.length * 2);
-    const c = raw[k]!;
-    cues.push({ startMs: c.startMs, endMs: c.endMs, pieces: cuePieces(c.payload, c.payloadLine, judge) });
-  }
-  const turns = turnsFromCues(cues, opts.mergeCues ?? true);
-  requireWords(turns, 'webvtt');
-  progress.done();
-  return withTitle(turns, opts.title);
+  return yield* transcriptFromRawCues(raw, (c, judge) => cuePieces(c.payload, c.payloadLine, judge), 'webvtt', opts, progress);
 }
 
 function cuePieces(payload: string[], firstLine: number, judge: SpeakerJudge): CuePiece[] {
@@ -148,19 +135,8 @@ function readTiming(line: string, lineNo: number): { startMs: number; endMs: num
         ` (expected hh:mm:ss.ttt or mm:ss.ttt, e.g. '00:01.000 --> 00:04.000')`,
     });
   }
-  if (endMs < startMs) {
-    throw new ImportError({
-      code: 'timing-order',
-      format: 'webvtt',
-      line: lineNo,
-      message: `cue timing '${clip(`${m[1]} --> ${m[2]}`)}' ends before it starts (${formatMs(endMs)} < ${formatMs(startMs)})`,
-    });
-  }
+  requireCueOrder('webvtt', lineNo, `${m[1]} --> ${m[2]}`, startMs, endMs);
   return { startMs, endMs };
-}
-
-function clip(s: string): string {
-  return s.length > 60 ? `${s.slice(0, 57)}...` : s;
 }
 
 /** A WebVTT file from its bytes (always UTF-8, per the specification). */
