@@ -6,23 +6,13 @@
  * - projection of that text (all 10,000 segment rows rewritten in one transaction) on in-memory PGlite.
  * Figures are medians with the fastest run alongside (the machine is shared).
  */
+import { mulberry32 } from '@gloss/agreement';
 import { openDatabase } from '@gloss/db';
 import { addCode, addSegment, createCodebookDoc, createTextDoc, newLayerDoc, type Transcript } from '@gloss/model';
 import * as Y from 'yjs';
 import { addTextFromTranscript, createStudy, createUser, ensureLayer } from '../apps/server/src/admin/index.js';
 import { segmentsWithFlags } from '../apps/server/src/http/segments.js';
 import { loadDoc, projectDocument } from '../apps/server/src/projection/index.js';
-
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const WORDS = ['harbour', 'net', 'rope', 'boat', 'winter', 'uncle', 'shed', 'tide', 'market', 'fish', 'early', 'cold', 'we', 'then', 'and', 'the'];
 

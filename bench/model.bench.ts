@@ -9,22 +9,12 @@
  * Figures are medians over repeated runs, with the fastest alongside (the machine is shared). The bulk
  * figure is given cold (anchors decoded afresh) and warm (decoded anchors cached, as in a live client).
  */
+import { mulberry32 } from '@gloss/agreement';
 import * as Y from 'yjs';
 import {
   addCode, addExclusiveSet, addSegment, createCodebookDoc, createTextDoc, FlagEngine, getDefinitionText, getText,
   listSegments, newLayerDoc, resolveSegments, type SegmentRecord,
 } from '@gloss/model';
-
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const round = (x: number) => Math.round(x * 100) / 100;
 function stats(ms: number[]) {
