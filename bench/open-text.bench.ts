@@ -24,7 +24,8 @@ const CHROMIUM = '/usr/bin/chromium';
 const WORDS = 30_000;
 const LAYERS = 5;
 const SEGMENTS = 2_000;
-const RUNS = 2;
+/** BENCH_RUNS: more page loads per run, for steadier medians on a loaded machine. */
+const RUNS = Number(process.env.BENCH_RUNS) || 2;
 
 /** Deterministic invented words (mulberry32), so every run opens the same text. */
 function rng(seed: number) {
@@ -73,6 +74,7 @@ const MEASURE = `(async function () {
     longest: window.__long.reduce(function (m, l) { return Math.max(m, l.end - l.start); }, 0),
     bars: document.querySelectorAll('.transcript .bar').length,
     marks: performance.getEntriesByType('mark').filter(function (m) { return m.name.indexOf('gloss:') === 0; }).map(function (m) { return m.name + '=' + Math.round(m.startTime); }).join(' '),
+    resources: performance.getEntriesByType('resource').map(function (r) { return r.name.replace(location.origin, '') + '=' + Math.round(r.startTime) + '..' + Math.round(r.responseEnd); }).join(' '),
     long: window.__long.map(function (l) { return Math.round(l.start) + '+' + Math.round(l.end - l.start); }).join(' '),
   };
 })()`;
@@ -80,7 +82,8 @@ const MEASURE = `(async function () {
 export async function run(): Promise<Array<Record<string, unknown> & { name: string }>> {
   const name = 'open-text-30k-words-5x2000-segments';
   if (!existsSync(CHROMIUM)) return [{ name, skipped: 'no chromium' }];
-  const webDist = fileURLToPath(new URL('../apps/web/dist', import.meta.url));
+  // BENCH_WEB_DIST: another build of the app (say, the one before a change) for a side-by-side run
+  const webDist = process.env.BENCH_WEB_DIST ?? fileURLToPath(new URL('../apps/web/dist', import.meta.url));
   if (!existsSync(join(webDist, 'index.html'))) throw new Error('apps/web/dist is missing: run `pnpm --filter @gloss/web build` first');
 
   const dataDir = mkdtempSync(join(tmpdir(), 'gloss-bench-open-'));
@@ -138,8 +141,25 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
       if (!res.ok()) throw new Error(`sign-in failed: ${res.status()}`);
       await context.addInitScript(OBSERVE_LONG_TASKS);
       const page = await context.newPage();
-      const cdp = process.env.BENCH_PROFILE ? await context.newCDPSession(page) : undefined;
-      if (cdp) {
+      const cdp = process.env.BENCH_PROFILE || process.env.BENCH_DEBUG ? await context.newCDPSession(page) : undefined;
+      // BENCH_DEBUG: when the network layer got each sync frame (before the page's main thread saw it)
+      const frames: string[] = [];
+      if (cdp && process.env.BENCH_DEBUG) {
+        const rooms = new Map<string, string>();
+        let wall0 = 0;
+        cdp.on('Network.webSocketCreated', (e: { requestId: string; url: string }) => rooms.set(e.requestId, e.url.split('/').pop()!.slice(0, 6)));
+        cdp.on('Network.webSocketFrameReceived', (e: { requestId: string; timestamp: number; response: { payloadData: string } }) => {
+          wall0 ||= e.timestamp;
+          frames.push(`${rooms.get(e.requestId)}:${Math.round((e.timestamp - wall0) * 1000)}:${Math.round(e.response.payloadData.length * 0.75 / 1024)}k`);
+        });
+        cdp.on('Network.webSocketWillSendHandshakeRequest', (e: { requestId: string; timestamp: number }) => {
+          wall0 ||= e.timestamp;
+          frames.push(`${rooms.get(e.requestId)}:${Math.round((e.timestamp - wall0) * 1000)}:ask`);
+        });
+        cdp.on('Network.webSocketHandshakeResponseReceived', (e: { requestId: string; timestamp: number }) => frames.push(`${rooms.get(e.requestId)}:${Math.round((e.timestamp - wall0) * 1000)}:open`));
+        await cdp.send('Network.enable');
+      }
+      if (cdp && process.env.BENCH_PROFILE) {
         await cdp.send('Profiler.enable');
         await cdp.send('Profiler.start');
       }
@@ -148,7 +168,7 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
       // wait for a quiet window of 500 ms with no long task, then read the figures
       // (a string, not a function: the TypeScript runner would add helpers the page does not have)
       const figures = (await page.evaluate(MEASURE)) as { first: number; full: number; interactive: number; longest: number; bars: number; marks: string; long: string };
-      if (cdp) {
+      if (cdp && process.env.BENCH_PROFILE) {
         const { profile } = (await cdp.send('Profiler.stop')) as { profile: { nodes: Array<{ id: number; callFrame: { functionName: string; url: string; lineNumber: number } }>; samples: number[]; timeDeltas: number[] } };
         const self = new Map<string, number>();
         const byId = new Map(profile.nodes.map((n) => [n.id, n]));
@@ -159,7 +179,7 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
         });
         process.stderr.write([...self].sort((a, b) => b[1] - a[1]).slice(0, 25).map(([k, v]) => `${v.toFixed(0).padStart(6)} ms  ${k}`).join('\n') + '\n');
       }
-      if (process.env.BENCH_DEBUG) process.stderr.write(JSON.stringify(figures) + '\n');
+      if (process.env.BENCH_DEBUG) process.stderr.write(JSON.stringify({ ...figures, frames: frames.join(' ') }) + '\n');
       if (figures.bars === 0) throw new Error('no segment bars were drawn');
       samples.push(figures);
       await context.close();

@@ -87,7 +87,11 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
       setState((s) => (s === 'loading' ? 'ready' : s));
       resolve();
     };
-    provider.once('sync', (s: boolean) => s && finish());
+    provider.once('sync', (s: boolean) => {
+      if (!s) return;
+      performance.mark(`gloss:synced:${room}`);
+      finish();
+    });
     // Offline: the IndexedDB copy is good enough to work on if it holds anything.
     void local?.whenSynced.then(() => {
       if (doc.store.clients.size > 0 && !provider.wsconnected) finish();
