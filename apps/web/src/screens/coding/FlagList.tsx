@@ -1,5 +1,6 @@
 import { For, Show, createMemo, createSignal } from 'solid-js';
 import { describeFlag, type Flag } from '../../doc/flag-view.js';
+import type { FlagSet } from '../../doc/flag-pack.js';
 import type { CodeView } from '@gloss/model';
 
 const KIND: Record<Flag['kind'], string> = {
@@ -15,12 +16,13 @@ const KIND: Record<Flag['kind'], string> = {
 /** Live flags on this text; each goes to its segment. */
 const PAGE = 50;
 
-export function FlagList(props: { flags: readonly Flag[]; codes: ReadonlyMap<string, CodeView>; onGo: (f: Flag) => void }) {
+export function FlagList(props: { flags: FlagSet; codes: ReadonlyMap<string, CodeView>; onGo: (f: Flag) => void }) {
   // a busy text can carry thousands of flags: list a page at a time, with counts per kind
   const [limit, setLimit] = createSignal(PAGE);
   const counts = createMemo(() => {
     const c = new Map<Flag['kind'], number>();
-    for (const f of props.flags) c.set(f.kind, (c.get(f.kind) ?? 0) + 1);
+    const flags = props.flags;
+    for (let i = 0; i < flags.length; i++) c.set(flags.kindAt(i), (c.get(flags.kindAt(i)) ?? 0) + 1);
     return [...c];
   });
   return (
@@ -30,7 +32,7 @@ export function FlagList(props: { flags: readonly Flag[]; codes: ReadonlyMap<str
         <p class="muted">{counts().map(([k, n]) => `${KIND[k]}: ${n}`).join(' · ')}</p>
       </Show>
       <ul aria-live="polite">
-        <For each={props.flags.slice(0, limit())} fallback={<li class="muted">No flags on this text.</li>}>
+        <For each={Array.from({ length: Math.min(limit(), props.flags.length) }, (_, i) => props.flags.at(i))} fallback={<li class="muted">No flags on this text.</li>}>
           {(f) => (
             <li>
               <button type="button" class="flag" data-kind={f.kind} onClick={() => props.onGo(f)}>

@@ -8,7 +8,7 @@ import { For, Index, Show, createEffect, createMemo, createSignal, onCleanup, on
 import type { CodeView } from '@gloss/model';
 import { formatTime } from '../../doc/time.js';
 import { codeColour } from '../../doc/palette.js';
-import { layoutBars, sameBars, type Bar } from './margin.js';
+import { layoutBars, mergeLanes, sameBars, type Bar } from './margin.js';
 import { move, ordered, type Move, type Sel } from './keyboard-selection.js';
 import { rangeFor, readDomSelection } from './dom-selection.js';
 import type { CodingState, ViewTurn } from './coding-state.js';
@@ -19,6 +19,10 @@ export const LANE_W = 20;
 const COL_W = 6;
 const FIRST_BATCH = 60;
 const BATCH = 300;
+const FLAGS_SHOWN = 5;
+
+interface TurnFlags { count: number; first: Flag[] }
+const NO_FLAGS: TurnFlags = { count: 0, first: [] };
 
 export interface TranscriptProps {
   state: CodingState;
@@ -84,22 +88,30 @@ export function Transcript(props: TranscriptProps) {
     });
   };
 
-  const bars = createMemo(() =>
+  // one layout per layer, redone only when that layer (or the text) changed; joined per turn in lane order
+  const layerBars = [...props.state.layerSegments].map(([layer, segs]) => [layer, createMemo(() =>
     layoutBars(
       props.state.turns(),
-      props.state.segments().map((s) => ({ id: s.id, layer: s.coderId, codeId: s.codeId, start: s.start, end: s.end, orphaned: s.orphaned })),
-      props.lanes(),
+      segs().map((s) => ({ id: s.id, layer, codeId: s.codeId, start: s.start, end: s.end, orphaned: s.orphaned })),
+      [layer],
     ),
-  );
+  )] as const);
+  const bars = createMemo(() => {
+    const lanes = props.lanes();
+    return mergeLanes(props.state.turns().length, lanes, new Map(layerBars.filter(([l]) => lanes.includes(l)).map(([l, b]) => [l, b()])));
+  });
+  // per turn: how many flags, and the first few (the only ones whose words are shown)
   const flagsByTurn = createMemo(() => {
-    const m = new Map<number, Flag[]>();
+    const m = new Map<number, TurnFlags>();
     const turns = props.state.turns();
+    const flags = props.state.flags();
     let t = 0;
-    for (const f of props.state.flags()) {
-      while (t + 1 < turns.length && turns[t + 1]!.start <= f.start) t++;
-      const list = m.get(t);
-      if (list) list.push(f);
-      else m.set(t, [f]);
+    for (let i = 0; i < flags.length; i++) {
+      const at = flags.startAt(i);
+      while (t + 1 < turns.length && turns[t + 1]!.start <= at) t++;
+      const entry = m.get(t);
+      if (!entry) m.set(t, { count: 1, first: [flags.at(i)] });
+      else if (++entry.count <= FLAGS_SHOWN) entry.first.push(flags.at(i));
     }
     return m;
   });
@@ -208,7 +220,7 @@ export function Transcript(props: TranscriptProps) {
           <TurnRow
             turn={turn}
             bars={() => bars()[i] ?? []}
-            flags={() => flagsByTurn().get(i) ?? []}
+            flags={() => flagsByTurn().get(i) ?? NO_FLAGS}
             marginWidth={marginWidth}
             colourOf={(codeId) => codeColour(codeId, props.state.codeById().get(codeId)?.colour)}
             selected={props.selectedSegment}
@@ -249,7 +261,7 @@ export function Transcript(props: TranscriptProps) {
 function TurnRow(props: {
   turn: Accessor<ViewTurn>;
   bars: Accessor<Bar[]>;
-  flags: Accessor<Flag[]>;
+  flags: Accessor<TurnFlags>;
   marginWidth: Accessor<number>;
   colourOf: (codeId: string) => string;
   selected: Accessor<string | null>;
@@ -306,9 +318,9 @@ function TurnRow(props: {
             />
           )}
         </For>
-        <Show when={props.flags().length > 0}>
-          <span class="flag-mark" data-id={props.flags()[0]!.segmentIds[0]} title={props.flags().slice(0, 5).map((f) => describeFlag(f, props.codes())).join('\n')}>
-            {props.flags().length > 1 ? props.flags().length : '!'}
+        <Show when={props.flags().count > 0}>
+          <span class="flag-mark" data-id={props.flags().first[0]!.segmentIds[0]} title={props.flags().first.map((f) => describeFlag(f, props.codes())).join('\n')}>
+            {props.flags().count > 1 ? props.flags().count : '!'}
           </span>
         </Show>
       </div>

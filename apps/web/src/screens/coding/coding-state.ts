@@ -11,7 +11,8 @@ import {
 } from '@gloss/model';
 import type { OpenDoc } from '../../sync/open-doc.js';
 import { useFlags } from './flags-source.js';
-import type { Flag, Segment } from '../../doc/flag-view.js';
+import type { Segment } from '../../doc/flag-view.js';
+import type { FlagSet } from '../../doc/flag-pack.js';
 
 export interface LayerHandle { coderId: string; name: string; mine: boolean; doc: OpenDoc }
 
@@ -22,10 +23,12 @@ export interface CodingState {
   turns: Accessor<ViewTurn[]>;
   words: Accessor<string>;
   segments: Accessor<Segment[]>;
+  /** Each opened layer's resolved segments, by coder id (visible or not), so views can work per layer. */
+  layerSegments: ReadonlyMap<string, Accessor<Segment[]>>;
   codes: Accessor<CodeView[]>;
   codeById: Accessor<Map<string, CodeView>>;
   exclusiveSets: Accessor<CodeGroup[]>;
-  flags: Accessor<Flag[]>;
+  flags: Accessor<FlagSet>;
 }
 
 /** A signal bumped (at most once per animation frame) whenever `type` or anything inside it changes. */
@@ -78,7 +81,8 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
   const exclusiveSets = createMemo(() => (cbV(), listExclusiveSets(codebook.doc)));
   const source = useFlags(text, codebook, allLayers, visible, () => !opts.showDisagreement());
   const flags = source.flags;
-  return { turns, words, segments, codes, codeById, exclusiveSets, flags };
+  const layerSegments = new Map(allLayers.map((l) => [l.coderId, perLayer.get(l.doc.room)!]));
+  return { turns, words, segments, layerSegments, codes, codeById, exclusiveSets, flags };
 }
 
 /** Turns with their words; a text without a turns array is read one turn per line. */

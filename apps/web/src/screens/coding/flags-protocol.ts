@@ -1,5 +1,5 @@
 /** Messages between the coding view and the flags worker. */
-import type { Flag } from '../../doc/flag-view.js';
+import type { PackedFlags } from '../../doc/flag-pack.js';
 
 export type FlagsRequest =
   | { type: 'init'; text: Uint8Array; codebook: Uint8Array; layers: Array<{ layerId: string; coder: string; update: Uint8Array }>; visible: string[]; independentCoding: boolean }
@@ -7,4 +7,4 @@ export type FlagsRequest =
   | { type: 'visible'; layerIds: string[] }
   | { type: 'independent'; on: boolean };
 
-export type FlagsReply = { type: 'flags'; flags: Flag[] } | { type: 'error'; message: string };
+export type FlagsReply = { type: 'flags'; flags: PackedFlags } | { type: 'error'; message: string };

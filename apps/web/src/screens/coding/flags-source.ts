@@ -5,19 +5,20 @@
 import { createEffect, createSignal, onCleanup, type Accessor } from 'solid-js';
 import * as Y from 'yjs';
 import { FlagEngine } from '@gloss/model';
-import { placeFlags, type Flag } from '../../doc/flag-view.js';
+import { placeFlags } from '../../doc/flag-view.js';
+import { EMPTY_FLAGS, flagSetOf, unpackFlags, type FlagSet } from '../../doc/flag-pack.js';
 import type { OpenDoc } from '../../sync/open-doc.js';
 import type { LayerHandle } from './coding-state.js';
 import type { FlagsReply, FlagsRequest } from './flags-protocol.js';
 
-export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, independent: Accessor<boolean>): { flags: Accessor<Flag[]>; error: Accessor<string> } {
-  const [flags, setFlags] = createSignal<Flag[]>([]);
+export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, independent: Accessor<boolean>): { flags: Accessor<FlagSet>; error: Accessor<string> } {
+  const [flags, setFlags] = createSignal<FlagSet>(EMPTY_FLAGS);
   const [error, setError] = createSignal('');
   const ids = () => visible().map((l) => l.doc.room);
 
   if (typeof Worker === 'undefined') {
     const engine = new FlagEngine({ textDoc: text.doc, codebook: codebook.doc, layers: visible().map((l) => ({ layerId: l.doc.room, coder: l.coderId, doc: l.doc.doc })), independentCoding: independent() });
-    const refresh = () => setFlags(placeFlags(engine.flags(), new Map(engine.segments().map((s) => [s.id, s]))));
+    const refresh = () => setFlags(flagSetOf(placeFlags(engine.flags(), new Map(engine.segments().map((s) => [s.id, s])))));
     const docs = [text.doc, codebook.doc, ...allLayers.map((l) => l.doc.doc)];
     docs.forEach((d) => d.on('afterTransaction', refresh));
     onCleanup(() => {
@@ -31,7 +32,7 @@ export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly L
   const worker = new Worker(new URL('./flags.worker.ts', import.meta.url), { type: 'module' });
   const send = (m: FlagsRequest) => worker.postMessage(m);
   worker.onmessage = (e: MessageEvent<FlagsReply>) => {
-    if (e.data.type === 'flags') setFlags(e.data.flags);
+    if (e.data.type === 'flags') setFlags(unpackFlags(e.data.flags));
     else setError(e.data.message);
   };
   send({

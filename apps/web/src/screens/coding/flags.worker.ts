@@ -7,6 +7,7 @@ import * as Y from 'yjs';
 import { FlagEngine } from '@gloss/model';
 import type { FlagsRequest, FlagsReply } from './flags-protocol.js';
 import { placeFlags } from '../../doc/flag-view.js';
+import { packFlags, packedBuffers } from '../../doc/flag-pack.js';
 
 const docs = new Map<string, Y.Doc>();
 let engine: FlagEngine | undefined;
@@ -29,8 +30,9 @@ function post(): void {
     if (!engine) return;
     const flags = engine.flags();
     const segs = new Map(engine.segments().map((s) => [s.id, s]));
-    const reply: FlagsReply = { type: 'flags', flags: placeFlags(flags, segs) };
-    (self as unknown as Worker).postMessage(reply);
+    const packed = packFlags(placeFlags(flags, segs));
+    const reply: FlagsReply = { type: 'flags', flags: packed };
+    (self as unknown as Worker).postMessage(reply, packedBuffers(packed));
   }, 120);
 }
 

@@ -1,6 +1,6 @@
 // Margin layout: fractions and lanes checked against hand-worked cases (common practice; no outside source applies).
 import { describe, expect, it } from 'vitest';
-import { assignColumns, layoutBars, sameBars, type MarginSegment } from './margin.js';
+import { assignColumns, layoutBars, mergeLanes, sameBars, type MarginSegment } from './margin.js';
 
 const turns = [
   { start: 0, end: 10 },
@@ -50,5 +50,25 @@ describe('sameBars', () => {
     const c = layoutBars(turns, [seg('a', 'L1', 17, 21)], ['L1']);
     expect(sameBars(a[1]!, b[1]!)).toBe(true);
     expect(sameBars(a[1]!, c[1]!)).toBe(false);
+  });
+});
+
+describe('mergeLanes', () => {
+  it('gives the same bars as laying out every layer at once, and keeps the objects of a layer in its own lane', () => {
+    const segs = [seg('a', 'L1', 2, 8), seg('b', 'L2', 5, 35), seg('c', 'L1', 4, 20), seg('d', 'L3', 12, 14)];
+    const lanes = ['L1', 'L2', 'L3'];
+    const alone = new Map(lanes.map((l) => [l, layoutBars(turns, segs.filter((s) => s.layer === l), [l])]));
+    const merged = mergeLanes(turns.length, lanes, alone);
+    const together = layoutBars(turns, segs, lanes);
+    const key = (rows: typeof merged) => rows.map((r) => r.map((b) => `${b.id}:${b.lane}:${b.column}:${b.top}:${b.bottom}`).sort());
+    expect(key(merged)).toEqual(key(together));
+    expect(merged[0]!.find((b) => b.id === 'a')).toBe(alone.get('L1')![0]!.find((b) => b.id === 'a'));
+  });
+
+  it('renumbers lanes when a layer is hidden and leaves hidden layers out', () => {
+    const alone = new Map([['L1', layoutBars(turns, [seg('a', 'L1', 0, 5)], ['L1'])], ['L2', layoutBars(turns, [seg('b', 'L2', 0, 5)], ['L2'])]]);
+    const merged = mergeLanes(turns.length, ['L2'], alone);
+    expect(merged[0]).toHaveLength(1);
+    expect(merged[0]![0]).toMatchObject({ id: 'b', lane: 0 });
   });
 });

@@ -105,3 +105,20 @@ export function sameBars(a: readonly Bar[], b: readonly Bar[]): boolean {
   }
   return true;
 }
+
+/**
+ * Joins per-layer layouts (each made by `layoutBars` with that layer as its only lane) into one list per
+ * turn, lanes numbered in `lanes` order. Columns are per layer already, so a layer that did not change
+ * keeps its bars: when one layer lands, only that layer is laid out again.
+ */
+export function mergeLanes(turnCount: number, lanes: readonly string[], byLayer: ReadonlyMap<string, readonly Bar[][]>): Bar[][] {
+  const out: Bar[][] = [];
+  for (let t = 0; t < turnCount; t++) {
+    const row: Bar[] = [];
+    lanes.forEach((layer, lane) => {
+      for (const b of byLayer.get(layer)?.[t] ?? []) row.push(b.lane === lane ? b : { ...b, lane });
+    });
+    out.push(row);
+  }
+  return out;
+}
