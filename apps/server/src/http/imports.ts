@@ -16,6 +16,7 @@ import type { AppDeps, AppEnv } from './context.js';
 import { errorBody } from './errors.js';
 import { requireSession } from './middleware.js';
 import { studyRole } from './study-access.js';
+import { textSummary } from './texts.js';
 
 interface Upload {
   filename: string;
@@ -39,14 +40,7 @@ export function importRoutes(deps: AppDeps) {
       );
       const title = (upload.title ?? transcript.title ?? upload.filename).trim().slice(0, 300) || upload.filename;
       const text = await addTextFromTranscript(deps.db, studyId, { title, transcript, sourceFormat: sourceFormat(upload), createdBy: userId });
-      return {
-        id: text.id,
-        title: text.title,
-        room: text.room,
-        sourceFormat: text.sourceFormat,
-        wordCount: text.wordCount,
-        createdAt: text.createdAt.toISOString(),
-      };
+      return textSummary(text, text.room);
     };
 
     if (!/application\/x-ndjson/i.test(c.req.header('accept') ?? '')) {

@@ -4,19 +4,16 @@
  * the text, those layers and the codebook. Shape (outside scripts rely on it):
  * `[{"id","coderId","codeId","start","end","quote","flags":["orphaned",…]}]`, ordered by start.
  */
-import { texts } from '@gloss/db';
 import { computeFlags, createCodebookDoc, readTurns, resolveSegments, listSegments } from '@gloss/model';
-import { eq } from 'drizzle-orm';
 import { Hono } from 'hono';
 import type * as Y from 'yjs';
-import { roleIn } from '../access/membership.js';
 import { recordAudit } from '../admin/audit.js';
-import { HttpError, notFound } from '../errors.js';
+import { HttpError } from '../errors.js';
 import { withDocs, type DocLoader } from '../projection/load-doc.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
+import { textRole } from './study-access.js';
 import { codebookDocId, textDocuments, type VisibleLayer } from './text-layers.js';
-import { idParam } from './validate.js';
 
 export interface SegmentOut {
   id: string;
@@ -70,12 +67,8 @@ export function segmentRoutes(deps: AppDeps) {
 
   app.get('/:textId/segments', async (c) => {
     const store = requireStore(deps);
-    const textId = idParam(c, 'textId', 'Text');
-    const [text] = await deps.db.select().from(texts).where(eq(texts.id, textId));
-    if (!text) throw notFound('Text');
-    const me = c.get('session').user.id;
-    const role = await roleIn(deps.db, text.studyId, me);
-    if (!role) throw notFound('Text');
+    const { text, me, role } = await textRole(deps, c);
+    const textId = text.id;
     const { textDocId, layers } = await textDocuments(deps.db, textId, role, me);
     const cbId = await codebookDocId(deps.db, text.studyId);
     const ids = [textDocId, ...layers.map((l) => l.layerDocId), ...(cbId ? [cbId] : [])];

@@ -15,6 +15,18 @@ import { readJson } from './validate.js';
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
 
+type StudyFields = Pick<typeof studies.$inferSelect, 'id' | 'title' | 'description' | 'mode' | 'createdAt' | 'retentionUntil'>;
+
+/** The fields every answer about a study starts with, seen by someone with `role`. */
+function studySummary(study: StudyFields, role: Role) {
+  return { id: study.id, title: study.title, description: study.description, mode: study.mode, role, createdAt: study.createdAt.toISOString() };
+}
+
+/** One study in full: its summary, document rooms and what `role` may do there. */
+function studyDetail(study: StudyFields, role: Role, rooms: { codebookRoom: string | null; memosRoom: string | null }) {
+  return { ...studySummary(study, role), retentionUntil: iso(study.retentionUntil), ...rooms, permissions: ACTIONS.filter((a) => can(role, a)) };
+}
+
 export function studyRoutes(deps: AppDeps) {
   const app = new Hono<AppEnv>();
   app.use('*', requireSession(deps));
@@ -26,16 +38,7 @@ export function studyRoutes(deps: AppDeps) {
       .innerJoin(studies, eq(studies.id, memberships.studyId))
       .where(eq(memberships.userId, c.get('session').user.id))
       .orderBy(desc(studies.createdAt));
-    return c.json(
-      rows.map(({ study, role }) => ({
-        id: study.id,
-        title: study.title,
-        description: study.description,
-        mode: study.mode,
-        role,
-        createdAt: study.createdAt.toISOString(),
-      })),
-    );
+    return c.json(rows.map(({ study, role }) => studySummary(study, role)));
   });
 
   app.post('/', async (c) => {
@@ -47,21 +50,7 @@ export function studyRoutes(deps: AppDeps) {
       retentionUntil: body.retentionUntil ? new Date(body.retentionUntil) : null,
       createdBy: c.get('session').user.id,
     });
-    return c.json(
-      {
-        id: study.id,
-        title: study.title,
-        description: study.description,
-        mode: study.mode,
-        role: 'owner' as const,
-        createdAt: study.createdAt.toISOString(),
-        retentionUntil: iso(study.retentionUntil),
-        codebookRoom: study.codebookRoom,
-        memosRoom: study.memosRoom,
-        permissions: ACTIONS.filter((a) => can('owner', a)),
-      },
-      201,
-    );
+    return c.json(studyDetail(study, 'owner', { codebookRoom: study.codebookRoom, memosRoom: study.memosRoom }), 201);
   });
 
   app.get('/:studyId', async (c) => {
@@ -90,18 +79,10 @@ export function studyRoutes(deps: AppDeps) {
       .select({ id: documents.id, kind: documents.kind })
       .from(documents)
       .where(and(eq(documents.studyId, studyId), inArray(documents.kind, ['codebook', 'memos'])));
-    return {
-      id: study.id,
-      title: study.title,
-      description: study.description,
-      mode: study.mode,
-      role,
-      createdAt: study.createdAt.toISOString(),
-      retentionUntil: iso(study.retentionUntil),
+    return studyDetail(study, role, {
       codebookRoom: docs.find((d) => d.kind === 'codebook')?.id ?? null,
       memosRoom: docs.find((d) => d.kind === 'memos')?.id ?? null,
-      permissions: ACTIONS.filter((a) => can(role, a)),
-    };
+    });
   }
 
   return app;

@@ -1,4 +1,6 @@
 /** The caller's role in the study named by the path, with the role table applied. */
+import { texts } from '@gloss/db';
+import { eq } from 'drizzle-orm';
 import type { Context } from 'hono';
 import { can, type Action } from '../access/policy.js';
 import { roleIn } from '../access/membership.js';
@@ -17,4 +19,18 @@ export async function studyRole(deps: AppDeps, c: Context<AppEnv>, action?: Acti
   if (!role) throw notFound('Study');
   if (action && !can(role, action)) throw forbidden();
   return { studyId, role };
+}
+
+/**
+ * Resolves `:textId` and the caller's role in its study; an unknown text and a non-member both get
+ * 404, so text ids are not probed either.
+ */
+export async function textRole(deps: AppDeps, c: Context<AppEnv>): Promise<{ text: typeof texts.$inferSelect; me: string; role: Role }> {
+  const textId = idParam(c, 'textId', 'Text');
+  const [text] = await deps.db.select().from(texts).where(eq(texts.id, textId));
+  if (!text) throw notFound('Text');
+  const me = c.get('session').user.id;
+  const role = await roleIn(deps.db, text.studyId, me);
+  if (!role) throw notFound('Text');
+  return { text, me, role };
 }

@@ -3,15 +3,26 @@ import { documents, texts, users } from '@gloss/db';
 import { and, asc, eq } from 'drizzle-orm';
 import { Hono } from 'hono';
 import { can, roomAccess } from '../access/policy.js';
-import { roleIn } from '../access/membership.js';
 import { addTextFromTranscript, ensureLayer } from '../admin/texts.js';
 import { transcriptFromPlainText } from '../admin/text-doc.js';
 import { HttpError, notFound } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
 import { NewTextBody } from './schemas.js';
-import { studyRole } from './study-access.js';
-import { idParam, readJson } from './validate.js';
+import { studyRole, textRole } from './study-access.js';
+import { readJson } from './validate.js';
+
+/** The fields every answer about a text starts with (lists, creation, import). */
+export function textSummary(text: Pick<typeof texts.$inferSelect, 'id' | 'title' | 'sourceFormat' | 'wordCount' | 'createdAt'>, room: string) {
+  return {
+    id: text.id,
+    title: text.title,
+    room,
+    sourceFormat: text.sourceFormat,
+    wordCount: text.wordCount,
+    createdAt: text.createdAt.toISOString(),
+  };
+}
 
 export function studyTextRoutes(deps: AppDeps) {
   const app = new Hono<AppEnv>();
@@ -25,16 +36,7 @@ export function studyTextRoutes(deps: AppDeps) {
       .innerJoin(documents, and(eq(documents.textId, texts.id), eq(documents.kind, 'text')))
       .where(eq(texts.studyId, studyId))
       .orderBy(asc(texts.createdAt), asc(texts.title));
-    return c.json(
-      rows.map(({ text, room }) => ({
-        id: text.id,
-        title: text.title,
-        room,
-        sourceFormat: text.sourceFormat,
-        wordCount: text.wordCount,
-        createdAt: text.createdAt.toISOString(),
-      })),
-    );
+    return c.json(rows.map(({ text, room }) => textSummary(text, room)));
   });
 
   app.post('/', async (c) => {
@@ -48,17 +50,7 @@ export function studyTextRoutes(deps: AppDeps) {
       sourceFormat: 'txt',
       createdBy: c.get('session').user.id,
     });
-    return c.json(
-      {
-        id: text.id,
-        title: text.title,
-        room: text.room,
-        sourceFormat: text.sourceFormat,
-        wordCount: text.wordCount,
-        createdAt: text.createdAt.toISOString(),
-      },
-      201,
-    );
+    return c.json(textSummary(text, text.room), 201);
   });
 
   return app;
@@ -69,12 +61,7 @@ export function textRoutes(deps: AppDeps) {
   app.use('*', requireSession(deps));
 
   app.get('/:textId', async (c) => {
-    const textId = idParam(c, 'textId', 'Text');
-    const [text] = await deps.db.select().from(texts).where(eq(texts.id, textId));
-    if (!text) throw notFound('Text');
-    const me = c.get('session').user.id;
-    const role = await roleIn(deps.db, text.studyId, me);
-    if (!role) throw notFound('Text');
+    const { text, me, role } = await textRole(deps, c);
     // A coder's own layer exists from the first time they open the text.
     if (can(role, 'layer.writeOwn')) await ensureLayer(deps.db, text.studyId, text.id, me);
     const docs = await deps.db
@@ -91,13 +78,8 @@ export function textRoutes(deps: AppDeps) {
       .filter(({ access }) => access.read)
       .map(({ d, access }) => ({ room: d.id, coderId: d.coderId!, name: d.coderName ?? '', mine: d.coderId === me, canWrite: access.write }));
     return c.json({
-      id: text.id,
+      ...textSummary(text, textDoc.id),
       studyId: text.studyId,
-      title: text.title,
-      room: textDoc.id,
-      sourceFormat: text.sourceFormat,
-      wordCount: text.wordCount,
-      createdAt: text.createdAt.toISOString(),
       canWrite: roomAccess(role, { kind: 'text', coderId: null }, me).write,
       layers,
     });
