@@ -11,18 +11,9 @@ import { projectedSegments, eq } from '@gloss/db';
 import { addSegment, correctText, listSegments } from '@gloss/model';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
+import type { SegmentOut } from '../../apps/server/src/http/segments.js';
 import { dbKinds, spawnServer, type SpawnedServer } from '../support/server.js';
 import { clientFor, gcOffClient, seedCoding, until, type CodingSeed } from './support.js';
-
-interface SegmentOut {
-  id: string;
-  coderId: string;
-  codeId: string;
-  start: number;
-  end: number;
-  quote: string;
-  flags: string[];
-}
 
 describe.each(dbKinds())('segments under concurrent correction on %s', (db) => {
   let server: SpawnedServer<CodingSeed>;
