@@ -31,6 +31,22 @@ export interface OpenDoc {
 interface Entry { handle: OpenDoc; refs: number }
 const open = new Map<string, Entry>();
 
+/**
+ * Chromium opens WebSocket connections to one host one at a time (each handshake waits for the one
+ * before it, as RFC 6455 §4.1 allows), so every socket opened early delays the ones behind it. A
+ * background document (say, the memos while a text opens) connects only once no foreground document
+ * is still loading, or after BACKGROUND_AFTER_MS if one never finishes (offline).
+ */
+const BACKGROUND_AFTER_MS = 3000;
+const foregroundLoading = new Set<string>();
+const waitingBackground = new Set<() => void>();
+function startBackground(): void {
+  if (foregroundLoading.size > 0) return;
+  const start = [...waitingBackground];
+  waitingBackground.clear();
+  start.forEach((f) => f());
+}
+
 /** Stops and restarts syncing for every open document (the "work offline" switch). */
 let paused = false;
 export function setPaused(p: boolean): void {
@@ -46,7 +62,7 @@ export const isPaused = (): boolean => paused;
  * `offline: false` keeps no IndexedDB copy: for documents this person only reads (other coders' layers),
  * which need not survive a lost connection and would cost storage and time on every open.
  */
-export function openDoc(room: string, opts: { label: string; gc?: boolean; offline?: boolean }): OpenDoc {
+export function openDoc(room: string, opts: { label: string; gc?: boolean; offline?: boolean; background?: boolean }): OpenDoc {
   const existing = open.get(room);
   if (existing) {
     existing.refs++;
@@ -55,7 +71,18 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   // Text documents are opened with gc:false so anchors into deleted text still resolve (DESIGN §2).
   const doc = new Y.Doc({ gc: opts.gc ?? true });
   const local = opts.offline === false ? null : new IndexeddbPersistence(`gloss:${room}`, doc);
-  const provider = new WebsocketProvider(syncBaseUrl(), room, doc, { connect: !paused, maxBackoffTime: 2500 });
+  const defer = opts.background === true && foregroundLoading.size > 0;
+  const provider = new WebsocketProvider(syncBaseUrl(), room, doc, { connect: !paused && !defer, maxBackoffTime: 2500 });
+  let released = false;
+  if (defer) {
+    const start = () => {
+      waitingBackground.delete(start);
+      clearTimeout(timer);
+      if (!released && !paused && !provider.shouldConnect) provider.connect();
+    };
+    const timer = setTimeout(start, BACKGROUND_AFTER_MS);
+    waitingBackground.add(start);
+  }
   const [state, setState] = createSignal<DocState>('loading');
   const [link, setLink] = createSignal<LinkState>(paused ? 'paused' : 'connecting');
   const [pending, setPendingSig] = createSignal(readPending(room));
@@ -79,6 +106,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     if (!provider.wsconnected || !provider.synced) setPending(pending() + 1);
   });
 
+  let cleanupForeground: (() => void) | undefined;
   const whenReady = new Promise<void>((resolve) => {
     let done = false;
     const finish = () => {
@@ -98,6 +126,16 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     });
   });
 
+  if (opts.background !== true) {
+    foregroundLoading.add(room);
+    const settled = () => {
+      foregroundLoading.delete(room);
+      startBackground();
+    };
+    void whenReady.then(settled);
+    cleanupForeground = settled;
+  }
+
   const handle: OpenDoc = {
     room,
     label: opts.label,
@@ -111,6 +149,8 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
       const e = open.get(room);
       if (!e || --e.refs > 0) return;
       open.delete(room);
+      released = true;
+      cleanupForeground?.();
       setState('unloading');
       unregisterDoc(handle);
       provider.destroy();

@@ -40,7 +40,8 @@ export function useStudy(studyId: () => string, me: () => Me): StudyScope {
 
   const track = (s: Study) => {
     const cb = openDoc(s.codebookRoom, { label: 'the codebook' });
-    const mm = openDoc(s.memosRoom, { label: 'the memos' });
+    // the memos wait for the documents a screen is opening (see openDoc's `background`)
+    const mm = openDoc(s.memosRoom, { label: 'the memos', background: true });
     setCodebook(cb);
     setMemos(mm);
     const user = me();
