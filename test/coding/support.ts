@@ -58,15 +58,7 @@ export function gcOffClient(url: string, cookie: string, room: string) {
   return remoteClient(url, cookie, room, new Y.Doc({ gc: false }));
 }
 
-/** Polls `check` until true or the deadline (then throws naming `what`). */
-export async function until(check: () => boolean | Promise<boolean>, what: string, timeoutMs = 20_000): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    if (await check()) return;
-    if (Date.now() > deadline) throw new Error(`timed out waiting for: ${what}`);
-    await new Promise((resolve) => setTimeout(resolve, 20));
-  }
-}
+export { waitFor as until } from '../support/wait.js';
 
 /** A stored document (snapshot, then log) read straight from the tables, for seeding before a start. */
 export async function loadStoredDoc(db: Db, docId: string): Promise<Y.Doc> {

@@ -10,16 +10,9 @@ import * as Y from 'yjs';
 import { apiClient, signIn, webSocketWithHeaders } from '../support/http.js';
 import { PASSWORD, PEOPLE, seedBasic, type BasicSeed } from '../support/seed.js';
 import { spawnServer, type SpawnedServer } from '../support/server.js';
+import { waitFor } from '../support/wait.js';
 
 const enabled = Boolean(process.env.DATABASE_URL && process.env.REDIS_URL);
-
-async function waitFor(what: string, check: () => boolean, timeoutMs = 20_000): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  while (!check()) {
-    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 20));
-  }
-}
 
 describe.runIf(enabled)('two nodes on PostgreSQL and Redis', () => {
   let a: SpawnedServer<BasicSeed>;
@@ -60,10 +53,10 @@ describe.runIf(enabled)('two nodes on PostgreSQL and Redis', () => {
     const room = a.seeded.codebookRoom;
     const writer = connect(a, leadCookie, room);
     const reader = connect(b, coderCookie, room);
-    await waitFor('both synced', () => writer.provider.synced && reader.provider.synced);
+    await waitFor(() => writer.provider.synced && reader.provider.synced, 'both synced');
     const code = new Y.Map<unknown>();
     writer.doc.getMap('codes').set('code-shared-tools', code);
     code.set('label', 'Shared tools');
-    await waitFor('node B client sees the code', () => (reader.doc.getMap('codes').get('code-shared-tools') as Y.Map<unknown> | undefined)?.get('label') === 'Shared tools');
+    await waitFor(() => (reader.doc.getMap('codes').get('code-shared-tools') as Y.Map<unknown> | undefined)?.get('label') === 'Shared tools', 'node B client sees the code');
   }, 60_000);
 });

@@ -11,15 +11,8 @@ import { WebsocketProvider } from 'y-websocket';
 import * as Y from 'yjs';
 import { apiClient, signIn, webSocketWithHeaders } from '../support/http.js';
 import { PASSWORD, PEOPLE, seedBasic, type BasicSeed } from '../support/seed.js';
+import { waitFor } from '../support/wait.js';
 import { dbKinds, spawnServer, type SpawnedServer } from '../support/server.js';
-
-async function waitFor(what: string, check: () => boolean, timeoutMs = 15_000): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  while (!check()) {
-    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 20));
-  }
-}
 
 describe.each(dbKinds())('sync through the composed server on %s', (kind) => {
   let server: SpawnedServer<BasicSeed>;
@@ -40,7 +33,7 @@ describe.each(dbKinds())('sync through the composed server on %s', (kind) => {
       disableBc: true,
     });
     providers.push(provider);
-    await waitFor(`${email} synced ${room}`, () => provider.synced);
+    await waitFor(() => provider.synced, `${email} synced ${room}`);
     return { doc, provider, cookie };
   }
 
@@ -61,13 +54,13 @@ describe.each(dbKinds())('sync through the composed server on %s', (kind) => {
     seg.set('codeId', 'code-harvest');
 
     const observer = await open(PEOPLE.observer.email, layerRoom);
-    await waitFor('observer sees the coder’s segment', () => observer.doc.getMap('segments').has('seg-1'));
+    await waitFor(() => observer.doc.getMap('segments').has('seg-1'), 'observer sees the coder’s segment');
     // An observer's local edit: the server must not apply or store it.
     observer.doc.getMap('segments').set('seg-evil', new Y.Map());
 
     // A third reader, connecting now, sees the coder's segment and not the observer's.
     const reader = await open(PEOPLE.coder2.email, layerRoom);
-    await waitFor('reader has the segment', () => reader.doc.getMap('segments').has('seg-1'));
+    await waitFor(() => reader.doc.getMap('segments').has('seg-1'), 'reader has the segment');
     expect(reader.doc.getMap('segments').has('seg-evil')).toBe(false);
 
     for (const p of providers.splice(0)) p.destroy();

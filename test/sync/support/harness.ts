@@ -11,6 +11,7 @@ import * as Y from 'yjs';
 import { attachSync, type SyncHandle, type SyncOptions } from '../../../apps/server/src/sync/index.js';
 import type { Relay, Role, RoomAuthorizer, UpdateStore } from '../../../apps/server/src/sync/contracts.js';
 import { noRelay } from '../../../apps/server/src/relay/index.js';
+import { waitFor } from '../../support/wait.js';
 
 export class TestHttpError extends Error {
   constructor(readonly status: number) {
@@ -87,14 +88,6 @@ export function connectClient(url: string, room: string, params: Record<string, 
   return { doc, provider, destroy: () => provider.destroy() };
 }
 
-/** Polls `check` until it returns true or the deadline passes (then throws with `what`). */
-export async function waitFor(check: () => boolean | Promise<boolean>, what: string, timeoutMs = 10_000): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    if (await check()) return;
-    if (Date.now() > deadline) throw new Error(`timed out waiting for: ${what}`);
-    await new Promise((resolve) => setTimeout(resolve, 10));
-  }
-}
+export { waitFor };
 
 export const synced = (provider: WebsocketProvider) => waitFor(() => provider.synced, 'provider synced');

@@ -6,17 +6,10 @@
  */
 import { Redis } from 'ioredis';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { waitFor } from '../../../../test/support/wait.js';
 import { createRedisRelay, RelayError, type RedisRelay } from './redis-relay.js';
 
 const url = process.env.REDIS_URL;
-
-async function waitFor(check: () => boolean, what: string, timeoutMs = 5_000): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  while (!check()) {
-    if (Date.now() > deadline) throw new Error(`timed out waiting for: ${what}`);
-    await new Promise((resolve) => setTimeout(resolve, 10));
-  }
-}
 
 describe('createRedisRelay', () => {
   it('rejects with a typed error when Redis cannot be reached', async () => {
