@@ -21,7 +21,8 @@ export interface EncodeOptions {
 
 const SMALL = 1024;
 
-export function encodeReliabilityData(data: ReliabilityData, options: EncodeOptions = {}): EncodedData {
+/** Checks that `data` is rows of coders; the units are as many as the longest row has cells. */
+export function dataShape(data: ReliabilityData): { coders: number; units: number } {
   if (!Array.isArray(data)) throw new AgreementError('invalid-input', 'reliability data must be an array of coder rows');
   const coders = data.length;
   let units = 0;
@@ -29,6 +30,11 @@ export function encodeReliabilityData(data: ReliabilityData, options: EncodeOpti
     if (!Array.isArray(row)) throw new AgreementError('invalid-input', 'each coder row must be an array');
     if (row.length > units) units = row.length;
   }
+  return { coders, units };
+}
+
+export function encodeReliabilityData(data: ReliabilityData, options: EncodeOptions = {}): EncodedData {
+  const { coders, units } = dataShape(data);
   const cells = new Int32Array(coders * units).fill(-1);
   const seen = new Map<Value, number>();
   const firstSeen: Value[] = [];

@@ -1,3 +1,4 @@
+import { dataShape } from './encode.js';
 import { AgreementError } from './errors.js';
 import type { ReliabilityData, Value } from './types.js';
 
@@ -18,13 +19,7 @@ export interface NominalTallies {
 const SMALL = 1024;
 
 export function nominalTallies(data: ReliabilityData): NominalTallies {
-  if (!Array.isArray(data)) throw new AgreementError('invalid-input', 'reliability data must be an array of coder rows');
-  const coders = data.length;
-  let units = 0;
-  for (const row of data) {
-    if (!Array.isArray(row)) throw new AgreementError('invalid-input', 'each coder row must be an array');
-    if (row.length > units) units = row.length;
-  }
+  const { coders, units } = dataShape(data);
   const small = new Int32Array(SMALL).fill(-1);
   const seen = new Map<Value, number>();
   const met: Value[] = [];
