@@ -5,25 +5,12 @@ import { join } from 'node:path';
 import { PassThrough } from 'node:stream';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
+import { fleiss1971Counts, fleiss1971Data, k2011C } from '../../../../packages/agreement/src/testdata/published.js';
 import { agreementCommand } from './agreement.js';
 
 // Expected values: Krippendorff (2011) ex. C (alpha), Cohen (1960) p.45 (kappa), Fleiss (1971) p.379
 // (Fleiss kappa, z from R irr via statsmodels), Artstein & Poesio (2008) p.558 (pi, S), Krippendorff (2004)
 // p.254 (unitizing alpha), lindanna/unitized_alpha (2016 family, provisional).
-const k2011C = [
-  [1, 2, 3, 3, 2, 1, 4, 1, 2, null, null, null],
-  [1, 2, 3, 3, 2, 2, 4, 1, 2, 5, null, 3],
-  [null, 3, 3, 3, 2, 3, 4, 2, 2, 5, 1, null],
-  [1, 2, 3, 3, 2, 4, 4, 1, 2, 5, 1, null],
-];
-const fleiss1971 = [
-  [4, 4, 4, 4, 4, 4], [2, 2, 2, 5, 5, 5], [2, 3, 3, 3, 3, 5], [5, 5, 5, 5, 5, 5], [2, 2, 2, 4, 4, 4],
-  [1, 1, 3, 3, 3, 3], [3, 3, 3, 3, 5, 5], [1, 1, 3, 3, 3, 4], [1, 1, 4, 4, 4, 4], [5, 5, 5, 5, 5, 5],
-  [1, 4, 4, 4, 4, 4], [1, 2, 4, 4, 4, 4], [2, 2, 2, 3, 3, 3], [1, 4, 4, 4, 4, 4], [2, 2, 4, 4, 4, 5],
-  [3, 3, 3, 3, 3, 5], [1, 1, 1, 4, 5, 5], [1, 1, 1, 1, 1, 2], [2, 2, 4, 4, 4, 4], [1, 3, 3, 5, 5, 5],
-  [5, 5, 5, 5, 5, 5], [2, 4, 4, 4, 4, 4], [2, 2, 4, 5, 5, 5], [1, 1, 4, 4, 4, 4], [1, 4, 4, 4, 4, 5],
-  [2, 2, 2, 2, 2, 4], [1, 1, 1, 1, 5, 5], [2, 2, 4, 4, 4, 4], [1, 3, 3, 3, 3, 3], [5, 5, 5, 5, 5, 5],
-];
 const ua2004 = [
   [225, 70, 0, 'c'], [370, 30, 0, 'c'], [220, 80, 1, 'c'], [355, 20, 1, 'c'], [400, 20, 1, 'c'],
   [180, 60, 0, 'k'], [300, 50, 0, 'k'], [180, 60, 1, 'k'], [300, 50, 1, 'k'],
@@ -87,13 +74,11 @@ describe('agreementCommand (in process, real streams)', () => {
     expect(out.other.value).toBeCloseTo(9 / 11, 10);
   });
   it('fleiss-kappa from counts and from data: .4302, z 17.65 (Fleiss 1971; R irr)', async () => {
-    const counts = fleiss1971.map((row) => [1, 2, 3, 4, 5].map((c) => row.filter((x) => x === c).length));
-    const a = (await run({ statistic: 'fleiss-kappa', counts })).out;
+    const a = (await run({ statistic: 'fleiss-kappa', counts: fleiss1971Counts })).out;
     expect(a.value).toBeCloseTo(0.4302445, 6);
     expect(a.z).toBeCloseTo(17.65183, 4);
     expect(a.perCategory).toHaveLength(5);
-    const data = fleiss1971[0]!.map((_, r) => fleiss1971.map((row) => row[r]!));
-    expect((await run({ statistic: 'fleiss-kappa', data })).out.value).toBeCloseTo(0.4302445, 6);
+    expect((await run({ statistic: 'fleiss-kappa', data: fleiss1971Data })).out.value).toBeCloseTo(0.4302445, 6);
   });
   it('unitizing-alpha u1995 (Krippendorff 2004 p.254: .8587) and the 2016 variants (provisional values)', async () => {
     const a = (await run({ statistic: 'unitizing-alpha', variant: 'u1995', continuum: { start: 150, end: 450 }, units: ua2004 })).out;
