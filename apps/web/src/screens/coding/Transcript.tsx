@@ -9,6 +9,7 @@ import type { CodeView } from '@gloss/model';
 import { formatTime } from '../../doc/time.js';
 import { codeColour } from '../../doc/palette.js';
 import { layoutBars, mergeLanes, sameBars, type Bar } from './margin.js';
+import { createMeasureQueue, type MeasureQueue } from './measure-queue.js';
 import { move, ordered, type Move, type Sel } from './keyboard-selection.js';
 import { rangeFor, readDomSelection } from './dom-selection.js';
 import type { CodingState, ViewTurn } from './coding-state.js';
@@ -78,6 +79,8 @@ export function Transcript(props: TranscriptProps) {
     { root: null, rootMargin: '800px 0px' },
   );
   onCleanup(() => io?.disconnect());
+  const measure = createMeasureQueue();
+  onCleanup(() => measure.dispose());
   const watch = (el: Element, set: (v: boolean) => void) => {
     if (!io) return set(true);
     watchers.set(el, set);
@@ -225,6 +228,7 @@ export function Transcript(props: TranscriptProps) {
             colourOf={(codeId) => codeColour(codeId, props.state.codeById().get(codeId)?.colour)}
             selected={props.selectedSegment}
             watch={watch}
+            measure={measure}
             codes={props.state.codeById}
           />
         )}
@@ -266,6 +270,7 @@ function TurnRow(props: {
   colourOf: (codeId: string) => string;
   selected: Accessor<string | null>;
   watch: (el: Element, set: (v: boolean) => void) => void;
+  measure: MeasureQueue;
   codes: Accessor<Map<string, CodeView>>;
 }) {
   const [near, setNear] = createSignal(false);
@@ -276,8 +281,9 @@ function TurnRow(props: {
   createEffect(() => {
     const list = near() ? bars() : [];
     props.turn().words;
-    if (list.length === 0) return;
-    requestAnimationFrame(() => {
+    if (list.length === 0) return props.measure.cancel(rowEl);
+    // reads here, the write returned: the queue runs all turns' reads before any write
+    props.measure.schedule(rowEl, () => {
       const node = wordsEl.firstChild;
       if (!node) return;
       const base = rowEl.getBoundingClientRect().top;
@@ -293,9 +299,10 @@ function TurnRow(props: {
         if (!first || !last) continue;
         out.set(b.id, { top: first.top - base, height: Math.max(8, last.bottom - first.top) });
       }
-      setMeasured(out);
+      return () => setMeasured(out);
     });
   });
+  onCleanup(() => props.measure.cancel(rowEl));
   // keep the DOM of unchanged turns: only a different layout replaces the bars
   const bars = createMemo(props.bars, [], { equals: sameBars });
   const words = () => props.turn().words;
