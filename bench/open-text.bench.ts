@@ -9,6 +9,9 @@
  *   interactive_ms  full render done and no long task (> 50 ms, PerformanceObserver 'longtask') after it
  *                   for a quiet window of 500 ms: the end of the last long task, if later than full render
  * Skipped with a record when /usr/bin/chromium is absent.
+ * Knobs: BENCH_RUNS (page loads, default 2), BENCH_WEB_DIST (another build, for side-by-side runs),
+ * BENCH_DEBUG (per load: marks, resources, long tasks, and from the DevTools protocol when each
+ * WebSocket handshake was asked and answered and when each frame arrived), BENCH_PROFILE (CPU profile).
  */
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
