@@ -6,9 +6,11 @@
  * suite runs when /usr/bin/chromium exists or CI is set. Ends with one plain summary line.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { resolve } from 'node:path';
 
-const artifacts = '.artifacts';
+// Absolute: Playwright resolves a relative report path against its config's folder, not ours.
+const artifacts = resolve('.artifacts');
 mkdirSync(artifacts, { recursive: true });
 const env = { ...process.env };
 const run = (cmd, args, extraEnv = {}) =>
@@ -19,6 +21,7 @@ let status = 0;
 
 // 1. vitest: everything but the browser suite.
 const vitestJson = `${artifacts}/vitest.json`;
+rmSync(vitestJson, { force: true });
 status ||= run('pnpm', ['exec', 'vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${vitestJson}`]);
 if (existsSync(vitestJson)) {
   const r = JSON.parse(readFileSync(vitestJson, 'utf8'));
@@ -31,6 +34,7 @@ if (existsSync(vitestJson)) {
 const haveChromium = existsSync('/usr/bin/chromium');
 if (haveChromium || process.env.CI) {
   const pwJson = `${artifacts}/playwright.json`;
+  rmSync(pwJson, { force: true });
   const code = run('pnpm', ['run', 'test:browser', '--reporter=list,json'], { PLAYWRIGHT_JSON_OUTPUT_NAME: pwJson });
   status ||= code;
   if (existsSync(pwJson)) {

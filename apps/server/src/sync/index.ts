@@ -50,7 +50,12 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
   let closing = false;
 
   const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer): void => {
-    socket.on('error', (error) => logger.warn({ err: error }, 'socket error during upgrade'));
+    socket.on('error', (error: NodeJS.ErrnoException) => {
+      // A client that goes away mid-handshake (a closed tab, a navigation) resets the socket: expected, not news.
+      const gone = error.code === 'ECONNRESET' || error.code === 'EPIPE';
+      if (gone) logger.debug?.({ err: error }, 'socket error during upgrade');
+      else logger.warn({ err: error }, 'socket error during upgrade');
+    });
     upgrade(req, socket, head).catch((error: unknown) => {
       logger.error({ err: error }, 'sync upgrade failed');
       refuse(socket, 500);

@@ -1,5 +1,7 @@
 /** The little the sync layer needs to report; pino-compatible. */
 export interface SyncLogger {
+  /** Expected events worth a trace when debugging (clients hanging up mid-handshake). */
+  debug?(obj: object, msg?: string): void;
   warn(obj: object, msg?: string): void;
   error(obj: object, msg?: string): void;
 }
