@@ -143,12 +143,12 @@ describe.runIf(hasMain)('gloss agreement (spawned through pnpm)', () => {
     const out = JSON.parse(r.stdout.trim());
     expect(out.statistic).toBe('krippendorff-alpha');
     expect(out.value).toBeCloseTo(0.743421, 5); // Krippendorff 2011 ex. C
-  });
+  }, 90_000); // pnpm, then tsx: a cold start of both took 5-6 s here under load
   it('reads stdin; bad input exits 2 with a JSON error', async () => {
     const ok = await spawnGloss(['agreement', '--input', '-'], JSON.stringify({ statistic: 'scott-pi', table: [[20, 10], [20, 50]] }));
     expect(JSON.parse(ok.stdout.trim()).value).toBeCloseTo(0.341, 3);
     const bad = await spawnGloss(['agreement', '--input', '-'], '{"statistic":"cohen-kappa","table":"x"}');
     expect(bad.code).toBe(2);
     expect(JSON.parse(bad.stdout.trim()).error.code).toBe('invalid-input');
-  });
+  }, 90_000);
 });
