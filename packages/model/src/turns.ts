@@ -37,7 +37,7 @@ export function readTurns(textDoc: Y.Doc): ResolvedTurn[] {
 }
 
 /** Index of the turn holding `offset` (last turn starting at or before it), or -1 when there is none. */
-export function turnIndexAt(turns: readonly ResolvedTurn[], offset: number): number {
+export function turnIndexAt(turns: readonly { start: number }[], offset: number): number {
   let lo = 0;
   let hi = turns.length - 1;
   let found = -1;

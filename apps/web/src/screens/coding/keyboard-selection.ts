@@ -2,6 +2,8 @@
  * Keyboard selection over the transcript (pure): the transcript is read-only, so Gloss keeps its own
  * selection {anchor, head} in character offsets and moves it by word or by turn.
  */
+import { turnIndexAt } from '@gloss/model';
+
 export interface Sel { anchor: number; head: number }
 export interface TurnSpan { start: number; end: number }
 
@@ -25,16 +27,9 @@ export function prevWordStart(text: string, from: number): number {
 
 export type Move = 'word-right' | 'word-left' | 'turn-down' | 'turn-up' | 'turn-start' | 'turn-end';
 
+/** The turn holding `offset`; the first turn for offsets before it. */
 function turnAt(turns: readonly TurnSpan[], offset: number): number {
-  let found = 0;
-  for (let lo = 0, hi = turns.length - 1; lo <= hi; ) {
-    const mid = (lo + hi) >> 1;
-    if (turns[mid]!.start <= offset) {
-      found = mid;
-      lo = mid + 1;
-    } else hi = mid - 1;
-  }
-  return found;
+  return Math.max(0, turnIndexAt(turns, offset));
 }
 
 export function move(text: string, turns: readonly TurnSpan[], sel: Sel, how: Move, extend: boolean): Sel {
