@@ -1,5 +1,5 @@
 /** A codebook entry: label, definition fields (live, co-edited), type, status, colour, examples, history. */
-import { For, Show, createSignal } from 'solid-js';
+import { For, Show } from 'solid-js';
 import type * as Y from 'yjs';
 import type { Awareness } from 'y-protocols/awareness';
 import {
@@ -7,7 +7,7 @@ import {
   type ChangeEntry, type CodeView, type DefinitionField as Field,
 } from '@gloss/model';
 import { DefinitionField } from './DefinitionField.js';
-import { errorMessage } from '../../api/errors.js';
+import { createAttempt } from '../../ui/attempt.js';
 import { OKABE_ITO } from '../../doc/palette.js';
 
 const FIELDS: Array<[Field, string, number]> = [
@@ -27,15 +27,7 @@ export function EntryEditor(props: {
   canEdit: boolean;
   by: string;
 }) {
-  const [message, setMessage] = createSignal('');
-  const attempt = (f: () => void) => {
-    try {
-      f();
-      setMessage('');
-    } catch (err) {
-      setMessage(errorMessage(err));
-    }
-  };
+  const { message, attempt } = createAttempt();
   const actor = () => ({ by: props.by });
   return (
     <article class="entry" aria-labelledby="entry-h" data-testid="entry-editor">

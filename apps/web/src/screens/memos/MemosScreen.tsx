@@ -9,7 +9,7 @@ import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
 import { useY } from '../../ui/use-ydoc.js';
 import { api } from '../../api/client.js';
-import { errorMessage } from '../../api/errors.js';
+import { createAttempt } from '../../ui/attempt.js';
 import { bindField } from '../../ui/ytext-binding.js';
 import type { OpenDoc } from '../../sync/open-doc.js';
 
@@ -35,7 +35,7 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
   const [query, setQuery] = createSignal('');
   const [kind, setKind] = createSignal<'' | 'memo' | 'jotting'>('');
   const [open, setOpen] = createSignal<string | null>(null);
-  const [message, setMessage] = createSignal('');
+  const { message, attempt } = createAttempt();
   const shown = createMemo(() => {
     all();
     const filter = kind() ? { kind: kind() as 'memo' | 'jotting' } : {};
@@ -47,14 +47,6 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
       case 'text': return `text “${texts()?.find((t) => t.id === a.textId)?.title ?? 'a text'}”`;
       case 'segment': return `a segment in “${texts()?.find((t) => t.id === a.textId)?.title ?? 'a text'}”`;
       case 'code': return `code “${codes().find((c) => c.id === a.codeId)?.label ?? 'a code'}”`;
-    }
-  };
-  const attempt = (f: () => void) => {
-    try {
-      f();
-      setMessage('');
-    } catch (err) {
-      setMessage(errorMessage(err));
     }
   };
 
