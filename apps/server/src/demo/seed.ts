@@ -74,15 +74,14 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
   const memos = bundle.memos as DemoMemo[];
   const index = bundle.index as DemoIndexEntry[];
 
-  // Accounts (an existing account with the same email is reused).
+  // Accounts (an existing account with the same email is reused), keyed by email.
   const userIds = new Map<string, string>();
   for (const a of accounts) {
-    const existing = await findUserByEmail(db, a.email);
-    const user = existing ?? (await createUser(db, { email: a.email, name: a.name, password: a.password }));
-    userIds.set(a.role === 'coder' ? a.email : a.role, user.id);
+    const user = (await findUserByEmail(db, a.email)) ?? (await createUser(db, { email: a.email, name: a.name, password: a.password }));
+    userIds.set(a.email, user.id);
   }
-  const owner = accounts.find((a) => a.role === 'owner')!;
-  const ownerId = (await findUserByEmail(db, owner.email))!.id;
+  const idOf = (role: Role) => userIds.get(accounts.find((a) => a.role === role)!.email)!;
+  const ownerId = idOf('owner');
   const created = await createStudy(db, {
     title: study.title,
     description: study.description,
@@ -90,14 +89,8 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
     retentionUntil: new Date(study.retentionUntil + 'T00:00:00Z'),
     createdBy: ownerId,
   });
-  for (const a of accounts) {
-    if (a.role === 'owner') continue;
-    const u = (await findUserByEmail(db, a.email))!;
-    await addMember(db, created.id, u.id, a.role, ownerId);
-  }
-  const coders = await Promise.all(
-    accounts.filter((a) => a.role === 'coder').map(async (a) => (await findUserByEmail(db, a.email))!.id),
-  );
+  for (const a of accounts) if (a.role !== 'owner') await addMember(db, created.id, userIds.get(a.email)!, a.role, ownerId);
+  const coders = accounts.filter((a) => a.role === 'coder').map((a) => userIds.get(a.email)!);
 
   // Texts.
   const textIds = new Map<string, string>();
@@ -117,7 +110,7 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
   }
 
   // Codebook: entries, then examples anchored where their words stand in the texts.
-  const lead = { by: userIds.get('lead') ?? ownerId, reason: 'Starter codebook of the demo study' };
+  const lead = { by: idOf('lead'), reason: 'Starter codebook of the demo study' };
   const cb = M.createCodebookDoc();
   const ordered = [...codes.filter((c) => !c.parent), ...codes.filter((c) => c.parent)];
   for (const c of ordered) {
