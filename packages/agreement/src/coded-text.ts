@@ -1,4 +1,4 @@
-import { AgreementError } from './errors.js';
+import { AgreementError, shown } from './errors.js';
 
 /** One coder's coded segment: half-open character offsets [start, end) into the text. */
 export interface CodedSegment {
@@ -45,7 +45,7 @@ export function checkCodedText(text: CodedText): void {
 function checkRange(r: { start: number; end: number }, length: number, what: string): void {
   if (!r || typeof r !== 'object') throw new AgreementError('invalid-input', `${what} must be an object with start and end`);
   if (!Number.isSafeInteger(r.start) || !Number.isSafeInteger(r.end) || r.start >= r.end)
-    throw new AgreementError('invalid-value', `${what} needs integer offsets with start < end, got [${r.start}, ${r.end})`);
+    throw new AgreementError('invalid-value', `${what} needs integer offsets with start < end, got [${shown(r.start)}, ${shown(r.end)})`);
   if (r.start < 0 || r.end > length) throw new AgreementError('span-outside-continuum', `${what} [${r.start}, ${r.end}) lies outside the text (length ${length})`);
 }
 

@@ -19,3 +19,13 @@ export class AgreementError extends Error {
     this.code = code;
   }
 }
+
+/**
+ * A refused input value, for an error message. Template literals call toString/valueOf, which junk
+ * input can break (`{toString: 0}` throws a TypeError): describe it without running its code.
+ */
+export function shown(v: unknown): string {
+  if (typeof v === 'number' || typeof v === 'boolean' || typeof v === 'bigint' || v === null || v === undefined) return String(v);
+  if (typeof v === 'string') return JSON.stringify(v);
+  return Array.isArray(v) ? 'an array' : `a ${typeof v}`;
+}

@@ -51,6 +51,12 @@ describe('bad input never escapes as anything but AgreementError (fuzz, common p
       { numRuns: 300 },
     );
   });
+  it('a span whose offsets cannot even be printed (fast-check counterexample, seed 1476747404)', () => {
+    const spansIn = [{ coder: 'a', value: 'x', start: { toString: 0 }, end: undefined }];
+    expect(() => unitizingAlpha1995(spansIn as never, { start: 0, end: 1 })).toThrow(AgreementError);
+    const text = { textId: 't', textLength: 5, segments: [{ coderId: 'a', codeId: 'x', start: { toString: 0 }, end: 2 }] };
+    survives(() => agreementReport({ texts: [text] } as never, { unit: 'character' } as never));
+  });
   it('unitizing on junk spans', () => {
     fc.assert(
       fc.property(spans, fc.oneof(fc.record({ start: fc.integer({ min: -2, max: 2 }), end: fc.integer({ min: -2, max: 25 }) }), junk), (s, c) => {

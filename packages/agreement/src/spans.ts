@@ -1,4 +1,4 @@
-import { AgreementError } from './errors.js';
+import { AgreementError, shown } from './errors.js';
 import type { Value } from './types.js';
 
 /** A coder's unit on a continuum: half-open [start, end) in integer positions (e.g. character offsets). */
@@ -30,7 +30,7 @@ export function checkSpan(s: Span, c: Continuum): void {
   if (!s || typeof s.coder !== 'string' || (typeof s.value !== 'string' && typeof s.value !== 'number'))
     throw new AgreementError('invalid-input', 'each span needs a coder (string), a value, a start and an end');
   if (!Number.isSafeInteger(s.start) || !Number.isSafeInteger(s.end) || s.end <= s.start)
-    throw new AgreementError('invalid-value', `span of ${s.coder} needs integer start < end, got [${s.start}, ${s.end})`);
+    throw new AgreementError('invalid-value', `span of ${s.coder} needs integer start < end, got [${shown(s.start)}, ${shown(s.end)})`);
   if (s.start < c.start || s.end > c.end)
     throw new AgreementError('span-outside-continuum', `span [${s.start}, ${s.end}) of ${s.coder} lies outside [${c.start}, ${c.end})`);
 }
