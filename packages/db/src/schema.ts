@@ -63,6 +63,10 @@ export const studies = pgTable(
     description: text('description').notNull().default(''),
     mode: text('mode', { enum: STUDY_MODES }).notNull().default('standard'),
     retentionUntil: timestamp('retention_until', { withTimezone: true }),
+    /** The study's own record of its ethics approval and consent terms (free text; DESIGN §8). */
+    ethicsNote: text('ethics_note').notNull().default(''),
+    /** Set when the study is archived: it leaves the working list but keeps its data. */
+    archivedAt: timestamp('archived_at', { withTimezone: true }),
     createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: createdAt(),
   },
@@ -176,6 +180,40 @@ export const versions = pgTable(
   (t) => [index('versions_doc_idx').on(t.docId)],
 );
 
+export const LINK_PURPOSES = ['invite', 'reset'] as const;
+
+/**
+ * Single-use, expiring links: an invitation to a study (email + role) or a password reset (user).
+ * Only the SHA-256 of the link's token is stored, like session ids.
+ */
+export const accountLinks = pgTable(
+  'account_links',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    tokenHash: text('token_hash').notNull(),
+    purpose: text('purpose', { enum: LINK_PURPOSES }).notNull(),
+    email: text('email').notNull(),
+    studyId: uuid('study_id').references(() => studies.id, { onDelete: 'cascade' }),
+    role: text('role', { enum: ROLES }),
+    userId: uuid('user_id').references(() => users.id, { onDelete: 'cascade' }),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+    usedAt: timestamp('used_at', { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    uniqueIndex('account_links_token_key').on(t.tokenHash),
+    index('account_links_study_idx').on(t.studyId),
+    check('account_links_purpose_check', sql`${t.purpose} in ('invite', 'reset')`),
+    // An invitation names a study and a role; a reset names an account.
+    check(
+      'account_links_shape_check',
+      sql`(${t.purpose} = 'invite' and ${t.studyId} is not null and ${t.role} is not null)
+        or (${t.purpose} = 'reset' and ${t.userId} is not null)`,
+    ),
+  ],
+);
+
 /** Access and change log. No foreign keys: the record outlives what it mentions. */
 export const auditLog = pgTable(
   'audit_log',
@@ -197,4 +235,5 @@ export type StudyMode = (typeof STUDY_MODES)[number];
 export type UserRow = typeof users.$inferSelect;
 export type StudyRow = typeof studies.$inferSelect;
 export type TextRow = typeof texts.$inferSelect;
+export type AccountLinkRow = typeof accountLinks.$inferSelect;
 export type DocumentRow = typeof documents.$inferSelect;
