@@ -4,7 +4,9 @@
  * (422 naming the place; nothing created), the size limit and role refusals. Expected texts are the
  * transcripts' words, one speaker turn per line (DESIGN §2: turns joined with a line break).
  */
+import { once } from 'node:events';
 import { createRequire } from 'node:module';
+import net from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { dbKinds, spawnServer, type SpawnedServer } from '../support/server.js';
 import { clientFor, gcOffClient, seedCoding, until, type CodingSeed } from './support.js';
@@ -184,6 +186,42 @@ describe.each(dbKinds())('transcript import on %s', (db) => {
     expect((await upload('outsider', { name: 'x.txt', bytes: 'I: hello there' })).status).toBe(404);
     const owner = await clientFor(server.url, 'owner');
     expect((await owner.call<ErrorOut>('POST', importPath(), 'I: no name', { 'content-type': 'text/plain' })).status).toBe(400);
+    expect(await textCount()).toBe(before);
+  }, 60_000);
+
+  // A refused body is read to its end before the 413 goes out. Answering early left the body unread;
+  // @hono/node-server then gives it 500 ms to drain and destroys the socket, and a client still sending
+  // (a slow upload, or a busy machine) got a reset connection instead of "too large".
+  it('answers 413 after reading the refused body, keeping the connection usable', async () => {
+    const before = await textCount();
+    const declared = await upload('lead', { name: 'huge.txt', bytes: new Uint8Array(5 * 1024 * 1024).fill(0x61) });
+    expect(declared.status).toBe(413);
+    expect(((await declared.json()) as ErrorOut).error.code).toBe('body_too_large');
+
+    // A slow client on one keep-alive connection: headers and 256 KiB, a 1.5 s pause (past that 500 ms
+    // window), the rest, then a second request on the same socket. Both must be answered.
+    const lead = await clientFor(server.url, 'lead');
+    const { hostname, port } = new URL(server.url);
+    const socket = net.connect(Number(port), hostname);
+    await once(socket, 'connect');
+    let received = '';
+    socket.setEncoding('latin1');
+    socket.on('data', (d: string) => (received += d));
+    const closed = new Promise<string>((resolve) => socket.on('close', () => resolve('closed')).on('error', (e) => resolve(String(e))));
+    const total = 1024 * 1024;
+    socket.write(
+      `POST ${importPath()} HTTP/1.1\r\nHost: ${hostname}:${port}\r\nOrigin: ${server.url}\r\nCookie: ${lead.cookie}\r\n` +
+        `Content-Type: text/plain\r\nContent-Length: ${total}\r\n\r\n`,
+    );
+    socket.write(Buffer.alloc(256 * 1024, 0x62));
+    await new Promise((r) => setTimeout(r, 1500));
+    socket.write(Buffer.alloc(total - 256 * 1024, 0x62));
+    await until(() => received.includes('body_too_large'), 'the 413 answer');
+    expect(received.startsWith('HTTP/1.1 413')).toBe(true);
+    socket.write(`GET /api/health HTTP/1.1\r\nHost: ${hostname}:${port}\r\n\r\n`);
+    const second = await Promise.race([until(() => /HTTP\/1\.1 200/.test(received.slice(received.indexOf('body_too_large'))), 'the second answer on the same connection').then(() => 'answered'), closed]);
+    expect(second, received).toBe('answered');
+    socket.destroy();
     expect(await textCount()).toBe(before);
   }, 60_000);
 });

@@ -1,10 +1,9 @@
 /** The hono application: JSON API under /api, the web app at /. */
 import { Hono } from 'hono';
-import { bodyLimit } from 'hono/body-limit';
-import { HttpError } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { errorBody, onError, onNotFound } from './errors.js';
 import { auditRoutes } from './audit.js';
+import { limitBody } from './body-limit.js';
 import { healthRoutes } from './health.js';
 import { memberRoutes } from './members.js';
 import { csrf } from './middleware.js';
@@ -23,15 +22,7 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   app.onError(onError(log));
 
   const api = new Hono<AppEnv>();
-  api.use(
-    '*',
-    bodyLimit({
-      maxSize: deps.config.maxBodyBytes,
-      onError: () => {
-        throw new HttpError(413, 'body_too_large', `The body is larger than ${deps.config.maxBodyBytes} bytes.`);
-      },
-    }),
-  );
+  api.use('*', limitBody(deps.config.maxBodyBytes));
   api.use('*', csrf(deps));
   api.route('/', healthRoutes(deps));
   api.route('/', openApiRoutes());
