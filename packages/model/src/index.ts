@@ -17,3 +17,4 @@ export * from './flags/index.js';
 export * from './word-diff.js';
 export * from './versions.js';
 export * from './examples.js';
+export * from './comparison.js';

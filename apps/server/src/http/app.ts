@@ -15,6 +15,7 @@ import { studyTextRoutes, textRoutes } from './texts.js';
 import { agreementRoutes } from './agreement.js';
 import { importRoutes } from './imports.js';
 import { segmentRoutes } from './segments.js';
+import { comparisonRoutes } from './comparison.js';
 import { versionRoutes } from './versions.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
@@ -35,6 +36,7 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/studies/:studyId/texts/import', importRoutes(deps));
   api.route('/studies/:studyId/agreement', agreementRoutes(deps));
   api.route('/texts', segmentRoutes(deps));
+  api.route('/texts', comparisonRoutes(deps));
   api.route('/documents', versionRoutes(deps));
   api.notFound(onNotFound);
   api.all('*', onNotFound);

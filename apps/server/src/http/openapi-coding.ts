@@ -1,6 +1,7 @@
 /** OpenAPI paths of the coding-model endpoints (segments, import, versions, agreement); openapi.ts spreads them in. */
 import { z } from 'zod';
 import { AgreementQuery } from './agreement.js';
+import { ComparisonQuery } from './comparison.js';
 import { NewVersionBody } from './versions.js';
 
 const secured = [{ session: [] }];
@@ -30,14 +31,48 @@ const version = {
   type: 'object',
   properties: { id: { type: 'string', format: 'uuid' }, name: { type: 'string' }, createdAt: { type: 'string' }, createdBy: { type: ['object', 'null'] } },
 };
-const agreementParams = Object.entries((toSchema(AgreementQuery) as { properties: Record<string, object> }).properties).map(([name, schema]) => ({
-  name,
-  in: 'query',
-  required: false,
-  schema,
-}));
+const queryParams = (s: z.ZodType) =>
+  Object.entries((toSchema(s) as { properties: Record<string, object>; required?: string[] }).properties).map(([name, schema]) => ({
+    name,
+    in: 'query',
+    required: ((toSchema(s) as { required?: string[] }).required ?? []).includes(name),
+    schema,
+  }));
+const agreementParams = queryParams(AgreementQuery);
+const comparisonEntry = {
+  type: 'object',
+  required: ['start', 'end', 'quote', 'codeIds', 'reference', 'layer'],
+  properties: {
+    start: { type: 'integer' },
+    end: { type: 'integer' },
+    quote: { type: 'string' },
+    codeIds: { type: 'array', items: { type: 'string' } },
+    reference: { type: ['object', 'null'] },
+    layer: { type: 'array', items: { type: 'object' } },
+    startShiftWords: { type: 'integer' },
+    endShiftWords: { type: 'integer' },
+  },
+};
 
 export const codingPaths = {
+  '/api/texts/{textId}/comparison': {
+    get: {
+      summary: 'One layer against a reference layer of the same text: missed, extra, other code, other boundary (each with start, end, quote, codeIds), counts per code',
+      security: secured,
+      parameters: [path('textId'), ...queryParams(ComparisonQuery)],
+      responses: {
+        '200': {
+          description: 'The comparison; offsets are UTF-16 into the current text',
+          ...json({
+            type: 'object',
+            required: ['missed', 'extra', 'otherCode', 'otherBoundary', 'counts', 'toleranceWords'],
+            properties: Object.fromEntries(['missed', 'extra', 'otherCode', 'otherBoundary'].map((k) => [k, { type: 'array', items: comparisonEntry }])),
+          }),
+        },
+        ...errors(400, 401, 404),
+      },
+    },
+  },
   '/api/texts/{textId}/segments': {
     get: {
       summary: 'Segments of every layer the caller may see, resolved from the current documents, with their flags',

@@ -31,3 +31,13 @@ export function idParam(c: Context, name: string, what: string): string {
   if (!isUuid(value)) throw new HttpError(404, 'not_found', `${what} not found.`);
   return value.toLowerCase();
 }
+
+/** Query parameters through zod; a failure is a 400 naming the first parameter at fault. */
+export function readQuery<S extends z.ZodType>(c: Context, schema: S): z.infer<S> {
+  const parsed = schema.safeParse(c.req.query());
+  if (!parsed.success) {
+    const i = parsed.error.issues[0]!;
+    throw new HttpError(400, 'bad_request', `${i.path.join('.') || 'query'}: ${i.message}`);
+  }
+  return parsed.data;
+}
