@@ -16,11 +16,15 @@ export type ErrorCode =
   | 'not_found'
   | 'conflict'
   | 'last_owner'
+  | 'already_set_up'
+  | 'bad_setup_code'
+  | 'link_used'
+  | 'link_expired'
   | 'internal';
 
 export class HttpError extends Error {
   constructor(
-    readonly status: 400 | 401 | 403 | 404 | 409 | 413 | 415 | 429 | 500 | 503,
+    readonly status: 400 | 401 | 403 | 404 | 409 | 410 | 413 | 415 | 429 | 500 | 503,
     readonly code: ErrorCode,
     message: string,
     /** Extra response headers (Retry-After on 429). */

@@ -4,3 +4,4 @@ export { loadConfig, type ServerConfig } from './config.js';
 export { createLogger, type Logger } from './logger.js';
 export { seedDemo, type SeedResult } from './demo/seed.js';
 export * as admin from './admin/index.js';
+export { printSetupCode } from './print-setup-code.js';

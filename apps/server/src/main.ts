@@ -6,6 +6,7 @@
 import { ConfigError } from './errors.js';
 import { loadConfig } from './config.js';
 import { createLogger } from './logger.js';
+import { printSetupCode } from './print-setup-code.js';
 import { startServer } from './server.js';
 
 async function main(): Promise<void> {
@@ -21,6 +22,7 @@ async function main(): Promise<void> {
   }
   const logger = createLogger(config.logLevel);
   const server = await startServer(config, logger);
+  await printSetupCode(server, process.stdout);
   process.stdout.write(JSON.stringify({ event: 'listening', url: server.url, port: server.port, db: server.database.kind }) + '\n');
   process.stdout.write(`Gloss is running at ${server.url}\n`);
 

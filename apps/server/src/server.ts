@@ -8,6 +8,7 @@ import type { Server } from 'node:http';
 import { serve } from '@hono/node-server';
 import { openDatabase, type Database } from '@gloss/db';
 import { createRoomAuthorizer } from './access/authorizer.js';
+import { createFirstRun, type FirstRun } from './auth/first-run.js';
 import { createRateLimiter } from './auth/rate-limit.js';
 import { createSessionService } from './auth/sessions.js';
 import type { ServerConfig } from './config.js';
@@ -24,6 +25,8 @@ export interface RunningServer {
   port: number;
   database: Database;
   db: Database['db'];
+  /** The set-up code and whether the database still waits for its first account (print it then). */
+  firstRun: FirstRun;
   close(): Promise<void>;
 }
 
@@ -48,6 +51,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     scheduleCatchUp(database.db, projector).catch((err: unknown) => logger.warn({ err }, 'projection catch-up could not start'));
     cleanups.push(() => store.close());
 
+    const firstRun = createFirstRun(database.db);
     let syncStats: () => Record<string, unknown> = () => ({});
     const app = buildApp(
       {
@@ -58,6 +62,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
         signInLimiter: createRateLimiter(config.signInMaxFailures, config.signInWindowMs),
         config,
         health: () => ({ sync: syncStats() }),
+        firstRun,
       },
       (err) => logger.error({ err }, 'request failed'),
     );
@@ -94,6 +99,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
       port,
       database,
       db: database.db,
+      firstRun,
       close: () => (closing ??= undo()),
     };
   } catch (err) {

@@ -1,6 +1,9 @@
-/** `gloss serve`: start the server; on an empty embedded database, seed the invented demo study first. */
+/**
+ * `gloss serve`: start the server; on an empty embedded database, seed the invented demo study first.
+ * With --no-demo (and always on PostgreSQL) an empty database gets a one-time set-up code instead.
+ */
 import { parseArgs } from 'node:util';
-import { createLogger, loadConfig, seedDemo, startServer } from '@gloss/server';
+import { createLogger, loadConfig, printSetupCode, seedDemo, startServer } from '@gloss/server';
 import { printSignIns } from './sign-ins.js';
 
 export async function serveCommand(argv: string[]): Promise<number> {
@@ -18,6 +21,8 @@ export async function serveCommand(argv: string[]): Promise<number> {
   let seeded = null;
   if (!config.databaseUrl && !values['no-demo']) seeded = await seedDemo(server.db);
 
+  // Without the demo (PostgreSQL, or --no-demo) a fresh database waits for its owner: print the code.
+  await printSetupCode(server, process.stdout);
   process.stdout.write(JSON.stringify({ event: 'listening', url: server.url, port: server.port, db: server.database.kind }) + '\n');
   process.stdout.write(`\nGloss is running at ${server.url}  (database: ${server.database.kind === 'pglite' ? `embedded, ${config.dataDir}` : 'PostgreSQL'})\n`);
   if (seeded) printSignIns(seeded, process.stdout);

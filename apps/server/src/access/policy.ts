@@ -18,6 +18,7 @@ export const ACTIONS = [
   'memos.write',
   'members.read',
   'members.manage',
+  'members.resetPassword', // issue a password-reset link for a member
   'export',
   'audit.view',
   'agreement.read', // intercoder agreement: compares everyone's layers, so not for those still coding
@@ -42,6 +43,7 @@ const TABLE: Record<Action, Record<Role, boolean>> = {
   'memos.write':        { owner: o, lead: o, coder: o, trainee: o, observer: _ },
   'members.read':       { owner: o, lead: o, coder: o, trainee: o, observer: o },
   'members.manage':     { owner: o, lead: o, coder: _, trainee: _, observer: _ },
+  'members.resetPassword': { owner: o, lead: _, coder: _, trainee: _, observer: _ },
   'export':             { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'audit.view':         { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'agreement.read':     { owner: o, lead: o, coder: _, trainee: _, observer: o },

@@ -1,5 +1,6 @@
 /** Administrative operations shared by the HTTP API, the CLI, demo seeding and tests. */
-export { createUser, findUserByEmail, normaliseEmail, type NewUser } from './users.js';
+export { createUser, findUserByEmail, normaliseEmail, setPassword, type NewUser } from './users.js';
+export * from './account-links.js';
 export { createStudy, addMember, removeMember, type NewStudy } from './studies.js';
 export { addTextFromTranscript, ensureLayer, type NewText } from './texts.js';
 export { transcriptFromPlainText, buildTextDocUpdate, wordCount } from './text-doc.js';

@@ -9,6 +9,7 @@ export interface NewStudy {
   description?: string;
   mode?: StudyMode;
   retentionUntil?: Date | null;
+  ethicsNote?: string;
   createdBy: string;
 }
 
@@ -21,6 +22,7 @@ export async function createStudy(db: Db, input: NewStudy) {
         description: input.description ?? '',
         mode: input.mode ?? 'standard',
         retentionUntil: input.retentionUntil ?? null,
+        ethicsNote: input.ethicsNote ?? '',
         createdBy: input.createdBy,
       })
       .returning();

@@ -17,6 +17,9 @@ import { importRoutes } from './imports.js';
 import { segmentRoutes } from './segments.js';
 import { comparisonRoutes } from './comparison.js';
 import { versionRoutes } from './versions.js';
+import { setupRoutes } from './setup.js';
+import { accountLinkRoutes } from './account-links.js';
+import { invitationRoutes } from './invitations.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
   const app = new Hono<AppEnv>();
@@ -28,6 +31,9 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/', healthRoutes(deps));
   api.route('/', openApiRoutes());
   api.route('/', sessionRoutes(deps));
+  api.route('/setup', setupRoutes(deps));
+  api.route('/', accountLinkRoutes(deps));
+  api.route('/studies/:studyId/invitations', invitationRoutes(deps));
   api.route('/studies', studyRoutes(deps));
   api.route('/studies/:studyId/members', memberRoutes(deps));
   api.route('/studies/:studyId/audit', auditRoutes(deps));

@@ -1,5 +1,6 @@
 /** What every route handler can reach: dependencies, and the signed-in session once checked. */
 import type { Db, DbKind } from '@gloss/db';
+import type { FirstRun } from '../auth/first-run.js';
 import type { RateLimiter } from '../auth/rate-limit.js';
 import type { SessionService, ValidSession } from '../auth/sessions.js';
 import type { ServerConfig } from '../config.js';
@@ -15,6 +16,8 @@ export interface AppDeps {
   config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist'>;
   /** Extra readiness facts for /api/health (sync stats…). */
   health?: () => Record<string, unknown>;
+  /** The first-run claim (set-up code); absent: this server cannot be set up from the browser. */
+  firstRun?: FirstRun;
 }
 
 export interface AppEnv {

@@ -6,8 +6,10 @@
  * nothing is created then (the text, its document and the audit entry go in one transaction).
  * With `Accept: application/x-ndjson` the answer streams `{"progress":0.42}` lines and ends with
  * `{"text":{id,title,room,…}}` or, if the import fails after the stream began, `{"error":{…}}`.
+ * POST …/import/preview takes the same body and answers what the import would make, committing nothing.
  */
 import { ImportError, detectFormat, importTranscript } from '@gloss/interchange';
+import type { Transcript } from '@gloss/model';
 import type { Context } from 'hono';
 import { Hono } from 'hono';
 import { addTextFromTranscript } from '../admin/texts.js';
@@ -28,6 +30,22 @@ interface Upload {
 export function importRoutes(deps: AppDeps) {
   const app = new Hono<AppEnv>();
   app.use('*', requireSession(deps));
+
+  // The same file read without committing: what the import would make (turns, speakers, times).
+  app.post('/preview', async (c) => {
+    await studyRole(deps, c, 'text.import');
+    const upload = await readUpload(c);
+    try {
+      const transcript = await importTranscript(
+        { filename: upload.filename, bytes: upload.bytes, ...(upload.mediaType ? { mediaType: upload.mediaType } : {}) },
+        { maxBytes: deps.config.maxBodyBytes, ...(upload.title ? { title: upload.title } : {}) },
+      );
+      return c.json(previewOf(upload, transcript));
+    } catch (err) {
+      if (err instanceof ImportError) return c.json(importErrorBody(err), err.code === 'too-large' ? 413 : 422);
+      throw err;
+    }
+  });
 
   app.post('/', async (c) => {
     const { studyId } = await studyRole(deps, c, 'text.import');
@@ -78,6 +96,37 @@ export function importRoutes(deps: AppDeps) {
   });
 
   return app;
+}
+
+const PREVIEW_TURNS = 12;
+
+/** What a preview shows: the format read, turn and word counts, each speaker's share, the time span, the first turns. */
+export function previewOf(upload: Upload, transcript: Transcript) {
+  const words = (t: string) => t.split(/\s+/).filter(Boolean).length;
+  const speakers = new Map<string, { label: string; turns: number; words: number }>();
+  let first: number | null = null;
+  let last: number | null = null;
+  for (const turn of transcript.turns) {
+    const label = turn.speaker ?? '';
+    const s = speakers.get(label) ?? { label, turns: 0, words: 0 };
+    s.turns++;
+    s.words += words(turn.text);
+    speakers.set(label, s);
+    if (turn.startMs !== null) first ??= turn.startMs;
+    const end = turn.endMs ?? turn.startMs;
+    if (end !== null) last = Math.max(last ?? 0, end);
+  }
+  return {
+    filename: upload.filename,
+    format: sourceFormat(upload),
+    title: (upload.title ?? transcript.title ?? upload.filename).trim().slice(0, 300) || upload.filename,
+    turnCount: transcript.turns.length,
+    wordCount: [...speakers.values()].reduce((n, s) => n + s.words, 0),
+    speakers: [...speakers.values()].filter((s) => s.label !== '').sort((a, b) => b.words - a.words || a.label.localeCompare(b.label)),
+    unlabelledTurns: speakers.get('')?.turns ?? 0,
+    timestamps: first === null ? null : { firstMs: first, lastMs: last ?? first },
+    turns: transcript.turns.slice(0, PREVIEW_TURNS).map((t) => ({ speaker: t.speaker, startMs: t.startMs, endMs: t.endMs, text: t.text.slice(0, 400) })),
+  };
 }
 
 function importErrorBody(err: ImportError) {

@@ -6,6 +6,8 @@ import { canAssignRole } from '../access/policy.js';
 import { roleIn } from '../access/membership.js';
 import { addMember, removeMember } from '../admin/studies.js';
 import { findUserByEmail } from '../admin/users.js';
+import { createResetLink } from '../admin/account-links.js';
+import { resetPath } from './invitations.js';
 import { forbidden, notFound } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
@@ -52,6 +54,15 @@ export function memberRoutes(deps: AppDeps) {
     await addMember(deps.db, studyId, userId, body.role, c.get('session').user.id);
     const [row] = await list(studyId).then((all) => all.filter((m) => m.userId === userId));
     return c.json(row);
+  });
+
+  app.post('/:userId/reset-link', async (c) => {
+    const { studyId } = await studyRole(deps, c, 'members.resetPassword');
+    const userId = idParam(c, 'userId', 'Member');
+    const [member] = await list(studyId).then((all) => all.filter((m) => m.userId === userId));
+    if (!member) throw notFound('Member');
+    const { token, link } = await createResetLink(deps.db, { userId, email: member.email, studyId, createdBy: c.get('session').user.id });
+    return c.json({ email: member.email, expiresAt: link.expiresAt.toISOString(), token, path: resetPath(token) }, 201);
   });
 
   app.delete('/:userId', async (c) => {

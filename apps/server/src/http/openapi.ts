@@ -7,6 +7,7 @@ import { z } from 'zod';
 import type { AppEnv } from './context.js';
 import * as S from './schemas.js';
 import { codingPaths } from './openapi-coding.js';
+import { peoplePaths } from './openapi-people.js';
 
 const components = {
   AddMemberBody: S.AddMemberBody,
@@ -99,7 +100,7 @@ export function buildOpenApi() {
           responses: { ...ok('Study', 'The study'), ...errors(401, 404) },
         },
         patch: {
-          summary: 'Change title, description, mode or retention date; owner',
+          summary: 'Change title, description, mode, retention date or ethics note, or archive (archived: true); owner',
           security: secured,
           parameters: [idParam('studyId')],
           requestBody: body('UpdateStudyBody'),
@@ -162,6 +163,7 @@ export function buildOpenApi() {
         },
       },
       ...codingPaths,
+      ...peoplePaths,
     },
   };
 }

@@ -15,6 +15,7 @@ export const NewStudyBody = z.object({
   description: z.string().max(5000).optional(),
   mode: StudyModeSchema.optional(),
   retentionUntil: z.iso.datetime({ offset: true }).nullable().optional(),
+  ethicsNote: z.string().max(10_000).optional(),
 });
 
 export const UpdateStudyBody = z
@@ -24,6 +25,10 @@ export const UpdateStudyBody = z
     mode: StudyModeSchema.optional(),
     /** When the study's data should be deleted (DESIGN §8); null clears it. */
     retentionUntil: z.iso.datetime({ offset: true }).nullable().optional(),
+    /** Ethics approval and consent terms, in the study's own words. */
+    ethicsNote: z.string().max(10_000).optional(),
+    /** true archives the study (out of the working list, data kept); false brings it back. */
+    archived: z.boolean().optional(),
   })
   .refine((b) => Object.keys(b).length > 0, { message: 'Nothing to change.' });
 
@@ -48,9 +53,11 @@ export const StudySummary = z.object({
   mode: StudyModeSchema,
   role: RoleSchema,
   createdAt: z.string(),
+  archivedAt: z.string().nullable(),
 });
 export const Study = StudySummary.extend({
   retentionUntil: z.string().nullable(),
+  ethicsNote: z.string(),
   codebookRoom: z.uuid(),
   memosRoom: z.uuid(),
   permissions: z.array(z.string()),

@@ -1,5 +1,5 @@
 /** POST /api/session (sign in), DELETE /api/session (sign out), GET /api/me. */
-import { Hono } from 'hono';
+import { Hono, type Context } from 'hono';
 import { clearedSessionCookie, readSessionToken, sessionCookie } from '../auth/cookies.js';
 import { spendVerifyTime, verifyPassword } from '../auth/passwords.js';
 import { findUserByEmail, normaliseEmail } from '../admin/users.js';
@@ -7,9 +7,22 @@ import { HttpError } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { clientAddress, isSecure, requireSession } from './middleware.js';
 import { SignInBody } from './schemas.js';
+import { ChangePasswordBody, changeOwnPassword } from './account-links.js';
 import { readJson } from './validate.js';
 
 const WRONG = 'Email or password is wrong.';
+
+/**
+ * Signs this browser in as `userId` (sign-in, first run, an accepted invitation). A new session
+ * replaces whatever session this browser held, so no session outlives its cookie.
+ */
+export async function beginSession(deps: AppDeps, c: Context<AppEnv>, userId: string): Promise<Date> {
+  const previous = readSessionToken(c.req.header('cookie'));
+  if (previous) await deps.sessions.invalidate(previous);
+  const { token, expiresAt } = await deps.sessions.create(userId);
+  c.header('Set-Cookie', sessionCookie(token, expiresAt, isSecure(c, deps.config.publicUrl)));
+  return expiresAt;
+}
 
 export function sessionRoutes(deps: AppDeps) {
   const app = new Hono<AppEnv>();
@@ -28,11 +41,7 @@ export function sessionRoutes(deps: AppDeps) {
       throw new HttpError(401, 'invalid_credentials', WRONG);
     }
     deps.signInLimiter.reset(key);
-    // A new sign-in replaces whatever session this browser held (no session outlives its cookie).
-    const previous = readSessionToken(c.req.header('cookie'));
-    if (previous) await deps.sessions.invalidate(previous);
-    const { token, expiresAt } = await deps.sessions.create(user.id);
-    c.header('Set-Cookie', sessionCookie(token, expiresAt, isSecure(c, deps.config.publicUrl)));
+    const expiresAt = await beginSession(deps, c, user.id);
     return c.json({ id: user.id, email: user.email, name: user.name, expiresAt: expiresAt.toISOString() });
   });
 
@@ -40,6 +49,13 @@ export function sessionRoutes(deps: AppDeps) {
     const token = readSessionToken(c.req.header('cookie'));
     if (token) await deps.sessions.invalidate(token);
     c.header('Set-Cookie', clearedSessionCookie(isSecure(c, deps.config.publicUrl)));
+    return c.body(null, 204);
+  });
+
+  app.put('/me/password', requireSession(deps), async (c) => {
+    const body = await readJson(c, ChangePasswordBody);
+    const { user, sessionId } = c.get('session');
+    await changeOwnPassword(deps, user.id, sessionId, body);
     return c.body(null, 204);
   });
 

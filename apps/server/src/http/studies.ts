@@ -15,16 +15,24 @@ import { readJson } from './validate.js';
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
 
-type StudyFields = Pick<typeof studies.$inferSelect, 'id' | 'title' | 'description' | 'mode' | 'createdAt' | 'retentionUntil'>;
+type StudyFields = Pick<typeof studies.$inferSelect, 'id' | 'title' | 'description' | 'mode' | 'createdAt' | 'retentionUntil' | 'ethicsNote' | 'archivedAt'>;
 
 /** The fields every answer about a study starts with, seen by someone with `role`. */
 function studySummary(study: StudyFields, role: Role) {
-  return { id: study.id, title: study.title, description: study.description, mode: study.mode, role, createdAt: study.createdAt.toISOString() };
+  return {
+    id: study.id,
+    title: study.title,
+    description: study.description,
+    mode: study.mode,
+    role,
+    createdAt: study.createdAt.toISOString(),
+    archivedAt: iso(study.archivedAt),
+  };
 }
 
 /** One study in full: its summary, document rooms and what `role` may do there. */
 function studyDetail(study: StudyFields, role: Role, rooms: { codebookRoom: string | null; memosRoom: string | null }) {
-  return { ...studySummary(study, role), retentionUntil: iso(study.retentionUntil), ...rooms, permissions: ACTIONS.filter((a) => can(role, a)) };
+  return { ...studySummary(study, role), retentionUntil: iso(study.retentionUntil), ethicsNote: study.ethicsNote, ...rooms, permissions: ACTIONS.filter((a) => can(role, a)) };
 }
 
 export function studyRoutes(deps: AppDeps) {
@@ -48,6 +56,7 @@ export function studyRoutes(deps: AppDeps) {
       description: body.description,
       mode: body.mode,
       retentionUntil: body.retentionUntil ? new Date(body.retentionUntil) : null,
+      ethicsNote: body.ethicsNote ?? '',
       createdBy: c.get('session').user.id,
     });
     return c.json(studyDetail(study, 'owner', { codebookRoom: study.codebookRoom, memosRoom: study.memosRoom }), 201);
@@ -66,9 +75,12 @@ export function studyRoutes(deps: AppDeps) {
       ...(body.description !== undefined && { description: body.description }),
       ...(body.mode !== undefined && { mode: body.mode }),
       ...(body.retentionUntil !== undefined && { retentionUntil: body.retentionUntil ? new Date(body.retentionUntil) : null }),
+      ...(body.ethicsNote !== undefined && { ethicsNote: body.ethicsNote }),
+      ...(body.archived !== undefined && { archivedAt: body.archived ? new Date() : null }),
     };
     await deps.db.update(studies).set(changes).where(eq(studies.id, studyId));
-    await recordAudit(deps.db, { userId: c.get('session').user.id, studyId, action: 'study.update', target: studyId, detail: body });
+    const action = body.archived === true ? 'study.archive' : body.archived === false ? 'study.unarchive' : 'study.update';
+    await recordAudit(deps.db, { userId: c.get('session').user.id, studyId, action, target: studyId, detail: body });
     return c.json(await describe(studyId, role));
   });
 
