@@ -12,6 +12,7 @@ import { createFirstRun, type FirstRun } from './auth/first-run.js';
 import { createRateLimiter } from './auth/rate-limit.js';
 import { createSessionService } from './auth/sessions.js';
 import type { ServerConfig } from './config.js';
+import { createCommentEvents } from './comments/events.js';
 import { buildApp } from './http/app.js';
 import { createLogger, type Logger } from './logger.js';
 import { createRedisRelay, noRelay } from './relay/index.js';
@@ -61,6 +62,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
         sessions,
         signInLimiter: createRateLimiter(config.signInMaxFailures, config.signInWindowMs),
         config,
+        commentEvents: createCommentEvents(relay, (err) => logger.warn({ err }, 'unreadable comment event from the relay')),
         health: () => ({ sync: syncStats() }),
         firstRun,
       },

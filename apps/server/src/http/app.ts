@@ -16,6 +16,7 @@ import { agreementRoutes } from './agreement.js';
 import { importRoutes } from './imports.js';
 import { segmentRoutes } from './segments.js';
 import { comparisonRoutes } from './comparison.js';
+import { commentRoutes } from './comments.js';
 import { versionRoutes } from './versions.js';
 import { setupRoutes } from './setup.js';
 import { accountLinkRoutes } from './account-links.js';
@@ -43,6 +44,7 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/studies/:studyId/agreement', agreementRoutes(deps));
   api.route('/texts', segmentRoutes(deps));
   api.route('/texts', comparisonRoutes(deps));
+  api.route('/', commentRoutes(deps));
   api.route('/documents', versionRoutes(deps));
   api.notFound(onNotFound);
   api.all('*', onNotFound);

@@ -4,6 +4,7 @@ import type { FirstRun } from '../auth/first-run.js';
 import type { RateLimiter } from '../auth/rate-limit.js';
 import type { SessionService, ValidSession } from '../auth/sessions.js';
 import type { ServerConfig } from '../config.js';
+import type { CommentEvents } from '../comments/events.js';
 import type { UpdateStore } from '../sync/contracts.js';
 
 export interface AppDeps {
@@ -14,6 +15,8 @@ export interface AppDeps {
   sessions: SessionService;
   signInLimiter: RateLimiter;
   config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist'>;
+  /** Live comment events across nodes; absent in bare app tests. */
+  commentEvents?: CommentEvents;
   /** Extra readiness facts for /api/health (sync stats…). */
   health?: () => Record<string, unknown>;
   /** The first-run claim (set-up code); absent: this server cannot be set up from the browser. */

@@ -2,6 +2,7 @@
 import { z } from 'zod';
 import { AgreementQuery } from './agreement.js';
 import { ComparisonQuery } from './comparison.js';
+import { NewThreadBody, ReplyBody } from './comments.js';
 import { NewVersionBody } from './versions.js';
 
 const secured = [{ session: [] }];
@@ -39,6 +40,23 @@ const queryParams = (s: z.ZodType) =>
     schema,
   }));
 const agreementParams = queryParams(AgreementQuery);
+const commentOut = {
+  type: 'object',
+  properties: { id: { type: 'string', format: 'uuid' }, author: { type: 'object' }, body: { type: 'string' }, createdAt: { type: 'string' } },
+};
+const thread = {
+  type: 'object',
+  properties: {
+    ...commentOut.properties,
+    textId: { type: 'string', format: 'uuid' },
+    layer: { type: 'string', format: 'uuid' },
+    coderId: { type: 'string', format: 'uuid' },
+    segmentId: { type: 'string' },
+    resolvedAt: { type: ['string', 'null'] },
+    resolvedBy: { type: ['string', 'null'] },
+    replies: { type: 'array', items: commentOut },
+  },
+};
 const comparisonEntry = {
   type: 'object',
   required: ['start', 'end', 'quote', 'codeIds', 'reference', 'layer'],
@@ -55,6 +73,53 @@ const comparisonEntry = {
 };
 
 export const codingPaths = {
+  '/api/texts/{textId}/comments': {
+    get: {
+      summary: 'Comment threads on the segments of every layer the caller may read',
+      security: secured,
+      parameters: [path('textId')],
+      responses: { '200': { description: '{"threads":[…]} oldest first, each with its replies', ...json({ type: 'object', properties: { threads: { type: 'array', items: thread } } }) }, ...errors(401, 404) },
+    },
+    post: {
+      summary: 'Start a thread on a segment ({"layer","segmentId","body"}) or reply ({"parentId","body"}); the author is the signed-in person',
+      security: secured,
+      parameters: [path('textId')],
+      requestBody: { required: true, ...json({ oneOf: [toSchema(NewThreadBody), toSchema(ReplyBody)] }) },
+      responses: { '201': { description: 'The new comment and its whole thread', ...json({ type: 'object' }) }, ...errors(400, 401, 404) },
+    },
+  },
+  '/api/comments/{commentId}/resolve': {
+    post: {
+      summary: "Mark a thread resolved: its starter, the segment's coder, a lead or the owner",
+      security: secured,
+      parameters: [path('commentId')],
+      responses: { '200': { description: '{"thread"}', ...json({ type: 'object', properties: { thread } }) }, ...errors(400, 401, 403, 404) },
+    },
+  },
+  '/api/comments/{commentId}/reopen': {
+    post: {
+      summary: 'Re-open a resolved thread (same people as resolve)',
+      security: secured,
+      parameters: [path('commentId')],
+      responses: { '200': { description: '{"thread"}', ...json({ type: 'object', properties: { thread } }) }, ...errors(400, 401, 403, 404) },
+    },
+  },
+  '/api/studies/{studyId}/feedback': {
+    get: {
+      summary: 'Feedback for me: threads on my segments started by others, and threads I wrote in that others answered',
+      security: secured,
+      parameters: [path('studyId')],
+      responses: { '200': { description: '{"threads":[…]} with textTitle', ...json({ type: 'object' }) }, ...errors(401, 404) },
+    },
+  },
+  '/api/studies/{studyId}/comments/events': {
+    get: {
+      summary: 'Server-sent events: "ready", then "comment" {action: added|resolved|reopened, textId, threadId, commentId} for layers the caller may read',
+      security: secured,
+      parameters: [path('studyId')],
+      responses: { '200': { description: 'text/event-stream', content: { 'text/event-stream': { schema: { type: 'string' } } } }, ...errors(401, 404) },
+    },
+  },
   '/api/texts/{textId}/comparison': {
     get: {
       summary: 'One layer against a reference layer of the same text: missed, extra, other code, other boundary (each with start, end, quote, codeIds), counts per code',
