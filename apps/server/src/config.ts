@@ -24,6 +24,8 @@ export interface ServerConfig {
   signInMaxFailures: number;
   signInWindowMs: number;
   pingIntervalMs: number;
+  /** Open sync connections are all re-checked this often (0: only on changes and session expiry). */
+  accessRecheckMs: number;
 }
 
 const LOG_LEVELS: LogLevel[] = ['debug', 'info', 'warn', 'error', 'silent'];
@@ -78,5 +80,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
     signInMaxFailures: int(env, 'SIGNIN_MAX_FAILURES', 5, 1),
     signInWindowMs: int(env, 'SIGNIN_WINDOW_SECONDS', 15 * 60, 1) * 1000,
     pingIntervalMs: int(env, 'PING_INTERVAL_MS', 30_000, 100),
+    accessRecheckMs: int(env, 'ACCESS_RECHECK_SECONDS', 60, 0) * 1000,
   };
 }

@@ -18,7 +18,7 @@ import { createLogger, type Logger } from './logger.js';
 import { createRedisRelay, noRelay } from './relay/index.js';
 import { createProjector, scheduleCatchUp, withProjection } from './projection/index.js';
 import { createPgUpdateStore } from './store/index.js';
-import { attachSync } from './sync/index.js';
+import { attachSync, createLiveAccess } from './sync/index.js';
 import type { Relay } from './sync/contracts.js';
 
 export interface RunningServer {
@@ -53,6 +53,12 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     cleanups.push(() => store.close());
 
     const firstRun = createFirstRun(database.db);
+    const authorizer = createRoomAuthorizer({ db: database.db, sessions, publicUrl: config.publicUrl });
+    // Before the app: routes that change members, roles or sessions re-check open connections through it.
+    const liveAccess = createLiveAccess({ authorizer, relay, logger, sweepMs: config.accessRecheckMs });
+    await liveAccess.start();
+    cleanups.push(() => liveAccess.close());
+
     let syncStats: () => Record<string, unknown> = () => ({});
     const app = buildApp(
       {
@@ -60,6 +66,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
         dbKind: database.kind,
         store,
         sessions,
+        liveAccess,
         signInLimiter: createRateLimiter(config.signInMaxFailures, config.signInWindowMs),
         config,
         commentEvents: createCommentEvents(relay, (err) => logger.warn({ err }, 'unreadable comment event from the relay')),
@@ -77,9 +84,10 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     cleanups.push(() => closeHttp(server));
 
     const sync = attachSync(server, {
-      authorizer: createRoomAuthorizer({ db: database.db, sessions, publicUrl: config.publicUrl }),
+      authorizer,
       store,
       relay,
+      liveAccess,
       maxMessageBytes: config.maxMessageBytes,
       pingIntervalMs: config.pingIntervalMs,
       logger,

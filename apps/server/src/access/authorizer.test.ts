@@ -8,11 +8,12 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { auditLog, eq, type Database } from '@gloss/db';
 import { openTestDatabase } from '../../../../test/support/database.js';
 import { seedBasic, type BasicSeed, type Person } from '../../../../test/support/seed.js';
+import { addMember, removeMember } from '../admin/studies.js';
 import { ensureLayer } from '../admin/texts.js';
 import { createSessionService, type SessionService } from '../auth/sessions.js';
 import { HttpError } from '../errors.js';
 import type { RoomAuthorizer } from '../sync/contracts.js';
-import { createRoomAuthorizer } from './authorizer.js';
+import { createRoomAuthorizer, LOST_ACCESS } from './authorizer.js';
 
 const HOST = 'gloss.test:8080';
 const req = (headers: Record<string, string>) => ({ headers: { host: HOST, ...headers } }) as unknown as IncomingMessage;
@@ -88,5 +89,47 @@ describe('room authorizer', () => {
     const added = after.filter((a) => !before.some((b) => b.id === a.id));
     expect(added.map((a) => a.userId)).toEqual([seed.users.lead.id]);
     expect(added[0]!.detail).toMatchObject({ coderId: seed.users.coder.id, textId: seed.textId });
+  });
+
+  it('keys the room by the stored (lower-case) document id, whatever the URL spelled', async () => {
+    const g = await grant('coder', seed.textRoom.toUpperCase());
+    expect(g.room).toBe(seed.textRoom);
+    expect(g.docId).toBe(seed.textRoom);
+    expect(g.studyId).toBe(seed.studyId);
+  });
+
+  it('re-checks an open grant from its session: role change narrows, removal and sign-out revoke', async () => {
+    const own = await grant('coder', coderLayer);
+    const memos = await grant('coder', seed.memosRoom);
+    expect(await authorizer.recheck(own)).toEqual({ ok: true, grant: own });
+
+    await addMember(database.db, seed.studyId, seed.users.coder.id, 'observer');
+    const narrowed = await authorizer.recheck(own);
+    expect(narrowed).toMatchObject({ ok: true, grant: { role: 'observer', canWrite: false, room: coderLayer } });
+    expect(await authorizer.recheck(memos)).toMatchObject({ ok: true, grant: { canWrite: false } });
+
+    await removeMember(database.db, seed.studyId, seed.users.coder.id);
+    expect(await authorizer.recheck(own)).toEqual({ ok: false, reason: LOST_ACCESS.notMember });
+    await addMember(database.db, seed.studyId, seed.users.coder.id, 'coder');
+    expect(await authorizer.recheck(own)).toMatchObject({ ok: true, grant: { role: 'coder', canWrite: true } });
+
+    await sessions.invalidate(cookie.coder!.slice('gloss_session='.length));
+    expect(await authorizer.recheck(own)).toEqual({ ok: false, reason: LOST_ACCESS.signedOut });
+    cookie.coder = `gloss_session=${(await sessions.create(seed.users.coder.id)).token}`;
+  });
+
+  it('says "expired" for a session past its expiry', async () => {
+    let now = Date.UTC(2031, 0, 1);
+    const clocked = createSessionService(database.db, 60_000, () => now);
+    const short = createRoomAuthorizer({ db: database.db, sessions: clocked, publicUrl: undefined, now: () => now });
+    const { token } = await clocked.create(seed.users.trainee.id);
+    const g = await short.authorize(req({ origin: `http://${HOST}`, cookie: `gloss_session=${token}` }), seed.textRoom);
+    expect(g.sessionExpiresAt.getTime()).toBe(now + 60_000);
+    now += 60_000;
+    expect(await short.recheck(g)).toEqual({ ok: false, reason: LOST_ACCESS.expired });
+  });
+
+  it('keeps every plain reason within a WebSocket close frame (123 bytes, RFC 6455 §5.5)', () => {
+    for (const reason of Object.values(LOST_ACCESS)) expect(new TextEncoder().encode(reason).length).toBeLessThanOrEqual(123);
   });
 });

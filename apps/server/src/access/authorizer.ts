@@ -2,15 +2,17 @@
  * RoomAuthorizer for the sync endpoint: at the WebSocket upgrade, check the Origin, the session
  * cookie, the room (a documents-table id) and the caller's role in the room's study.
  * Errors: 403 bad origin, 401 no valid session, 404 unknown room, 403 not a member / may not read.
+ * `recheck` runs the same decision for an open connection (live access: a member removed, a role
+ * changed, a session ended), from its session id instead of the HTTP request.
  */
 import type { IncomingMessage } from 'node:http';
 import type { Db } from '@gloss/db';
 import { isAllowedOrigin } from '../auth/origin.js';
 import { readSessionToken } from '../auth/cookies.js';
-import type { SessionService } from '../auth/sessions.js';
+import type { SessionService, ValidSession } from '../auth/sessions.js';
 import { recordAudit } from '../admin/audit.js';
 import { HttpError, forbidden, notFound, unauthenticated } from '../errors.js';
-import type { RoomAuthorizer, RoomGrant } from '../sync/contracts.js';
+import type { Recheck, RoomAuthorizer, RoomGrant } from '../sync/contracts.js';
 import { findDocument, roleIn } from './membership.js';
 import { roomAccess } from './policy.js';
 
@@ -18,9 +20,51 @@ export interface AuthorizerDeps {
   db: Db;
   sessions: SessionService;
   publicUrl: string | undefined;
+  now?: () => number;
 }
 
-export function createRoomAuthorizer({ db, sessions, publicUrl }: AuthorizerDeps): RoomAuthorizer {
+/** Plain words for a connection closed by a re-check (WebSocket close reasons: at most 123 bytes). */
+export const LOST_ACCESS = {
+  signedOut: 'You were signed out. Sign in again to continue.',
+  expired: 'Your session expired. Sign in again to continue.',
+  notMember: 'You are no longer a member of this study.',
+  mayNotRead: 'Your role in this study no longer lets you open this document.',
+  gone: 'This document no longer exists.',
+} as const;
+
+/** `viewed`: someone else's layer (its coder and text), for the access log. */
+type Decision =
+  | { ok: true; grant: RoomGrant; viewed: { coderId: string | null; textId: string | null } | null }
+  | { ok: false; status: 403 | 404; reason: string };
+
+export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }: AuthorizerDeps): RoomAuthorizer {
+  /** The one rule: may this signed-in person open this room now, and may they write? */
+  async function decide(session: ValidSession, room: string): Promise<Decision> {
+    const doc = await findDocument(db, room);
+    if (!doc) return { ok: false, status: 404, reason: LOST_ACCESS.gone };
+    const role = await roleIn(db, doc.studyId, session.user.id);
+    if (!role) return { ok: false, status: 403, reason: LOST_ACCESS.notMember };
+    const access = roomAccess(role, doc, session.user.id);
+    if (!access.read) return { ok: false, status: 403, reason: LOST_ACCESS.mayNotRead };
+    return {
+      ok: true,
+      viewed: doc.kind === 'layer' && doc.coderId !== session.user.id ? { coderId: doc.coderId, textId: doc.textId } : null,
+      grant: {
+        // The stored id, not the URL's spelling: `/sync/<UPPER-CASE-ID>` joins the same room.
+        room: doc.id,
+        docId: doc.id,
+        studyId: doc.studyId,
+        kind: doc.kind,
+        userId: session.user.id,
+        userName: session.user.name,
+        sessionId: session.sessionId,
+        sessionExpiresAt: session.expiresAt,
+        role,
+        canWrite: access.write,
+      },
+    };
+  }
+
   return {
     async authorize(req: IncomingMessage, room: string): Promise<RoomGrant> {
       const header = (name: string) => {
@@ -34,32 +78,27 @@ export function createRoomAuthorizer({ db, sessions, publicUrl }: AuthorizerDeps
       const session = token ? await sessions.validate(token, { extend: false }) : null;
       if (!session) throw unauthenticated();
 
-      const doc = await findDocument(db, room);
-      if (!doc) throw notFound('Room');
-      const role = await roleIn(db, doc.studyId, session.user.id);
-      if (!role) throw forbidden('You are not a member of this study.');
-      const access = roomAccess(role, doc, session.user.id);
-      if (!access.read) throw forbidden();
-
-      if (doc.kind === 'layer' && doc.coderId !== session.user.id) {
-        // Who viewed whose layer is part of the access log (DESIGN §6).
-        await recordAudit(db, {
-          userId: session.user.id,
-          studyId: doc.studyId,
-          action: 'layer.view',
-          target: doc.id,
-          detail: { coderId: doc.coderId, textId: doc.textId },
-        });
+      const decision = await decide(session, room);
+      if (!decision.ok) {
+        if (decision.status === 404) throw notFound('Room');
+        throw forbidden(decision.reason === LOST_ACCESS.notMember ? 'You are not a member of this study.' : undefined);
       }
-      return {
-        room,
-        docId: doc.id,
-        kind: doc.kind,
-        userId: session.user.id,
-        userName: session.user.name,
-        role,
-        canWrite: access.write,
-      };
+      const { grant } = decision;
+      if (decision.viewed) {
+        // Who viewed whose layer is part of the access log (DESIGN §6).
+        await recordAudit(db, { userId: grant.userId, studyId: grant.studyId, action: 'layer.view', target: grant.docId, detail: decision.viewed });
+      }
+      return grant;
+    },
+
+    async recheck(grant: RoomGrant): Promise<Recheck> {
+      const session = await sessions.check(grant.sessionId);
+      if (!session) {
+        const expired = now() >= grant.sessionExpiresAt.getTime();
+        return { ok: false, reason: expired ? LOST_ACCESS.expired : LOST_ACCESS.signedOut };
+      }
+      const decision = await decide(session, grant.docId);
+      return decision.ok ? { ok: true, grant: decision.grant } : { ok: false, reason: decision.reason };
     },
   };
 }

@@ -63,4 +63,17 @@ describe('sessions (PGlite)', () => {
     expect(await service.validate(token)).toBeNull();
     expect(await service.validate("'; drop table users; --")).toBeNull();
   });
+
+  it('checks a session by its id without extending it, and not after it expired', async () => {
+    let now = Date.UTC(2032, 0, 1);
+    const service = createSessionService(database.db, 10 * DAY, () => now);
+    const { token, expiresAt } = await service.create(userId);
+    now += 9 * DAY; // past half-life: validate() would slide it, check() must not
+    const checked = await service.check(sessionIdFromToken(token));
+    expect(checked).toMatchObject({ sessionId: sessionIdFromToken(token), renewed: false, user: { id: userId } });
+    expect(checked?.expiresAt.getTime()).toBe(expiresAt.getTime());
+    now += DAY;
+    expect(await service.check(sessionIdFromToken(token))).toBeNull();
+    expect(await service.check('not-a-session')).toBeNull();
+  });
 });

@@ -28,12 +28,39 @@ export interface SessionService {
    * cookie and the stored expiry stay in step.
    */
   validate(token: string, options?: { extend?: boolean }): Promise<ValidSession | null>;
+  /**
+   * The session with this id (the token's SHA-256), or null when it was signed out, invalidated or
+   * has expired. Never extends: for re-checking open sync connections, which know only the id.
+   */
+  check(sessionId: string): Promise<ValidSession | null>;
   invalidate(token: string): Promise<void>;
   invalidateAllFor(userId: string): Promise<void>;
   deleteExpired(): Promise<number>;
 }
 
 export function createSessionService(db: Db, sessionMs: number, now: () => number = Date.now): SessionService {
+  async function lookup(sessionId: string, extend: boolean): Promise<ValidSession | null> {
+    const [row] = await db
+      .select({ expiresAt: sessions.expiresAt, id: users.id, email: users.email, name: users.name })
+      .from(sessions)
+      .innerJoin(users, eq(users.id, sessions.userId))
+      .where(eq(sessions.id, sessionId));
+    if (!row) return null;
+    const t = now();
+    if (t >= row.expiresAt.getTime()) {
+      await db.delete(sessions).where(eq(sessions.id, sessionId));
+      return null;
+    }
+    let expiresAt = row.expiresAt;
+    let renewed = false;
+    if (extend && t >= expiresAt.getTime() - sessionMs / 2) {
+      expiresAt = new Date(t + sessionMs);
+      renewed = true;
+      await db.update(sessions).set({ expiresAt }).where(eq(sessions.id, sessionId));
+    }
+    return { sessionId, user: { id: row.id, email: row.email, name: row.name }, expiresAt, renewed };
+  }
+
   return {
     async create(userId) {
       const token = generateSessionToken();
@@ -44,26 +71,11 @@ export function createSessionService(db: Db, sessionMs: number, now: () => numbe
 
     async validate(token, { extend = true } = {}) {
       if (!looksLikeToken(token)) return null;
-      const sessionId = sessionIdFromToken(token);
-      const [row] = await db
-        .select({ expiresAt: sessions.expiresAt, id: users.id, email: users.email, name: users.name })
-        .from(sessions)
-        .innerJoin(users, eq(users.id, sessions.userId))
-        .where(eq(sessions.id, sessionId));
-      if (!row) return null;
-      const t = now();
-      if (t >= row.expiresAt.getTime()) {
-        await db.delete(sessions).where(eq(sessions.id, sessionId));
-        return null;
-      }
-      let expiresAt = row.expiresAt;
-      let renewed = false;
-      if (extend && t >= expiresAt.getTime() - sessionMs / 2) {
-        expiresAt = new Date(t + sessionMs);
-        renewed = true;
-        await db.update(sessions).set({ expiresAt }).where(eq(sessions.id, sessionId));
-      }
-      return { sessionId, user: { id: row.id, email: row.email, name: row.name }, expiresAt, renewed };
+      return lookup(sessionIdFromToken(token), extend);
+    },
+
+    check(sessionId) {
+      return lookup(sessionId, false);
     },
 
     async invalidate(token) {

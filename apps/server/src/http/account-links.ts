@@ -17,7 +17,6 @@ import { createUser, findUserByEmail, setPassword } from '../admin/users.js';
 import { spendVerifyTime, verifyPassword } from '../auth/passwords.js';
 import { HttpError } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
-import { accessChanged } from './live.js';
 import { clientAddress } from './middleware.js';
 import { beginSession } from './session.js';
 import { readJson } from './validate.js';
@@ -92,7 +91,7 @@ export function accountLinkRoutes(deps: AppDeps) {
       await recordAudit(t, { userId: link.userId, studyId: link.studyId, action: 'account.reset', target: link.userId });
     });
     // Every session of the account ended: its open connections close at once.
-    await accessChanged(deps, { userId: link.userId! });
+    await deps.liveAccess.changed({ userId: link.userId! });
     return c.body(null, 204);
   });
 
@@ -109,5 +108,5 @@ export async function changeOwnPassword(deps: AppDeps, userId: string, sessionId
   }
   await setPassword(deps.db, userId, body.newPassword, sessionId);
   await recordAudit(deps.db, { userId, studyId: null, action: 'account.password', target: userId });
-  await accessChanged(deps, { userId });
+  await deps.liveAccess.changed({ userId });
 }

@@ -6,6 +6,7 @@ import type { SessionService, ValidSession } from '../auth/sessions.js';
 import type { ServerConfig } from '../config.js';
 import type { CommentEvents } from '../comments/events.js';
 import type { UpdateStore } from '../sync/contracts.js';
+import type { LiveAccess } from '../sync/live-access.js';
 
 export interface AppDeps {
   db: Db;
@@ -14,6 +15,11 @@ export interface AppDeps {
   store?: Pick<UpdateStore, 'load'>;
   sessions: SessionService;
   signInLimiter: RateLimiter;
+  /**
+   * Call after changing anything access is decided from (membership, role, session, a round's phase):
+   * open sync connections on every node are re-checked and closed or downgraded if they lost a right.
+   */
+  liveAccess: LiveAccess;
   config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist'>;
   /** Live comment events across nodes; absent in bare app tests. */
   commentEvents?: CommentEvents;

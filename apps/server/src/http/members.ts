@@ -41,6 +41,7 @@ export function memberRoutes(deps: AppDeps) {
     const current = await roleIn(deps.db, studyId, user.id);
     if (current && !canAssignRole(actor, current)) throw forbidden('Only an owner may change an owner’s role.');
     await addMember(deps.db, studyId, user.id, body.role, c.get('session').user.id);
+    if (current) await deps.liveAccess.changed({ studyId, userId: user.id });
     return c.json({ userId: user.id, name: user.name, email: user.email, role: body.role }, current ? 200 : 201);
   });
 
@@ -52,6 +53,8 @@ export function memberRoutes(deps: AppDeps) {
     if (!current) throw notFound('Member');
     if (!canAssignRole(actor, current) || !canAssignRole(actor, body.role)) throw forbidden('Only an owner may grant or take away the owner role.');
     await addMember(deps.db, studyId, userId, body.role, c.get('session').user.id);
+    // Their open connections follow the new role at once (a coder made observer can no longer write).
+    await deps.liveAccess.changed({ studyId, userId });
     const [row] = await list(studyId).then((all) => all.filter((m) => m.userId === userId));
     return c.json(row);
   });
@@ -72,6 +75,8 @@ export function memberRoutes(deps: AppDeps) {
     if (!current) throw notFound('Member');
     if (!canAssignRole(actor, current)) throw forbidden('Only an owner may remove an owner.');
     await removeMember(deps.db, studyId, userId, c.get('session').user.id);
+    // Their open connections to this study's documents close now, not at their next reconnect.
+    await deps.liveAccess.changed({ studyId, userId });
     return c.body(null, 204);
   });
 

@@ -1,6 +1,7 @@
 /** POST /api/session (sign in), DELETE /api/session (sign out), GET /api/me. */
 import { Hono, type Context } from 'hono';
 import { clearedSessionCookie, readSessionToken, sessionCookie } from '../auth/cookies.js';
+import { sessionIdFromToken } from '../auth/tokens.js';
 import { spendVerifyTime, verifyPassword } from '../auth/passwords.js';
 import { findUserByEmail, normaliseEmail } from '../admin/users.js';
 import { HttpError } from '../errors.js';
@@ -18,7 +19,7 @@ const WRONG = 'Email or password is wrong.';
  */
 export async function beginSession(deps: AppDeps, c: Context<AppEnv>, userId: string): Promise<Date> {
   const previous = readSessionToken(c.req.header('cookie'));
-  if (previous) await deps.sessions.invalidate(previous);
+  if (previous) await endSession(deps, previous);
   const { token, expiresAt } = await deps.sessions.create(userId);
   c.header('Set-Cookie', sessionCookie(token, expiresAt, isSecure(c, deps.config.publicUrl)));
   return expiresAt;
@@ -47,7 +48,7 @@ export function sessionRoutes(deps: AppDeps) {
 
   app.delete('/session', async (c) => {
     const token = readSessionToken(c.req.header('cookie'));
-    if (token) await deps.sessions.invalidate(token);
+    if (token) await endSession(deps, token);
     c.header('Set-Cookie', clearedSessionCookie(isSecure(c, deps.config.publicUrl)));
     return c.body(null, 204);
   });
@@ -65,4 +66,10 @@ export function sessionRoutes(deps: AppDeps) {
   });
 
   return app;
+}
+
+/** Ends a session and closes its open sync connections on every node (the same person's other sessions stay). */
+async function endSession(deps: AppDeps, token: string): Promise<void> {
+  await deps.sessions.invalidate(token);
+  await deps.liveAccess.changed({ sessionId: sessionIdFromToken(token) });
 }

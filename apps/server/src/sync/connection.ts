@@ -26,15 +26,40 @@ export class Connection implements RoomPeer {
 
   constructor(
     readonly ws: WebSocket,
-    readonly grant: RoomGrant,
+    private grantValue: RoomGrant,
     private readonly logger: SyncLogger,
   ) {
+    const grant = grantValue;
     ws.on('message', (data, isBinary) => this.onMessage(data as Buffer, isBinary));
     ws.on('pong', () => {
       this.alive = true;
     });
     // ws closes with 1009 itself for oversized frames and reports it here.
     ws.on('error', (error) => this.logger.warn({ err: error, room: grant.room }, 'websocket error'));
+  }
+
+  /** What this connection may do now; live re-evaluation can narrow (or widen) it while it is open. */
+  get grant(): RoomGrant {
+    return this.grantValue;
+  }
+
+  /**
+   * Applies a re-evaluated grant for the same room. Losing write takes effect at the next message:
+   * its writes are refused at the first bytes like any read-only connection's, and the client is told once now.
+   */
+  regrant(grant: RoomGrant): void {
+    const lostWrite = this.grantValue.canWrite && !grant.canWrite;
+    this.grantValue = grant;
+    if (lostWrite) this.send(encodePermissionDenied('read-only'));
+  }
+
+  /** Closes this connection because it may no longer read its room (1008, a plain reason). */
+  revoke(reason: string): void {
+    if (this.closed) return;
+    this.closed = true;
+    this.backlog = null;
+    this.logger.debug?.({ room: this.grantValue.room, userId: this.grantValue.userId, reason }, 'access revoked; closing');
+    this.ws.close(CloseCode.policyViolation, closeReason(reason));
   }
 
   /** Called once the room has loaded: greet, then handle what queued up meanwhile. */
@@ -62,7 +87,7 @@ export class Connection implements RoomPeer {
   fail(error: SyncError): void {
     if (this.closed) return;
     this.closed = true;
-    this.logger.warn({ code: error.code, room: this.grant.room, userId: this.grant.userId, err: error.cause }, error.message);
+    this.logger.warn({ code: error.code, room: this.grantValue.room, userId: this.grantValue.userId, err: error.cause }, error.message);
     this.ws.close(error.closeCode, error.message.slice(0, 120));
   }
 
@@ -133,4 +158,12 @@ export class Connection implements RoomPeer {
         return; // clients have nothing to say to the server here
     }
   }
+}
+
+/** A WebSocket close reason holds at most 123 bytes of UTF-8 (RFC 6455 §5.5); longer ones are cut at a character. */
+export function closeReason(reason: string): string {
+  const encoder = new TextEncoder();
+  let out = reason;
+  while (encoder.encode(out).length > 123) out = Array.from(out).slice(0, -1).join('');
+  return out;
 }

@@ -9,20 +9,34 @@ export type DocKind = 'text' | 'layer' | 'codebook' | 'memos';
 
 /** What an authenticated connection may do in one room. */
 export interface RoomGrant {
+  /** The canonical room name (the lower-case document id): one Room per document, whatever the URL's casing. */
   room: string;
   /** The documents-table id behind the room. */
   docId: string;
+  /** The study the document belongs to (live re-evaluation finds connections by it). */
+  studyId: string;
   kind: DocKind;
   userId: string;
   userName: string;
+  /** The session the connection was opened with; the connection must not outlive it. */
+  sessionId: string;
+  sessionExpiresAt: Date;
   role: Role;
   /** false: sync-step-2 and update messages are refused at the first bytes. */
   canWrite: boolean;
 }
 
-/** Decides, at the WebSocket upgrade, whether a request may open a room. Throws an HttpError (401/403/404). */
+/** The outcome of re-running the decision for an open connection: its grant now, or why it lost the room. */
+export type Recheck = { ok: true; grant: RoomGrant } | { ok: false; reason: string };
+
+/**
+ * Decides, at the WebSocket upgrade, whether a request may open a room. Throws an HttpError (401/403/404).
+ * `recheck` runs the same decision again for an open connection from what is already known (its
+ * session and user), so the rule lives in one place for both.
+ */
 export interface RoomAuthorizer {
   authorize(req: IncomingMessage, room: string): Promise<RoomGrant>;
+  recheck(grant: RoomGrant): Promise<Recheck>;
 }
 
 /** Durable, append-only storage of Yjs updates per document. */

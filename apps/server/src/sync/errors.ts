@@ -16,6 +16,7 @@ export class SyncError extends Error {
 export const CloseCode = {
   unsupportedData: 1003,
   invalidPayload: 1007,
+  policyViolation: 1008,
   tooBig: 1009,
   internalError: 1011,
   tryAgainLater: 1013,

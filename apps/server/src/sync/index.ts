@@ -8,6 +8,7 @@ import { WebSocketServer, type WebSocket } from 'ws';
 import { Connection } from './connection.js';
 import type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
 import { CloseCode } from './errors.js';
+import type { ConnectionTracker } from './live-access.js';
 import { consoleLogger, type SyncLogger } from './logger.js';
 import { RoomRegistry } from './room-registry.js';
 import type { RoomState } from './room.js';
@@ -24,6 +25,8 @@ export interface SyncOptions {
   /** How often an open room re-reads the log for updates the relay lost (default: 5 s for a lossy relay, else never). */
   catchUpIntervalMs?: number;
   logger?: SyncLogger;
+  /** Follows open connections so access changes reach them (live-access.ts); absent: grants stay as decided at the upgrade. */
+  liveAccess?: ConnectionTracker;
 }
 
 export interface SyncStats {
@@ -65,6 +68,7 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
   async function upgrade(req: IncomingMessage, socket: Duplex, head: Buffer): Promise<void> {
     const room = roomFromUrl(req.url);
     if (room === null || closing) return refuse(socket, room === null ? 404 : 503);
+    const stamp = options.liveAccess?.stamp() ?? 0;
     let grant: RoomGrant;
     try {
       grant = await options.authorizer.authorize(req, room);
@@ -74,22 +78,26 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
       return refuse(socket, status);
     }
     if (socket.destroyed) return;
-    wss.handleUpgrade(req, socket, head, (ws) => void open(ws, grant));
+    wss.handleUpgrade(req, socket, head, (ws) => void open(ws, grant, stamp));
   }
 
-  async function open(ws: WebSocket, grant: RoomGrant): Promise<void> {
+  async function open(ws: WebSocket, grant: RoomGrant, stamp: number): Promise<void> {
     const connection = new Connection(ws, grant, logger);
     connections.add(connection);
+    // Followed from now on, also while the room loads: a revoked connection then never starts.
+    const untrack = options.liveAccess?.track(connection, stamp) ?? (() => {});
     let room;
     try {
       room = await registry.join(grant.room, grant.docId, connection);
     } catch (error) {
       logger.error({ err: error, room: grant.room }, 'room failed to load');
       connections.delete(connection);
+      untrack();
       ws.close(CloseCode.internalError, 'document could not be loaded');
       return;
     }
     const leave = (): void => {
+      untrack();
       connections.delete(connection);
       connection.stop();
       registry.leave(room, connection);
@@ -134,4 +142,5 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
 
 export type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
 export { SyncError, CloseCode } from './errors.js';
+export { createLiveAccess, ACCESS_CHANNEL, type AccessChange, type LiveAccess, type LiveAccessService } from './live-access.js';
 export type { SyncLogger } from './logger.js';
