@@ -48,7 +48,7 @@ describe('live access', () => {
     seed = await seedBasic(database.db);
     sessions = createSessionService(database.db, 86_400_000);
     authorizer = createRoomAuthorizer({ db: database.db, sessions, publicUrl: undefined });
-  });
+  }, 120_000); // a PGlite copy and seeding (argon2 per account) on a loaded machine
   afterAll(async () => {
     for (const s of services) await s.close();
     await database?.close();
@@ -159,7 +159,7 @@ describe.runIf(process.env.REDIS_URL)('live access across two nodes (Redis relay
   beforeAll(async () => {
     database = await openTestDatabase('pglite');
     seed = await seedBasic(database.db);
-  });
+  }, 120_000);
   afterAll(async () => {
     for (const close of closers.reverse()) await close();
     await database?.close();
