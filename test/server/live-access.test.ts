@@ -3,7 +3,7 @@
  * clients with the session cookie. Removing a member closes their open sockets on both nodes
  * (1008 with a plain reason); a coder made observer keeps reading but their writes are refused and
  * never stored; signing out closes that session's sockets and not the same person's other session;
- * a socket does not outlive its session; `/sync/<UPPER-CASE-ID>` joins the same room.
+ * a password change closes the other sessions' sockets; a socket does not outlive its session; `/sync/<UPPER-CASE-ID>` joins the same room.
  * Expected behaviour: issue 8 item 6, DESIGN §6 (Access, Several nodes); close code 1008 is
  * "policy violation" in RFC 6455 §7.4.1.
  * The two-node part runs when DATABASE_URL and REDIS_URL are set; the one-node part always (PGlite).
@@ -193,6 +193,23 @@ describe('live access on one node (PGlite, no relay)', () => {
     );
     const health = await apiClient(server.url).call<{ sync: { rooms: number } }>('GET', '/api/health');
     expect(health.body.sync.rooms).toBe(1);
+  }, 60_000);
+
+  it('a password change closes the account’s other sessions’ sockets and keeps the one that changed it', async () => {
+    const seed = server.seeded;
+    const elsewhere = await signIn(server.url, PEOPLE.coder.email, PASSWORD);
+    const here = await signIn(server.url, PEOPLE.coder.email, PASSWORD);
+    const other = connect(server, elsewhere, seed.memosRoom);
+    const own = connect(server, here, seed.memosRoom);
+    await synced(other, own);
+    const changed = await apiClient(server.url, here).call('PUT', '/api/me/password', { currentPassword: PASSWORD, newPassword: 'a-new-password-for-rua' });
+    expect(changed.status).toBe(204);
+    await closedFor(other, 'the other session’s socket closes');
+    expect(other.closes[0]).toEqual({ code: POLICY_VIOLATION, reason: LOST_ACCESS.signedOut });
+    own.doc.getMap('probe').set('after-password-change', 1);
+    const reader = connect(server, await signIn(server.url, PEOPLE.lead.email, PASSWORD), seed.memosRoom);
+    await waitFor(() => reader.doc.getMap('probe').get('after-password-change') === 1, 'the session that changed it still writes');
+    expect(own.closes).toEqual([]);
   }, 60_000);
 
   it('closes a socket when its session expires', async () => {
