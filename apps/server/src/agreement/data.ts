@@ -2,14 +2,14 @@
  * Reliability data (coders x units) for the coefficients the study report does not carry (Cohen's
  * kappa over all codes, Fleiss' kappa, Scott's pi, percent agreement), built with packages/agreement's
  * adapters: each (text, code, unit) column holds 1 when the coder applied the code there, 0 when not
- * (any shared character; adapters.ts), and is missing (null) for a coder with no layer on that text.
+ * (any shared character; adapters.ts), and is missing (null) for a coder not counted on that text (coders.ts).
  */
 import { characterData, fixedUnitData, type Cell, type CodedText } from '@gloss/agreement';
 
 /** A text as the server hands it to agreement: the package's CodedText plus its words (for quotes). */
 export interface TextInput extends CodedText {
   text: string;
-  /** Those with a layer on the text (a layer with no segments still counts: every code absent). */
+  /** Those counted as coders of this text (agreement/coders.ts); a counted coder with no segment there has every code absent. */
   coders: string[];
 }
 

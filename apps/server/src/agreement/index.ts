@@ -4,3 +4,4 @@ export { STATISTICS, coefficient, type Coefficient, type Statistic } from './sta
 export { unitizingOver } from './unitizing.js';
 export { agreementReport, type ServerReport, type ReportInput } from './report.js';
 export { differences, type Difference } from './differences.js';
+export { decideCoders, countedOn, LEFT_OUT_MESSAGES, type CoderChoice, type CoderDecision, type CoderRule, type LayerCount, type LeftOut, type LeftOutReason, type TextCoders, type TextLayers } from './coders.js';

@@ -1,6 +1,8 @@
 /**
  * GET /api/studies/:studyId/agreement — intercoder agreement over the current state of the layers.
- * Query: texts=<ids> (default all), coders=<user ids> (default everyone with a layer on them),
+ * Query: texts=<ids> (default all), coders=<user ids> (default: on each text, whoever applied at least
+ * one code there; agreement/coders.ts decides, and the answer lists per text who was counted and who
+ * was left out and why),
  * unit=turn|paragraph|sentence|character|span (default turn), statistic=krippendorff-alpha|cohen-kappa|
  * scott-pi|fleiss-kappa|percent-agreement (default krippendorff-alpha; span always unitizing alpha),
  * codes=<ids> (default every code applied), bootstrap=<replicates> and seed=<n> (alpha only).
@@ -17,6 +19,7 @@ import type * as Y from 'yjs';
 import { z } from 'zod';
 import { recordAudit } from '../admin/audit.js';
 import { agreementReport } from '../agreement/report.js';
+import { countedOn, decideCoders } from '../agreement/coders.js';
 import { differences } from '../agreement/differences.js';
 import { STATISTICS } from '../agreement/statistics.js';
 import { UNIT_KINDS, fixedUnits } from '../agreement/units.js';
@@ -43,7 +46,7 @@ const idList = (what: string) =>
 
 export const AgreementQuery = z.object({
   texts: idList('text ids, comma-separated'),
-  coders: idList('coder user ids, comma-separated'),
+  coders: idList('coder user ids, comma-separated; default: on each text, whoever applied at least one code there (an opened, empty layer counts nowhere). A listed person is counted on every text where they have a layer, even with no codes'),
   codes: idList('code ids, comma-separated'),
   unit: z.enum(UNIT_KINDS).default('turn'),
   statistic: z.enum(STATISTICS).default('krippendorff-alpha'),
@@ -81,19 +84,29 @@ export function agreementRoutes(deps: AppDeps) {
     const docs = textRows.length
       ? await deps.db.select().from(documents).where(inArray(documents.textId, textRows.map((t) => t.id)))
       : [];
-    const layerDocs = docs.filter((d) => d.kind === 'layer' && (!q.coders || q.coders.includes(d.coderId!)));
-    const coderIds = q.coders ?? [...new Set(layerDocs.map((d) => d.coderId!))];
-    const names = await coderNames(deps.db, coderIds);
-    if (!q.coders) coderIds.sort((a, b) => (names.get(a) ?? '').localeCompare(names.get(b) ?? '') || (a < b ? -1 : 1));
+    // Every layer on these texts is read: who counts is decided from what each layer holds (coders.ts).
+    const layerDocs = docs.filter((d) => d.kind === 'layer');
+    let coderIds: string[] = [];
 
     const cbId = await codebookDocId(deps.db, studyId);
     const textDocIds = textRows.map((t) => docs.find((d) => d.kind === 'text' && d.textId === t.id)!.id);
     const ids = [...textDocIds, ...layerDocs.map((d) => d.id), ...(cbId ? [cbId] : [])];
     const reflexive = study.mode === 'reflexive';
 
-    const body = await withDocs(store, ids, (loaded) => {
+    const body = await withDocs(store, ids, async (loaded) => {
       const textYs = loaded.slice(0, textRows.length);
-      const layerYs = loaded.slice(textRows.length, textRows.length + layerDocs.length);
+      const layerSegments = loaded.slice(textRows.length, textRows.length + layerDocs.length).map((y) => listSegments(y));
+      const decision = decideCoders(
+        textRows.map((t) => ({
+          textId: t.id,
+          layers: layerDocs.flatMap((d, j) => (d.textId === t.id ? [{ coderId: d.coderId!, segments: layerSegments[j]!.length }] : [])),
+        })),
+        { coders: q.coders },
+      );
+      coderIds = decision.coders;
+      const names = await coderNames(deps.db, [...new Set([...coderIds, ...decision.perText.flatMap((t) => t.leftOut.map((l) => l.coderId))])]);
+      if (!q.coders) coderIds.sort((a, b) => (names.get(a) ?? '').localeCompare(names.get(b) ?? '') || (a < b ? -1 : 1));
+      const person = (id: string) => ({ id, name: names.get(id) ?? '' });
       const cb: Y.Doc | undefined = cbId ? loaded[loaded.length - 1] : undefined;
       const effective = (codeId: string) => (cb ? effectiveCodeId(cb, codeId) : codeId);
       const unitKind = q.unit === 'span' || q.unit === 'character' ? 'turn' : q.unit;
@@ -101,18 +114,17 @@ export function agreementRoutes(deps: AppDeps) {
         const textDoc = textYs[i]!;
         const text = readText(textDoc);
         const turns = readTurns(textDoc);
-        const coders: string[] = [];
+        const counted = countedOn(decision, t.id);
         const segments: TextInput['segments'][number][] = [];
         layerDocs.forEach((d, j) => {
-          if (d.textId !== t.id) return;
-          coders.push(d.coderId!);
-          for (const s of resolveSegments(textDoc, listSegments(layerYs[j]!), turns)) {
+          if (d.textId !== t.id || !counted.includes(d.coderId!)) return;
+          for (const s of resolveSegments(textDoc, layerSegments[j]!, turns)) {
             // Collapsed (orphaned) segments cover no text; unresolved ones cannot be placed.
             if (s.unresolved || s.end <= s.start) continue;
             segments.push({ coderId: d.coderId!, codeId: effective(s.codeId), start: s.start, end: s.end });
           }
         });
-        const own = coderIds.filter((c) => coders.includes(c));
+        const own = coderIds.filter((c) => counted.includes(c));
         // Units: the asked-for fixed units; speaker turns for showing differences at character or span level.
         return { textId: t.id, textLength: text.length, text, units: fixedUnits(unitKind, text, turns), coders: own, segments };
       });
@@ -123,7 +135,13 @@ export function agreementRoutes(deps: AppDeps) {
         studyId,
         mode: study.mode,
         unit: q.unit,
-        coders: coderIds.map((id) => ({ id, name: names.get(id) ?? '' })),
+        coders: coderIds.map(person),
+        coderRule: { rule: decision.rule, description: decision.description },
+        textCoders: decision.perText.map((pt) => ({
+          textId: pt.textId,
+          counted: pt.counted.map(person),
+          leftOut: pt.leftOut.map((l) => ({ ...person(l.coderId), reason: l.reason, message: l.message })),
+        })),
         texts: textRows,
         codes: codes.map((id) => ({ id, label: labels.get(id) ?? '' })),
       };
@@ -148,7 +166,7 @@ export function agreementRoutes(deps: AppDeps) {
         method:
           q.unit === 'span'
             ? "Krippendorff's unitizing alpha (1995/2004) over the coders' segments, overlaps within one coder and code merged; texts laid end to end."
-            : `Each (text, code, ${q.unit}) is a unit valued 1 when the coder applied the code to it (any shared character), 0 otherwise; a coder without a layer on a text is missing there. Nominal level.`,
+            : `Each (text, code, ${q.unit}) is a unit valued 1 when the coder applied the code to it (any shared character), 0 otherwise; a coder not counted on a text (textCoders says who and why) is missing there. Nominal level.`,
         ...report,
       };
     }).catch((err: unknown) => {

@@ -71,6 +71,61 @@ const comparisonEntry = {
     endShiftWords: { type: 'integer' },
   },
 };
+const person = { type: 'object', required: ['id', 'name'], properties: { id: { type: 'string', format: 'uuid' }, name: { type: 'string' } } };
+/** The report's fields about who was compared (agreement/coders.ts); the figures' blocks are described in prose. */
+const agreementReport = {
+  type: 'object',
+  required: ['studyId', 'mode', 'unit', 'coders', 'coderRule', 'textCoders', 'texts', 'codes'],
+  properties: {
+    studyId: { type: 'string', format: 'uuid' },
+    mode: { type: 'string' },
+    unit: { type: 'string' },
+    coders: { type: 'array', items: person, description: 'Everyone compared: the coders= list, else whoever is counted on at least one text' },
+    coderRule: {
+      type: 'object',
+      required: ['rule', 'description'],
+      properties: {
+        rule: { type: 'string', enum: ['listed', 'participants', 'applied-codes'], description: 'applied-codes (default): on each text, whoever applied at least one code there; listed: the coders= list' },
+        description: { type: 'string' },
+      },
+    },
+    textCoders: {
+      type: 'array',
+      description: 'Per text, who was counted as a coder and who was left out and why',
+      items: {
+        type: 'object',
+        required: ['textId', 'counted', 'leftOut'],
+        properties: {
+          textId: { type: 'string', format: 'uuid' },
+          counted: { type: 'array', items: person },
+          leftOut: {
+            type: 'array',
+            items: {
+              type: 'object',
+              required: ['id', 'name', 'reason', 'message'],
+              properties: {
+                id: { type: 'string', format: 'uuid' },
+                name: { type: 'string' },
+                reason: { type: 'string', enum: ['no-codes', 'not-listed', 'not-participant', 'no-layer'] },
+                message: { type: 'string', description: 'In plain words, e.g. "not counted: no codes applied"' },
+              },
+            },
+          },
+        },
+      },
+    },
+    texts: { type: 'array', items: { type: 'object', properties: { id: { type: 'string' }, title: { type: 'string' } } } },
+    codes: { type: 'array', items: { type: 'object', properties: { id: { type: 'string' }, label: { type: 'string' } } } },
+    statistic: { type: 'string' },
+    method: { type: 'string' },
+    pooled: { type: 'object' },
+    perCode: { type: 'array', items: { type: 'object' } },
+    perText: { type: 'array', items: { type: 'object' } },
+    perCoderPair: { type: 'array', items: { type: 'object' } },
+    coefficients: { type: 'null', description: 'Reflexive mode only' },
+    differences: { type: 'array', items: { type: 'object' }, description: 'Reflexive mode only' },
+  },
+};
 
 export const codingPaths = {
   '/api/texts/{textId}/comments': {
@@ -193,7 +248,7 @@ export const codingPaths = {
       summary: 'Intercoder agreement (pooled, per code, per text, per coder pair); owner, lead, observer; reflexive studies get differences instead. Audited',
       security: secured,
       parameters: [path('studyId'), ...agreementParams],
-      responses: { '200': { description: 'The report' }, ...errors(400, 401, 403, 404) },
+      responses: { '200': { description: 'The report', ...json(agreementReport) }, ...errors(400, 401, 403, 404) },
     },
   },
 };

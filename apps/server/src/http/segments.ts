@@ -8,6 +8,7 @@ import { computeFlags, createCodebookDoc, readTurns, resolveSegments, listSegmen
 import { Hono } from 'hono';
 import type * as Y from 'yjs';
 import { recordAudit } from '../admin/audit.js';
+import { countedOn, decideCoders, type CoderChoice } from '../agreement/coders.js';
 import { HttpError } from '../errors.js';
 import { withDocs, type DocLoader } from '../projection/load-doc.js';
 import type { AppDeps, AppEnv } from './context.js';
@@ -30,10 +31,16 @@ export function requireStore(deps: AppDeps): DocLoader {
   return deps.store;
 }
 
-/** Pure: resolved segments of the given layers plus each segment's flag kinds. */
-export function segmentsWithFlags(textDoc: Y.Doc, codebook: Y.Doc, layers: Array<VisibleLayer & { doc: Y.Doc }>): SegmentOut[] {
+/**
+ * Pure: resolved segments of the given layers plus each segment's flag kinds. The flags are computed
+ * over the layers of those counted as coders of the text (agreement/coders.ts: by default whoever
+ * applied a code; a round passes its participants), the same rule the agreement report uses.
+ */
+export function segmentsWithFlags(textDoc: Y.Doc, codebook: Y.Doc, layers: Array<VisibleLayer & { doc: Y.Doc }>, choice: CoderChoice = {}): SegmentOut[] {
   const turns = readTurns(textDoc);
-  const flags = computeFlags({ textDoc, codebook, layers: layers.map((l) => ({ layerId: l.layerDocId, coder: l.coderId, doc: l.doc })) });
+  const counted = countedOn(decideCoders([{ textId: '', layers: layers.map((l) => ({ coderId: l.coderId, segments: listSegments(l.doc).length })) }], choice), '');
+  const flagged = layers.filter((l) => counted.includes(l.coderId));
+  const flags = computeFlags({ textDoc, codebook, layers: flagged.map((l) => ({ layerId: l.layerDocId, coder: l.coderId, doc: l.doc })) });
   const kinds = new Map<string, Set<string>>();
   for (const f of flags) {
     for (const ref of f.segments) {
