@@ -20,6 +20,7 @@ import {
 import { ensureLayer } from '../../apps/server/src/admin/texts.js';
 import { dbKinds, spawnServer, type SpawnedServer } from '../support/server.js';
 import { appendUpdate, clientFor, loadStoredDoc, seedCoding, type CodingSeed } from './support.js';
+import { npmAlpha, ratingMatrix, turnUnits, type RecomputeText, type ServedSegment } from './recompute.js';
 
 type Who = 'coder' | 'coder2' | 'trainee';
 /** [person, text, code, words] — each segment covers the first occurrence of the words. */
@@ -73,6 +74,8 @@ interface Report {
   mode: string;
   statistic?: string;
   coders: Array<{ id: string; name: string }>;
+  coderRule?: { rule: string };
+  textCoders?: Array<{ textId: string; counted: Array<{ id: string }>; leftOut: Array<{ id: string; reason: string; message: string }> }>;
   codes: Array<{ id: string; label: string }>;
   pooled?: Result;
   perCode?: Array<{ codeId: string; result: Result }>;
@@ -197,6 +200,50 @@ describe.each(dbKinds())('agreement endpoint on %s', (db) => {
     expect(res.body.perCode!.find((p) => p.codeId === s.codes.tools)!.result.value).toBeCloseTo(tools.value!, 12);
     // One text: the pooled figure is the package's per-text unitizing alpha over all codes.
     expect(res.body.pooled!.value).toBeCloseTo(direct.perText[0]!.unitizing!.value!, 12);
+  }, 60_000);
+
+  it('by default the coders of a text are those who applied a code there, whoever opened it: the report equals the npm krippendorff package on the served segments (three coders on one text, two on the other)', async () => {
+    const s = server.seeded;
+    // The lead and the owner open both texts (each gets an empty layer); nobody codes anything new.
+    for (const who of ['lead', 'owner'] as const) {
+      const c = await clientFor(server.url, who);
+      for (const t of [s.codingTextId, s.textId]) expect((await c.call('GET', `/api/texts/${t}`)).status).toBe(200);
+    }
+    const observer = await clientFor(server.url, 'observer');
+    const res = await observer.call<Report>('GET', query({ texts: `${s.codingTextId},${s.textId}` }));
+    expect(res.status).toBe(200);
+    expect(res.body.coderRule!.rule).toBe('applied-codes');
+    const three = [s.users.coder.id, s.users.coder2.id, s.users.trainee.id];
+    expect(res.body.coders.map((c) => c.id).sort()).toEqual([...three].sort());
+    const [coding, basic] = res.body.textCoders!;
+    expect(coding!.counted.map((c) => c.id).sort()).toEqual([...three].sort());
+    expect(basic!.counted.map((c) => c.id).sort()).toEqual([s.users.coder.id, s.users.coder2.id].sort()); // the trainee never coded it
+    for (const t of [coding!, basic!]) {
+      expect(t.leftOut.map((l) => [l.id, l.message]).sort()).toEqual(
+        [s.users.lead.id, s.users.owner.id].map((id) => [id, 'not counted: no codes applied']).sort(),
+      );
+    }
+
+    // Recomputed from what the API serves: the segments, and the words' speaker turns (one per line).
+    const served = async (textId: string) => (await observer.call<ServedSegment[]>('GET', `/api/texts/${textId}/segments`)).body;
+    const texts: RecomputeText[] = [];
+    for (const [which, textId] of [['coding', s.codingTextId], ['basic', s.textId]] as const) {
+      const segments = await served(textId);
+      const { text, units } = turnUnits(s.words[which].split('\n'));
+      for (const x of segments) expect(text.slice(x.start, x.end)).toBe(x.quote);
+      texts.push({ units, segments, coders: [...new Set(segments.map((x) => x.coderId))] });
+    }
+    const codes = [...new Set(texts.flatMap((t) => t.segments.map((x) => x.codeId)))];
+    const coders = res.body.coders.map((c) => c.id);
+    expect(ratingMatrix(texts, coders, codes).flat().filter((v) => v === undefined)).toHaveLength(codes.length * texts[1]!.units.length); // the trainee on the basic text
+    expect(res.body.pooled!.value).toBeCloseTo(npmAlpha(texts, coders, codes), 10);
+    expect(res.body.perText!.find((p) => p.textId === s.codingTextId)!.result.value).toBeCloseTo(npmAlpha([texts[0]!], coders, codes), 10);
+    expect(res.body.perText!.find((p) => p.textId === s.textId)!.result.value).toBeCloseTo(npmAlpha([texts[1]!], coders, codes), 10);
+    expect(res.body.perCoderPair).toHaveLength(3);
+    for (const p of res.body.perCoderPair!) expect(p.result.value, p.coders.join(' & ')).toBeCloseTo(npmAlpha(texts, p.coders, codes), 10);
+    // And the per-code figure of one code, for good measure.
+    const tools = res.body.perCode!.find((p) => p.codeId === s.codes.tools)!.result.value;
+    expect(tools).toBeCloseTo(npmAlpha(texts, coders, [s.codes.tools]), 10);
   }, 60_000);
 
   it('refuses coders, trainees and outsiders, and bad parameters', async () => {
