@@ -65,6 +65,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
         db: database.db,
         dbKind: database.kind,
         store,
+        projector,
         sessions,
         liveAccess,
         signInLimiter: createRateLimiter(config.signInMaxFailures, config.signInWindowMs),

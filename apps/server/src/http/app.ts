@@ -21,6 +21,7 @@ import { versionRoutes } from './versions.js';
 import { setupRoutes } from './setup.js';
 import { accountLinkRoutes } from './account-links.js';
 import { invitationRoutes } from './invitations.js';
+import { exchangeRoutes, lossesRoutes } from './exchange.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
   const app = new Hono<AppEnv>();
@@ -35,6 +36,8 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/setup', setupRoutes(deps));
   api.route('/', accountLinkRoutes(deps));
   api.route('/studies/:studyId/invitations', invitationRoutes(deps));
+  api.route('/studies', exchangeRoutes(deps));
+  api.route('/exchange', lossesRoutes());
   api.route('/studies', studyRoutes(deps));
   api.route('/studies/:studyId/members', memberRoutes(deps));
   api.route('/studies/:studyId/audit', auditRoutes(deps));

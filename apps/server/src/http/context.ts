@@ -23,6 +23,8 @@ export interface AppDeps {
   config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist'>;
   /** Live comment events across nodes; absent in bare app tests. */
   commentEvents?: CommentEvents;
+  /** Notes documents written outside sync (imports) for the relational projection. */
+  projector?: { notify(docId: string): void };
   /** Extra readiness facts for /api/health (sync stats…). */
   health?: () => Record<string, unknown>;
   /** The first-run claim (set-up code); absent: this server cannot be set up from the browser. */
