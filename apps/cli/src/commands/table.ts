@@ -37,6 +37,20 @@ export const commandTable: Record<string, CommandEntry> = {
       'Bad input exits with status 2 and a JSON error.',
     run: async (argv) => (await import('./agreement.js')).agreementCommand(argv, io),
   },
+  export: {
+    usage: 'gloss export --study ID --format csv|codebook-md|codebook-csv|memos-md|qdc|qdpx [--out FILE]',
+    summary:
+      'Export a study: segments as CSV, the codebook as Markdown or CSV, memos and jottings as Markdown, or the REFI-QDA ' +
+      'codebook (.qdc) or project (.qdpx). Writes to stdout unless --out is given; progress on stderr. Audited. The file is personal data.',
+    run: async (argv) => (await import('./export.js')).exportCommand(argv),
+  },
+  import: {
+    usage: 'gloss import --study ID --format qdc|qdpx FILE [--as EMAIL] | --new-study "Title" --owner EMAIL --format qdc|qdpx FILE',
+    summary:
+      'Import a REFI-QDA codebook (.qdc) or project (.qdpx) into a study, or into a new study owned by EMAIL. All or nothing; ' +
+      'prints a JSON report; what the standard cannot carry and any warnings go to stderr. --end auto|exclusive|inclusive.',
+    run: async (argv) => (await import('./import.js')).importCommand(argv),
+  },
 };
 
 export function printHelp(out: NodeJS.WritableStream): void {
