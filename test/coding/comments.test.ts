@@ -53,7 +53,7 @@ describe.each(dbKinds())('comments on segments on %s', (db) => {
       }, 'the lead can comment on the stored segment');
       expect(first!.status).toBe(201);
       const thread = first!.body.thread;
-      expect(thread).toMatchObject({ author: { id: s.users.lead.id, name: 'Tomas Ekwueme' }, segmentId, layer: layerRoom, coderId: s.users.trainee.id, resolvedAt: null });
+      expect(thread).toMatchObject({ author: { id: s.users.lead.id, name: 'Tomas Ekwueme' }, segmentId, layer: layerRoom, coderId: s.users.trainee.id, resolvedAt: null, quote: words });
 
       // A forged author, a segment that does not exist, an empty body: refused, nothing stored.
       const forged = await trainee.call<{ error: { code: string } }>('POST', base, { parentId: thread.id, body: 'I agree.', authorId: s.users.lead.id });

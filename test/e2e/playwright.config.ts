@@ -43,7 +43,7 @@ export default defineConfig({
         cwd: '../..',
         url: `http://127.0.0.1:${port}/api/health`,
         env: { PORT: String(port) },
-        timeout: 120_000,
+        timeout: 300_000, // build + demo seeding on PGlite: 30-60 s alone, several minutes on a loaded machine
         reuseExistingServer: false,
         stdout: 'pipe',
       }

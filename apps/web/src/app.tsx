@@ -10,6 +10,7 @@ import { Members } from './screens/members/Members.js';
 import { CodingScreen } from './screens/coding/CodingScreen.js';
 import { CodebookScreen } from './screens/codebook/CodebookScreen.js';
 import { MemosScreen } from './screens/memos/MemosScreen.js';
+import { ReviewScreen } from './screens/review/ReviewScreen.js';
 import { useStudy } from './screens/study/study-context.js';
 import type { Me } from './api/types.js';
 
@@ -21,6 +22,7 @@ function StudyArea(props: { studyId: string; me: Me }) {
       <Match when={route().name === 'members'}><Members studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'codebook'}><CodebookScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
       <Match when={route().name === 'memos'}><MemosScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
+      <Match when={route().name === 'review'}><ReviewScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
       <Match when={(() => { const r = route(); return r.name === 'coding' ? r.textId : undefined; })()}>
         {(textId) => <CodingScreen studyId={props.studyId} textId={textId()} scope={scope} me={props.me} />}
       </Match>

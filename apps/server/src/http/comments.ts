@@ -9,8 +9,8 @@
  * independent round's hiding holds here too). The author is the signed-in person: a body naming
  * another author is refused (the schemas are strict).
  */
-import { type Db, documents, segmentComments, texts, users, type SegmentCommentRow } from '@gloss/db';
-import { listSegments } from '@gloss/model';
+import { documents, segmentComments, texts, users, type SegmentCommentRow } from '@gloss/db';
+import { listSegments, readTurns, resolveSegments } from '@gloss/model';
 import { and, asc, eq, inArray, isNull, or } from 'drizzle-orm';
 import { Hono, type Context } from 'hono';
 import { streamSSE } from 'hono/streaming';
@@ -18,7 +18,7 @@ import { z } from 'zod';
 import { can, roleIn } from '../access/index.js';
 import type { CommentEvent } from '../comments/events.js';
 import { HttpError, forbidden, notFound } from '../errors.js';
-import { loadDoc } from '../projection/load-doc.js';
+import { loadDoc, withDocs } from '../projection/load-doc.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
 import { requireStore } from './segments.js';
@@ -42,9 +42,38 @@ export interface ThreadOut extends CommentOut {
   layer: string;
   coderId: string;
   segmentId: string;
+  /** The segment's words as the documents stand now; null once the segment is gone. */
+  quote: string | null;
   resolvedAt: string | null;
   resolvedBy: string | null;
   replies: CommentOut[];
+}
+
+/**
+ * The words of each thread's segment as the documents stand now (`layer/segment` -> quote), resolved
+ * from the text and layer documents rather than the projection, which may lag behind them.
+ */
+async function segmentQuotes(deps: AppDeps, roots: SegmentCommentRow[]): Promise<Map<string, string>> {
+  const out = new Map<string, string>();
+  const store = deps.store;
+  if (!store) return out;
+  const textIds = [...new Set(roots.map((r) => r.textId))];
+  const textDocs = await deps.db
+    .select({ id: documents.id, textId: documents.textId })
+    .from(documents)
+    .where(and(eq(documents.kind, 'text'), inArray(documents.textId, textIds)));
+  for (const { id: textDocId, textId } of textDocs) {
+    const layerIds = [...new Set(roots.filter((r) => r.textId === textId).map((r) => r.layerDocId))];
+    await withDocs(store, [textDocId, ...layerIds], ([textDoc, ...layers]) => {
+      const turns = readTurns(textDoc!);
+      layers.forEach((layer, i) => {
+        for (const seg of resolveSegments(textDoc!, listSegments(layer), turns)) {
+          if (!seg.unresolved) out.set(`${layerIds[i]}/${seg.id}`, seg.quote);
+        }
+      });
+    });
+  }
+  return out;
 }
 
 /** The layers of a text the person may read: the one rule, shared with the segments route. */
@@ -53,8 +82,9 @@ async function readableLayers(deps: AppDeps, textId: string, role: Parameters<ty
   return new Map(layers.map((l) => [l.layerDocId, l.coderId]));
 }
 
-async function threadsOf(db: Db, roots: SegmentCommentRow[], coders: Map<string, string>): Promise<ThreadOut[]> {
+async function threadsOf(deps: AppDeps, roots: SegmentCommentRow[], coders: Map<string, string>): Promise<ThreadOut[]> {
   if (roots.length === 0) return [];
+  const db = deps.db;
   const replies = await db
     .select()
     .from(segmentComments)
@@ -64,6 +94,7 @@ async function threadsOf(db: Db, roots: SegmentCommentRow[], coders: Map<string,
   const names = new Map(
     authorIds.length ? (await db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, authorIds))).map((u) => [u.id, u.name]) : [],
   );
+  const quotes = await segmentQuotes(deps, roots);
   const out = (r: SegmentCommentRow): CommentOut => ({
     id: r.id,
     author: { id: r.authorId, name: r.authorId ? (names.get(r.authorId) ?? '') : 'a former member' },
@@ -76,6 +107,7 @@ async function threadsOf(db: Db, roots: SegmentCommentRow[], coders: Map<string,
     layer: r.layerDocId,
     coderId: coders.get(r.layerDocId) ?? '',
     segmentId: r.segmentId,
+    quote: quotes.get(`${r.layerDocId}/${r.segmentId}`) ?? null,
     resolvedAt: r.resolvedAt?.toISOString() ?? null,
     resolvedBy: r.resolvedBy,
     replies: replies.filter((x) => x.parentId === r.id).map(out),
@@ -100,7 +132,7 @@ export function commentRoutes(deps: AppDeps) {
       .from(segmentComments)
       .where(and(eq(segmentComments.textId, text.id), isNull(segmentComments.parentId), inArray(segmentComments.layerDocId, [...layers.keys()])))
       .orderBy(asc(segmentComments.createdAt), asc(segmentComments.id));
-    return c.json({ threads: await threadsOf(deps.db, roots, layers) });
+    return c.json({ threads: await threadsOf(deps, roots, layers) });
   });
 
   app.post('/texts/:textId/comments', session, async (c) => {
@@ -132,7 +164,7 @@ export function commentRoutes(deps: AppDeps) {
       .values({ studyId: text.studyId, textId: text.id, layerDocId: layer, segmentId, parentId: root?.id ?? null, authorId: me, body: raw.body })
       .returning();
     await publish({ action: 'added', studyId: text.studyId, textId: text.id, layerDocId: layer, threadId: root?.id ?? row!.id, commentId: row!.id });
-    const [thread] = await threadsOf(deps.db, [root ?? row!], layers);
+    const [thread] = await threadsOf(deps, [root ?? row!], layers);
     return c.json({ comment: { id: row!.id, threadId: root?.id ?? row!.id }, thread }, 201);
   });
 
@@ -154,7 +186,7 @@ export function commentRoutes(deps: AppDeps) {
       .where(eq(segmentComments.id, root.id));
     await publish({ action: resolved ? 'resolved' : 'reopened', studyId: root.studyId, textId: root.textId, layerDocId: root.layerDocId, threadId: root.id, commentId: root.id });
     const [updated] = await deps.db.select().from(segmentComments).where(eq(segmentComments.id, root.id));
-    const [thread] = await threadsOf(deps.db, [updated!], layers);
+    const [thread] = await threadsOf(deps, [updated!], layers);
     return c.json({ thread });
   };
   app.post('/comments/:commentId/resolve', session, setResolved(true));
@@ -188,7 +220,7 @@ export function commentRoutes(deps: AppDeps) {
     for (const textId of new Set(roots.map((r) => r.textId))) byText.set(textId, await readableLayers(deps, textId, role, me));
     const coders = new Map([...byText.values()].flatMap((m) => [...m]));
     const visible = roots.filter((r) => byText.get(r.textId)?.has(r.layerDocId));
-    const threads = (await threadsOf(deps.db, visible, coders)).filter((t) => [t, ...t.replies].some((x) => x.author.id !== me));
+    const threads = (await threadsOf(deps, visible, coders)).filter((t) => [t, ...t.replies].some((x) => x.author.id !== me));
     const titles = new Map(
       threads.length
         ? (await deps.db.select({ id: texts.id, title: texts.title }).from(texts).where(inArray(texts.id, [...new Set(threads.map((t) => t.textId))]))).map((t) => [t.id, t.title])

@@ -52,6 +52,7 @@ const thread = {
     layer: { type: 'string', format: 'uuid' },
     coderId: { type: 'string', format: 'uuid' },
     segmentId: { type: 'string' },
+    quote: { type: ['string', 'null'] },
     resolvedAt: { type: ['string', 'null'] },
     resolvedBy: { type: ['string', 'null'] },
     replies: { type: 'array', items: commentOut },

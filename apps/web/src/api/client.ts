@@ -3,7 +3,7 @@ import { ApiError, NetworkError } from './errors.js';
 import * as n from './normalise.js';
 import type { Me, Member, Role, Study, StudySummary, TextDetail, TextSummary } from './types.js';
 
-async function call(method: string, path: string, body?: unknown): Promise<unknown> {
+export async function call(method: string, path: string, body?: unknown): Promise<unknown> {
   let res: Response;
   try {
     res = await fetch(path, {

@@ -8,7 +8,8 @@ export type Route =
   | { name: 'coding'; studyId: string; textId: string }
   | { name: 'codebook'; studyId: string; codeId?: string }
   | { name: 'memos'; studyId: string }
-  | { name: 'members'; studyId: string };
+  | { name: 'members'; studyId: string }
+  | { name: 'review'; studyId: string };
 
 export function parseRoute(hash: string): Route {
   const p = hash.replace(/^#\/?/, '').split('/').filter(Boolean).map(decodeURIComponent);
@@ -19,6 +20,7 @@ export function parseRoute(hash: string): Route {
     if (p[2] === 'codebook') return { name: 'codebook', studyId, codeId: p[3] };
     if (p[2] === 'memos') return { name: 'memos', studyId };
     if (p[2] === 'members') return { name: 'members', studyId };
+    if (p[2] === 'review') return { name: 'review', studyId };
     return { name: 'study', studyId };
   }
   return { name: 'studies' };
@@ -34,6 +36,7 @@ export function href(r: Route): string {
     case 'codebook': return `#/study/${e(r.studyId)}/codebook${r.codeId ? '/' + e(r.codeId) : ''}`;
     case 'memos': return `#/study/${e(r.studyId)}/memos`;
     case 'members': return `#/study/${e(r.studyId)}/members`;
+    case 'review': return `#/study/${e(r.studyId)}/review`;
   }
 }
 

@@ -2,7 +2,7 @@ import { Show } from 'solid-js';
 import { href } from '../../ui/router.js';
 import type { StudyScope } from './study-context.js';
 
-export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'coding';
+export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'review' | 'coding';
 
 /** The study's title and its screens. */
 export function StudyNav(props: { studyId: string; scope: StudyScope; current: StudyTab }) {
@@ -19,6 +19,7 @@ export function StudyNav(props: { studyId: string; scope: StudyScope; current: S
         {tab('study', 'Texts')}
         {tab('codebook', 'Codebook')}
         {tab('memos', 'Memos')}
+        {tab('review', 'Review')}
         {tab('members', 'Members')}
       </nav>
     </header>
