@@ -12,6 +12,8 @@ import { readPending, writePending } from './pending.js';
 import { registerDoc, unregisterDoc } from './status.js';
 
 export type DocState = 'loading' | 'ready' | 'unloading' | 'closed';
+/** The server closes a connection that lost the right to read its room with 1008 (RFC 6455 "policy violation"). */
+export const LOST_ACCESS_CLOSE = 1008;
 export type LinkState = 'connecting' | 'connected' | 'disconnected' | 'paused';
 
 export interface OpenDoc {
@@ -23,6 +25,8 @@ export interface OpenDoc {
   link: Accessor<LinkState>;
   /** Local changes not yet sent (made while disconnected). */
   pending: Accessor<number>;
+  /** Why the server took this document away (signed out, removed from the study…); null while it may be read. */
+  lost: Accessor<string | null>;
   /** Resolves once the document holds either the server's state or the offline copy. */
   whenReady: Promise<void>;
   release(): void;
@@ -72,7 +76,12 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   const doc = new Y.Doc({ gc: opts.gc ?? true });
   const local = opts.offline === false ? null : new IndexeddbPersistence(`gloss:${room}`, doc);
   const defer = opts.background === true && foregroundLoading.size > 0;
-  const provider = new WebsocketProvider(syncBaseUrl(), room, doc, { connect: !paused && !defer, maxBackoffTime: 2500 });
+  const provider = new WebsocketProvider(syncBaseUrl(), room, doc, {
+    connect: !paused && !defer,
+    maxBackoffTime: 2500,
+    // Access taken away is not a network problem: reconnecting would only be refused again.
+    shouldReconnect: (event: CloseEvent) => event.code !== LOST_ACCESS_CLOSE,
+  });
   let released = false;
   if (defer) {
     const start = () => {
@@ -86,6 +95,10 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   const [state, setState] = createSignal<DocState>('loading');
   const [link, setLink] = createSignal<LinkState>(paused ? 'paused' : 'connecting');
   const [pending, setPendingSig] = createSignal(readPending(room));
+  const [lost, setLost] = createSignal<string | null>(null);
+  provider.on('connection-close', (event: CloseEvent | null) => {
+    if (event?.code === LOST_ACCESS_CLOSE) setLost(event.reason || 'You may no longer open this document.');
+  });
   const setPending = (n: number) => {
     setPendingSig(n);
     writePending(room, n);
@@ -144,6 +157,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     state,
     link,
     pending,
+    lost,
     whenReady,
     release() {
       const e = open.get(room);

@@ -13,11 +13,12 @@ export function unregisterDoc(d: OpenDoc): void {
 
 export const openDocs = docs;
 
-export type Overall = 'idle' | 'online' | 'connecting' | 'offline' | 'paused';
+export type Overall = 'idle' | 'online' | 'connecting' | 'offline' | 'paused' | 'lost';
 
 export function overall(): Overall {
   const all = docs();
   if (all.length === 0) return 'idle';
+  if (all.some((d) => d.lost() !== null)) return 'lost';
   const links = all.map((d) => d.link());
   if (links.every((l) => l === 'connected')) return 'online';
   if (links.some((l) => l === 'paused')) return 'paused';
@@ -30,4 +31,9 @@ export function waiting(): Array<{ label: string; count: number }> {
   return docs()
     .filter((d) => d.pending() > 0)
     .map((d) => ({ label: d.label, count: d.pending() }));
+}
+
+/** What the server took away and why, once per reason (the same sign-out closes every open document). */
+export function lostAccess(): string[] {
+  return [...new Set(docs().flatMap((d) => d.lost() ?? []))];
 }

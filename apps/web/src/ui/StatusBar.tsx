@@ -1,6 +1,6 @@
 /** Always-visible connection status, what is waiting to be sent, and the work-offline switch. */
 import { For, Show, createSignal } from 'solid-js';
-import { openDocs, overall, waiting } from '../sync/status.js';
+import { lostAccess, openDocs, overall, waiting } from '../sync/status.js';
 import { isPaused, setPaused } from '../sync/open-doc.js';
 import { DataNotice } from './DataNotice.js';
 
@@ -10,6 +10,7 @@ const WORDS = {
   connecting: 'Connecting…',
   offline: 'Offline: your changes are kept on this device',
   paused: 'Working offline: syncing paused',
+  lost: 'Access ended by the server',
 } as const;
 
 export function StatusBar() {
@@ -23,6 +24,11 @@ export function StatusBar() {
       <div class="status-line" role="status" aria-live="polite" data-testid="connection-status" data-state={overall()}>
         <span class={`dot dot-${overall()}`} aria-hidden="true" />
         <span>{WORDS[overall()]}</span>
+        <Show when={lostAccess().length > 0}>
+          <span class="lost" data-testid="lost-access">
+            {lostAccess().join(' ')} Changes you make here now are not shared.
+          </span>
+        </Show>
         <Show when={waiting().length > 0} fallback={<span class="sent" data-testid="waiting">Nothing waiting to be sent.</span>}>
           <span class="waiting" data-testid="waiting">
             Waiting to be sent:{' '}
