@@ -12,6 +12,12 @@ import { CodebookScreen } from './screens/codebook/CodebookScreen.js';
 import { MemosScreen } from './screens/memos/MemosScreen.js';
 import { ReviewScreen } from './screens/review/ReviewScreen.js';
 import { useStudy } from './screens/study/study-context.js';
+import { StudyAgreementScreen } from './screens/agreement/AgreementScreen.js';
+import { RoundsScreen } from './screens/rounds/RoundsScreen.js';
+import { RoundScreen } from './screens/rounds/RoundScreen.js';
+import { RoundText } from './screens/rounds/RoundText.js';
+import { RoundAgreement } from './screens/rounds/RoundAgreement.js';
+import { RoundReport } from './screens/rounds/RoundReport.js';
 import type { Me } from './api/types.js';
 
 function StudyArea(props: { studyId: string; me: Me }) {
@@ -25,6 +31,20 @@ function StudyArea(props: { studyId: string; me: Me }) {
       <Match when={route().name === 'review'}><ReviewScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
       <Match when={(() => { const r = route(); return r.name === 'coding' ? r.textId : undefined; })()}>
         {(textId) => <CodingScreen studyId={props.studyId} textId={textId()} scope={scope} me={props.me} />}
+      </Match>
+      <Match when={route().name === 'agreement'}><StudyAgreementScreen studyId={props.studyId} scope={scope} /></Match>
+      <Match when={route().name === 'rounds'}><RoundsScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
+      <Match when={(() => { const r = route(); return r.name === 'round' ? r.roundId : undefined; })()}>
+        {(roundId) => <RoundScreen studyId={props.studyId} roundId={roundId()} scope={scope} me={props.me} />}
+      </Match>
+      <Match when={(() => { const r = route(); return r.name === 'round-text' ? r : undefined; })()}>
+        {(r) => <RoundText studyId={props.studyId} roundId={r().roundId} textId={r().textId} at={r().at} scope={scope} me={props.me} />}
+      </Match>
+      <Match when={(() => { const r = route(); return r.name === 'round-agreement' ? r.roundId : undefined; })()}>
+        {(roundId) => <RoundAgreement studyId={props.studyId} roundId={roundId()} scope={scope} />}
+      </Match>
+      <Match when={(() => { const r = route(); return r.name === 'round-report' ? r.roundId : undefined; })()}>
+        {(roundId) => <RoundReport studyId={props.studyId} roundId={roundId()} scope={scope} />}
       </Match>
     </Switch>
   );

@@ -3,6 +3,7 @@ import { ApiError, NetworkError } from './errors.js';
 import * as n from './normalise.js';
 import type { Me, Member, Role, Study, StudySummary, TextDetail, TextSummary } from './types.js';
 
+/** One JSON call; every failure is an ApiError (the server's own code and words) or a NetworkError. */
 export async function call(method: string, path: string, body?: unknown): Promise<unknown> {
   let res: Response;
   try {
@@ -32,7 +33,7 @@ export async function call(method: string, path: string, body?: unknown): Promis
   return json;
 }
 
-const enc = encodeURIComponent;
+export const enc = encodeURIComponent;
 
 export const api = {
   signIn: async (email: string, password: string): Promise<Me> => n.toMe(await call('POST', '/api/session', { email, password })),

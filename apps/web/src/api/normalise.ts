@@ -66,10 +66,13 @@ export function toLayer(v: unknown): LayerInfo {
   const j = obj(v);
   return {
     room: need(j.room, 'layer room'),
-    coderId: need(j.coderId ?? j.userId, 'layer coder'),
+    // a consensus layer belongs to no coder: it gets a lane of its own
+    coderId: j.kind === 'consensus' ? str(j.coderId) ?? `consensus:${str(j.room)}` : need(j.coderId ?? j.userId, 'layer coder'),
     name: str(j.name) ?? str(j.coderName),
     mine: typeof j.mine === 'boolean' ? j.mine : undefined,
     canWrite: typeof j.canWrite === 'boolean' ? j.canWrite : undefined,
+    ...('round' in j ? { round: str(j.round) ?? null } : {}),
+    ...(j.kind === 'coder' || j.kind === 'consensus' ? { kind: j.kind } : {}),
   };
 }
 

@@ -45,6 +45,10 @@ export interface LayerInfo {
   name?: string;
   mine?: boolean;
   canWrite?: boolean;
+  /** The calibration round the layer belongs to (null: coding outside any round). */
+  round?: string | null;
+  /** A coder's own layer, or a text's consensus layer (written by the lead and owner). */
+  kind?: 'coder' | 'consensus';
 }
 
 export interface TextDetail {

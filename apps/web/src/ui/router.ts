@@ -9,7 +9,13 @@ export type Route =
   | { name: 'codebook'; studyId: string; codeId?: string }
   | { name: 'memos'; studyId: string }
   | { name: 'members'; studyId: string }
-  | { name: 'review'; studyId: string };
+  | { name: 'review'; studyId: string }
+  | { name: 'agreement'; studyId: string }
+  | { name: 'rounds'; studyId: string }
+  | { name: 'round'; studyId: string; roundId: string }
+  | { name: 'round-text'; studyId: string; roundId: string; textId: string; at?: number }
+  | { name: 'round-agreement'; studyId: string; roundId: string }
+  | { name: 'round-report'; studyId: string; roundId: string };
 
 export function parseRoute(hash: string): Route {
   const p = hash.replace(/^#\/?/, '').split('/').filter(Boolean).map(decodeURIComponent);
@@ -21,6 +27,15 @@ export function parseRoute(hash: string): Route {
     if (p[2] === 'memos') return { name: 'memos', studyId };
     if (p[2] === 'members') return { name: 'members', studyId };
     if (p[2] === 'review') return { name: 'review', studyId };
+    if (p[2] === 'agreement') return { name: 'agreement', studyId };
+    if (p[2] === 'rounds') return { name: 'rounds', studyId };
+    if (p[2] === 'round' && p[3]) {
+      const roundId = p[3];
+      if (p[4] === 'text' && p[5]) return { name: 'round-text', studyId, roundId, textId: p[5], ...(p[6] === 'at' && /^\d+$/.test(p[7] ?? '') ? { at: Number(p[7]) } : {}) };
+      if (p[4] === 'agreement') return { name: 'round-agreement', studyId, roundId };
+      if (p[4] === 'report') return { name: 'round-report', studyId, roundId };
+      return { name: 'round', studyId, roundId };
+    }
     return { name: 'study', studyId };
   }
   return { name: 'studies' };
@@ -37,6 +52,12 @@ export function href(r: Route): string {
     case 'memos': return `#/study/${e(r.studyId)}/memos`;
     case 'members': return `#/study/${e(r.studyId)}/members`;
     case 'review': return `#/study/${e(r.studyId)}/review`;
+    case 'agreement': return `#/study/${e(r.studyId)}/agreement`;
+    case 'rounds': return `#/study/${e(r.studyId)}/rounds`;
+    case 'round': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}`;
+    case 'round-text': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}/text/${e(r.textId)}${r.at !== undefined ? `/at/${r.at}` : ''}`;
+    case 'round-agreement': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}/agreement`;
+    case 'round-report': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}/report`;
   }
 }
 

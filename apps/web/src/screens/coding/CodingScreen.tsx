@@ -2,8 +2,8 @@
  * The coding view: transcript and margin on the left; picker, chosen segment, flags, layers and people
  * on the right. Opens the text document and every layer the server lets this person see.
  */
-import { Show, createEffect, createMemo, createResource, createSignal, onCleanup, untrack } from 'solid-js';
-import type { Me } from '../../api/types.js';
+import { Show, createEffect, createMemo, createResource, createSignal, onCleanup, untrack, type JSX } from 'solid-js';
+import type { LayerInfo, Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
 import { api } from '../../api/client.js';
@@ -12,7 +12,11 @@ import { openDoc, type OpenDoc } from '../../sync/open-doc.js';
 import { CodingView } from './CodingView.js';
 import type { LayerHandle } from './coding-state.js';
 
-export function CodingScreen(props: { studyId: string; textId: string; scope: StudyScope; me: Me }) {
+/**
+ * `layers` narrows the layers opened (a round's text shows that round's layers only; elsewhere the
+ * layers coded outside rounds); `banner` goes above the text (a round's "done" mark).
+ */
+export function CodingScreen(props: { studyId: string; textId: string; scope: StudyScope; me: Me; layers?: (l: LayerInfo) => boolean; banner?: JSX.Element }) {
   const [detail] = createResource(() => props.textId, (id) => api.text(id));
   const [docs, setDocs] = createSignal<{ text: OpenDoc; layers: LayerHandle[] }>();
   const [loaded, setLoaded] = createSignal(false);
@@ -22,7 +26,7 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
     if (!d) return;
     untrack(() => {
       const text = openDoc(d.room, { label: `“${d.title || 'this text'}”`, gc: false });
-      const layers = d.layers.map((l) => {
+      const layers = d.layers.filter(props.layers ?? ((l) => !l.round)).map((l) => {
         const mine = l.mine ?? l.coderId === props.me.id;
         return { coderId: l.coderId, name: mine ? `${l.name ?? props.me.name} (you)` : l.name ?? l.coderId, mine, doc: openDoc(l.room, { label: mine ? 'your coding' : `${l.name ?? 'a'} layer`, gc: false, offline: mine || l.canWrite === true }) };
       });
@@ -59,6 +63,7 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
       <StudyNav studyId={props.studyId} scope={props.scope} current="coding" />
       <Loading loading={detail.loading} error={detail.error} what="this text">
         <h2 class="text-title">{detail()?.title}</h2>
+        {props.banner}
         <Show when={ready()} keyed fallback={<p class="progress">Opening the text…</p>}>
           {(r) => <CodingView {...r} studyId={props.studyId} textId={props.textId} scope={props.scope} me={props.me} />}
         </Show>
