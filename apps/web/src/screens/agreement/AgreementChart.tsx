@@ -12,7 +12,7 @@ import { formatValue, thresholds, type Row } from './agreement-view.js';
 const OK = '#0072B2';
 const WEAK = '#D55E00';
 
-export function AgreementChart(props: { rows: Row[]; statistic: string; label: string }) {
+export function AgreementChart(props: { rows: Row[]; statistic: string; axis: string; label: string }) {
   let host!: HTMLDivElement;
   createEffect(() => {
     const rows = props.rows.filter((r) => r.result.value !== null);
@@ -20,12 +20,12 @@ export function AgreementChart(props: { rows: Row[]; statistic: string; label: s
     const chart = Plot.plot({
       width: 640,
       height: Math.max(80, 34 * rows.length + 50),
-      marginLeft: 200,
+      marginLeft: 260,
       ariaLabel: props.label,
       ariaDescription: `${rows.length} values; the table that follows lists them.`,
       style: { background: 'transparent', fontSize: '13px', color: '#1f2933' },
-      x: { domain: [lo, 1], label: props.statistic.replace(/-/g, ' ') + ' →', grid: false },
-      y: { domain: rows.map((r) => r.label), label: null },
+      x: { domain: [lo, 1], label: `${props.axis} →`, grid: false },
+      y: { domain: rows.map((r) => r.label), label: null, tickFormat: (d: string) => (d.length > 34 ? d.slice(0, 33) + '…' : d) },
       marks: [
         Plot.ruleX(thresholds(props.statistic), { stroke: '#52606d', strokeDasharray: '4,3' }),
         Plot.ruleX([0], { stroke: '#8a8170' }),
@@ -46,6 +46,12 @@ export function AgreementChart(props: { rows: Row[]; statistic: string; label: s
           title: (r: Row) => `${r.label}: ${formatValue(r.result.value)}`,
         }),
       ],
+    });
+    // one labelled image: Plot labels its inner groups too, which ARIA forbids on elements without a role
+    chart.setAttribute('role', 'img');
+    chart.querySelectorAll('[aria-label], [aria-description]').forEach((el) => {
+      el.removeAttribute('aria-label');
+      el.removeAttribute('aria-description');
     });
     host.replaceChildren(chart);
     onCleanup(() => chart.remove());

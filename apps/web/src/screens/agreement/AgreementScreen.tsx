@@ -98,7 +98,7 @@ function Coefficients(props: { report: CoefficientReport; scope: AgreementScope 
 
       <h3 id="per-code-h">Per code</h3>
       <Show when={codes().some((c) => c.result.value !== null)}>
-        <AgreementChart rows={codes()} statistic={props.report.statistic} label={`${stat()} per code, with 95% intervals`} />
+        <AgreementChart rows={codes()} statistic={props.report.statistic} axis={stat()} label={`${stat()} per code, with 95% intervals`} />
       </Show>
       <FigureTable rows={codes()} what="Code" labelledBy="per-code-h" onDrill={(r) => setDrill(r)} />
       <Show when={drill()} keyed>
@@ -117,7 +117,7 @@ function Coefficients(props: { report: CoefficientReport; scope: AgreementScope 
 
       <h3 id="per-pair-h">Per coder pair</h3>
       <Show when={pairs().some((c) => c.result.value !== null)}>
-        <AgreementChart rows={pairs()} statistic={props.report.statistic} label={`${stat()} per coder pair`} />
+        <AgreementChart rows={pairs()} statistic={props.report.statistic} axis={stat()} label={`${stat()} per coder pair`} />
       </Show>
       <FigureTable rows={pairs()} what="Coders" labelledBy="per-pair-h" />
 
@@ -167,7 +167,7 @@ function FigureTable(props: { rows: Row[]; what: string; labelledBy: string; onD
               <td class="num">{formatInterval(r.result.ci)}</td>
               <td>{r.result.band ?? '—'}<Show when={r.weak}> <strong class="weak-mark">weak</strong></Show></td>
               <Show when={props.onDrill}>
-                <td><button type="button" class="quiet" onClick={() => props.onDrill!(r)} aria-label={`Show the places behind “${r.label}”`}>Show places</button></td>
+                <td><button type="button" class="quiet" onClick={() => props.onDrill!(r)} aria-label={`Show places behind “${r.label}”`}>Show places</button></td>
               </Show>
             </tr>
           )}
