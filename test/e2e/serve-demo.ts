@@ -7,7 +7,8 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { loadConfig, seedDemo, startServer } from '../../apps/server/src/index.js';
+import { admin, loadConfig, seedDemo, startServer } from '../../apps/server/src/index.js';
+import { EXTRA } from './round-people.js';
 
 const dataDir = mkdtempSync(join(tmpdir(), 'gloss-e2e-'));
 const env: NodeJS.ProcessEnv = { ...process.env, DATA_DIR: dataDir, LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn', WEB_DIST: fileURLToPath(new URL('../../apps/web/dist', import.meta.url)) };
@@ -18,6 +19,9 @@ delete env.PUBLIC_URL;
 
 const server = await startServer(loadConfig(env));
 const seeded = await seedDemo(server.db);
+// An invented extra coder with an account but no study: the calibration-round test (rounds.spec.ts)
+// makes them a member of the demo study through the members screen, as a lead would.
+await admin.createUser(server.db, { email: EXTRA.email, password: EXTRA.password, name: EXTRA.name });
 process.stdout.write(JSON.stringify({ event: 'listening', url: server.url, port: server.port, seeded: seeded.seeded, studyId: seeded.studyId }) + '\n');
 
 let stopping = false;

@@ -23,17 +23,24 @@ export interface ProgressCell {
 export interface Round {
   id: string;
   studyId: string;
+  /** 1 for the study's first round, and so on. */
+  number: number | null;
   name: string;
   purpose: string;
   phase: Phase;
   unit: string;
   statistic: string;
   textIds: string[];
+  texts: Array<{ id: string; title: string }>;
   participantIds: string[];
+  participants: Array<{ id: string; name: string }>;
+  /** Who started the round (its lead). */
   leadId: string | null;
-  codebookVersion: string | null;
+  leadName: string;
+  codebookVersionId: string | null;
   createdAt: string | null;
-  progress: ProgressCell[];
+  /** The caller's part in it, as the server sees it. */
+  me: { participant: boolean; canManage: boolean; done: string[] };
 }
 
 export interface NewRound {
@@ -49,6 +56,8 @@ type Json = Record<string, unknown>;
 const obj = (v: unknown): Json => (v && typeof v === 'object' ? (v as Json) : {});
 const str = (v: unknown): string | undefined => (typeof v === 'string' ? v : typeof v === 'number' ? String(v) : undefined);
 const ids = (v: unknown): string[] => (Array.isArray(v) ? v.map((x) => str(x) ?? str(obj(x).id) ?? str(obj(x).userId) ?? '').filter(Boolean) : []);
+const named = (v: unknown): Array<{ id: string; name: string; title: string }> =>
+  Array.isArray(v) ? v.map((x) => ({ id: str(x) ?? str(obj(x).id) ?? '', name: str(obj(x).name) ?? '', title: str(obj(x).title) ?? '' })).filter((x) => x.id) : [];
 const num = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
 
 function toProgress(v: unknown): ProgressCell {
@@ -68,20 +77,27 @@ export function toRound(v: unknown): Round {
   const id = str(j.id);
   if (!id) throw new ApiError('bad_response', "The server's answer lacks the round's id.", 0);
   const phase = str(j.phase);
+  const texts = named(j.texts).map(({ id, title }) => ({ id, title }));
+  const participants = named(j.participants).map(({ id, name }) => ({ id, name }));
+  const me = obj(j.me);
   return {
     id,
     studyId: str(j.studyId) ?? '',
+    number: num(j.number),
     name: str(j.name) ?? '(unnamed round)',
     purpose: str(j.purpose) ?? '',
     phase: phase === 'revealed' || phase === 'closed' ? phase : 'independent',
     unit: str(j.unit) ?? 'turn',
     statistic: str(j.statistic) ?? 'krippendorff-alpha',
-    textIds: ids(j.textIds ?? j.texts),
-    participantIds: ids(j.participantIds ?? j.participants),
-    leadId: str(j.leadId ?? j.createdBy ?? obj(j.lead).id) ?? null,
-    codebookVersion: str(j.codebookVersion ?? obj(j.codebookVersion).name ?? j.versionName) ?? null,
+    textIds: texts.length ? texts.map((t) => t.id) : ids(j.textIds),
+    texts,
+    participantIds: participants.length ? participants.map((p) => p.id) : ids(j.participantIds),
+    participants,
+    leadId: str(obj(j.createdBy).id) ?? null,
+    leadName: str(obj(j.createdBy).name) ?? '',
+    codebookVersionId: str(j.codebookVersionId) ?? null,
     createdAt: str(j.createdAt) ?? null,
-    progress: Array.isArray(j.progress) ? j.progress.map(toProgress) : [],
+    me: { participant: me.participant === true, canManage: me.canManage === true, done: ids(me.done) },
   };
 }
 
@@ -93,6 +109,11 @@ export const roundsApi = {
   create: async (studyId: string, r: NewRound): Promise<Round> => toRound(await call('POST', `/api/studies/${enc(studyId)}/rounds`, r)),
   reveal: async (roundId: string): Promise<void> => void (await call('POST', `/api/rounds/${enc(roundId)}/reveal`)),
   close: async (roundId: string): Promise<void> => void (await call('POST', `/api/rounds/${enc(roundId)}/close`)),
+  /** Per participant and text: words coded, segments, done (the lead sees all rows, a participant their own). */
+  progress: async (roundId: string): Promise<ProgressCell[]> => {
+    const j = obj(await call('GET', `/api/rounds/${enc(roundId)}/progress`));
+    return Array.isArray(j.rows) ? j.rows.map(toProgress) : [];
+  },
   markDone: async (roundId: string, textId: string, done: boolean): Promise<void> =>
     void (await call(done ? 'POST' : 'DELETE', `/api/rounds/${enc(roundId)}/texts/${enc(textId)}/done`)),
   reportUrl: (roundId: string, format: 'md' | 'csv'): string => `/api/rounds/${enc(roundId)}/report?format=${format}`,

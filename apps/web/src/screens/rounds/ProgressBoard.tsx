@@ -2,20 +2,38 @@
  * The lead's view of the independent phase: per participant and text, words coded, segments and
  * "done". Progress only: which codes, and where, stay with each coder until the reveal.
  */
-import { For, Show } from 'solid-js';
-import type { Round } from '../../api/rounds.js';
+import { For, Show, createSignal, onCleanup } from 'solid-js';
+import { roundsApi, type ProgressCell, type Round } from '../../api/rounds.js';
+import { errorMessage } from '../../api/errors.js';
 
-export function ProgressBoard(props: { round: Round; texts: Array<{ id: string; title: string }>; nameOf: (userId: string) => string }) {
-  const cell = (participantId: string, textId: string) => props.round.progress.find((p) => p.participantId === participantId && p.textId === textId);
-  const texts = () => props.round.textIds.map((id) => props.texts.find((t) => t.id === id) ?? { id, title: 'a text' });
-  const doneCount = () => props.round.progress.filter((p) => p.done).length;
+/** Progress is fetched at once and every `pollMs` while the board is shown; a failed fetch says why. */
+export function ProgressBoard(props: { round: Round; pollMs: number }) {
+  const [rows, setRows] = createSignal<ProgressCell[] | undefined>();
+  const [error, setError] = createSignal('');
+  let busy = false;
+  const load = () => {
+    if (busy) return;
+    busy = true;
+    roundsApi.progress(props.round.id).then(
+      (r) => { setRows(r); setError(''); },
+      (err: unknown) => setError(errorMessage(err)),
+    ).finally(() => (busy = false));
+  };
+  load();
+  const timer = setInterval(load, props.pollMs);
+  onCleanup(() => clearInterval(timer));
+  const cell = (participantId: string, textId: string) => rows()?.find((p) => p.participantId === participantId && p.textId === textId);
+  const texts = () => props.round.texts;
+  const doneCount = () => (rows() ?? []).filter((p) => p.done).length;
+  const nameOf = (id: string) => props.round.participants.find((p) => p.id === id)?.name || 'a participant';
   return (
     <section aria-labelledby="progress-h" data-testid="progress-board">
       <h2 id="progress-h">Progress</h2>
       <p class="muted">
-        {doneCount()} of {props.round.participantIds.length * props.round.textIds.length} texts marked done. Only progress is shown here:
+        <Show when={rows()} fallback={error() ? '' : 'Counting… '}>{doneCount()} of {props.round.participantIds.length * props.round.textIds.length} texts marked done. </Show> Only progress is shown here:
         nobody, the lead included, sees anyone's codes before the reveal.
       </p>
+      <Show when={error()}><p class="error" role="alert">The progress could not be fetched: {error()}</p></Show>
       <table class="progress-board">
         <thead>
           <tr>
@@ -27,7 +45,7 @@ export function ProgressBoard(props: { round: Round; texts: Array<{ id: string; 
           <For each={props.round.participantIds}>
             {(pid) => (
               <tr>
-                <th scope="row">{props.nameOf(pid)}</th>
+                <th scope="row">{nameOf(pid)}</th>
                 <For each={texts()}>
                   {(t) => {
                     const c = () => cell(pid, t.id);

@@ -4,9 +4,8 @@
  * "done" marks; the reveal and the close (lead and owner); after the reveal, the walk-through of each
  * text, the agreement and the report.
  */
-import { For, Show, createResource, createSignal } from 'solid-js';
+import { For, Show, createSignal } from 'solid-js';
 import type { Me } from '../../api/types.js';
-import { api } from '../../api/client.js';
 import { roundsApi, type Round } from '../../api/rounds.js';
 import { errorMessage } from '../../api/errors.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -14,15 +13,12 @@ import { StudyNav } from '../study/StudyNav.js';
 import { Loading } from '../../ui/Loading.js';
 import { href } from '../../ui/router.js';
 import { ProgressBoard } from './ProgressBoard.js';
-import { PHASE_WORDS, leadsRound, useMembers, useRound } from './round-data.js';
+import { PHASE_WORDS, leadsRound, useRound } from './round-data.js';
 import { statisticName, unitName } from '../agreement/AgreementScreen.js';
 
 export function RoundScreen(props: { studyId: string; roundId: string; scope: StudyScope; me: Me }) {
-  const { round, error, loading, refetch } = useRound(() => props.roundId, 4000);
-  const members = useMembers(() => props.studyId);
-  const [texts] = createResource(() => props.studyId, (id) => api.texts(id));
-  const nameOf = (id: string) => members()?.find((m) => m.userId === id)?.name ?? 'a former member';
-  const title = (id: string) => texts()?.find((t) => t.id === id)?.title ?? 'a text';
+  const { round, error, loading, refetch } = useRound(() => props.roundId, 5000);
+  const title = (id: string) => round()?.texts.find((t) => t.id === id)?.title || 'a text';
   return (
     <main class="page">
       <StudyNav studyId={props.studyId} scope={props.scope} current="rounds" />
@@ -37,11 +33,11 @@ export function RoundScreen(props: { studyId: string; roundId: string; scope: St
             <dl class="facts">
               <dt>Unit of comparison</dt><dd>{unitName(r().unit)}</dd>
               <Show when={props.scope.study()?.mode !== 'reflexive'}><dt>Statistic</dt><dd>{statisticName(r().statistic)}</dd></Show>
-              <dt>Participants</dt><dd>{r().participantIds.map(nameOf).join(', ')}</dd>
-              <Show when={r().codebookVersion}><dt>Codebook in force</dt><dd>{r().codebookVersion}</dd></Show>
+              <dt>Participants</dt><dd>{r().participants.map((p) => p.name).join(', ')}</dd>
+              <Show when={r().leadName}><dt>Started by</dt><dd>{r().leadName}</dd></Show>
             </dl>
-            <Show when={leadsRound(r(), props.scope.study()?.role, props.me.id)} fallback={<ParticipantView round={r()} me={props.me} studyId={props.studyId} title={title} />}>
-              <LeadView round={r()} studyId={props.studyId} texts={texts() ?? []} nameOf={nameOf} onChange={refetch} />
+            <Show when={leadsRound(r())} fallback={<ParticipantView round={r()} studyId={props.studyId} title={title} />}>
+              <LeadView round={r()} studyId={props.studyId} onChange={refetch} />
             </Show>
           </>
         )}
@@ -75,10 +71,10 @@ function AfterReveal(props: { round: Round; studyId: string; title: (id: string)
   );
 }
 
-function LeadView(props: { round: Round; studyId: string; texts: Array<{ id: string; title: string }>; nameOf: (id: string) => string; onChange: () => void }) {
+function LeadView(props: { round: Round; studyId: string; onChange: () => void }) {
   const [error, setError] = createSignal('');
   const [confirming, setConfirming] = createSignal<'reveal' | 'close' | null>(null);
-  const title = (id: string) => props.texts.find((t) => t.id === id)?.title ?? 'a text';
+  const title = (id: string) => props.round.texts.find((t) => t.id === id)?.title || 'a text';
   const act = async (what: 'reveal' | 'close') => {
     setError('');
     try {
@@ -92,8 +88,8 @@ function LeadView(props: { round: Round; studyId: string; texts: Array<{ id: str
   return (
     <>
       <Show when={props.round.phase === 'independent'}>
-        <ProgressBoard round={props.round} texts={props.texts} nameOf={props.nameOf} />
-        <Show when={props.round.participantIds.length > 0}>
+        <ProgressBoard round={props.round} pollMs={4000} />
+        <Show when={props.round.me.participant}>
           <section aria-labelledby="own-h">
             <h2 id="own-h">Texts of the round</h2>
             <TextLinks round={props.round} studyId={props.studyId} title={title} label="Open" />
@@ -124,9 +120,9 @@ function LeadView(props: { round: Round; studyId: string; texts: Array<{ id: str
   );
 }
 
-function ParticipantView(props: { round: Round; me: Me; studyId: string; title: (id: string) => string }) {
-  const mine = () => props.round.participantIds.includes(props.me.id);
-  const done = (textId: string) => props.round.progress.find((p) => p.participantId === props.me.id && p.textId === textId)?.done ?? false;
+function ParticipantView(props: { round: Round; studyId: string; title: (id: string) => string }) {
+  const mine = () => props.round.me.participant;
+  const done = (textId: string) => props.round.me.done.includes(textId);
   return (
     <Show when={props.round.phase === 'independent'} fallback={<AfterReveal round={props.round} studyId={props.studyId} title={props.title} />}>
       <Show when={mine()} fallback={<p>This round is being coded independently. Its coding is shown after the reveal.</p>}>

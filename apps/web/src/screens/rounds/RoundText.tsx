@@ -54,8 +54,8 @@ export function RoundText(props: { studyId: string; roundId: string; textId: str
 function DoneBanner(props: { round: Round; textId: string; me: Me; studyId: string; onChange: () => void }) {
   const [error, setError] = createSignal('');
   const [busy, setBusy] = createSignal(false);
-  const participant = () => props.round.participantIds.includes(props.me.id);
-  const done = () => props.round.progress.find((p) => p.participantId === props.me.id && p.textId === props.textId)?.done ?? false;
+  const participant = () => props.round.me.participant;
+  const done = () => props.round.me.done.includes(props.textId);
   const mark = async (on: boolean) => {
     setBusy(true);
     setError('');

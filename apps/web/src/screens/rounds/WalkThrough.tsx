@@ -80,7 +80,7 @@ function WalkView(props: Props & { text: OpenDoc; layers: Array<LayerHandle & { 
   const consensus = props.layers.find((l) => l.info.kind === 'consensus');
   const coderLayers = props.layers.filter((l) => l.info.kind !== 'consensus');
   const coders = coderLayers.map((l) => l.coderId);
-  const isLead = () => leadsRound(props.round, props.scope.study()?.role, props.me.id);
+  const isLead = () => leadsRound(props.round);
   const canAdjudicate = () => !!consensus && consensus.info.canWrite !== false && isLead() && props.round.phase === 'revealed';
   const follow = useFollow(props.scope, () => props.round.id, () => props.round.leadId);
   const { message, attempt } = createAttempt();

@@ -57,14 +57,14 @@ export function useFollow(scope: StudyScope, roundId: () => string, leadId: () =
   const read = () => {
     const aw = scope.codebook()?.provider.awareness;
     if (!aw) return;
+    // the round's lead if they are walking through it; otherwise whoever else steers it (an owner, say)
     let found: LeadPlace | undefined;
     aw.getStates().forEach((st, clientId) => {
       if (clientId === aw.clientID) return;
       const w = st.walk as WalkPlace | null | undefined;
       const u = st.user as { id?: string; name?: string } | undefined;
       if (!w || w.roundId !== roundId() || !u?.id || typeof w.textId !== 'string') return;
-      const lead = leadId();
-      if (lead && u.id !== lead) return;
+      if (found && found.byId === leadId()) return;
       found = { ...w, byId: u.id, byName: u.name ?? '' };
     });
     setLeadPlace((old) => (old && found && JSON.stringify(old) === JSON.stringify(found) ? old : found));

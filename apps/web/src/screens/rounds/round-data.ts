@@ -4,9 +4,9 @@ import { roundsApi, type Round } from '../../api/rounds.js';
 import type { Member } from '../../api/types.js';
 import { api } from '../../api/client.js';
 
-/** Who may steer a round: its own lead, or a study owner or lead (the server decides; this only hides buttons). */
-export function leadsRound(round: Round, role: string | undefined, meId: string): boolean {
-  return round.leadId === meId || role === 'owner' || role === 'lead';
+/** Who steers a round, as the server says (owner and leads); this only hides buttons, the server decides. */
+export function leadsRound(round: Round): boolean {
+  return round.me.canManage;
 }
 
 export interface RoundSource {
