@@ -1,3 +1,4 @@
+// @vitest-environment jsdom
 // Hash routes are plain data: every route parses back from the address it makes (round-trip).
 import { describe, expect, it } from 'vitest';
 import { href, parseRoute, type Route } from './router.js';
