@@ -3,10 +3,10 @@
  * the statistic's band thresholds as dashed rules. Drawn with Observable Plot (SVG, npm
  * `@observablehq/plot`); the table beside it carries the same figures for screen readers, so the SVG is
  * one labelled image. Colours: Okabe & Ito (2008) blue and vermillion; weak rows are also triangles, so
- * colour is never the only cue.
+ * colour is never the only cue. Plot is loaded only when a chart is first drawn (its own chunk), so the
+ * coding view does not pay for it.
  */
-import { createEffect, onCleanup } from 'solid-js';
-import * as Plot from '@observablehq/plot';
+import { Show, createEffect, createResource, onCleanup } from 'solid-js';
 import { formatValue, thresholds, type Row } from './agreement-view.js';
 
 const OK = '#0072B2';
@@ -14,7 +14,10 @@ const WEAK = '#D55E00';
 
 export function AgreementChart(props: { rows: Row[]; statistic: string; axis: string; label: string }) {
   let host!: HTMLDivElement;
+  const [plot] = createResource(() => import('@observablehq/plot'));
   createEffect(() => {
+    const Plot = plot();
+    if (!Plot) return;
     const rows = props.rows.filter((r) => r.result.value !== null);
     const lo = Math.min(0, ...rows.map((r) => r.result.ci?.[0] ?? r.result.value!));
     const chart = Plot.plot({
@@ -56,5 +59,10 @@ export function AgreementChart(props: { rows: Row[]; statistic: string; axis: st
     host.replaceChildren(chart);
     onCleanup(() => chart.remove());
   });
-  return <div class="chart" ref={host} data-testid="agreement-chart" />;
+  return (
+    <>
+      <Show when={plot.error}><p class="error" role="alert">The chart could not be drawn: {String(plot.error)}. The table below has the same figures.</p></Show>
+      <div class="chart" ref={host} data-testid="agreement-chart" />
+    </>
+  );
 }
