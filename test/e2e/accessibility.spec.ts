@@ -14,6 +14,8 @@ async function audit(page: Page, screen: string): Promise<void> {
 }
 
 test('no serious or critical axe violations on the main screens', async ({ browser, baseURL }) => {
+  // many screens, each audited: on a loaded machine this takes minutes
+  test.setTimeout(300_000);
   const anon = await browser.newContext({ baseURL, viewport: { width: 1400, height: 900 } });
   const p0 = await anon.newPage();
   await p0.goto('/');
@@ -52,6 +54,10 @@ test('no serious or critical axe violations on the main screens', async ({ brows
   await expect(page.getByRole('heading', { name: 'Members and roles' })).toBeVisible();
   await expect(page.locator('table.members tbody tr').first()).toBeVisible();
   await audit(page, 'members');
+  await page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Agreement' }).click();
+  await expect(page.getByRole('table', { name: 'Per code', exact: true })).toBeVisible({ timeout: 30_000 });
+  await audit(page, 'agreement');
+
   await openCodebook(lead);
   await lead.context.close();
 });
