@@ -11,6 +11,7 @@ import { CodingScreen } from './screens/coding/CodingScreen.js';
 import { CodebookScreen } from './screens/codebook/CodebookScreen.js';
 import { MemosScreen } from './screens/memos/MemosScreen.js';
 import { ReviewScreen } from './screens/review/ReviewScreen.js';
+import { AnalysisScreen } from './screens/analysis/AnalysisScreen.js';
 import { useStudy } from './screens/study/study-context.js';
 import { StudyAgreementScreen } from './screens/agreement/AgreementScreen.js';
 import { RoundsScreen } from './screens/rounds/RoundsScreen.js';
@@ -27,6 +28,7 @@ function StudyArea(props: { studyId: string; me: Me }) {
       <Match when={route().name === 'study'}><StudyScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'members'}><Members studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'codebook'}><CodebookScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
+      <Match when={route().name === 'analysis'}><AnalysisScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'memos'}><MemosScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
       <Match when={route().name === 'review'}><ReviewScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
       <Match when={(() => { const r = route(); return r.name === 'coding' ? r.textId : undefined; })()}>

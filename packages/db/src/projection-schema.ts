@@ -32,6 +32,11 @@ export const projectedSegments = pgTable(
     orphaned: boolean('orphaned').notNull(),
     note: text('note'),
     createdAt: ms('created_at').notNull(),
+    /** The speaker turn the segment starts in (index and label), for retrieval filters and unit tables. */
+    turnIndex: integer('turn_index'),
+    speaker: text('speaker'),
+    /** The calibration round it was coded in, when the coder's client recorded one. */
+    round: integer('round'),
   },
   (t) => [
     primaryKey({ columns: [t.layerDocId, t.id] }),

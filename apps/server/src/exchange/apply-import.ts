@@ -60,7 +60,9 @@ const PLACEHOLDER_HASH = '!'; // never verifies: argon2 refuses it, so the accou
 
 export async function applyImport(db: Db, store: DocLoader, target: ImportTarget, data: RefiImport, actorId: string, format: 'qdc' | 'qdpx'): Promise<ImportReport> {
   const warnings = [...data.warnings];
-  const actor = { by: actorId };
+  // one tick per entry so the codebook keeps the file's order (codes are listed by creation time)
+  let tick = Date.now();
+  const actor = { by: actorId, clock: () => tick++ };
 
   // --- existing study: its current codebook and memos, to add to ---
   let studyId: string;

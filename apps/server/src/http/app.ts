@@ -22,6 +22,7 @@ import { setupRoutes } from './setup.js';
 import { accountLinkRoutes } from './account-links.js';
 import { invitationRoutes } from './invitations.js';
 import { exchangeRoutes, lossesRoutes } from './exchange.js';
+import { analysisRoutes } from './analysis.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
   const app = new Hono<AppEnv>();
@@ -37,6 +38,7 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/', accountLinkRoutes(deps));
   api.route('/studies/:studyId/invitations', invitationRoutes(deps));
   api.route('/studies', exchangeRoutes(deps));
+  api.route('/studies', analysisRoutes(deps));
   api.route('/exchange', lossesRoutes());
   api.route('/studies', studyRoutes(deps));
   api.route('/studies/:studyId/members', memberRoutes(deps));

@@ -7,6 +7,7 @@ import { z } from 'zod';
 import type { AppEnv } from './context.js';
 import * as S from './schemas.js';
 import { codingPaths } from './openapi-coding.js';
+import { exchangePaths } from './openapi-exchange.js';
 import { peoplePaths } from './openapi-people.js';
 
 const components = {
@@ -163,6 +164,7 @@ export function buildOpenApi() {
         },
       },
       ...codingPaths,
+      ...exchangePaths,
       ...peoplePaths,
     },
   };

@@ -10,7 +10,7 @@ import type {
   projectedCaseValues,
   projectedCases,
 } from '@gloss/db';
-import { getCodes, listAttributes, listCases, listMemos, listSegments, readTurns, resolveSegments } from '@gloss/model';
+import { getCodes, listAttributes, listCases, listMemos, listSegments, readTurns, resolveSegments, turnIndexAt } from '@gloss/model';
 import type * as Y from 'yjs';
 
 /**
@@ -47,6 +47,9 @@ export function segmentRows(textDoc: Y.Doc, layerDoc: Y.Doc, info: LayerInfo, tu
       orphaned: s.orphaned,
       note: strOrNull(byId.get(s.id)?.note),
       createdAt: when(s.createdAt),
+      turnIndex: s.start >= 0 && turns.length ? Math.max(0, turnIndexAt(turns, s.start)) : null,
+      speaker: strOrNull(s.turn?.speaker),
+      round: typeof byId.get(s.id)?.round === 'number' && Number.isInteger(byId.get(s.id)!.round) ? byId.get(s.id)!.round! : null,
     }));
 }
 

@@ -15,7 +15,8 @@ export type Route =
   | { name: 'round'; studyId: string; roundId: string }
   | { name: 'round-text'; studyId: string; roundId: string; textId: string; at?: number }
   | { name: 'round-agreement'; studyId: string; roundId: string }
-  | { name: 'round-report'; studyId: string; roundId: string };
+  | { name: 'round-report'; studyId: string; roundId: string }
+  | { name: 'analysis'; studyId: string };
 
 export function parseRoute(hash: string): Route {
   const p = hash.replace(/^#\/?/, '').split('/').filter(Boolean).map(decodeURIComponent);
@@ -36,6 +37,7 @@ export function parseRoute(hash: string): Route {
       if (p[4] === 'report') return { name: 'round-report', studyId, roundId };
       return { name: 'round', studyId, roundId };
     }
+    if (p[2] === 'analysis') return { name: 'analysis', studyId };
     return { name: 'study', studyId };
   }
   return { name: 'studies' };
@@ -58,6 +60,7 @@ export function href(r: Route): string {
     case 'round-text': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}/text/${e(r.textId)}${r.at !== undefined ? `/at/${r.at}` : ''}`;
     case 'round-agreement': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}/agreement`;
     case 'round-report': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}/report`;
+    case 'analysis': return `#/study/${e(r.studyId)}/analysis`;
   }
 }
 

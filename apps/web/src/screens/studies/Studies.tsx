@@ -2,9 +2,10 @@ import { createResource, For } from 'solid-js';
 import { api } from '../../api/client.js';
 import { href } from '../../ui/router.js';
 import { Loading } from '../../ui/Loading.js';
+import { ImportProject } from '../exchange/ImportProject.js';
 
 export function Studies() {
-  const [studies] = createResource(() => api.studies());
+  const [studies, { refetch }] = createResource(() => api.studies());
   return (
     <main class="page">
       <h1>Your studies</h1>
@@ -20,6 +21,7 @@ export function Studies() {
           </For>
         </ul>
       </Loading>
+      <ImportProject onImported={() => void refetch()} />
     </main>
   );
 }

@@ -2,7 +2,7 @@ import { Show } from 'solid-js';
 import { href } from '../../ui/router.js';
 import type { StudyScope } from './study-context.js';
 
-export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'review' | 'coding' | 'rounds' | 'agreement';
+export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'review' | 'coding' | 'rounds' | 'agreement' | 'analysis';
 
 /** The study's title and its screens. */
 export function StudyNav(props: { studyId: string; scope: StudyScope; current: StudyTab }) {
@@ -24,6 +24,7 @@ export function StudyNav(props: { studyId: string; scope: StudyScope; current: S
         {tab('rounds', 'Rounds')}
         {/* the server serves study-wide figures to owners, leads and observers only */}
         <Show when={['owner', 'lead', 'observer'].includes(props.scope.study()?.role ?? '')}>{tab('agreement', 'Agreement')}</Show>
+        {tab('analysis', 'Analysis')}
       </nav>
     </header>
   );

@@ -1,0 +1,140 @@
+/**
+ * Reading the relational projection for analysis: which layers the caller may read (the role table,
+ * through roomAccess, so rounds narrow it in one place), the study's codes and cases, and the segment
+ * facts matching a filter. The projection follows the documents about a second behind.
+ */
+import {
+  type Db,
+  documents,
+  projectedCaseTexts,
+  projectedCaseValues,
+  projectedCases,
+  projectedCodes,
+  projectedSegments,
+  texts,
+  users,
+} from '@gloss/db';
+import { and, asc, eq, inArray } from 'drizzle-orm';
+import { roomAccess } from '../access/policy.js';
+import type { Role } from '../sync/contracts.js';
+import type { CaseFact, SegmentFact } from './tables.js';
+
+export interface CodeInfo {
+  id: string;
+  label: string;
+  parentId: string | null;
+  colour: string;
+  status: string;
+}
+
+export interface CaseInfo extends CaseFact {
+  name: string;
+}
+
+/** Layer documents of the study the caller may read. */
+export async function readableLayers(db: Db, studyId: string, role: Role, me: string): Promise<string[]> {
+  const rows = await db.select({ id: documents.id, coderId: documents.coderId }).from(documents).where(and(eq(documents.studyId, studyId), eq(documents.kind, 'layer')));
+  return rows.filter((r) => roomAccess(role, { kind: 'layer', coderId: r.coderId }, me).read).map((r) => r.id);
+}
+
+export async function studyCodes(db: Db, studyId: string): Promise<CodeInfo[]> {
+  return db
+    .select({ id: projectedCodes.id, label: projectedCodes.label, parentId: projectedCodes.parentId, colour: projectedCodes.colour, status: projectedCodes.status })
+    .from(projectedCodes)
+    .where(eq(projectedCodes.studyId, studyId))
+    .orderBy(asc(projectedCodes.createdAt), asc(projectedCodes.id));
+}
+
+/** A code and every code under it (a cycle cannot loop: each code is taken once). */
+export function withDescendants(codes: readonly CodeInfo[], id: string): string[] {
+  const out = new Set([id]);
+  for (let grew = true; grew; ) {
+    grew = false;
+    for (const c of codes) if (c.parentId !== null && out.has(c.parentId) && !out.has(c.id)) (out.add(c.id), (grew = true));
+  }
+  return [...out];
+}
+
+export async function studyCases(db: Db, studyId: string): Promise<CaseInfo[]> {
+  const [cases, values, links] = await Promise.all([
+    db.select().from(projectedCases).where(eq(projectedCases.studyId, studyId)).orderBy(asc(projectedCases.name)),
+    db.select().from(projectedCaseValues).where(eq(projectedCaseValues.studyId, studyId)),
+    db.select().from(projectedCaseTexts).where(eq(projectedCaseTexts.studyId, studyId)),
+  ]);
+  return cases.map((c) => ({
+    id: c.id,
+    name: c.name,
+    textIds: links.filter((l) => l.caseId === c.id).map((l) => l.textId),
+    values: Object.fromEntries(values.filter((v) => v.caseId === c.id).map((v) => [v.attributeId, v.value])),
+  }));
+}
+
+export interface FactFilter {
+  codeIds?: string[];
+  coderIds?: string[];
+  textIds?: string[];
+  speaker?: string;
+  round?: number;
+}
+
+export interface Fact extends SegmentFact {
+  layerDocId: string;
+  createdAt: Date;
+  speaker: string | null;
+  round: number | null;
+}
+
+/** Segments (not orphaned) of readable layers matching the filter; no quotes (see pageRows). */
+export async function segmentFacts(db: Db, studyId: string, layers: string[], f: FactFilter): Promise<Fact[]> {
+  if (layers.length === 0) return [];
+  const conds = [eq(projectedSegments.studyId, studyId), inArray(projectedSegments.layerDocId, layers), eq(projectedSegments.orphaned, false)];
+  if (f.codeIds) conds.push(inArray(projectedSegments.codeId, f.codeIds.length ? f.codeIds : ['\u0000']));
+  if (f.coderIds) conds.push(inArray(projectedSegments.coderId, f.coderIds.length ? f.coderIds : ['00000000-0000-0000-0000-000000000000']));
+  if (f.textIds) conds.push(inArray(projectedSegments.textId, f.textIds.length ? f.textIds : ['00000000-0000-0000-0000-000000000000']));
+  if (f.speaker !== undefined) conds.push(eq(projectedSegments.speaker, f.speaker));
+  if (f.round !== undefined) conds.push(eq(projectedSegments.round, f.round));
+  return db
+    .select({
+      id: projectedSegments.id,
+      layerDocId: projectedSegments.layerDocId,
+      textId: projectedSegments.textId,
+      codeId: projectedSegments.codeId,
+      coderId: projectedSegments.coderId,
+      start: projectedSegments.start,
+      end: projectedSegments.end,
+      turnIndex: projectedSegments.turnIndex,
+      createdAt: projectedSegments.createdAt,
+      speaker: projectedSegments.speaker,
+      round: projectedSegments.round,
+    })
+    .from(projectedSegments)
+    .where(and(...conds));
+}
+
+/** Full rows (with quotes), text titles and coder names for one page of facts. */
+export async function pageRows(db: Db, page: Fact[]) {
+  if (page.length === 0) return { rows: [], titles: new Map<string, string>(), names: new Map<string, string>() };
+  const rows = await db
+    .select()
+    .from(projectedSegments)
+    .where(and(inArray(projectedSegments.layerDocId, [...new Set(page.map((p) => p.layerDocId))]), inArray(projectedSegments.id, [...new Set(page.map((p) => p.id))])));
+  const want = new Set(page.map((p) => `${p.layerDocId}/${p.id}`));
+  const byKey = new Map(rows.filter((r) => want.has(`${r.layerDocId}/${r.id}`)).map((r) => [`${r.layerDocId}/${r.id}`, r]));
+  const textIds = [...new Set(page.map((p) => p.textId))];
+  const coderIds = [...new Set(page.map((p) => p.coderId).filter((x): x is string => Boolean(x)))];
+  const [t, u] = await Promise.all([
+    db.select({ id: texts.id, title: texts.title }).from(texts).where(inArray(texts.id, textIds)),
+    coderIds.length ? db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, coderIds)) : Promise.resolve([]),
+  ]);
+  return {
+    rows: page.map((p) => byKey.get(`${p.layerDocId}/${p.id}`)!).filter(Boolean),
+    titles: new Map(t.map((x) => [x.id, x.title])),
+    names: new Map(u.map((x) => [x.id, x.name])),
+  };
+}
+
+/** Texts in the order they were added (for sorting by text). */
+export async function textOrder(db: Db, studyId: string): Promise<Map<string, number>> {
+  const rows = await db.select({ id: texts.id }).from(texts).where(eq(texts.studyId, studyId)).orderBy(asc(texts.createdAt), asc(texts.id));
+  return new Map(rows.map((r, i) => [r.id, i]));
+}

@@ -1,0 +1,82 @@
+// Analysis and exchange in the browser: a REFI-QDA project imported into a new study from the studies
+// list, a code's segments retrieved, a table cell drilled down to its words, and an export saved.
+// The project file is the interchange package's invented sample study, exported by Gloss's own code.
+import { readFileSync } from 'node:fs';
+import { sampleStudy } from '../../packages/interchange/src/exchange/sample-study.js';
+import { projectFile, projectQdpx } from '../../packages/interchange/src/refi/export.js';
+import { test, expect, account, signIn, shot } from './fixtures.js';
+
+test('import a .qdpx into a new study, retrieve, drill down from a table, export', async ({ browser, baseURL }) => {
+  test.setTimeout(180_000);
+  const owner = await signIn(browser, account('owner'), baseURL!);
+  const page = owner.page;
+
+  // import into a new study
+  await expect(page.getByRole('heading', { name: 'Start a study from a REFI-QDA file' })).toBeVisible();
+  await page.getByLabel('Title of the new study').fill('Harbour lives (imported)');
+  await page.getByLabel('Project (.qdpx) or codebook (.qdc) file').setInputFiles({ name: 'harbour.qdpx', mimeType: 'application/zip', buffer: Buffer.from(projectQdpx(projectFile(sampleStudy(), 'e2e'))) });
+  await page.getByRole('button', { name: 'Import into a new study' }).click();
+  const report = page.locator('.import-report');
+  await expect(report).toContainText('Imported 2 texts, 4 codes, 6 segments, 4 memos and 2 cases');
+  await expect(report).toContainText('as exclusive');
+  await shot(page, 'analysis-import-new-study');
+  await report.getByRole('link', { name: 'Open the new study' }).click();
+  await page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Analysis' }).click();
+
+  // retrieve a code's segments, with the codes under it
+  const hits = page.getByRole('list', { name: 'Retrieved segments' });
+  const code = page.getByLabel('Code', { exact: true });
+  await expect(code.locator('option', { hasText: 'Work at sea' })).toHaveCount(1, { timeout: 20_000 });
+  await code.selectOption({ label: 'Work at sea (2)' });
+  await expect(hits.locator('mark')).toHaveText(['We rowed out', 'Line two, with a comma, and "quotes".']);
+  await page.getByLabel('with the codes under it').check();
+  await expect(hits.locator('mark')).toHaveText(['We rowed out', 'The nets were 🐟🐟 heavy — ça pèse', '🐟🐟', 'Line two, with a comma, and "quotes".']);
+  await expect(hits.locator('li').first()).toContainText('at dawn'); // context after the words
+  await shot(page, 'analysis-retrieve-owner');
+
+  // drill down from a co-occurrence cell: "🐟🐟" (Catch) lies inside a Nets segment (hand-checked in sample-study.ts)
+  await page.getByRole('tab', { name: 'Tables and chart' }).click();
+  await expect(page.getByRole('img', { name: /Segments per code/ })).toBeVisible();
+  await page.getByLabel('Table', { exact: true }).selectOption('cooccurrence');
+  const cell = page.getByRole('button', { name: '1: Nets, "heavy", Catch — read the segments' });
+  await expect(cell).toBeVisible();
+  await shot(page, 'analysis-cooccurrence-owner');
+  await cell.click();
+  await expect(page.getByRole('tab', { name: 'Retrieve segments' })).toHaveAttribute('aria-selected', 'true');
+  await expect(hits.locator('mark')).toHaveText(['The nets were 🐟🐟 heavy — ça pèse']);
+
+  // code by attribute, counting cases, drilled down
+  await page.getByRole('tab', { name: 'Tables and chart' }).click();
+  await page.getByLabel('Table', { exact: true }).selectOption('code-by-attribute');
+  await page.getByLabel('Attribute').selectOption({ label: 'Home port' });
+  await expect(page.getByRole('note').filter({ hasText: 'frequency is not importance' })).toBeVisible();
+  await shot(page, 'analysis-code-by-attribute-owner');
+  await page.getByRole('button', { name: '1: Work at sea, South — read the segments' }).click();
+  await expect(hits.locator('mark')).toHaveText(['Line two, with a comma, and "quotes".']);
+
+  // export the segments as CSV
+  await page.getByRole('tab', { name: 'Export and import' }).click();
+  await expect(page.getByRole('complementary', { name: 'Before you export' })).toContainText('personal data');
+  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Segments (CSV)' }).click()]);
+  const csv = readFileSync((await download.path())!, 'utf8');
+  expect(csv).toContain('The nets were 🐟🐟 heavy — ça pèse');
+  expect(csv).toContain('"Line two, with a comma, and ""quotes""."');
+  await expect(page.getByText(/saved .* audit log/)).toBeVisible();
+  await shot(page, 'analysis-exchange-owner');
+  await owner.context.close();
+});
+
+for (const role of ['lead', 'coder', 'observer'] as const) {
+  test(`the analysis screen as ${role}`, async ({ browser, baseURL }) => {
+    const p = await signIn(browser, account(role), baseURL!);
+    await p.page.getByRole('list', { name: 'Studies' }).getByRole('link').first().click();
+    await p.page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Analysis' }).click();
+    await expect(p.page.getByRole('list', { name: 'Retrieved segments' }).or(p.page.getByText('No segments match.'))).toBeVisible({ timeout: 20_000 });
+    await shot(p.page, `analysis-retrieve-${role}`);
+    await p.page.getByRole('tab', { name: 'Export and import' }).click();
+    if (role === 'lead') await expect(p.page.getByRole('button', { name: 'Segments (CSV)' })).toBeEnabled();
+    else await expect(p.page.getByText('Exports are for the study’s owners and leads; your role does not include them.')).toBeVisible();
+    await shot(p.page, `analysis-exchange-${role}`);
+    await p.context.close();
+  });
+}
