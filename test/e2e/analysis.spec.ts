@@ -2,9 +2,20 @@
 // list, a code's segments retrieved, a table cell drilled down to its words, and an export saved.
 // The project file is the interchange package's invented sample study, exported by Gloss's own code.
 import { readFileSync } from 'node:fs';
+import AxeBuilder from '@axe-core/playwright';
+import type { Page } from '@playwright/test';
 import { sampleStudy } from '../../packages/interchange/src/exchange/sample-study.js';
 import { projectFile, projectQdpx } from '../../packages/interchange/src/refi/export.js';
 import { test, expect, account, signIn, shot } from './fixtures.js';
+
+// axe-core via @axe-core/playwright, WCAG 2 A/AA rules, as accessibility.spec.ts does for the other screens
+async function axe(page: Page, screen: string): Promise<void> {
+  const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa']).analyze();
+  const bad = result.violations
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+    .map((v) => `${v.id} (${v.impact}): ${v.help} — ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join('; ')}`);
+  expect(bad, `axe on ${screen}`).toEqual([]);
+}
 
 test('import a .qdpx into a new study, retrieve, drill down from a table, export', async ({ browser, baseURL }) => {
   test.setTimeout(180_000);
@@ -25,7 +36,8 @@ test('import a .qdpx into a new study, retrieve, drill down from a table, export
 
   // retrieve a code's segments, with the codes under it
   const hits = page.getByRole('list', { name: 'Retrieved segments' });
-  const code = page.getByLabel('Code', { exact: true });
+  // a label around a select names it with the label's words and the chosen option: match the start
+  const code = page.getByRole('combobox', { name: /^Code\b/ });
   await expect(code.locator('option', { hasText: 'Work at sea' })).toHaveCount(1, { timeout: 20_000 });
   await code.selectOption({ label: 'Work at sea (2)' });
   await expect(hits.locator('mark')).toHaveText(['We rowed out', 'Line two, with a comma, and "quotes".']);
@@ -33,22 +45,26 @@ test('import a .qdpx into a new study, retrieve, drill down from a table, export
   await expect(hits.locator('mark')).toHaveText(['We rowed out', 'The nets were 🐟🐟 heavy — ça pèse', '🐟🐟', 'Line two, with a comma, and "quotes".']);
   await expect(hits.locator('li').first()).toContainText('at dawn'); // context after the words
   await shot(page, 'analysis-retrieve-owner');
+  await axe(page, 'retrieval');
 
   // drill down from a co-occurrence cell: "🐟🐟" (Catch) lies inside a Nets segment (hand-checked in sample-study.ts)
   await page.getByRole('tab', { name: 'Tables and chart' }).click();
-  await expect(page.getByRole('img', { name: /Segments per code/ })).toBeVisible();
-  await page.getByLabel('Table', { exact: true }).selectOption('cooccurrence');
+  await expect(page.getByRole('img', { name: /Segments per code: Work at sea 2/ })).toBeVisible();
+  await shot(page, 'analysis-frequency-owner');
+  await axe(page, 'frequency chart and table');
+  await page.getByRole('combobox', { name: /^Table\b/ }).selectOption('cooccurrence');
   const cell = page.getByRole('button', { name: '1: Nets, "heavy", Catch — read the segments' });
   await expect(cell).toBeVisible();
   await shot(page, 'analysis-cooccurrence-owner');
+  await axe(page, 'co-occurrence table');
   await cell.click();
   await expect(page.getByRole('tab', { name: 'Retrieve segments' })).toHaveAttribute('aria-selected', 'true');
   await expect(hits.locator('mark')).toHaveText(['The nets were 🐟🐟 heavy — ça pèse']);
 
   // code by attribute, counting cases, drilled down
   await page.getByRole('tab', { name: 'Tables and chart' }).click();
-  await page.getByLabel('Table', { exact: true }).selectOption('code-by-attribute');
-  await page.getByLabel('Attribute').selectOption({ label: 'Home port' });
+  await page.getByRole('combobox', { name: /^Table\b/ }).selectOption('code-by-attribute');
+  await page.getByRole('combobox', { name: /^Attribute\b/ }).selectOption({ label: 'Home port' });
   await expect(page.getByRole('note').filter({ hasText: 'frequency is not importance' })).toBeVisible();
   await shot(page, 'analysis-code-by-attribute-owner');
   await page.getByRole('button', { name: '1: Work at sea, South — read the segments' }).click();
@@ -63,6 +79,7 @@ test('import a .qdpx into a new study, retrieve, drill down from a table, export
   expect(csv).toContain('"Line two, with a comma, and ""quotes""."');
   await expect(page.getByText(/saved .* audit log/)).toBeVisible();
   await shot(page, 'analysis-exchange-owner');
+  await axe(page, 'export and import');
   await owner.context.close();
 });
 
@@ -71,7 +88,7 @@ for (const role of ['lead', 'coder', 'observer'] as const) {
     const p = await signIn(browser, account(role), baseURL!);
     await p.page.getByRole('list', { name: 'Studies' }).getByRole('link').first().click();
     await p.page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Analysis' }).click();
-    await expect(p.page.getByRole('list', { name: 'Retrieved segments' }).or(p.page.getByText('No segments match.'))).toBeVisible({ timeout: 20_000 });
+    await expect(p.page.locator('p.count')).toBeVisible({ timeout: 20_000 });
     await shot(p.page, `analysis-retrieve-${role}`);
     await p.page.getByRole('tab', { name: 'Export and import' }).click();
     if (role === 'lead') await expect(p.page.getByRole('button', { name: 'Segments (CSV)' })).toBeEnabled();

@@ -256,8 +256,10 @@ export async function applyImport(db: Db, store: DocLoader, target: ImportTarget
     if (newUsers.length) await t.insert(users).values(newUsers);
     const coderIds = [...new Set(layerRows.map((l) => l.coderId).concat([...userOf.values()]))].filter((id) => id !== actorId);
     if (coderIds.length) await t.insert(memberships).values(coderIds.map((userId) => ({ studyId, userId, role: 'coder' as const }))).onConflictDoNothing();
-    for (const r of textRows) {
-      await t.insert(texts).values({ id: r.id, studyId, title: r.title, sourceFormat: format, wordCount: r.words, createdBy: actorId });
+    const base = Date.now();
+    for (const [i, r] of textRows.entries()) {
+      // one millisecond apart: texts are listed by when they were added, so they keep the file's order
+      await t.insert(texts).values({ id: r.id, studyId, title: r.title, sourceFormat: format, wordCount: r.words, createdBy: actorId, createdAt: new Date(base + i) });
       await t.insert(documents).values({ id: r.docId, kind: 'text', studyId, textId: r.id });
       await t.insert(updates).values({ docId: r.docId, data: r.update, bytes: r.update.byteLength, userId: actorId });
     }

@@ -1,33 +1,40 @@
 /**
- * Code frequencies as a horizontal bar chart (Chart.js, canvas). The canvas is described for screen
- * readers and the same numbers are in the table beside it, which stays the accessible form.
+ * Code frequencies as horizontal bars, drawn with Observable Plot (SVG, npm `@observablehq/plot`, the
+ * app's one chart library; loaded in its own chunk when a chart is first drawn). Bars take each code's
+ * colour; the table below carries the same numbers for screen readers, so the SVG is one labelled image.
  */
-import { BarController, BarElement, CategoryScale, Chart, LinearScale, Tooltip } from 'chart.js';
-import { createEffect, onCleanup } from 'solid-js';
-
-Chart.register(BarController, BarElement, CategoryScale, LinearScale, Tooltip);
+import { Show, createEffect, createResource, onCleanup } from 'solid-js';
 
 export function FrequencyChart(props: { labels: string[]; values: number[]; colours: string[]; caption: string }) {
-  let canvas!: HTMLCanvasElement;
-  let chart: Chart | undefined;
+  let host!: HTMLDivElement;
+  const [plot] = createResource(() => import('@observablehq/plot'));
   createEffect(() => {
-    const data = { labels: props.labels, datasets: [{ label: 'Segments', data: props.values, backgroundColor: props.colours, borderWidth: 0 }] };
-    if (!chart) {
-      chart = new Chart(canvas, {
-        type: 'bar',
-        data,
-        options: { indexAxis: 'y', animation: false, responsive: true, maintainAspectRatio: false, plugins: { tooltip: { enabled: true } }, scales: { x: { beginAtZero: true, ticks: { precision: 0 } } } },
-      });
-    } else {
-      chart.data = data;
-      chart.update();
-    }
+    const Plot = plot();
+    if (!Plot) return;
+    const rows = props.labels.map((label, i) => ({ label, value: props.values[i] ?? 0, colour: props.colours[i] ?? '#0b6e6e' }));
+    const chart = Plot.plot({
+      width: 640,
+      height: Math.max(80, 28 * rows.length + 50),
+      marginLeft: 220,
+      ariaLabel: `${props.caption}: ${rows.map((r) => `${r.label} ${r.value}`).join(', ')}`,
+      style: { background: 'transparent', fontSize: '13px', color: '#1f2933' },
+      x: { label: 'segments →', grid: true, tickFormat: (d: number) => (Number.isInteger(d) ? String(d) : '') },
+      y: { domain: rows.map((r) => r.label), label: null, tickFormat: (d: string) => (d.length > 30 ? d.slice(0, 29) + '…' : d) },
+      marks: [Plot.barX(rows, { x: 'value', y: 'label', fill: (r: { colour: string }) => r.colour, title: (r: { label: string; value: number }) => `${r.label}: ${r.value}` }), Plot.ruleX([0])],
+    });
+    // one labelled image: Plot labels its inner groups too, which ARIA forbids on elements without a role
+    chart.setAttribute('role', 'img');
+    chart.querySelectorAll('[aria-label], [aria-description]').forEach((el) => {
+      el.removeAttribute('aria-label');
+      el.removeAttribute('aria-description');
+    });
+    host.replaceChildren(chart);
+    onCleanup(() => chart.remove());
   });
-  onCleanup(() => chart?.destroy());
   return (
-    <figure class="chart" style={{ height: `${Math.max(120, 28 * props.labels.length + 40)}px` }}>
-      <canvas ref={canvas} role="img" aria-label={`${props.caption}: ${props.labels.map((l, i) => `${l} ${props.values[i]}`).join(', ')}`} />
-      <figcaption class="sr-only">{props.caption}</figcaption>
-    </figure>
+    <>
+      <Show when={plot.error}><p class="error" role="alert">The chart could not be drawn: {String(plot.error)}. The table below has the same figures.</p></Show>
+      <figure class="chart" aria-label={props.caption} ref={host} data-testid="frequency-chart" />
+    </>
   );
 }

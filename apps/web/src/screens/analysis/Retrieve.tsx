@@ -24,7 +24,7 @@ const PAGE = 25;
 
 export function Retrieve(props: { studyId: string; filters: Filters; onFilters: (f: Filters) => void }) {
   const [offset, setOffset] = createSignal(0);
-  const [facets] = createResource(() => props.studyId, (id) => analysisApi.table(id, { kind: 'frequency' }));
+  const [facets, { refetch: refetchFacets }] = createResource(() => props.studyId, (id) => analysisApi.table(id, { kind: 'frequency' }));
   createEffect(on(() => props.filters, () => setOffset(0), { defer: true }));
   const query = () => {
     const f = props.filters;
@@ -33,6 +33,14 @@ export function Retrieve(props: { studyId: string; filters: Filters; onFilters: 
     return q;
   };
   const [result] = createResource(() => ({ id: props.studyId, q: query() }), ({ id, q }) => analysisApi.retrieve(id, q));
+  // the lists on offer come from the projection, which may still be catching up (a study just imported):
+  // when the segments found outnumber what the lists know of, read the lists again
+  createEffect(
+    on(result, (r) => {
+      const f = facets();
+      if (r && f && r.total > f.cells.reduce((n, c) => n + (c[0] ?? 0), 0)) void refetchFacets();
+    }),
+  );
   const set = (patch: Partial<Filters>) => props.onFilters({ ...props.filters, origin: undefined, ...patch });
   const label = (id: string | undefined) => facets()?.rows.find((r) => r.id === id)?.label ?? id;
   return (
@@ -99,6 +107,7 @@ export function Retrieve(props: { studyId: string; filters: Filters; onFilters: 
               <p aria-live="polite" class="count">
                 {r().total === 0 ? 'No segments match.' : `Segments ${r().offset + 1}–${r().offset + r().items.length} of ${r().total}`}
               </p>
+              <Show when={r().items.length > 0}>
               <ol class="hits" aria-label="Retrieved segments" start={r().offset + 1}>
                 <For each={r().items}>
                   {(s) => (
@@ -120,6 +129,7 @@ export function Retrieve(props: { studyId: string; filters: Filters; onFilters: 
                   )}
                 </For>
               </ol>
+              </Show>
               <nav class="pager" aria-label="Pages of segments">
                 <button type="button" class="quiet" disabled={r().offset === 0} onClick={() => setOffset(Math.max(0, offset() - PAGE))}>Previous</button>
                 <button type="button" class="quiet" disabled={r().offset + r().items.length >= r().total} onClick={() => setOffset(offset() + PAGE)}>Next</button>
