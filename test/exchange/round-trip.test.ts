@@ -64,7 +64,7 @@ describe.each(dbKinds())('REFI-QDA round trip through the database on %s', (kind
     database = await openTestDatabase(kind);
     seed = await seedBasic(database.db);
     store = createPgUpdateStore(database);
-  }, 180_000);
+  }, 600_000); // a PGlite copy and seeding took over 3 minutes once on the loaded 2-core machine
   afterAll(async () => {
     await store?.close();
     await database?.close();
