@@ -35,7 +35,7 @@ test('import a .qdpx into a new study, retrieve, drill down from a table, export
   await page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Analysis' }).click();
 
   // retrieve a code's segments, with the codes under it
-  const hits = page.getByRole('list', { name: 'Retrieved segments' });
+  const hits = page.getByRole('list', { name: 'Segments found' });
   // a label around a select names it with the label's words and the chosen option: match the start
   const code = page.getByRole('combobox', { name: /^Code\b/ });
   await expect(code.locator('option', { hasText: 'Work at sea' })).toHaveCount(1, { timeout: 20_000 });

@@ -108,7 +108,7 @@ export function Retrieve(props: { studyId: string; filters: Filters; onFilters: 
                 {r().total === 0 ? 'No segments match.' : `Segments ${r().offset + 1}–${r().offset + r().items.length} of ${r().total}`}
               </p>
               <Show when={r().items.length > 0}>
-              <ol class="hits" aria-label="Retrieved segments" start={r().offset + 1}>
+              <ol class="hits" aria-label="Segments found" start={r().offset + 1}>
                 <For each={r().items}>
                   {(s) => (
                     <li class="hit">
