@@ -5,6 +5,8 @@
  */
 import { call, enc } from './client.js';
 import { ApiError } from './errors.js';
+import { toLayer } from './normalise.js';
+import type { LayerInfo } from './types.js';
 
 export type Phase = 'independent' | 'revealed' | 'closed';
 export const UNITS = ['turn', 'paragraph', 'sentence', 'span'] as const;
@@ -39,6 +41,11 @@ export interface Round {
   leadName: string;
   codebookVersionId: string | null;
   createdAt: string | null;
+  /**
+   * Per text (GET /api/rounds/:id only): its room and the round's layers the caller may open. A closed
+   * round's layers are listed here only (a text's own entry lists the open round's).
+   */
+  rooms: Map<string, { room: string; layers: LayerInfo[] }>;
   /** The caller's part in it, as the server sees it. */
   me: { participant: boolean; canManage: boolean; done: string[] };
 }
@@ -98,6 +105,12 @@ export function toRound(v: unknown): Round {
     codebookVersionId: str(j.codebookVersionId) ?? null,
     createdAt: str(j.createdAt) ?? null,
     me: { participant: me.participant === true, canManage: me.canManage === true, done: ids(me.done) },
+    rooms: new Map(
+      (Array.isArray(j.texts) ? j.texts : [])
+        .map((t) => obj(t))
+        .filter((t) => typeof t.room === 'string' && t.room && Array.isArray(t.layers))
+        .map((t) => [str(t.id) ?? '', { room: str(t.room)!, layers: (t.layers as unknown[]).map(toLayer) }] as const),
+    ),
   };
 }
 

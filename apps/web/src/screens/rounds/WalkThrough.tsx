@@ -33,7 +33,12 @@ interface Props { studyId: string; round: Round; textId: string; at?: number; sc
 
 /** Opens the text and the round's layers, then shows the walk-through once they hold the server's state. */
 export function WalkThrough(props: Props) {
-  const [detail] = createResource(() => props.textId, (id) => api.text(id));
+  // the round lists its texts' rooms and layers (a closed round's layers are listed nowhere else)
+  const [detail] = createResource(() => props.textId, async (id) => {
+    const fromRound = untrack(() => props.round.rooms.get(id));
+    const d = await api.text(id);
+    return fromRound ? { ...d, room: fromRound.room, layers: fromRound.layers } : d;
+  });
   const [docs, setDocs] = createSignal<{ text: OpenDoc; layers: Array<LayerHandle & { info: LayerInfo }> }>();
   createEffect(() => {
     const d = detail();
