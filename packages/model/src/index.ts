@@ -18,3 +18,4 @@ export * from './word-diff.js';
 export * from './versions.js';
 export * from './examples.js';
 export * from './comparison.js';
+export * from './proposals.js';

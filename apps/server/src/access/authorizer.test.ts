@@ -50,19 +50,24 @@ describe('room authorizer', () => {
   };
 
   it('grants write by kind and role', async () => {
-    const table: Array<[Person, string, boolean]> = [
-      ['owner', seed.textRoom, true],
-      ['lead', seed.textRoom, true],
-      ['coder', seed.textRoom, false],
-      ['observer', seed.textRoom, false],
-      ['lead', seed.codebookRoom, true],
-      ['trainee', seed.codebookRoom, false],
-      ['trainee', seed.memosRoom, true],
-      ['observer', seed.memosRoom, false],
+    // A trainee writes the codebook only as new proposals of their own, and everyone writes only their
+    // own memos: those writes carry a rule checked update by update (write-rules.ts).
+    const table: Array<[Person, string, boolean, string | undefined]> = [
+      ['owner', seed.textRoom, true, undefined],
+      ['lead', seed.textRoom, true, undefined],
+      ['coder', seed.textRoom, false, undefined],
+      ['observer', seed.textRoom, false, undefined],
+      ['lead', seed.codebookRoom, true, undefined],
+      ['trainee', seed.codebookRoom, true, 'proposals-only'],
+      ['observer', seed.codebookRoom, false, undefined],
+      ['trainee', seed.memosRoom, true, 'own-memos'],
+      ['lead', seed.memosRoom, true, 'own-memos'],
+      ['observer', seed.memosRoom, false, undefined],
     ];
-    for (const [person, room, canWrite] of table) {
+    for (const [person, room, canWrite, writeRule] of table) {
       const g = await grant(person, room);
       expect(g.canWrite, `${person} in ${room}`).toBe(canWrite);
+      expect(g.writeRule, `${person} in ${room}`).toBe(writeRule);
       expect(g.userId).toBe(seed.users[person].id);
     }
     const own = await grant('coder', coderLayer);

@@ -60,7 +60,8 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
         sessionId: session.sessionId,
         sessionExpiresAt: session.expiresAt,
         role,
-        canWrite: access.write,
+        canWrite: access.write || access.writeRule !== undefined,
+        ...(access.writeRule ? { writeRule: access.writeRule } : {}),
       },
     };
   }

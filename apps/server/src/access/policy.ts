@@ -3,7 +3,7 @@
  * reads it; nothing else encodes role rules. (A later issue adds independent rounds, which hide
  * other coders' layers from coders and trainees until the reveal: that narrows `layer.readOthers`.)
  */
-import type { Role } from '../sync/contracts.js';
+import type { Role, WriteRule } from '../sync/contracts.js';
 
 export const ACTIONS = [
   'study.read',
@@ -61,7 +61,13 @@ export function canAssignRole(actor: Role, role: Role): boolean {
 
 export interface RoomAccess {
   read: boolean;
+  /** May write anything in the document. */
   write: boolean;
+  /**
+   * May write only part of it, checked on the server update by update (access/write-rules.ts). With
+   * `write` true it narrows that write; with `write` false it is the only write there is.
+   */
+  writeRule?: WriteRule;
 }
 
 /** What a member may do with one document, by its kind (and, for a layer, whose it is). */
@@ -78,10 +84,13 @@ export function roomAccess(
       if (own) return { read: true, write: can(role, 'layer.writeOwn') };
       return { read: can(role, 'layer.readOthers'), write: false };
     }
-    case 'codebook':
-      return { read: can(role, 'study.read'), write: can(role, 'codebook.write') };
+    case 'codebook': {
+      const write = can(role, 'codebook.write');
+      // Those who may only propose write new proposals of their own, nothing else (write-rules.ts).
+      return { read: can(role, 'study.read'), write, ...(!write && can(role, 'codebook.propose') ? { writeRule: 'proposals-only' as const } : {}) };
+    }
     case 'memos':
-      // Per-memo ownership is enforced by the model, not here.
-      return { read: can(role, 'study.read'), write: can(role, 'memos.write') };
+      // Each person writes only their own memos: checked per update on the server (write-rules.ts).
+      return { read: can(role, 'study.read'), write: can(role, 'memos.write'), ...(can(role, 'memos.write') ? { writeRule: 'own-memos' as const } : {}) };
   }
 }

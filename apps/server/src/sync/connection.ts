@@ -11,6 +11,7 @@ import type { SyncLogger } from './logger.js';
 import { encodePermissionDenied, encodeSyncStep1, encodeSyncStep2, peekKind, readPayload } from './protocol.js';
 import type { Room, RoomPeer } from './room.js';
 import { checkUpdate } from './update-check.js';
+import { checkWrite } from '../access/write-rules.js';
 
 /** Messages held per connection while its room loads; a client needs a handful (sync step 1, awareness, edits). */
 const MAX_BACKLOG = 1_000;
@@ -138,6 +139,22 @@ export class Connection implements RoomPeer {
         }
         const update = readPayload(decoder);
         if (checkUpdate(update).empty) return;
+        const rule = this.grant.writeRule;
+        if (rule !== undefined) {
+          const scratch = room.scratchCopy();
+          let refusal: string | null;
+          try {
+            refusal = checkWrite(rule, scratch, update, this.grant.userId);
+          } finally {
+            scratch.destroy();
+          }
+          if (refusal !== null) {
+            // Nothing is stored or relayed; the client is told in words and stays connected.
+            this.logger.warn({ room: this.grant.room, userId: this.grant.userId, rule, refusal }, 'update refused by its write rule');
+            this.send(encodePermissionDenied(refusal));
+            return;
+          }
+        }
         room.submitUpdate(update, this, this.grant.userId);
         return;
       }

@@ -8,6 +8,8 @@ export type Role = 'owner' | 'lead' | 'coder' | 'trainee' | 'observer';
 export type DocKind = 'text' | 'layer' | 'codebook' | 'memos';
 
 /** What an authenticated connection may do in one room. */
+export type WriteRule = 'own-memos' | 'proposals-only';
+
 export interface RoomGrant {
   /** The canonical room name (the lower-case document id): one Room per document, whatever the URL's casing. */
   room: string;
@@ -24,6 +26,12 @@ export interface RoomGrant {
   role: Role;
   /** false: sync-step-2 and update messages are refused at the first bytes. */
   canWrite: boolean;
+  /**
+   * A write narrower than the whole document, checked update by update on the server before anything
+   * is stored (access/write-rules.ts): `own-memos` (each person writes only memos they wrote),
+   * `proposals-only` (a coder adds code proposals of their own to the codebook, nothing else).
+   */
+  writeRule?: WriteRule;
 }
 
 /** The outcome of re-running the decision for an open connection: its grant now, or why it lost the room. */

@@ -47,6 +47,8 @@ export class Room {
   /** Seqs above the cursor already applied here (own commits, relayed updates): catch-up skips them. */
   private readonly applied = new Set<number>();
   private timer: NodeJS.Timeout | null = null;
+  /** Updates accepted from local peers and not applied yet (their commit is in flight), in order. */
+  private readonly inFlight: Uint8Array[] = [];
 
   constructor(
     readonly name: string,
@@ -86,20 +88,39 @@ export class Room {
   submitUpdate(update: Uint8Array, from: RoomPeer, userId: string | null): void {
     const committed = this.deps.store.append(this.docId, update, userId);
     committed.catch(() => {}); // handled in order below
+    this.inFlight.push(update);
+    const landed = () => {
+      const at = this.inFlight.indexOf(update);
+      if (at >= 0) this.inFlight.splice(at, 1);
+    };
     this.tail = this.tail.then(
       () =>
         committed.then(
           (seq) => {
+            landed();
             this.applySafely(update, from);
             if (this.deps.catchUpIntervalMs > 0) this.applied.add(seq);
             this.publish(encodeRelayFrame({ kind: 'update', seq, data: update }));
           },
           (cause: unknown) => {
+            landed();
             this.deps.logger.error({ err: cause, room: this.name }, 'update not stored; closing its connection');
             from.fail(new SyncError('store-failed', 'update could not be stored', CloseCode.internalError, { cause }));
           },
         ),
     );
+  }
+
+  /**
+   * A scratch copy of the document as it will be once every accepted update has landed (the room's
+   * state plus the updates whose commit is in flight), for checking a restricted writer's next update
+   * against (access/write-rules.ts). A fresh Y.Doc each time; the caller may change it freely.
+   */
+  scratchCopy(): Y.Doc {
+    const copy = new Y.Doc({ gc: false });
+    Y.applyUpdate(copy, Y.encodeStateAsUpdate(this.doc));
+    for (const u of this.inFlight) Y.applyUpdate(copy, u);
+    return copy;
   }
 
   /** Takes the awareness entries a peer may speak for; forwards what is news to local peers and other nodes. */
