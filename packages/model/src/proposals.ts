@@ -1,5 +1,6 @@
 import * as Y from 'yjs';
-import { addCode, codesMap, type Actor } from './codebook-doc.js';
+import { addCode, codesMap, type Actor, type CodeView } from './codebook-doc.js';
+import { paletteColour } from './palette.js';
 import { effectiveCodeId, mergeCodes } from './codebook-ops.js';
 import { ConflictError, InvalidArgumentError, NotFoundError } from './errors.js';
 import { newId, systemClock, type Clock } from './ids.js';
@@ -140,4 +141,30 @@ export function mergeProposal(cb: Y.Doc, id: string, intoId: string, actor: Acto
     m.set('decidedBy', actor.by);
     m.set('decidedAt', (actor.clock ?? systemClock)());
   });
+}
+
+/**
+ * Pending proposals shaped as draft codes, for screens that list codes (the code picker, segment
+ * labels): a segment coded with a proposal shows "(proposed)" until the lead decides.
+ */
+export function pendingProposalCodes(cb: Y.Doc): CodeView[] {
+  return listProposals(cb, { status: 'pending' }).map((p, i) => ({
+    id: p.id,
+    label: `${p.label} (proposed)`,
+    briefDefinition: '',
+    fullDefinition: '',
+    inclusion: '',
+    exclusion: '',
+    examples: [],
+    nearMisses: [],
+    parentId: null,
+    colour: paletteColour(codesMap(cb).size + i).hex,
+    type: 'data-driven',
+    status: 'draft',
+    mergedInto: null,
+    splitInto: [],
+    inVivo: p.inVivo,
+    createdAt: p.createdAt,
+    createdBy: p.author,
+  }));
 }

@@ -5,6 +5,7 @@
  */
 import * as Y from 'yjs';
 import { WebsocketProvider } from 'y-websocket';
+import * as decoding from 'lib0/decoding';
 import { IndexeddbPersistence } from 'y-indexeddb';
 import { createSignal, type Accessor } from 'solid-js';
 import { syncBaseUrl } from './room-url.js';
@@ -27,6 +28,12 @@ export interface OpenDoc {
   pending: Accessor<number>;
   /** Why the server took this document away (signed out, removed from the study…); null while it may be read. */
   lost: Accessor<string | null>;
+  /** The server's words when it last refused a change to this document (not stored, not shared), else null. */
+  refused: Accessor<string | null>;
+  /** Forgets the refusal message. */
+  dismissRefusal(): void;
+  /** Drops this device's copy of the document (with the refused change in it) and reloads the page. */
+  discardLocalCopy(): Promise<void>;
   /** Resolves once the document holds either the server's state or the offline copy. */
   whenReady: Promise<void>;
   release(): void;
@@ -99,6 +106,12 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   provider.on('connection-close', (event: CloseEvent | null) => {
     if (event?.code === LOST_ACCESS_CLOSE) setLost(event.reason || 'You may no longer open this document.');
   });
+  const [refused, setRefused] = createSignal<string | null>(null);
+  // y-websocket only logs a permission-denied message (type 2); keep its words so the status bar can
+  // tell the person that their change was not saved (nothing is dropped without a word).
+  (provider as unknown as { messageHandlers: Array<(e: unknown, d: decoding.Decoder) => void> }).messageHandlers[2] = (_e, d) => {
+    if (decoding.readVarUint(d) === 0) setRefused(decoding.readVarString(d));
+  };
   const setPending = (n: number) => {
     setPendingSig(n);
     writePending(room, n);
@@ -158,6 +171,13 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     link,
     pending,
     lost,
+    refused,
+    dismissRefusal: () => setRefused(null),
+    async discardLocalCopy() {
+      provider.disconnect();
+      await local?.clearData();
+      location.reload();
+    },
     whenReady,
     release() {
       const e = open.get(room);

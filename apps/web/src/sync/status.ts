@@ -37,3 +37,11 @@ export function waiting(): Array<{ label: string; count: number }> {
 export function lostAccess(): string[] {
   return [...new Set(docs().flatMap((d) => d.lost() ?? []))];
 }
+
+/** Documents whose last change the server refused, with its words (shown until dismissed). */
+export function refusedChanges(): Array<{ doc: OpenDoc; reason: string }> {
+  return docs().flatMap((d) => {
+    const reason = d.refused();
+    return reason === null ? [] : [{ doc: d, reason }];
+  });
+}

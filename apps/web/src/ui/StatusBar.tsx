@@ -1,6 +1,6 @@
 /** Always-visible connection status, what is waiting to be sent, and the work-offline switch. */
 import { For, Show, createSignal } from 'solid-js';
-import { lostAccess, openDocs, overall, waiting } from '../sync/status.js';
+import { lostAccess, openDocs, overall, refusedChanges, waiting } from '../sync/status.js';
 import { isPaused, setPaused } from '../sync/open-doc.js';
 import { DataNotice } from './DataNotice.js';
 
@@ -21,6 +21,15 @@ export function StatusBar() {
   };
   return (
     <footer class="status-bar">
+      <For each={refusedChanges()}>
+        {(r) => (
+          <div class="status-line refused" role="alert" data-testid="refused-change">
+            <span>Not saved — the server refused your change to {r.doc.label}: {r.reason} Your copy on this device still shows it.</span>
+            <button type="button" class="link" onClick={() => void r.doc.discardLocalCopy()}>Discard it and reload</button>
+            <button type="button" class="link" onClick={() => r.doc.dismissRefusal()}>Dismiss</button>
+          </div>
+        )}
+      </For>
       <div class="status-line" role="status" aria-live="polite" data-testid="connection-status" data-state={overall()}>
         <span class={`dot dot-${overall()}`} aria-hidden="true" />
         <span>{WORDS[overall()]}</span>

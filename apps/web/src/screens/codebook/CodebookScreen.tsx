@@ -11,6 +11,7 @@ import { errorMessage } from '../../api/errors.js';
 import { CodeTree, GroupList } from './CodeTree.js';
 import { EntryEditor } from './EntryEditor.js';
 import { SecondCycle } from './SecondCycle.js';
+import { Proposals } from './Proposals.js';
 import type { OpenDoc } from '../../sync/open-doc.js';
 
 export function CodebookScreen(props: { studyId: string; scope: StudyScope; me: Me }) {
@@ -65,6 +66,7 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
           <Show when={message()}><p class="error" role="alert">{message()}</p></Show>
         </Show>
         <CodeTree nodes={tree()} chosen={chosenId()} onChoose={choose} />
+        <Proposals codebook={doc} codes={codes()} canDecide={canEdit()} by={props.me.id} nameOf={nameOf} />
         <GroupList title="Themes" groups={themes()} codes={byId()} onChoose={choose} testid="themes" />
         <GroupList title="Mutually exclusive sets" groups={groups()} codes={byId()} onChoose={choose} testid="exclusive-sets" />
         <Show when={canEdit()}>

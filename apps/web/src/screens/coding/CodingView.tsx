@@ -3,7 +3,7 @@ import { For, Show, createMemo, createSignal, onCleanup, onMount } from 'solid-j
 import * as Y from 'yjs';
 import {
   addCode, addExample, addInVivoCode, addMemo, addSegment, correctText, createUndoManager, getSegmentsMap,
-  recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments, reconcileLayer, withOrigin,
+  recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments, reconcileLayer, withOrigin, proposeCode,
 } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -128,8 +128,12 @@ export function CodingView(props: CodingViewProps) {
   const inVivo = () => {
     const s = sel();
     if (!s || !mine) return setMessage('Select the words to use as the code first.');
-    attempt('In vivo code added and applied.', () => {
-      const codeId = addInVivoCode(props.codebook.doc, state.words().slice(s.start, s.end), { by: props.me.id });
+    const words = state.words().slice(s.start, s.end);
+    // Only the lead and owner write codes; anyone else's in vivo code goes to them as a proposal.
+    attempt(isLead() ? 'In vivo code added and applied.' : 'In vivo code proposed to the lead and applied; it shows as “(proposed)” until they decide.', () => {
+      const codeId = isLead()
+        ? addInVivoCode(props.codebook.doc, words, { by: props.me.id })
+        : proposeCode(props.codebook.doc, { label: words, inVivo: true, author: props.me.id, textId: props.textId, quote: words });
       const id = addSegment(mine.doc.doc, props.text.doc, { codeId, start: s.start, end: s.end });
       recent.use(codeId);
       setChosen(id);
@@ -278,16 +282,15 @@ export function CodingView(props: CodingViewProps) {
             onDone={backToText}
             inputRef={(el) => (searchInput = el)}
           />
-          <Show when={isLead()}>
-            <form class="inline-form" aria-label="New code" onSubmit={(e) => {
-              e.preventDefault();
-              const input = e.currentTarget.elements.namedItem('label') as HTMLInputElement;
-              attempt('Code added to the codebook.', () => { addCode(props.codebook.doc, { label: input.value }, { by: props.me.id }); input.value = ''; });
-            }}>
-              <label>New code <input name="label" /></label>
-              <button type="submit" class="quiet">Add</button>
-            </form>
-          </Show>
+          <form class="inline-form" aria-label={isLead() ? 'New code' : 'Propose a code'} onSubmit={(e) => {
+            e.preventDefault();
+            const input = e.currentTarget.elements.namedItem('label') as HTMLInputElement;
+            if (isLead()) attempt('Code added to the codebook.', () => { addCode(props.codebook.doc, { label: input.value }, { by: props.me.id }); input.value = ''; });
+            else attempt('Code proposed to the lead: it shows as “(proposed)” until they decide.', () => { proposeCode(props.codebook.doc, { label: input.value, author: props.me.id }); input.value = ''; });
+          }}>
+            <label>{isLead() ? 'New code' : 'Propose a code'} <input name="label" /></label>
+            <button type="submit" class="quiet">{isLead() ? 'Add' : 'Propose'}</button>
+          </form>
         </Show>
         <Show when={chosenSeg()} keyed>
           {(s) => (

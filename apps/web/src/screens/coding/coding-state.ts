@@ -6,7 +6,7 @@
 import { createMemo, createSignal, onCleanup, type Accessor } from 'solid-js';
 import * as Y from 'yjs';
 import {
-  getCodes, getText, listExclusiveSets, listSegments, readTurns, resolveSegments,
+  getCodes, getText, pendingProposalCodes, listExclusiveSets, listSegments, readTurns, resolveSegments,
   type CodeGroup, type CodeView, type ResolvedTurn,
 } from '@gloss/model';
 import type { OpenDoc } from '../../sync/open-doc.js';
@@ -54,7 +54,7 @@ function version(types: Array<Y.AbstractType<any>>): Accessor<number> {
  */
 export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, codebook: OpenDoc, opts: { showDisagreement: Accessor<boolean> }): CodingState {
   const textV = version([getText(text.doc), text.doc.getArray('turns')]);
-  const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets')]);
+  const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets'), codebook.doc.getMap('proposals')]);
   const layerVersions = new Map<string, Accessor<number>>(allLayers.map((l) => [l.doc.room, version([l.doc.doc.getMap('segments')])]));
   const layerV = (l: LayerHandle) => layerVersions.get(l.doc.room)?.();
 
@@ -76,7 +76,8 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
     for (const l of visible()) for (const s of perLayer.get(l.doc.room)?.() ?? []) out.push(s);
     return out.sort((a, b) => a.start - b.start || a.end - b.end);
   });
-  const codes = createMemo(() => (cbV(), getCodes(codebook.doc)));
+  // pending proposals (a coder's new or in vivo codes) show as "(proposed)" until the lead decides
+  const codes = createMemo(() => (cbV(), [...getCodes(codebook.doc), ...pendingProposalCodes(codebook.doc)]));
   const codeById = createMemo(() => new Map(codes().map((c) => [c.id, c])));
   const exclusiveSets = createMemo(() => (cbV(), listExclusiveSets(codebook.doc)));
   const source = useFlags(text, codebook, allLayers, visible, () => !opts.showDisagreement());
