@@ -11,8 +11,9 @@ test('in vivo code, jotting, and promoting the jotting to a memo', async ({ brow
 
   await selectWords(page, 'the whole story of the film club');
   await page.getByRole('button', { name: 'In vivo code' }).click();
-  await expect(page.getByTestId('coding-message')).toHaveText('In vivo code added and applied.');
-  await expect(page.getByTestId('segment-panel')).toContainText('“the whole story of the film club”');
+  // A coder may not write codes: the in vivo code goes to the lead as a proposal (proposals.spec.ts).
+  await expect(page.getByTestId('coding-message')).toHaveText('In vivo code proposed to the lead and applied; it shows as “(proposed)” until they decide.');
+  await expect(page.getByTestId('segment-panel')).toContainText('“the whole story of the film club” (proposed)');
 
   await selectWords(page, "the sound was so bad I couldn't follow the plot");
   await page.getByRole('button', { name: 'Jotting' }).click();

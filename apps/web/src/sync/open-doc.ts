@@ -109,8 +109,13 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   const [refused, setRefused] = createSignal<string | null>(null);
   // y-websocket only logs a permission-denied message (type 2); keep its words so the status bar can
   // tell the person that their change was not saved (nothing is dropped without a word).
+  // The server answers every read-only connection's sync step 2 with "read-only", written or not: that
+  // is only news once this person changed the document here.
+  let wroteHere = false;
   (provider as unknown as { messageHandlers: Array<(e: unknown, d: decoding.Decoder) => void> }).messageHandlers[2] = (_e, d) => {
-    if (decoding.readVarUint(d) === 0) setRefused(decoding.readVarString(d));
+    if (decoding.readVarUint(d) !== 0) return;
+    const reason = decoding.readVarString(d);
+    if (reason !== 'read-only' || wroteHere) setRefused(reason === 'read-only' ? 'you may only read this document.' : reason);
   };
   const setPending = (n: number) => {
     setPendingSig(n);
@@ -129,6 +134,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   });
   doc.on('update', (_u: Uint8Array, origin: unknown) => {
     if (origin === provider || (local && origin === local)) return;
+    wroteHere = true;
     if (!provider.wsconnected || !provider.synced) setPending(pending() + 1);
   });
 
