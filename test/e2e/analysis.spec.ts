@@ -66,6 +66,7 @@ test('import a .qdpx into a new study, retrieve, drill down from a table, export
   await page.getByRole('combobox', { name: /^Table\b/ }).selectOption('code-by-attribute');
   await page.getByRole('combobox', { name: /^Attribute\b/ }).selectOption({ label: 'Home port' });
   await expect(page.getByRole('note').filter({ hasText: 'frequency is not importance' })).toBeVisible();
+  await expect(page.getByRole('combobox', { name: /^Attribute\b/ }).locator('option:checked')).toHaveText('Home port'); // the choice stays shown once the table arrives
   await shot(page, 'analysis-code-by-attribute-owner');
   await page.getByRole('button', { name: '1: Work at sea, South — read the segments' }).click();
   await expect(hits.locator('mark')).toHaveText(['Line two, with a comma, and "quotes".']);

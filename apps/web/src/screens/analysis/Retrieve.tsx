@@ -50,7 +50,7 @@ export function Retrieve(props: { studyId: string; filters: Filters; onFilters: 
           Code
           <select value={props.filters.code ?? ''} onChange={(e) => set({ code: e.currentTarget.value || undefined, with: undefined })}>
             <option value="">every code</option>
-            <For each={facets()?.rows ?? []}>{(r, i) => <option value={r.id}>{r.label} ({facets()!.cells[i()]![0]})</option>}</For>
+            <For each={facets()?.rows ?? []}>{(r, i) => <option value={r.id} selected={r.id === props.filters.code}>{r.label} ({facets()!.cells[i()]![0]})</option>}</For>
           </select>
         </label>
         <label class="check">
@@ -60,28 +60,28 @@ export function Retrieve(props: { studyId: string; filters: Filters; onFilters: 
           Coder
           <select value={props.filters.coder ?? ''} onChange={(e) => set({ coder: e.currentTarget.value || undefined })}>
             <option value="">everyone</option>
-            <For each={facets()?.coders ?? []}>{(c) => <option value={c.id}>{c.name}</option>}</For>
+            <For each={facets()?.coders ?? []}>{(c) => <option value={c.id} selected={c.id === props.filters.coder}>{c.name}</option>}</For>
           </select>
         </label>
         <label>
           Text
           <select value={props.filters.text ?? ''} onChange={(e) => set({ text: e.currentTarget.value || undefined })}>
             <option value="">every text</option>
-            <For each={facets()?.texts ?? []}>{(t) => <option value={t.id}>{t.title}</option>}</For>
+            <For each={facets()?.texts ?? []}>{(t) => <option value={t.id} selected={t.id === props.filters.text}>{t.title}</option>}</For>
           </select>
         </label>
         <label>
           Speaker
           <select value={props.filters.speaker ?? ''} onChange={(e) => set({ speaker: e.currentTarget.value || undefined })}>
             <option value="">any speaker</option>
-            <For each={facets()?.speakers ?? []}>{(s) => <option value={s}>{s}</option>}</For>
+            <For each={facets()?.speakers ?? []}>{(s) => <option value={s} selected={s === props.filters.speaker}>{s}</option>}</For>
           </select>
         </label>
         <label>
           Case
           <select value={props.filters.case ?? ''} onChange={(e) => set({ case: e.currentTarget.value || undefined })}>
             <option value="">any case</option>
-            <For each={facets()?.cases ?? []}>{(c) => <option value={c.id}>{c.name}</option>}</For>
+            <For each={facets()?.cases ?? []}>{(c) => <option value={c.id} selected={c.id === props.filters.case}>{c.name}</option>}</For>
           </select>
         </label>
         <label>

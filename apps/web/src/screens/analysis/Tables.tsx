@@ -70,7 +70,7 @@ export function Tables(props: { studyId: string; onDrill: (f: Filters) => void }
             Attribute
             <select value={attribute()} onChange={(e) => setAttribute(e.currentTarget.value)}>
               <option value="">choose…</option>
-              <For each={table()?.attributes ?? []}>{(a) => <option value={a.id}>{a.name}</option>}</For>
+              <For each={table()?.attributes ?? []}>{(a) => <option value={a.id} selected={a.id === attribute()}>{a.name}</option>}</For>
             </select>
           </label>
           <label>
