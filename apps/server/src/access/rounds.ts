@@ -4,7 +4,7 @@
  * second), so "the open round of a text" is one row or none.
  */
 import { type Db, roundParticipants, roundTexts, rounds, type RoundPhase } from '@gloss/db';
-import { and, eq, ne } from 'drizzle-orm';
+import { and, eq, inArray, ne } from 'drizzle-orm';
 import type { DocKind, Role } from '../sync/contracts.js';
 import { documentAccess, type DocumentAccess } from './policy.js';
 
@@ -56,4 +56,18 @@ export async function decideDocument(
   userId: string,
 ): Promise<DocumentAccess> {
   return documentAccess(role, doc, userId, await roundsForDocument(db, doc));
+}
+
+/** Every round of a study (for deciding about many layers at once): by id, and the open one per text. */
+export async function studyRounds(db: Db, studyId: string): Promise<{ byId: Map<string, RoundFacts>; openByText: Map<string, RoundFacts> }> {
+  const rows = await db.select({ id: rounds.id, studyId: rounds.studyId, phase: rounds.phase }).from(rounds).where(eq(rounds.studyId, studyId));
+  const byId = new Map<string, RoundFacts>();
+  for (const r of rows) byId.set(r.id, { ...r, participants: await participantsOf(db, r.id) });
+  const openByText = new Map<string, RoundFacts>();
+  const open = rows.filter((r) => r.phase !== 'closed').map((r) => r.id);
+  if (open.length) {
+    const ts = await db.select({ roundId: roundTexts.roundId, textId: roundTexts.textId }).from(roundTexts).where(inArray(roundTexts.roundId, open));
+    for (const t of ts) openByText.set(t.textId, byId.get(t.roundId)!);
+  }
+  return { byId, openByText };
 }
