@@ -5,40 +5,12 @@
  * 6455 §4.1–4.2 (a refused WebSocket handshake is an ordinary HTTP response; success is 101), the
  * OpenAPI 3.1.0 specification (document shape), and the project brief for the role rules.
  */
-import { request } from 'node:http';
-import { randomBytes } from 'node:crypto';
 import { auditLog, sessions, sql } from '@gloss/db';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { apiClient, sessionCookieFrom, signIn, type ApiClient } from '../support/http.js';
+import { apiClient, sessionCookieFrom, signIn, upgradeStatus, type ApiClient } from '../support/http.js';
 import { PASSWORD, PEOPLE, seedBasic, type BasicSeed, type Person } from '../support/seed.js';
 import { dbKinds, spawnServer, type SpawnedServer } from '../support/server.js';
 import * as S from '../../apps/server/src/http/schemas.js';
-
-/** Status of a WebSocket handshake for `/sync/<room>` (101 on success; the refusal status otherwise). */
-function upgradeStatus(baseUrl: string, room: string, headers: Record<string, string>): Promise<number> {
-  const url = new URL(`/sync/${room}`, baseUrl);
-  return new Promise((resolve, reject) => {
-    const req = request(url, {
-      headers: {
-        connection: 'Upgrade',
-        upgrade: 'websocket',
-        'sec-websocket-version': '13',
-        'sec-websocket-key': randomBytes(16).toString('base64'),
-        ...headers,
-      },
-    });
-    req.on('upgrade', (res, socket) => {
-      socket.destroy();
-      resolve(res.statusCode ?? 0);
-    });
-    req.on('response', (res) => {
-      res.resume();
-      resolve(res.statusCode ?? 0);
-    });
-    req.on('error', reject);
-    req.end();
-  });
-}
 
 describe.each(dbKinds())('HTTP API on %s', (kind) => {
   let server: SpawnedServer<BasicSeed>;

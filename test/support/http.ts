@@ -3,6 +3,9 @@
  * server's own origin would (cookie + Origin), and a ws class that sends the cookie and Origin so a
  * stock y-websocket client can authenticate.
  */
+import { randomBytes } from 'node:crypto';
+import { request } from 'node:http';
+
 export interface ApiResponse<T = unknown> {
   status: number;
   headers: Headers;
@@ -71,3 +74,30 @@ export function webSocketWithHeaders<C extends WsClass>(Base: C, headers: Record
     }
   } as unknown as C;
 }
+
+/** Status of a WebSocket handshake for `/sync/<room>` (101 on success; the refusal status otherwise). */
+export function upgradeStatus(baseUrl: string, room: string, headers: Record<string, string>): Promise<number> {
+  const url = new URL(`/sync/${room}`, baseUrl);
+  return new Promise((resolve, reject) => {
+    const req = request(url, {
+      headers: {
+        connection: 'Upgrade',
+        upgrade: 'websocket',
+        'sec-websocket-version': '13',
+        'sec-websocket-key': randomBytes(16).toString('base64'),
+        ...headers,
+      },
+    });
+    req.on('upgrade', (res, socket) => {
+      socket.destroy();
+      resolve(res.statusCode ?? 0);
+    });
+    req.on('response', (res) => {
+      res.resume();
+      resolve(res.statusCode ?? 0);
+    });
+    req.on('error', reject);
+    req.end();
+  });
+}
+

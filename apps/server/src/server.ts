@@ -20,6 +20,7 @@ import { createProjector, scheduleCatchUp, withProjection } from './projection/i
 import { createPgUpdateStore } from './store/index.js';
 import { attachSync, createLiveAccess } from './sync/index.js';
 import type { Relay } from './sync/contracts.js';
+import type { DocWriter } from './rounds/doc-change.js';
 
 export interface RunningServer {
   url: string;
@@ -60,12 +61,21 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     cleanups.push(() => liveAccess.close());
 
     let syncStats: () => Record<string, unknown> = () => ({});
+    // Server-made document changes go through the sync layer, which is attached after the app.
+    let syncWrite: DocWriter['write'] | null = null;
+    const docs: DocWriter = {
+      write: (docId, update, userId) => {
+        if (!syncWrite) return Promise.reject(new Error('sync is not attached yet'));
+        return syncWrite(docId, update, userId);
+      },
+    };
     const app = buildApp(
       {
         db: database.db,
         dbKind: database.kind,
         store,
         projector,
+        docs,
         sessions,
         liveAccess,
         signInLimiter: createRateLimiter(config.signInMaxFailures, config.signInWindowMs),
@@ -95,6 +105,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     });
     cleanups.push(() => sync.close());
     syncStats = () => ({ ...sync.stats() });
+    syncWrite = (docId, update, userId) => sync.write(docId, update, userId);
 
     const sweep = setInterval(() => {
       sessions.deleteExpired().catch((err: unknown) => logger.warn({ err }, 'expired-session sweep failed'));

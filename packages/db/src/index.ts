@@ -6,4 +6,4 @@ export { DatabaseError } from './errors.js';
 export { openDatabase, migrationsFolder, rowsOf } from './open.js';
 export type { Database, Db, DbKind, OpenOptions, Schema } from './open.js';
 // Query helpers re-exported so packages that only query (tests, scripts) need not depend on drizzle-orm.
-export { sql, eq, and, or, asc, desc, gt, gte, lt, lte, inArray, isNull } from 'drizzle-orm';
+export { sql, eq, and, or, asc, desc, gt, gte, lt, lte, inArray, isNull, isNotNull } from 'drizzle-orm';

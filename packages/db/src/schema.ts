@@ -23,6 +23,7 @@ import { bytea } from './bytea.js';
 export const ROLES = ['owner', 'lead', 'coder', 'trainee', 'observer'] as const;
 export const DOC_KINDS = ['text', 'layer', 'codebook', 'memos'] as const;
 export const STUDY_MODES = ['standard', 'reflexive'] as const;
+export const ROUND_PHASES = ['independent', 'revealed', 'closed'] as const;
 
 const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
 
@@ -108,7 +109,88 @@ export const texts = pgTable(
   (t) => [index('texts_study_idx').on(t.studyId)],
 );
 
-/** One row per Y.Doc; its id is the sync room name. */
+/**
+ * A calibration round (issue 8): texts coded independently by its participants, then revealed and
+ * compared, then closed. `number` counts the study's rounds from 1; it is the round number the
+ * codebook document's change log stamps definition edits with once the round is revealed.
+ */
+export const rounds = pgTable(
+  'rounds',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studyId: uuid('study_id')
+      .notNull()
+      .references(() => studies.id, { onDelete: 'cascade' }),
+    number: integer('number').notNull(),
+    name: text('name').notNull(),
+    purpose: text('purpose').notNull().default(''),
+    /** Unit of comparison: turn, paragraph, sentence, character or span (free spans). */
+    unit: text('unit').notNull(),
+    statistic: text('statistic').notNull(),
+    phase: text('phase', { enum: ROUND_PHASES }).notNull().default('independent'),
+    /** The codebook in force when the round started, kept as a named version. */
+    codebookVersionId: uuid('codebook_version_id'),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    revealedAt: timestamp('revealed_at', { withTimezone: true }),
+    closedAt: timestamp('closed_at', { withTimezone: true }),
+  },
+  (t) => [
+    uniqueIndex('rounds_study_number_key').on(t.studyId, t.number),
+    check('rounds_phase_check', sql`${t.phase} in ('independent', 'revealed', 'closed')`),
+  ],
+);
+
+export const roundTexts = pgTable(
+  'round_texts',
+  {
+    roundId: uuid('round_id')
+      .notNull()
+      .references(() => rounds.id, { onDelete: 'cascade' }),
+    textId: uuid('text_id')
+      .notNull()
+      .references(() => texts.id, { onDelete: 'cascade' }),
+    position: integer('position').notNull().default(0),
+  },
+  (t) => [primaryKey({ columns: [t.roundId, t.textId] }), index('round_texts_text_idx').on(t.textId)],
+);
+
+export const roundParticipants = pgTable(
+  'round_participants',
+  {
+    roundId: uuid('round_id')
+      .notNull()
+      .references(() => rounds.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+  },
+  (t) => [primaryKey({ columns: [t.roundId, t.userId] }), index('round_participants_user_idx').on(t.userId)],
+);
+
+/** A participant's "done" mark on one text of a round. */
+export const roundDone = pgTable(
+  'round_done',
+  {
+    roundId: uuid('round_id')
+      .notNull()
+      .references(() => rounds.id, { onDelete: 'cascade' }),
+    textId: uuid('text_id')
+      .notNull()
+      .references(() => texts.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    doneAt: timestamp('done_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.roundId, t.textId, t.userId] })],
+);
+
+/**
+ * One row per Y.Doc; its id is the sync room name. A layer belongs to a round when `round_id` is set;
+ * a round's consensus layer is the layer of a round with no coder (`coder_id` null), written by the
+ * lead and owner only. Layers outside rounds always have a coder.
+ */
 export const documents = pgTable(
   'documents',
   {
@@ -119,21 +201,29 @@ export const documents = pgTable(
       .references(() => studies.id, { onDelete: 'cascade' }),
     textId: uuid('text_id').references(() => texts.id, { onDelete: 'cascade' }),
     coderId: uuid('coder_id').references(() => users.id, { onDelete: 'cascade' }),
+    roundId: uuid('round_id').references(() => rounds.id, { onDelete: 'cascade' }),
     createdAt: createdAt(),
   },
   (t) => [
     check('documents_kind_check', sql`${t.kind} in ('text', 'layer', 'codebook', 'memos')`),
-    // Shape per kind: text -> text_id only; layer -> text_id and coder_id; codebook/memos -> neither.
+    // Shape per kind: text -> text_id only; layer -> text_id and (coder_id, or a round for a consensus
+    // layer); codebook/memos -> neither. Only layers belong to rounds.
     check(
       'documents_shape_check',
-      sql`(${t.kind} = 'text' and ${t.textId} is not null and ${t.coderId} is null)
-        or (${t.kind} = 'layer' and ${t.textId} is not null and ${t.coderId} is not null)
-        or (${t.kind} in ('codebook', 'memos') and ${t.textId} is null and ${t.coderId} is null)`,
+      sql`(${t.kind} = 'text' and ${t.textId} is not null and ${t.coderId} is null and ${t.roundId} is null)
+        or (${t.kind} = 'layer' and ${t.textId} is not null and (${t.coderId} is not null or ${t.roundId} is not null))
+        or (${t.kind} in ('codebook', 'memos') and ${t.textId} is null and ${t.coderId} is null and ${t.roundId} is null)`,
     ),
-    uniqueIndex('documents_layer_key').on(t.textId, t.coderId).where(sql`${t.kind} = 'layer'`),
+    // One layer per text per coder outside rounds; one per text per coder per round; one consensus layer per text per round.
+    uniqueIndex('documents_layer_key').on(t.textId, t.coderId).where(sql`${t.kind} = 'layer' and ${t.roundId} is null`),
+    uniqueIndex('documents_round_layer_key')
+      .on(t.roundId, t.textId, t.coderId)
+      .where(sql`${t.kind} = 'layer' and ${t.roundId} is not null and ${t.coderId} is not null`),
+    uniqueIndex('documents_consensus_key').on(t.roundId, t.textId).where(sql`${t.kind} = 'layer' and ${t.coderId} is null`),
     uniqueIndex('documents_text_key').on(t.textId).where(sql`${t.kind} = 'text'`),
     uniqueIndex('documents_study_kind_key').on(t.studyId, t.kind).where(sql`${t.kind} in ('codebook', 'memos')`),
     index('documents_study_idx').on(t.studyId),
+    index('documents_round_idx').on(t.roundId),
   ],
 );
 
@@ -232,6 +322,8 @@ export const auditLog = pgTable(
 export type Role = (typeof ROLES)[number];
 export type DocKind = (typeof DOC_KINDS)[number];
 export type StudyMode = (typeof STUDY_MODES)[number];
+export type RoundPhase = (typeof ROUND_PHASES)[number];
+export type RoundRow = typeof rounds.$inferSelect;
 export type UserRow = typeof users.$inferSelect;
 export type StudyRow = typeof studies.$inferSelect;
 export type TextRow = typeof texts.$inferSelect;

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
 import {
   addCode, addExample, addExclusiveSet, addInVivoCode, addTheme, codeTree, createCodebookDoc, currentRound,
-  getCode, getCodes, listChanges, listExclusiveSets, listThemes, removeExample, setThemeMember, startRound, updateCodeField,
+  getCode, getCodes, listChanges, listExclusiveSets, listThemes, removeExample, setThemeMember, startRound, enterRound, updateCodeField,
 } from './codebook-doc.js';
 import { ConflictError, InvalidArgumentError, NotFoundError } from './errors.js';
 import { OKABE_ITO } from './palette.js';
@@ -83,5 +83,11 @@ describe('codebook document', () => {
     expect(currentRound(cb)).toBe(1);
     updateCodeField(cb, kid, 'briefDefinition', 'Yearly gatherings.', lead);
     expect(listChanges(cb, kid).at(-1)).toMatchObject({ kind: 'edit', field: 'briefDefinition', round: 1 });
+    // A server round numbered 3 stamps later edits with 3; going back is ignored.
+    expect(enterRound(cb, 3, lead, 'round 3 revealed')).toBe(true);
+    expect(enterRound(cb, 2, lead, 'late')).toBe(false);
+    updateCodeField(cb, kid, 'briefDefinition', 'Yearly gatherings in the square.', lead);
+    expect(listChanges(cb, kid).at(-1)).toMatchObject({ kind: 'edit', round: 3 });
+    expect(listChanges(cb).filter((c) => c.kind === 'round').map((c) => c.detail)).toEqual(['round 1 started', 'round 3 revealed']);
   });
 });

@@ -129,6 +129,20 @@ export function startRound(cb: Y.Doc, actor: Actor): number {
   return next;
 }
 
+/**
+ * Sets the round number that definition edits are stamped with from now on (a server's calibration
+ * round, numbered by the server), logging it with `detail`. Never goes back: a lower number is ignored.
+ */
+export function enterRound(cb: Y.Doc, round: number, actor: Actor, detail: string): boolean {
+  if (!Number.isInteger(round) || round < 1) throw new InvalidArgumentError('a round number is a whole number from 1');
+  if (currentRound(cb) >= round) return false;
+  cb.transact(() => {
+    metaMap(cb).set('round', round);
+    logChange(cb, actor, 'round', [], { detail });
+  });
+  return true;
+}
+
 export function logChange(cb: Y.Doc, actor: Actor, kind: ChangeKind, codeIds: string[], extra: { field?: string; detail?: string } = {}): ChangeEntry {
   const entry: ChangeEntry = {
     id: newId('c'),

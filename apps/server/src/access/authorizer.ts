@@ -14,7 +14,7 @@ import { recordAudit } from '../admin/audit.js';
 import { HttpError, forbidden, notFound, unauthenticated } from '../errors.js';
 import type { Recheck, RoomAuthorizer, RoomGrant } from '../sync/contracts.js';
 import { findDocument, roleIn } from './membership.js';
-import { roomAccess } from './policy.js';
+import { decideDocument } from './rounds.js';
 
 export interface AuthorizerDeps {
   db: Db;
@@ -44,8 +44,9 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
     if (!doc) return { ok: false, status: 404, reason: LOST_ACCESS.gone };
     const role = await roleIn(db, doc.studyId, session.user.id);
     if (!role) return { ok: false, status: 403, reason: LOST_ACCESS.notMember };
-    const access = roomAccess(role, doc, session.user.id);
-    if (!access.read) return { ok: false, status: 403, reason: LOST_ACCESS.mayNotRead };
+    // Rounds narrow the role table per document (an independent phase); `reason` says why in plain words.
+    const access = await decideDocument(db, doc, role, session.user.id);
+    if (!access.read) return { ok: false, status: 403, reason: access.reason ?? LOST_ACCESS.mayNotRead };
     return {
       ok: true,
       viewed: doc.kind === 'layer' && doc.coderId !== session.user.id ? { coderId: doc.coderId, textId: doc.textId } : null,
@@ -62,6 +63,7 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
         role,
         canWrite: access.write || access.writeRule !== undefined,
         ...(access.writeRule ? { writeRule: access.writeRule } : {}),
+        hidePointing: access.hidePointing,
       },
     };
   }
@@ -82,7 +84,7 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
       const decision = await decide(session, room);
       if (!decision.ok) {
         if (decision.status === 404) throw notFound('Room');
-        throw forbidden(decision.reason === LOST_ACCESS.notMember ? 'You are not a member of this study.' : undefined);
+        throw forbidden(decision.reason === LOST_ACCESS.notMember ? 'You are not a member of this study.' : decision.reason === LOST_ACCESS.mayNotRead ? undefined : decision.reason);
       }
       const { grant } = decision;
       if (decision.viewed) {

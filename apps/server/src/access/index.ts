@@ -1,3 +1,4 @@
-export { ACTIONS, can, canAssignRole, roomAccess, type Action, type RoomAccess } from './policy.js';
+export { ACTIONS, can, canAssignRole, documentAccess, roomAccess, type Action, type DocumentAccess, type RoomAccess } from './policy.js';
+export { decideDocument, openRoundOfText, roundFacts, roundsForDocument, type DocRounds, type RoundFacts } from './rounds.js';
 export { roleIn, findDocument, isUuid } from './membership.js';
 export { createRoomAuthorizer, type AuthorizerDeps } from './authorizer.js';

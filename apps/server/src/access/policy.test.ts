@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import type { Role } from '../sync/contracts.js';
-import { ACTIONS, can, canAssignRole, roomAccess } from './policy.js';
+import { ACTIONS, can, canAssignRole, documentAccess, roomAccess } from './policy.js';
 
 const ROLES: Role[] = ['owner', 'lead', 'coder', 'trainee', 'observer'];
 const me = 'u-me';
@@ -47,5 +47,37 @@ describe('role table', () => {
     expect(canAssignRole('lead', 'owner')).toBe(false);
     expect(canAssignRole('lead', 'coder')).toBe(true);
     expect(canAssignRole('coder', 'trainee')).toBe(false);
+  });
+});
+
+describe('rounds narrow the table (issue 8)', () => {
+  const round = (phase: 'independent' | 'revealed' | 'closed', participants: string[]) => ({ id: 'r1', studyId: 's', phase, participants: new Set(participants) });
+  const layer = (coderId: string | null, roundId: string | null = null) => ({ kind: 'layer' as const, coderId, roundId });
+
+  it('independent phase: a participant reads only their own layers of the text, and its presence hides pointing', () => {
+    const r = round('independent', [me, other]);
+    const ctx = (own: boolean) => ({ openRound: r, layerRound: own ? r : null });
+    expect(documentAccess('coder', layer(me, 'r1'), me, ctx(true))).toMatchObject({ read: true, write: true, hidePointing: true });
+    expect(documentAccess('coder', layer(other, 'r1'), me, ctx(true)).read).toBe(false);
+    expect(documentAccess('coder', layer(other), me, ctx(false)).read).toBe(false); // another's layer outside the round
+    expect(documentAccess('lead', layer(other), me, ctx(false)).read).toBe(false); // a participating lead too
+    expect(documentAccess('coder', { kind: 'text', coderId: null }, me, ctx(false))).toMatchObject({ read: true, hidePointing: true });
+    expect(documentAccess('coder', layer(null, 'r1'), me, ctx(true)).read).toBe(false); // consensus waits for the reveal
+  });
+
+  it('independent phase: nobody but its coder opens a round layer; non-participants keep layers outside the round', () => {
+    const r = round('independent', [other, 'u-third']);
+    for (const role of ROLES) expect(documentAccess(role, layer(other, 'r1'), me, { openRound: r, layerRound: r }).read, role).toBe(false);
+    expect(documentAccess('lead', layer(other), me, { openRound: r, layerRound: null })).toMatchObject({ read: true, hidePointing: false });
+  });
+
+  it('revealed: round layers readable, frozen for their coder; consensus written by lead and owner only; closed: read-only', () => {
+    const r = round('revealed', [me, other]);
+    expect(documentAccess('coder', layer(other, 'r1'), me, { openRound: r, layerRound: r })).toMatchObject({ read: true, write: false, hidePointing: false });
+    expect(documentAccess('coder', layer(me, 'r1'), me, { openRound: r, layerRound: r })).toMatchObject({ read: true, write: false });
+    expect(ROLES.filter((role) => documentAccess(role, layer(null, 'r1'), me, { openRound: r, layerRound: r }).write)).toEqual(['owner', 'lead']);
+    expect(ROLES.filter((role) => documentAccess(role, layer(null, 'r1'), me, { openRound: r, layerRound: r }).read)).toEqual(ROLES);
+    const c = round('closed', [me, other]);
+    expect(ROLES.filter((role) => documentAccess(role, layer(null, 'r1'), me, { openRound: null, layerRound: c }).write)).toEqual([]);
   });
 });

@@ -1,9 +1,12 @@
 /**
  * The one table that says which role may do what in a study. Every permission check in the server
- * reads it; nothing else encodes role rules. (A later issue adds independent rounds, which hide
- * other coders' layers from coders and trainees until the reveal: that narrows `layer.readOthers`.)
+ * reads it; nothing else encodes role rules. Calibration rounds narrow it per document
+ * (`documentAccess`): during a round's independent phase its participants see no one else's layer of
+ * the round's texts and nobody sees a round layer but its coder; consensus layers are written by
+ * lead and owner while the round is revealed.
  */
 import type { Role, WriteRule } from '../sync/contracts.js';
+import type { DocRounds, RoundFacts } from './rounds.js';
 
 export const ACTIONS = [
   'study.read',
@@ -22,6 +25,9 @@ export const ACTIONS = [
   'export',
   'audit.view',
   'agreement.read', // intercoder agreement: compares everyone's layers, so not for those still coding
+  'round.read', // see the study's rounds (names, phases, progress of one's own)
+  'round.manage', // start, reveal, close a round; see its progress board
+  'consensus.write', // adjudicate into a round's consensus layer
 ] as const;
 export type Action = (typeof ACTIONS)[number];
 
@@ -47,6 +53,9 @@ const TABLE: Record<Action, Record<Role, boolean>> = {
   'export':             { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'audit.view':         { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'agreement.read':     { owner: o, lead: o, coder: _, trainee: _, observer: o },
+  'round.read':         { owner: o, lead: o, coder: o, trainee: o, observer: o },
+  'round.manage':       { owner: o, lead: o, coder: _, trainee: _, observer: _ },
+  'consensus.write':    { owner: o, lead: o, coder: _, trainee: _, observer: _ },
 };
 
 export function can(role: Role, action: Action): boolean {
@@ -93,4 +102,49 @@ export function roomAccess(
       // Each person writes only their own memos: checked per update on the server (write-rules.ts).
       return { read: can(role, 'study.read'), write: can(role, 'memos.write'), ...(can(role, 'memos.write') ? { writeRule: 'own-memos' as const } : {}) };
   }
+}
+
+export interface DocumentAccess extends RoomAccess {
+  /**
+   * The reader is a participant coding this document's text independently: other people's presence
+   * fields that show where they point (caret, selection, hovered segment) are withheld from them.
+   */
+  hidePointing: boolean;
+  /** Why reading is refused, in plain words (when `read` is false). */
+  reason?: string;
+}
+
+export interface AccessDoc {
+  kind: 'text' | 'layer' | 'codebook' | 'memos';
+  coderId: string | null;
+  roundId?: string | null;
+}
+
+const independentFor = (round: RoundFacts | null, userId: string) => round !== null && round.phase === 'independent' && round.participants.has(userId);
+
+/**
+ * The one decision about a document with rounds taken into account; the sync upgrade and every route
+ * that reads layers ask it. `rounds` comes from `roundsForDocument`.
+ */
+export function documentAccess(role: Role, doc: AccessDoc, userId: string, rounds: DocRounds): DocumentAccess {
+  const { layerRound, openRound } = rounds;
+  const hidePointing = independentFor(openRound, userId);
+  if (doc.kind !== 'layer') return { ...roomAccess(role, doc, userId), hidePointing };
+  const no = (reason: string): DocumentAccess => ({ read: false, write: false, hidePointing, reason });
+  if (doc.roundId && !layerRound) return no('This layer’s round no longer exists.');
+  if (doc.coderId === null) {
+    // A round's consensus layer: empty until the reveal, adjudicated while revealed, kept after close.
+    if (!layerRound || layerRound.phase === 'independent') return no('The consensus layer opens when the round is revealed.');
+    if (hidePointing) return no('You are coding this text independently in a round.');
+    return { read: can(role, 'layer.readOthers'), write: layerRound.phase === 'revealed' && can(role, 'consensus.write'), hidePointing };
+  }
+  if (doc.coderId === userId) {
+    if (!layerRound) return { read: true, write: can(role, 'layer.writeOwn'), hidePointing };
+    // A round layer takes coding during the independent phase only: what is coded after seeing others is not independent.
+    return { read: true, write: layerRound.phase === 'independent' && can(role, 'layer.writeOwn'), hidePointing };
+  }
+  if (!can(role, 'layer.readOthers')) return no('Your role does not let you read others’ layers.');
+  if (hidePointing) return no('You are coding this text independently in a round: others’ layers open after the reveal.');
+  if (layerRound && layerRound.phase === 'independent') return no('Layers of a round open to others when the round is revealed.');
+  return { read: true, write: false, hidePointing };
 }

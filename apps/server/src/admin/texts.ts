@@ -1,7 +1,7 @@
 /** Adding texts to a study and finding or creating a coder's layer on a text. */
 import { type Db, documents, texts, updates } from '@gloss/db';
 import type { Transcript } from '@gloss/model';
-import { and, eq } from 'drizzle-orm';
+import { and, eq, isNull } from 'drizzle-orm';
 import { HttpError } from '../errors.js';
 import { recordAudit } from './audit.js';
 import { buildTextDocUpdate, wordCount } from './text-doc.js';
@@ -40,12 +40,12 @@ export async function addTextFromTranscript(db: Db, studyId: string, input: NewT
   });
 }
 
-/** The layer document of `coderId` on a text, created on first use (race-safe via the unique index). */
+/** The layer document of `coderId` on a text outside rounds, created on first use (race-safe via the unique index). */
 export async function ensureLayer(db: Db, studyId: string, textId: string, coderId: string): Promise<string> {
   await db.insert(documents).values({ kind: 'layer', studyId, textId, coderId }).onConflictDoNothing();
   const [row] = await db
     .select({ id: documents.id })
     .from(documents)
-    .where(and(eq(documents.kind, 'layer'), eq(documents.textId, textId), eq(documents.coderId, coderId)));
+    .where(and(eq(documents.kind, 'layer'), eq(documents.textId, textId), eq(documents.coderId, coderId), isNull(documents.roundId)));
   return row!.id;
 }

@@ -17,7 +17,7 @@ export interface ReportInput {
   texts: TextInput[];
   codes: string[];
   coders: string[];
-  bootstrap?: { replicates: number; seed: number };
+  bootstrap?: { replicates: number; seed: number; scheme?: 'texts' | 'units' };
 }
 
 type Block = Coefficient;
@@ -65,7 +65,7 @@ export function agreementReport(input: ReportInput): ServerReport {
   }
   const scale = unit === 'character' ? 'character' : 'fixed';
   if (input.statistic === 'krippendorff-alpha') {
-    const r = studyReport(study, { unit: scale, ...(input.bootstrap ? { bootstrap: { ...input.bootstrap, scheme: 'texts' as const } } : {}) });
+    const r = studyReport(study, { unit: scale, ...(input.bootstrap ? { bootstrap: { scheme: 'texts' as const, ...input.bootstrap } } : {}) });
     return {
       statistic: 'krippendorff-alpha',
       pooled: fromAlpha(r.pooled),

@@ -15,7 +15,8 @@ import {
   users,
 } from '@gloss/db';
 import { and, asc, eq, inArray } from 'drizzle-orm';
-import { roomAccess } from '../access/policy.js';
+import { documentAccess } from '../access/policy.js';
+import { studyRounds } from '../access/rounds.js';
 import type { Role } from '../sync/contracts.js';
 import type { CaseFact, SegmentFact } from './tables.js';
 
@@ -33,8 +34,15 @@ export interface CaseInfo extends CaseFact {
 
 /** Layer documents of the study the caller may read. */
 export async function readableLayers(db: Db, studyId: string, role: Role, me: string): Promise<string[]> {
-  const rows = await db.select({ id: documents.id, coderId: documents.coderId }).from(documents).where(and(eq(documents.studyId, studyId), eq(documents.kind, 'layer')));
-  return rows.filter((r) => roomAccess(role, { kind: 'layer', coderId: r.coderId }, me).read).map((r) => r.id);
+  const rows = await db
+    .select({ id: documents.id, coderId: documents.coderId, roundId: documents.roundId, textId: documents.textId })
+    .from(documents)
+    .where(and(eq(documents.studyId, studyId), eq(documents.kind, 'layer')));
+  // Rounds narrow who reads which layer (an independent phase hides others' coding): the one rule in access/.
+  const { byId, openByText } = await studyRounds(db, studyId);
+  return rows
+    .filter((r) => documentAccess(role, { kind: 'layer', coderId: r.coderId, roundId: r.roundId }, me, { openRound: openByText.get(r.textId ?? '') ?? null, layerRound: r.roundId ? (byId.get(r.roundId) ?? null) : null }).read)
+    .map((r) => r.id);
 }
 
 export async function studyCodes(db: Db, studyId: string): Promise<CodeInfo[]> {

@@ -116,7 +116,9 @@ export async function loadStudy(db: Db, store: DocLoader, studyId: string, opts:
     memos?.destroy();
   }
   const canRead = opts.canReadLayer ?? (() => true);
-  const layerDocs = docs.filter((d) => d.kind === 'layer' && d.coderId !== null && canRead(d.coderId));
+  // Layers outside rounds: a round's layers are calibration material (its report covers them), and a
+  // coder's round layer beside their own layer would count them twice on a text.
+  const layerDocs = docs.filter((d) => d.kind === 'layer' && d.roundId === null && d.coderId !== null && canRead(d.coderId));
   // everyone who appears: members, coders of readable layers, memo authors
   const members = await db.select({ userId: memberships.userId }).from(memberships).where(eq(memberships.studyId, studyId));
   const ids = new Set([...members.map((m) => m.userId), ...layerDocs.map((d) => d.coderId!), ...memoRows.map((m) => m.author)]);

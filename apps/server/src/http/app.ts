@@ -23,6 +23,7 @@ import { accountLinkRoutes } from './account-links.js';
 import { invitationRoutes } from './invitations.js';
 import { exchangeRoutes, lossesRoutes } from './exchange.js';
 import { analysisRoutes } from './analysis.js';
+import { roundRoutes, studyRoundRoutes } from './rounds.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
   const app = new Hono<AppEnv>();
@@ -51,6 +52,8 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/texts', comparisonRoutes(deps));
   api.route('/', commentRoutes(deps));
   api.route('/documents', versionRoutes(deps));
+  api.route('/studies/:studyId/rounds', studyRoundRoutes(deps));
+  api.route('/rounds', roundRoutes(deps));
   api.notFound(onNotFound);
   api.all('*', onNotFound);
   app.route('/api', api);

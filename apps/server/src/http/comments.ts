@@ -23,7 +23,7 @@ import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
 import { requireStore } from './segments.js';
 import { studyRole, textRole } from './study-access.js';
-import { textDocuments } from './text-layers.js';
+import { comparedAs, textDocuments } from './text-layers.js';
 import { idParam, readJson } from './validate.js';
 
 const MAX_BODY = 10_000;
@@ -79,7 +79,7 @@ async function segmentQuotes(deps: AppDeps, roots: SegmentCommentRow[]): Promise
 /** The layers of a text the person may read: the one rule, shared with the segments route. */
 async function readableLayers(deps: AppDeps, textId: string, role: Parameters<typeof textDocuments>[2], userId: string) {
   const { layers } = await textDocuments(deps.db, textId, role, userId);
-  return new Map(layers.map((l) => [l.layerDocId, l.coderId]));
+  return new Map(layers.map((l) => [l.layerDocId, comparedAs(l)]));
 }
 
 async function threadsOf(deps: AppDeps, roots: SegmentCommentRow[], coders: Map<string, string>): Promise<ThreadOut[]> {

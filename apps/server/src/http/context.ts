@@ -7,6 +7,7 @@ import type { ServerConfig } from '../config.js';
 import type { CommentEvents } from '../comments/events.js';
 import type { UpdateStore } from '../sync/contracts.js';
 import type { LiveAccess } from '../sync/live-access.js';
+import type { DocWriter } from '../rounds/doc-change.js';
 
 export interface AppDeps {
   db: Db;
@@ -25,6 +26,8 @@ export interface AppDeps {
   commentEvents?: CommentEvents;
   /** Notes documents written outside sync (imports) for the relational projection. */
   projector?: { notify(docId: string): void };
+  /** Server-made document changes through the sync layer (absent in bare app tests). */
+  docs?: DocWriter;
   /** Extra readiness facts for /api/health (sync stats…). */
   health?: () => Record<string, unknown>;
   /** The first-run claim (set-up code); absent: this server cannot be set up from the browser. */

@@ -9,6 +9,7 @@ import * as S from './schemas.js';
 import { codingPaths } from './openapi-coding.js';
 import { exchangePaths } from './openapi-exchange.js';
 import { peoplePaths } from './openapi-people.js';
+import { roundPaths, roundSchemas } from './openapi-rounds.js';
 
 const components = {
   AddMemberBody: S.AddMemberBody,
@@ -26,6 +27,7 @@ const components = {
   StudySummary: S.StudySummary,
   TextDetail: S.TextDetail,
   TextSummary: S.TextSummary,
+  ...roundSchemas,
 };
 type Name = keyof typeof components;
 
@@ -157,7 +159,8 @@ export function buildOpenApi() {
       },
       '/api/texts/{textId}': {
         get: {
-          summary: "A text's room and the layer rooms the caller may open (creates the caller's own layer on first open)",
+          summary:
+            "A text's room and the layer rooms the caller may open (creates the caller's own layer on first open). Layers outside rounds and those of the open round the text is in; each says its round (id or null) and kind (coder or consensus). `round` names that open round and whether the caller takes part.",
           security: secured,
           parameters: [idParam('textId')],
           responses: { ...ok('TextDetail', 'The text'), ...errors(401, 404) },
@@ -166,6 +169,7 @@ export function buildOpenApi() {
       ...codingPaths,
       ...exchangePaths,
       ...peoplePaths,
+      ...roundPaths,
     },
   };
 }

@@ -71,8 +71,23 @@ export const TextSummary = z.object({
   wordCount: z.number().int(),
   createdAt: z.string(),
 });
-export const Layer = z.object({ room: z.uuid(), coderId: z.uuid(), name: z.string(), mine: z.boolean(), canWrite: z.boolean() });
-export const TextDetail = TextSummary.extend({ studyId: z.uuid(), canWrite: z.boolean(), layers: z.array(Layer) });
+/** A layer as GET /api/texts/:id and GET /api/rounds/:id list it. */
+export const LayerEntry = z.object({
+  room: z.uuid(),
+  coderId: z.uuid().nullable(),
+  name: z.string(),
+  mine: z.boolean(),
+  canWrite: z.boolean(),
+  round: z.uuid().nullable(),
+  kind: z.enum(['coder', 'consensus']),
+});
+export const TextDetail = TextSummary.extend({
+  studyId: z.uuid(),
+  canWrite: z.boolean(),
+  /** The open round this text is in, if any, and whether the caller codes in it. */
+  round: z.object({ id: z.uuid(), name: z.string(), number: z.number().int(), phase: z.enum(['independent', 'revealed', 'closed']), participant: z.boolean() }).nullable(),
+  layers: z.array(LayerEntry),
+});
 export const AuditEntry = z.object({
   id: z.number().int(),
   at: z.string(),
@@ -82,3 +97,61 @@ export const AuditEntry = z.object({
   target: z.string().nullable(),
   detail: z.record(z.string(), z.unknown()).nullable(),
 });
+
+const uuidList = (what: string, min: number) =>
+  z
+    .array(z.uuid())
+    .min(min, { message: `name at least ${min} ${what}` })
+    .max(500)
+    .refine((ids) => new Set(ids.map((id) => id.toLowerCase())).size === ids.length, { message: `each ${what.replace(/s$/, '')} once` });
+
+/** POST /api/studies/:id/rounds (issue 8 item 10: scripts outside the project rely on these names). */
+export const NewRoundBody = z.object({
+  name: z.string().trim().min(1).max(200),
+  purpose: z.string().max(2000).optional(),
+  textIds: uuidList('texts', 1),
+  participantIds: uuidList('participants', 2),
+  unit: z.enum(['turn', 'paragraph', 'sentence', 'character', 'span']),
+  statistic: z.enum(['krippendorff-alpha', 'cohen-kappa', 'scott-pi', 'fleiss-kappa', 'percent-agreement']),
+});
+
+export const RoundPhaseSchema = z.enum(['independent', 'revealed', 'closed']);
+export const RoundSummary = z.object({
+  id: z.uuid(),
+  studyId: z.uuid(),
+  number: z.number().int(),
+  name: z.string(),
+  purpose: z.string(),
+  unit: z.string(),
+  statistic: z.string(),
+  phase: RoundPhaseSchema,
+  codebookVersionId: z.uuid().nullable(),
+  createdAt: z.string(),
+  revealedAt: z.string().nullable(),
+  closedAt: z.string().nullable(),
+  createdBy: z.object({ id: z.uuid(), name: z.string() }).nullable(),
+  texts: z.array(z.object({ id: z.uuid(), title: z.string(), wordCount: z.number().int() })),
+  participants: z.array(z.object({ id: z.uuid(), name: z.string() })),
+  me: z.object({ participant: z.boolean(), canManage: z.boolean(), done: z.array(z.uuid()) }),
+});
+export const RoundDetail = RoundSummary.extend({
+  texts: z.array(z.object({ id: z.uuid(), title: z.string(), wordCount: z.number().int(), room: z.uuid(), consensusRoom: z.uuid().nullable(), layers: z.array(LayerEntry) })),
+});
+export const RoundProgress = z.object({
+  roundId: z.uuid(),
+  phase: RoundPhaseSchema,
+  rows: z.array(
+    z.object({
+      participantId: z.uuid(),
+      name: z.string(),
+      textId: z.uuid(),
+      title: z.string(),
+      words: z.number().int().describe('words in the text'),
+      wordsCoded: z.number().int().describe('words covered by at least one of the participant’s segments'),
+      segments: z.number().int(),
+      done: z.boolean(),
+      doneAt: z.string().nullable(),
+    }),
+  ),
+});
+export const DoneBody = z.object({ done: z.boolean() });

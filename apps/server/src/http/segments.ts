@@ -14,11 +14,16 @@ import { withDocs, type DocLoader } from '../projection/load-doc.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
 import { textRole } from './study-access.js';
-import { codebookDocId, textDocuments, type VisibleLayer } from './text-layers.js';
+import { codebookDocId, comparedAs, textDocuments, type VisibleLayer } from './text-layers.js';
 
 export interface SegmentOut {
   id: string;
-  coderId: string;
+  /** null: a segment of a round's consensus layer. */
+  coderId: string | null;
+  /** The layer's room, its round (null outside rounds) and kind. */
+  layer: string;
+  round: string | null;
+  kind: 'coder' | 'consensus';
   codeId: string;
   start: number;
   end: number;
@@ -31,16 +36,27 @@ export function requireStore(deps: AppDeps): DocLoader {
   return deps.store;
 }
 
+const cmp = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
+
 /**
  * Pure: resolved segments of the given layers plus each segment's flag kinds. The flags are computed
  * over the layers of those counted as coders of the text (agreement/coders.ts: by default whoever
- * applied a code; a round passes its participants), the same rule the agreement report uses.
+ * applied a code; a round passes its participants), the same rule the agreement report uses. Layers
+ * outside rounds, a round's coder layers and a consensus layer are flagged each among their own kind:
+ * a coder's round layer and their own layer outside it are not two coders, nor duplicates of each other.
  */
 export function segmentsWithFlags(textDoc: Y.Doc, codebook: Y.Doc, layers: Array<VisibleLayer & { doc: Y.Doc }>, choice: CoderChoice = {}): SegmentOut[] {
   const turns = readTurns(textDoc);
-  const counted = countedOn(decideCoders([{ textId: '', layers: layers.map((l) => ({ coderId: l.coderId, segments: listSegments(l.doc).length })) }], choice), '');
-  const flagged = layers.filter((l) => counted.includes(l.coderId));
-  const flags = computeFlags({ textDoc, codebook, layers: flagged.map((l) => ({ layerId: l.layerDocId, coder: l.coderId, doc: l.doc })) });
+  const groups = new Map<string, Array<VisibleLayer & { doc: Y.Doc }>>();
+  for (const l of layers) {
+    const key = l.coderId === null ? `consensus:${l.layerDocId}` : (l.roundId ?? '');
+    groups.set(key, [...(groups.get(key) ?? []), l]);
+  }
+  const flags = [...groups.entries()].flatMap(([key, group]) => {
+    const counted = countedOn(decideCoders([{ textId: '', layers: group.map((l) => ({ coderId: comparedAs(l), segments: listSegments(l.doc).length })) }], key === '' ? choice : {}), '');
+    const flagged = group.filter((l) => counted.includes(comparedAs(l)));
+    return computeFlags({ textDoc, codebook, layers: flagged.map((l) => ({ layerId: l.layerDocId, coder: comparedAs(l), doc: l.doc })) });
+  });
   const kinds = new Map<string, Set<string>>();
   for (const f of flags) {
     for (const ref of f.segments) {
@@ -57,6 +73,9 @@ export function segmentsWithFlags(textDoc: Y.Doc, codebook: Y.Doc, layers: Array
       out.push({
         id: s.id,
         coderId: l.coderId,
+        layer: l.layerDocId,
+        round: l.roundId ?? null,
+        kind: l.coderId === null ? 'consensus' : 'coder',
         codeId: s.codeId,
         start: s.start,
         end: s.end,
@@ -65,7 +84,7 @@ export function segmentsWithFlags(textDoc: Y.Doc, codebook: Y.Doc, layers: Array
       });
     }
   }
-  return out.sort((a, b) => a.start - b.start || a.end - b.end || (a.coderId < b.coderId ? -1 : a.coderId > b.coderId ? 1 : a.id < b.id ? -1 : 1));
+  return out.sort((a, b) => a.start - b.start || a.end - b.end || cmp(a.coderId ?? '', b.coderId ?? '') || cmp(a.layer, b.layer) || cmp(a.id, b.id));
 }
 
 export function segmentRoutes(deps: AppDeps) {
@@ -87,7 +106,7 @@ export function segmentRoutes(deps: AppDeps) {
         layers.map((l, i) => ({ ...l, doc: rest[i]! })),
       );
     });
-    const others = layers.filter((l) => l.coderId !== me).map((l) => l.coderId);
+    const others = layers.filter((l) => l.coderId !== me).map((l) => l.coderId ?? 'consensus');
     if (others.length > 0) {
       // Who read whose coding is part of the access log (DESIGN §6), as when a layer room is opened.
       await recordAudit(deps.db, { userId: me, studyId: text.studyId, action: 'segments.view', target: textId, detail: { coderIds: others } });

@@ -1,8 +1,10 @@
 /** GET/POST /api/studies/:studyId/texts and GET /api/texts/:textId (its rooms, opening the caller's layer). */
-import { documents, texts, users } from '@gloss/db';
-import { and, asc, eq } from 'drizzle-orm';
+import { documents, rounds, texts, users } from '@gloss/db';
+import { and, asc, eq, isNull, or } from 'drizzle-orm';
 import { Hono } from 'hono';
 import { can, roomAccess } from '../access/policy.js';
+import { openRoundOfText } from '../access/rounds.js';
+import { layerEntries } from '../rounds/layer-entries.js';
 import { addTextFromTranscript, ensureLayer } from '../admin/texts.js';
 import { transcriptFromPlainText } from '../admin/text-doc.js';
 import { HttpError, notFound } from '../errors.js';
@@ -62,25 +64,32 @@ export function textRoutes(deps: AppDeps) {
 
   app.get('/:textId', async (c) => {
     const { text, me, role } = await textRole(deps, c);
+    const openRound = await openRoundOfText(deps.db, text.id);
+    // While coding a text independently in a round, a participant codes in their round layer only.
+    const codesInRound = openRound !== null && openRound.phase === 'independent' && openRound.participants.has(me);
     // A coder's own layer exists from the first time they open the text.
-    if (can(role, 'layer.writeOwn')) await ensureLayer(deps.db, text.studyId, text.id, me);
+    if (can(role, 'layer.writeOwn') && !codesInRound) await ensureLayer(deps.db, text.studyId, text.id, me);
+    // The text, the layers outside rounds, and the layers of the open round (closed rounds: GET /api/rounds/:id).
     const docs = await deps.db
-      .select({ id: documents.id, kind: documents.kind, coderId: documents.coderId, coderName: users.name })
+      .select({ id: documents.id, kind: documents.kind, coderId: documents.coderId, roundId: documents.roundId, coderName: users.name })
       .from(documents)
       .leftJoin(users, eq(users.id, documents.coderId))
-      .where(eq(documents.textId, text.id))
+      .where(and(eq(documents.textId, text.id), openRound ? or(isNull(documents.roundId), eq(documents.roundId, openRound.id)) : isNull(documents.roundId)))
       .orderBy(asc(users.name));
     const textDoc = docs.find((d) => d.kind === 'text');
     if (!textDoc) throw notFound('Text document');
-    const layers = docs
-      .filter((d) => d.kind === 'layer')
-      .map((d) => ({ d, access: roomAccess(role, { kind: 'layer', coderId: d.coderId }, me) }))
-      .filter(({ access }) => access.read)
-      .map(({ d, access }) => ({ room: d.id, coderId: d.coderId!, name: d.coderName ?? '', mine: d.coderId === me, canWrite: access.write }));
+    const layerDocs = docs.filter((d) => d.kind === 'layer' && !(codesInRound && d.roundId === null && d.coderId === me));
+    const layers = layerEntries(layerDocs, role, me, openRound, (id) => (id === openRound?.id ? openRound : null));
+    let round = null;
+    if (openRound) {
+      const [r] = await deps.db.select({ name: rounds.name, number: rounds.number }).from(rounds).where(eq(rounds.id, openRound.id));
+      round = { id: openRound.id, name: r?.name ?? '', number: r?.number ?? 0, phase: openRound.phase, participant: openRound.participants.has(me) };
+    }
     return c.json({
       ...textSummary(text, textDoc.id),
       studyId: text.studyId,
       canWrite: roomAccess(role, { kind: 'text', coderId: null }, me).write,
+      round,
       layers,
     });
   });

@@ -10,7 +10,7 @@ import { and, asc, eq } from 'drizzle-orm';
 import { Hono, type Context } from 'hono';
 import * as Y from 'yjs';
 import { findDocument, roleIn } from '../access/membership.js';
-import { roomAccess } from '../access/policy.js';
+import { decideDocument } from '../access/rounds.js';
 import { recordAudit } from '../admin/audit.js';
 import { HttpError, forbidden, notFound } from '../errors.js';
 import { loadDoc, withDocs } from '../projection/load-doc.js';
@@ -18,7 +18,7 @@ import { compareCodebook, compareText, pastDoc, readPastText, segmentsThenNow } 
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
 import { requireStore } from './segments.js';
-import { textDocuments } from './text-layers.js';
+import { comparedAs, textDocuments } from './text-layers.js';
 import { idParam, readJson } from './validate.js';
 import { z } from 'zod';
 
@@ -31,8 +31,8 @@ async function documentFor(deps: AppDeps, c: Context<AppEnv>) {
   const me = c.get('session').user.id;
   const role = await roleIn(deps.db, doc.studyId, me);
   if (!role) throw notFound('Document');
-  const access = roomAccess(role, doc, me);
-  if (!access.read) throw forbidden();
+  const access = await decideDocument(deps.db, doc, role, me);
+  if (!access.read) throw forbidden(access.reason);
   if (doc.kind !== 'text' && doc.kind !== 'codebook') {
     throw new HttpError(400, 'bad_request', 'Versions are kept for text and codebook documents only.');
   }
@@ -124,7 +124,7 @@ export function versionRoutes(deps: AppDeps) {
           then: readPastText(past),
           comparison: {
             text: compareText(current!, snap),
-            segments: segmentsThenNow(past, current!, layers.map((l, i) => ({ coderId: l.coderId, doc: layerDocs[i]! })), v.createdAt.getTime()),
+            segments: segmentsThenNow(past, current!, layers.map((l, i) => ({ coderId: comparedAs(l), doc: layerDocs[i]! })), v.createdAt.getTime()),
           },
         });
       } finally {

@@ -5,10 +5,11 @@
 import type { WebSocket } from 'ws';
 import * as Y from 'yjs';
 import type { RoomGrant } from './contracts.js';
-import { decodeAwarenessUpdate } from './awareness-table.js';
+import { decodeAwarenessUpdate, encodeAwarenessUpdate, type AwarenessEntry } from './awareness-table.js';
+import { withoutPointing } from './pointing-filter.js';
 import { CloseCode, SyncError } from './errors.js';
 import type { SyncLogger } from './logger.js';
-import { encodePermissionDenied, encodeSyncStep1, encodeSyncStep2, peekKind, readPayload } from './protocol.js';
+import { encodeAwarenessMessage, encodePermissionDenied, encodeSyncStep1, encodeSyncStep2, peekKind, readPayload } from './protocol.js';
 import type { Room, RoomPeer } from './room.js';
 import { checkUpdate } from './update-check.js';
 import { checkWrite } from '../access/write-rules.js';
@@ -50,8 +51,16 @@ export class Connection implements RoomPeer {
    */
   regrant(grant: RoomGrant): void {
     const lostWrite = this.grantValue.canWrite && !grant.canWrite;
+    const nowHidden = !this.grantValue.hidePointing && grant.hidePointing === true;
     this.grantValue = grant;
     if (lostWrite) this.send(encodePermissionDenied('read-only'));
+    if (nowHidden && this.room !== null) {
+      // Its user now codes this text independently: replace the pointing positions the client holds
+      // now. Clients take a state only with a newer clock, so these go one clock ahead (the owner's own
+      // next state at that clock is then skipped here; the one after it arrives filtered as usual).
+      const ahead = this.room.awareness.snapshot().map((e) => (e.clientId === this.ownedClientId ? e : { ...e, clock: e.clock + 1 }));
+      if (ahead.length > 0) this.send(encodeAwarenessMessage(encodeAwarenessUpdate(withoutPointing(ahead, this.ownedClientId))));
+    }
   }
 
   /** Closes this connection because it may no longer read its room (1008, a plain reason). */
@@ -67,8 +76,7 @@ export class Connection implements RoomPeer {
   start(room: Room): void {
     this.room = room;
     this.send(encodeSyncStep1(Y.encodeStateVector(room.doc)));
-    const awareness = room.awarenessMessage();
-    if (awareness !== null) this.send(awareness);
+    room.sendAwarenessTo(this);
     const queued = this.backlog ?? [];
     this.backlog = null;
     for (const message of queued) this.handle(message);
@@ -83,6 +91,11 @@ export class Connection implements RoomPeer {
 
   send(message: Uint8Array): void {
     if (this.ws.readyState === this.ws.OPEN) this.ws.send(message);
+  }
+
+  sendAwareness(entries: readonly AwarenessEntry[], message: Uint8Array): void {
+    if (!this.grant.hidePointing) return this.send(message);
+    this.send(encodeAwarenessMessage(encodeAwarenessUpdate(withoutPointing(entries, this.ownedClientId))));
   }
 
   fail(error: SyncError): void {
@@ -166,11 +179,9 @@ export class Connection implements RoomPeer {
         room.submitAwareness(entries, this);
         return;
       }
-      case 'query-awareness': {
-        const awareness = room.awarenessMessage();
-        if (awareness !== null) this.send(awareness);
+      case 'query-awareness':
+        room.sendAwarenessTo(this);
         return;
-      }
       case 'auth':
         return; // clients have nothing to say to the server here
     }

@@ -32,6 +32,12 @@ export interface RoomGrant {
    * `proposals-only` (a coder adds code proposals of their own to the codebook, nothing else).
    */
   writeRule?: WriteRule;
+  /**
+   * Other people's presence fields that show where they point (caret, selection, hovered segment)
+   * are withheld from this connection: its user codes the room's text independently in a round.
+   * Their names stay. Read on every send, so a re-checked grant takes effect at once.
+   */
+  hidePointing?: boolean;
 }
 
 /** The outcome of re-running the decision for an open connection: its grant now, or why it lost the room. */

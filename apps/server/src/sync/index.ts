@@ -7,11 +7,11 @@ import type { Duplex } from 'node:stream';
 import { WebSocketServer, type WebSocket } from 'ws';
 import { Connection } from './connection.js';
 import type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
-import { CloseCode } from './errors.js';
+import { CloseCode, SyncError } from './errors.js';
 import type { ConnectionTracker } from './live-access.js';
 import { consoleLogger, type SyncLogger } from './logger.js';
 import { RoomRegistry } from './room-registry.js';
-import type { RoomState } from './room.js';
+import type { RoomPeer, RoomState } from './room.js';
 import { refuse, roomFromUrl, statusOf, type IncomingMessage } from './upgrade.js';
 
 export interface SyncOptions {
@@ -36,6 +36,11 @@ export interface SyncStats {
 }
 
 export interface SyncHandle {
+  /**
+   * Writes a server-made change into a document as any edit is written: committed to the log, applied
+   * to the open room here (its peers receive it) and relayed to other nodes. Rejects if not stored.
+   */
+  write(docId: string, update: Uint8Array, userId: string | null): Promise<void>;
   close(): Promise<void>;
   stats(): SyncStats;
 }
@@ -123,6 +128,23 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
   httpServer.on('upgrade', onUpgrade);
 
   return {
+    async write(docId, update, userId) {
+      let failure: SyncError | null = null;
+      const peer: RoomPeer = {
+        send: () => {},
+        sendAwareness: () => {},
+        fail: (error) => {
+          failure = error;
+        },
+      };
+      const room = await registry.join(docId, docId, peer);
+      try {
+        await room.submitUpdate(update, peer, userId);
+      } finally {
+        registry.leave(room, peer);
+      }
+      if (failure) throw failure;
+    },
     async close() {
       closing = true;
       clearInterval(keepalive);

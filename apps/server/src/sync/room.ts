@@ -16,6 +16,8 @@ export type RoomState = 'loading' | 'ready' | 'unloading' | 'gone';
 /** A local connection as the room sees it. */
 export interface RoomPeer {
   send(message: Uint8Array): void;
+  /** Presence news; `message` is the entries encoded as they are, for peers that may see them all. */
+  sendAwareness(entries: readonly AwarenessEntry[], message: Uint8Array): void;
   fail(error: SyncError): void;
 }
 
@@ -84,8 +86,8 @@ export class Room {
     }
   }
 
-  /** Commit, then apply and relay. `update` was already checked by checkUpdate. */
-  submitUpdate(update: Uint8Array, from: RoomPeer, userId: string | null): void {
+  /** Commit, then apply and relay. `update` was already checked by checkUpdate. Resolves once applied (or failed). */
+  submitUpdate(update: Uint8Array, from: RoomPeer, userId: string | null): Promise<void> {
     const committed = this.deps.store.append(this.docId, update, userId);
     committed.catch(() => {}); // handled in order below
     this.inFlight.push(update);
@@ -109,6 +111,7 @@ export class Room {
           },
         ),
     );
+    return this.tail;
   }
 
   /**
@@ -128,7 +131,7 @@ export class Room {
     const accepted = this.awareness.apply(entries);
     if (accepted.length === 0) return;
     const update = encodeAwarenessUpdate(accepted);
-    this.broadcast(encodeAwarenessMessage(update), from);
+    this.broadcastAwareness(accepted, encodeAwarenessMessage(update), from);
     if (from !== null) this.publish(encodeRelayFrame({ kind: 'awareness', data: update }));
   }
 
@@ -137,13 +140,18 @@ export class Room {
     const removal = this.awareness.remove(clientId);
     if (removal === null) return;
     const update = encodeAwarenessUpdate([removal]);
-    this.broadcast(encodeAwarenessMessage(update), null);
+    this.broadcastAwareness([removal], encodeAwarenessMessage(update), null);
     this.publish(encodeRelayFrame({ kind: 'awareness', data: update }));
   }
 
-  awarenessMessage(): Uint8Array | null {
+  /** Everyone's current presence, sent to one peer (a newcomer, or one that asked). */
+  sendAwarenessTo(peer: RoomPeer): void {
     const entries = this.awareness.snapshot();
-    return entries.length === 0 ? null : encodeAwarenessMessage(encodeAwarenessUpdate(entries));
+    if (entries.length > 0) peer.sendAwareness(entries, encodeAwarenessMessage(encodeAwarenessUpdate(entries)));
+  }
+
+  private broadcastAwareness(entries: readonly AwarenessEntry[], message: Uint8Array, except: RoomPeer | null): void {
+    for (const peer of this.peers) if (peer !== except) peer.sendAwareness(entries, message);
   }
 
   broadcast(message: Uint8Array, except: RoomPeer | null): void {
