@@ -227,6 +227,24 @@ describe.each(dbKinds())('study set-up on %s', (kind) => {
     expect((await server.db.select().from(auditLog).where(eq(auditLog.studyId, studyId))).map((a) => a.action)).not.toContain('text.import');
   });
 
+  it('filters the audit log by action family, person and time', async () => {
+    const all = (await owner.call<Array<{ action: string; userId: string; at: string }>>('GET', `/api/studies/${studyId}/audit?limit=500`)).body;
+    const members = (await owner.call<Array<{ action: string }>>('GET', `/api/studies/${studyId}/audit?action=member.`)).body;
+    expect(members.length).toBe(all.filter((e) => e.action.startsWith('member.')).length);
+    expect(new Set(members.map((e) => e.action))).toEqual(new Set(['member.invite', 'member.join']));
+    const invites = (await owner.call<Array<{ action: string }>>('GET', `/api/studies/${studyId}/audit?action=member.invite`)).body;
+    expect(invites.every((e) => e.action === 'member.invite')).toBe(true);
+    const me = (await owner.call<{ id: string }>('GET', '/api/me')).body.id;
+    const mine = (await owner.call<Array<{ userId: string }>>('GET', `/api/studies/${studyId}/audit?userId=${me}`)).body;
+    expect(mine.length).toBe(all.filter((e) => e.userId === me).length);
+    const future = (await owner.call<unknown[]>('GET', `/api/studies/${studyId}/audit?from=2999-01-01`)).body;
+    expect(future).toEqual([]);
+    const until = (await owner.call<unknown[]>('GET', `/api/studies/${studyId}/audit?to=${encodeURIComponent(all[all.length - 1]!.at)}`)).body;
+    expect(until.length).toBeGreaterThanOrEqual(1);
+    expect((await owner.call('GET', `/api/studies/${studyId}/audit?from=yesterday-ish`)).status).toBe(400);
+    expect((await owner.call('GET', `/api/studies/${studyId}/audit?action=${encodeURIComponent('x; drop')}`)).status).toBe(400);
+  });
+
   it('describes the new routes in the OpenAPI document', async () => {
     const doc = (await apiClient(server.url).call<{ paths: Record<string, object> }>('GET', '/api/openapi.json')).body;
     for (const path of ['/api/setup', '/api/me/password', '/api/studies/{studyId}/invitations', '/api/studies/{studyId}/invitations/{invitationId}', '/api/studies/{studyId}/members/{userId}/reset-link', '/api/invitations/{token}', '/api/invitations/{token}/accept', '/api/password-resets/{token}', '/api/studies/{studyId}/texts/import/preview']) {
