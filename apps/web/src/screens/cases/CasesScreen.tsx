@@ -1,7 +1,6 @@
 import { createResource, createSignal, For, Show } from 'solid-js';
 import { ATTRIBUTE_TYPES, addCase, defineAttribute, removeCase, setCaseValue, type AttributeDef, type AttributeType, type CaseView } from '@gloss/model';
 import { api } from '../../api/client.js';
-import { DataNotice } from '../../ui/DataNotice.js';
 import { href } from '../../ui/router.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav, allowed } from '../study/StudyNav.js';
@@ -118,17 +117,15 @@ export function CasesScreen(props: { studyId: string; scope: StudyScope }) {
           </>
         )}
       </Show>
-      <DataNotice compact />
     </main>
   );
 }
 
 function Cell(props: { def: AttributeDef; value: string; label: string; disabled: boolean; invalid: boolean; onCommit: (raw: string) => void }) {
-  const common = { 'aria-label': props.label, disabled: props.disabled, 'aria-invalid': props.invalid ? ('true' as const) : undefined };
   if (props.def.type === 'boolean' || props.def.type === 'choice') {
     const options = props.def.type === 'boolean' ? ['yes', 'no'] : props.def.choices ?? [];
     return (
-      <select {...common} value={props.value} onChange={(e) => props.onCommit(e.currentTarget.value)}>
+      <select aria-label={props.label} disabled={props.disabled} aria-invalid={props.invalid ? 'true' : undefined} value={props.value} onChange={(e) => props.onCommit(e.currentTarget.value)}>
         <option value="">—</option>
         <For each={options}>{(o) => <option value={o}>{o}</option>}</For>
       </select>
@@ -136,7 +133,9 @@ function Cell(props: { def: AttributeDef; value: string; label: string; disabled
   }
   return (
     <input
-      {...common}
+      aria-label={props.label}
+      disabled={props.disabled}
+      aria-invalid={props.invalid ? 'true' : undefined}
       type={props.def.type === 'date' ? 'date' : 'text'}
       inputMode={props.def.type === 'number' ? 'decimal' : undefined}
       value={props.value}
