@@ -67,7 +67,7 @@ for (const role of ['owner', 'lead', 'coder', 'observer'] as const) {
       await audit(page, `roles-audit-refused-${role}`);
     }
 
-    await page.getByRole('link', { name: /Your account/ }).click();
+    await page.getByRole('link', { name: /your account/ }).click();
     await expect(page.getByRole('heading', { name: 'Change your password' })).toBeVisible();
     await audit(page, `roles-account-${role}`);
     await p.context.close();

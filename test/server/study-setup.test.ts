@@ -47,7 +47,7 @@ describe.each(dbKinds())('study set-up on %s', (kind) => {
 
   beforeAll(async () => {
     ({ server, drop } = await startFresh(kind));
-  }, 120_000);
+  }, 240_000); // a PGlite start took over two minutes on the loaded 2-core machine
   afterAll(async () => {
     await server?.close();
     await drop?.();

@@ -103,7 +103,7 @@ export function App() {
         <Show when={me()}>
           {(u) => (
             <span class="who">
-              <a href={href({ name: 'account' })} aria-label={`Your account (${u().name})`}>{u().name}</a>{' '}
+              <a href={href({ name: 'account' })} aria-label={`${u().name}, your account`}>{u().name}</a>{' '}
               <button type="button" class="link" onClick={() => void signOutHere()}>Sign out</button>
             </span>
           )}

@@ -102,7 +102,7 @@ export function Upload(props: { studyId: string; scope: StudyScope }) {
                   <progress max="1" value={it.progress} aria-label={`Import of ${it.file.name}`} />
                 </Show>
                 <Show when={it.error}>
-                  <p class="error" role="alert">{it.place ? `${it.place}: ` : ''}{it.error} {it.state === 'refused' || it.state === 'failed' ? 'Nothing from this file was stored.' : ''}</p>
+                  <p class="error" role="alert">{sentence(it.place && !it.error!.includes(it.place) ? `${it.place}: ${it.error}` : it.error!)} {it.state === 'refused' || it.state === 'failed' ? 'Nothing from this file was stored.' : ''}</p>
                 </Show>
                 <Show when={it.state === 'done' && it.text}>
                   <p role="status">
@@ -138,6 +138,9 @@ const STATE_TEXT: Record<FileState, string> = {
   done: 'imported',
   failed: 'import failed',
 };
+
+/** The importer's message as a sentence, so the note after it reads on. */
+const sentence = (s: string) => (/[.!?)]$/.test(s.trim()) ? s.trim() : `${s.trim()}.`);
 
 function refusal(err: unknown): { error: string; place?: string } {
   if (err instanceof ImportRefusal) return { error: err.message, ...(err.line ? { place: `line ${err.line}${err.column ? `, column ${err.column}` : ''}` } : {}) };
