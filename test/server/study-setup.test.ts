@@ -5,7 +5,9 @@
  * one-time set-up code, single-use expiring links, a password change ends the other sessions) and,
  * for the status codes, RFC 9110 (403, 404, 409, 410 Gone for a link that no longer works).
  */
+import { spawn } from 'node:child_process';
 import { readFileSync } from 'node:fs';
+import { createInterface } from 'node:readline';
 import { accountLinks, auditLog, eq, sessions } from '@gloss/db';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig, printSetupCode, startServer, type RunningServer } from '../../apps/server/src/index.js';
@@ -251,4 +253,48 @@ describe.each(dbKinds())('study set-up on %s', (kind) => {
       expect(doc.paths, path).toHaveProperty([path]);
     }
   });
+});
+
+/** `gloss serve --no-demo` on an empty database (the CLI, as a person starts it): the code is printed and claims the server once. */
+describe.each(dbKinds())('gloss serve --no-demo on %s', (kind) => {
+  it('prints a set-up code before its listening line, seeds no demo, and the code creates the owner', async () => {
+    const folder = kind === 'pglite' ? await freshPgliteDir() : null;
+    const pg = kind === 'postgres' ? await freshPostgresDatabase() : null;
+    const repo = new URL('../../', import.meta.url).pathname;
+    const child = spawn(process.execPath, ['--import', 'tsx', 'apps/cli/src/main.ts', 'serve', '--no-demo'], {
+      cwd: repo,
+      env: { ...process.env, PORT: '0', LOG_LEVEL: 'warn', REDIS_URL: '', DATABASE_URL: pg?.url ?? '', DATA_DIR: folder?.dir ?? '' },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    try {
+      const events: Array<{ event: string; code?: string; url?: string }> = [];
+      const lines = createInterface({ input: child.stdout! });
+      let human = '';
+      await new Promise<void>((resolve, reject) => {
+        child.once('exit', (code) => reject(new Error(`gloss serve exited ${code}`)));
+        lines.on('line', (line) => {
+          human += line + '\n';
+          if (!line.startsWith('{')) return;
+          const e = JSON.parse(line) as { event: string };
+          events.push(e);
+          if (e.event === 'listening') resolve();
+        });
+      });
+      expect(events.map((e) => e.event)).toEqual(['setup', 'listening']);
+      const url = events[1]!.url!;
+      expect(human).toContain('one-time set-up code');
+      // no demo: the database holds no study and no account until the owner is made
+      expect((await apiClient(url).call('GET', '/api/setup')).body).toEqual({ needed: true });
+      const made = await post(url, '/api/setup', { code: events[0]!.code, email: 'olu.owner@example.test', name: 'Olu Owner', password: 'olu-password-1' });
+      expect(made.status).toBe(201);
+      expect((await apiClient(url, made.cookie!).call<unknown[]>('GET', '/api/studies')).body).toEqual([]);
+      expect((await post(url, '/api/setup', { code: events[0]!.code, email: 'x@example.test', name: 'X', password: 'x-password-1' })).status).toBe(409);
+    } finally {
+      const exited = new Promise((r) => child.once('exit', r));
+      child.kill('SIGTERM');
+      await exited;
+      folder?.remove();
+      await pg?.drop();
+    }
+  }, 240_000);
 });
