@@ -5,7 +5,9 @@
  * one-time set-up code, single-use expiring links, a password change ends the other sessions) and,
  * for the status codes, RFC 9110 (403, 404, 409, 410 Gone for a link that no longer works).
  */
+import { spawn } from 'node:child_process';
 import { readFileSync } from 'node:fs';
+import { createInterface } from 'node:readline';
 import { accountLinks, auditLog, eq, sessions } from '@gloss/db';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig, printSetupCode, startServer, type RunningServer } from '../../apps/server/src/index.js';
@@ -47,7 +49,7 @@ describe.each(dbKinds())('study set-up on %s', (kind) => {
 
   beforeAll(async () => {
     ({ server, drop } = await startFresh(kind));
-  }, 120_000);
+  }, 240_000); // a PGlite start took over two minutes on the loaded 2-core machine
   afterAll(async () => {
     await server?.close();
     await drop?.();
@@ -227,10 +229,72 @@ describe.each(dbKinds())('study set-up on %s', (kind) => {
     expect((await server.db.select().from(auditLog).where(eq(auditLog.studyId, studyId))).map((a) => a.action)).not.toContain('text.import');
   });
 
+  it('filters the audit log by action family, person and time', async () => {
+    const all = (await owner.call<Array<{ action: string; userId: string; at: string }>>('GET', `/api/studies/${studyId}/audit?limit=500`)).body;
+    const members = (await owner.call<Array<{ action: string }>>('GET', `/api/studies/${studyId}/audit?action=member.`)).body;
+    expect(members.length).toBe(all.filter((e) => e.action.startsWith('member.')).length);
+    expect(new Set(members.map((e) => e.action))).toEqual(new Set(['member.invite', 'member.join']));
+    const invites = (await owner.call<Array<{ action: string }>>('GET', `/api/studies/${studyId}/audit?action=member.invite`)).body;
+    expect(invites.every((e) => e.action === 'member.invite')).toBe(true);
+    const me = (await owner.call<{ id: string }>('GET', '/api/me')).body.id;
+    const mine = (await owner.call<Array<{ userId: string }>>('GET', `/api/studies/${studyId}/audit?userId=${me}`)).body;
+    expect(mine.length).toBe(all.filter((e) => e.userId === me).length);
+    const future = (await owner.call<unknown[]>('GET', `/api/studies/${studyId}/audit?from=2999-01-01`)).body;
+    expect(future).toEqual([]);
+    const until = (await owner.call<unknown[]>('GET', `/api/studies/${studyId}/audit?to=${encodeURIComponent(all[all.length - 1]!.at)}`)).body;
+    expect(until.length).toBeGreaterThanOrEqual(1);
+    expect((await owner.call('GET', `/api/studies/${studyId}/audit?from=yesterday-ish`)).status).toBe(400);
+    expect((await owner.call('GET', `/api/studies/${studyId}/audit?action=${encodeURIComponent('x; drop')}`)).status).toBe(400);
+  });
+
   it('describes the new routes in the OpenAPI document', async () => {
     const doc = (await apiClient(server.url).call<{ paths: Record<string, object> }>('GET', '/api/openapi.json')).body;
     for (const path of ['/api/setup', '/api/me/password', '/api/studies/{studyId}/invitations', '/api/studies/{studyId}/invitations/{invitationId}', '/api/studies/{studyId}/members/{userId}/reset-link', '/api/invitations/{token}', '/api/invitations/{token}/accept', '/api/password-resets/{token}', '/api/studies/{studyId}/texts/import/preview']) {
       expect(doc.paths, path).toHaveProperty([path]);
     }
   });
+});
+
+/** `gloss serve --no-demo` on an empty database (the CLI, as a person starts it): the code is printed and claims the server once. */
+describe.each(dbKinds())('gloss serve --no-demo on %s', (kind) => {
+  it('prints a set-up code before its listening line, seeds no demo, and the code creates the owner', async () => {
+    const folder = kind === 'pglite' ? await freshPgliteDir() : null;
+    const pg = kind === 'postgres' ? await freshPostgresDatabase() : null;
+    const repo = new URL('../../', import.meta.url).pathname;
+    const child = spawn(process.execPath, ['--import', 'tsx', 'apps/cli/src/main.ts', 'serve', '--no-demo'], {
+      cwd: repo,
+      env: { ...process.env, PORT: '0', LOG_LEVEL: 'warn', REDIS_URL: '', DATABASE_URL: pg?.url ?? '', DATA_DIR: folder?.dir ?? '' },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    try {
+      const events: Array<{ event: string; code?: string; url?: string }> = [];
+      const lines = createInterface({ input: child.stdout! });
+      let human = '';
+      await new Promise<void>((resolve, reject) => {
+        child.once('exit', (code) => reject(new Error(`gloss serve exited ${code}`)));
+        lines.on('line', (line) => {
+          human += line + '\n';
+          if (!line.startsWith('{')) return;
+          const e = JSON.parse(line) as { event: string };
+          events.push(e);
+          if (e.event === 'listening') resolve();
+        });
+      });
+      expect(events.map((e) => e.event)).toEqual(['setup', 'listening']);
+      const url = events[1]!.url!;
+      expect(human).toContain('one-time set-up code');
+      // no demo: the database holds no study and no account until the owner is made
+      expect((await apiClient(url).call('GET', '/api/setup')).body).toEqual({ needed: true });
+      const made = await post(url, '/api/setup', { code: events[0]!.code, email: 'olu.owner@example.test', name: 'Olu Owner', password: 'olu-password-1' });
+      expect(made.status).toBe(201);
+      expect((await apiClient(url, made.cookie!).call<unknown[]>('GET', '/api/studies')).body).toEqual([]);
+      expect((await post(url, '/api/setup', { code: events[0]!.code, email: 'x@example.test', name: 'X', password: 'x-password-1' })).status).toBe(409);
+    } finally {
+      const exited = new Promise((r) => child.once('exit', r));
+      child.kill('SIGTERM');
+      await exited;
+      folder?.remove();
+      await pg?.drop();
+    }
+  }, 240_000);
 });

@@ -1,5 +1,5 @@
 /** Top level: session gate, the study scope shared by a study's screens, and the route switch. */
-import { Match, Show, Switch, createMemo, onMount } from 'solid-js';
+import { Match, Show, Switch, createMemo, createResource, onMount } from 'solid-js';
 import { loadSession, me, signOut } from './ui/session.js';
 import { go, href, route } from './ui/router.js';
 import { StatusBar } from './ui/StatusBar.js';
@@ -12,6 +12,15 @@ import { CodebookScreen } from './screens/codebook/CodebookScreen.js';
 import { MemosScreen } from './screens/memos/MemosScreen.js';
 import { ReviewScreen } from './screens/review/ReviewScreen.js';
 import { AnalysisScreen } from './screens/analysis/AnalysisScreen.js';
+import { FirstRun } from './screens/first-run/FirstRun.js';
+import { Invitation } from './screens/links/Invitation.js';
+import { PasswordReset } from './screens/links/PasswordReset.js';
+import { Account } from './screens/account/Account.js';
+import { StudySettings } from './screens/settings/StudySettings.js';
+import { Upload } from './screens/upload/Upload.js';
+import { CasesScreen } from './screens/cases/CasesScreen.js';
+import { VersionsScreen } from './screens/versions/VersionsScreen.js';
+import { AuditScreen } from './screens/audit/AuditScreen.js';
 import { useStudy } from './screens/study/study-context.js';
 import { StudyAgreementScreen } from './screens/agreement/AgreementScreen.js';
 import { RoundsScreen } from './screens/rounds/RoundsScreen.js';
@@ -19,6 +28,8 @@ import { RoundScreen } from './screens/rounds/RoundScreen.js';
 import { RoundText } from './screens/rounds/RoundText.js';
 import { RoundAgreement } from './screens/rounds/RoundAgreement.js';
 import { RoundReport } from './screens/rounds/RoundReport.js';
+import { setupApi } from './api/setup-api.js';
+import { unsentChanges } from './sync/forget.js';
 import type { Me } from './api/types.js';
 
 function StudyArea(props: { studyId: string; me: Me }) {
@@ -31,6 +42,11 @@ function StudyArea(props: { studyId: string; me: Me }) {
       <Match when={route().name === 'analysis'}><AnalysisScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'memos'}><MemosScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
       <Match when={route().name === 'review'}><ReviewScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
+      <Match when={route().name === 'settings'}><StudySettings studyId={props.studyId} scope={scope} /></Match>
+      <Match when={route().name === 'upload'}><Upload studyId={props.studyId} scope={scope} /></Match>
+      <Match when={route().name === 'cases'}><CasesScreen studyId={props.studyId} scope={scope} /></Match>
+      <Match when={route().name === 'versions'}><VersionsScreen studyId={props.studyId} scope={scope} /></Match>
+      <Match when={route().name === 'audit'}><AuditScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={(() => { const r = route(); return r.name === 'coding' ? r.textId : undefined; })()}>
         {(textId) => <CodingScreen studyId={props.studyId} textId={textId()} scope={scope} me={props.me} />}
       </Match>
@@ -52,11 +68,32 @@ function StudyArea(props: { studyId: string; me: Me }) {
   );
 }
 
+/** Signed out: the first run (no account on the server yet) or the sign-in form. */
+function SignedOut() {
+  const [needed] = createResource(() => setupApi.setupNeeded().catch(() => false));
+  return (
+    <Show when={!needed.loading} fallback={<p class="progress">Checking the server…</p>}>
+      <Show when={needed()} fallback={<SignIn />}><FirstRun /></Show>
+    </Show>
+  );
+}
+
+async function signOutHere(): Promise<void> {
+  const unsent = unsentChanges();
+  if (unsent > 0 && !confirm(`${unsent} change(s) made offline have not reached the server yet. Signing out deletes them from this device. Sign out anyway?`)) return;
+  await signOut().catch((err: unknown) => console.warn('sign-out: the server could not be told; this device was cleared', err));
+  go({ name: 'signin' });
+}
+
 export function App() {
   onMount(() => void loadSession());
   const studyId = createMemo(() => {
     const r = route();
     return 'studyId' in r ? r.studyId : undefined;
+  });
+  const link = createMemo(() => {
+    const r = route();
+    return r.name === 'invite' || r.name === 'reset' ? r : undefined;
   });
   return (
     <div class="app">
@@ -66,22 +103,31 @@ export function App() {
         <Show when={me()}>
           {(u) => (
             <span class="who">
-              {u().name}{' '}
-              <button type="button" class="link" onClick={() => void signOut().then(() => go({ name: 'signin' }))}>Sign out</button>
+              <a href={href({ name: 'account' })} aria-label={`${u().name}, your account`}>{u().name}</a>{' '}
+              <button type="button" class="link" onClick={() => void signOutHere()}>Sign out</button>
             </span>
           )}
         </Show>
       </header>
       <div id="content" class="content">
-        <Show when={me() !== undefined} fallback={<p class="progress">Checking your session…</p>}>
-          <Show when={me()} fallback={<SignIn />}>
-            {(u) => (
-              <Show when={studyId()} keyed fallback={<Studies />}>
-                {(id) => <StudyArea studyId={id} me={u()} />}
+        <Switch
+          fallback={
+            <Show when={me() !== undefined} fallback={<p class="progress">Checking your session…</p>}>
+              <Show when={me()} fallback={<SignedOut />}>
+                {(u) => (
+                  <Show when={route().name !== 'account'} fallback={<Account />}>
+                    <Show when={studyId()} keyed fallback={<Studies />}>
+                      {(id) => <StudyArea studyId={id} me={u()} />}
+                    </Show>
+                  </Show>
+                )}
               </Show>
-            )}
-          </Show>
-        </Show>
+            </Show>
+          }
+        >
+          <Match when={link()?.name === 'invite' && link()}>{(r) => <Invitation token={(r() as { token: string }).token} />}</Match>
+          <Match when={link()?.name === 'reset' && link()}>{(r) => <PasswordReset token={(r() as { token: string }).token} />}</Match>
+        </Switch>
       </div>
       <StatusBar />
     </div>

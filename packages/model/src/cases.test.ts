@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { createCodebookDoc } from './codebook-doc.js';
-import { addCase, casesForText, defineAttribute, getCase, linkText, listAttributes, listCases, setCaseValue } from './cases.js';
+import { addCase, casesForText, defineAttribute, getCase, linkSpeaker, linkText, listAttributes, listCases, setCaseValue } from './cases.js';
 import { InvalidArgumentError, NotFoundError } from './errors.js';
 
 describe('cases and attributes', () => {
@@ -18,10 +18,20 @@ describe('cases and attributes', () => {
     setCaseValue(doc, p, carer, true);
     linkText(doc, q, 't1');
     linkText(doc, p, 't2');
-    expect(getCase(doc, p)).toEqual({ id: p, name: 'P07', kind: 'participant', values: { [age]: 54, [joined]: '2019-02-28', [site]: 'Harwick', [carer]: true }, textIds: ['t1', 't2'] });
+    expect(getCase(doc, p)).toEqual({ id: p, name: 'P07', kind: 'participant', values: { [age]: 54, [joined]: '2019-02-28', [site]: 'Harwick', [carer]: true }, textIds: ['t1', 't2'], speakers: {} });
     expect(casesForText(doc, 't1').map((c) => c.name)).toEqual(['Loman Quay', 'P07']);
     expect(listAttributes(doc).map((a) => a.name)).toEqual(['age', 'carer', 'joined', 'site']);
     expect(doc.getMap('codes').size).toBe(0);
+  });
+
+  it('records which speaker of a text a case is (an import mapping speakers to cases), linking the text', () => {
+    const doc = createCodebookDoc();
+    const p = addCase(doc, { name: 'Participant 2' });
+    linkSpeaker(doc, p, 't9', ' P02 ');
+    expect(getCase(doc, p)).toMatchObject({ textIds: ['t9'], speakers: { t9: 'P02' } });
+    expect(casesForText(doc, 't9').map((c) => c.name)).toEqual(['Participant 2']);
+    expect(() => linkSpeaker(doc, p, 't9', '  ')).toThrow(InvalidArgumentError);
+    expect(() => linkSpeaker(doc, 'nope', 't9', 'P02')).toThrow(NotFoundError);
   });
 
   it('refuses values that do not fit the attribute type', () => {

@@ -6,7 +6,9 @@ import { newId } from './ids.js';
  * Cases (participants, sites, ...) and their attributes, kept apart from codes. They live in the study's
  * codebook document under their own roots, so one document carries the study's analytic frame:
  *   attributes  Y.Map<attrId, {name, type, choices?}>
- *   cases       Y.Map<caseId, Y.Map{name, kind, values: Y.Map<attrId, value>, texts: Y.Map<textId, true>}>
+ *   cases       Y.Map<caseId, Y.Map{name, kind, values: Y.Map<attrId, value>, texts: Y.Map<textId, true>,
+ *                                   speakers?: Y.Map<textId, speaker label>}>
+ * `speakers` says which voice of a text is this case (set when an import maps speakers to cases).
  */
 export const ATTRIBUTES_ROOT = 'attributes';
 export const CASES_ROOT = 'cases';
@@ -29,6 +31,8 @@ export interface CaseView {
   kind: string;
   values: Record<string, AttributeValue>;
   textIds: string[];
+  /** The speaker label this case has in each text where an import named it, by text id. */
+  speakers: Record<string, string>;
 }
 
 const attrs = (doc: Y.Doc) => doc.getMap<AttributeDef>(ATTRIBUTES_ROOT);
@@ -122,6 +126,18 @@ export function linkText(doc: Y.Doc, caseId: string, textId: string, linked = tr
   else texts.delete(textId);
 }
 
+/** Links a text to a case and records which speaker of that text the case is (an import's speaker mapping). */
+export function linkSpeaker(doc: Y.Doc, caseId: string, textId: string, speaker: string): void {
+  if (typeof speaker !== 'string' || speaker.trim() === '') throw new InvalidArgumentError('a speaker label is needed');
+  const c = requireCase(doc, caseId);
+  doc.transact(() => {
+    (c.get('texts') as Y.Map<boolean>).set(textId, true);
+    let speakers = c.get('speakers');
+    if (!(speakers instanceof Y.Map)) c.set('speakers', (speakers = new Y.Map<string>()));
+    (speakers as Y.Map<string>).set(textId, speaker.trim());
+  });
+}
+
 export function removeCase(doc: Y.Doc, caseId: string): void {
   requireCase(doc, caseId);
   cases(doc).delete(caseId);
@@ -130,12 +146,14 @@ export function removeCase(doc: Y.Doc, caseId: string): void {
 function readCase(id: string, c: Y.Map<unknown>): CaseView {
   const values = c.get('values');
   const texts = c.get('texts');
+  const speakers = c.get('speakers');
   return {
     id,
     name: String(c.get('name') ?? ''),
     kind: String(c.get('kind') ?? 'participant'),
     values: values instanceof Y.Map ? (values.toJSON() as Record<string, AttributeValue>) : {},
     textIds: texts instanceof Y.Map ? [...texts.keys()].sort() : [],
+    speakers: speakers instanceof Y.Map ? (speakers.toJSON() as Record<string, string>) : {},
   };
 }
 

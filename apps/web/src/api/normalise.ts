@@ -37,6 +37,7 @@ export function toStudy(v: unknown): Study {
     codebookRoom: need(roomOf(j, 'codebook'), 'the codebook room'),
     memosRoom: need(roomOf(j, 'memos'), 'the memos room'),
     mode: str(j.mode),
+    permissions: Array.isArray(j.permissions) ? j.permissions.filter((x): x is string => typeof x === 'string') : undefined,
   };
 }
 

@@ -37,6 +37,8 @@ export interface OpenDoc {
   /** Resolves once the document holds either the server's state or the offline copy. */
   whenReady: Promise<void>;
   release(): void;
+  /** Closes regardless of other holders (sign-out); resolves once the offline copy's handle is shut. */
+  closeNow(): Promise<void>;
 }
 
 interface Entry { handle: OpenDoc; refs: number }
@@ -56,6 +58,16 @@ function startBackground(): void {
   const start = [...waitingBackground];
   waitingBackground.clear();
   start.forEach((f) => f());
+}
+
+/**
+ * Closes every open document at once, whatever its reference count (sign-out): the sockets, the
+ * IndexedDB handles (so the databases can be deleted) and the Y.Docs. Screens releasing later find nothing.
+ */
+export async function closeAllDocs(): Promise<void> {
+  const entries = [...open.values()];
+  open.clear();
+  await Promise.all(entries.map(({ handle }) => handle.closeNow()));
 }
 
 /** Stops and restarts syncing for every open document (the "work offline" switch). */
@@ -90,6 +102,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     shouldReconnect: (event: CloseEvent) => event.code !== LOST_ACCESS_CLOSE,
   });
   let released = false;
+  let closing: Promise<void> = Promise.resolve();
   if (defer) {
     const start = () => {
       waitingBackground.delete(start);
@@ -187,17 +200,22 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     whenReady,
     release() {
       const e = open.get(room);
-      if (!e || --e.refs > 0) return;
+      if (!e || e.handle !== handle || --e.refs > 0) return;
       open.delete(room);
+      void handle.closeNow();
+    },
+    closeNow() {
+      if (released) return closing;
       released = true;
       cleanupForeground?.();
       setState('unloading');
       unregisterDoc(handle);
       provider.destroy();
-      void (local ? local.destroy() : Promise.resolve()).finally(() => {
+      closing = (local ? local.destroy() : Promise.resolve()).finally(() => {
         doc.destroy();
         setState('closed');
       });
+      return closing;
     },
   };
   open.set(room, { handle, refs: 1 });

@@ -16,11 +16,25 @@ export type Route =
   | { name: 'round-text'; studyId: string; roundId: string; textId: string; at?: number }
   | { name: 'round-agreement'; studyId: string; roundId: string }
   | { name: 'round-report'; studyId: string; roundId: string }
-  | { name: 'analysis'; studyId: string };
+  | { name: 'analysis'; studyId: string }
+  | { name: 'settings'; studyId: string }
+  | { name: 'upload'; studyId: string }
+  | { name: 'cases'; studyId: string }
+  | { name: 'versions'; studyId: string }
+  | { name: 'audit'; studyId: string }
+  | { name: 'account' }
+  | { name: 'invite'; token: string }
+  | { name: 'reset'; token: string };
+
+/** Study screens named by one path word after the study id. */
+const STUDY_PAGES = ['memos', 'members', 'review', 'settings', 'upload', 'cases', 'versions', 'audit'] as const;
 
 export function parseRoute(hash: string): Route {
   const p = hash.replace(/^#\/?/, '').split('/').filter(Boolean).map(decodeURIComponent);
   if (p[0] === 'signin') return { name: 'signin' };
+  if (p[0] === 'account') return { name: 'account' };
+  if (p[0] === 'invite' && p[1]) return { name: 'invite', token: p[1] };
+  if (p[0] === 'reset' && p[1]) return { name: 'reset', token: p[1] };
   if (p[0] === 'study' && p[1]) {
     const studyId = p[1];
     if (p[2] === 'text' && p[3]) return { name: 'coding', studyId, textId: p[3] };
@@ -38,6 +52,8 @@ export function parseRoute(hash: string): Route {
       return { name: 'round', studyId, roundId };
     }
     if (p[2] === 'analysis') return { name: 'analysis', studyId };
+    const page = STUDY_PAGES.find((x) => x === p[2]);
+    if (page) return { name: page, studyId };
     return { name: 'study', studyId };
   }
   return { name: 'studies' };
@@ -51,9 +67,6 @@ export function href(r: Route): string {
     case 'study': return `#/study/${e(r.studyId)}`;
     case 'coding': return `#/study/${e(r.studyId)}/text/${e(r.textId)}`;
     case 'codebook': return `#/study/${e(r.studyId)}/codebook${r.codeId ? '/' + e(r.codeId) : ''}`;
-    case 'memos': return `#/study/${e(r.studyId)}/memos`;
-    case 'members': return `#/study/${e(r.studyId)}/members`;
-    case 'review': return `#/study/${e(r.studyId)}/review`;
     case 'agreement': return `#/study/${e(r.studyId)}/agreement`;
     case 'rounds': return `#/study/${e(r.studyId)}/rounds`;
     case 'round': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}`;
@@ -61,6 +74,11 @@ export function href(r: Route): string {
     case 'round-agreement': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}/agreement`;
     case 'round-report': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}/report`;
     case 'analysis': return `#/study/${e(r.studyId)}/analysis`;
+    case 'memos': case 'members': case 'review': case 'settings': case 'upload': case 'cases': case 'versions': case 'audit':
+      return `#/study/${e(r.studyId)}/${r.name}`;
+    case 'account': return '#/account';
+    case 'invite': return `#/invite/${e(r.token)}`;
+    case 'reset': return `#/reset/${e(r.token)}`;
   }
 }
 

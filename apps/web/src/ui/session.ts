@@ -3,6 +3,7 @@ import { createSignal } from 'solid-js';
 import { api } from '../api/client.js';
 import { ApiError } from '../api/errors.js';
 import type { Me } from '../api/types.js';
+import { forgetLocalCopies } from '../sync/forget.js';
 
 const [me, setMe] = createSignal<Me | null | undefined>(undefined);
 export { me };
@@ -30,8 +31,21 @@ export async function signIn(email: string, password: string): Promise<void> {
   setMe(full);
 }
 
+/**
+ * Ends the session and forgets this person's documents on this device (offline copies, caches),
+ * even if the server cannot be reached: the device is what is being cleared.
+ */
 export async function signOut(): Promise<void> {
-  await api.signOut();
-  localStorage.removeItem('gloss:me');
+  let failure: unknown = null;
+  await api.signOut().catch((err: unknown) => (failure = err));
+  await forgetLocalCopies();
   setMe(null);
+  if (failure) throw failure;
+}
+
+/** After first run or an accepted invitation the server has signed this browser in: learn who. */
+export async function sessionStarted(): Promise<void> {
+  const full = await api.me();
+  localStorage.setItem('gloss:me', JSON.stringify(full));
+  setMe(full);
 }

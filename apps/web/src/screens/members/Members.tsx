@@ -6,11 +6,15 @@ import { me } from '../../ui/session.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
 import { Loading } from '../../ui/Loading.js';
+import { CopyLink } from '../../ui/CopyLink.js';
+import { setupApi, type Link } from '../../api/setup-api.js';
+import { Invitations } from './Invitations.js';
 
-/** Members and roles; owners and leads may add, change and remove. */
+/** Members and roles; owners and leads invite, change and remove; owners make password-reset links. */
 export function Members(props: { studyId: string; scope: StudyScope }) {
   const [members, { refetch }] = createResource(() => props.studyId, (id) => api.members(id));
   const [error, setError] = createSignal('');
+  const [reset, setReset] = createSignal<Link & { email: string }>();
   const [email, setEmail] = createSignal('');
   const [role, setRole] = createSignal<Role>('coder');
   const myRole = () => members()?.find((m) => m.userId === me()?.id)?.role ?? props.scope.study()?.role;
@@ -49,6 +53,9 @@ export function Members(props: { studyId: string; scope: StudyScope }) {
                     <td>
                       <Show when={m.userId !== me()?.id}>
                         <button type="button" class="danger" onClick={() => confirm(`Remove ${m.name} from the study?`) && act(() => api.removeMember(props.studyId, m.userId))}>Remove</button>
+                        <Show when={myRole() === 'owner'}>
+                          {' '}<button type="button" class="quiet" onClick={() => void act(async () => void setReset(await setupApi.resetLink(props.studyId, m.userId)))}>Password reset link</button>
+                        </Show>
                       </Show>
                     </td>
                   </Show>
@@ -58,16 +65,21 @@ export function Members(props: { studyId: string; scope: StudyScope }) {
           </tbody>
         </table>
       </Loading>
+      <Show when={reset()}>{(r) => <CopyLink path={r().path} expiresAt={r().expiresAt} label={`Password-reset link for ${r().email}`} />}</Show>
       <Show when={canManage()}>
-        <form class="inline-form" aria-label="Add a member" onSubmit={(e) => { e.preventDefault(); void act(() => api.addMember(props.studyId, email(), role())).then(() => setEmail('')); }}>
-          <label>Email <input type="email" required value={email()} onInput={(e) => setEmail(e.currentTarget.value)} /></label>
-          <label>Role
-            <select value={role()} onChange={(e) => setRole(e.currentTarget.value as Role)}>
-              <For each={ROLES}>{(r) => <option value={r}>{r}</option>}</For>
-            </select>
-          </label>
-          <button type="submit">Add member</button>
-        </form>
+        <Invitations studyId={props.studyId} myRole={myRole()} />
+        <details>
+          <summary>Add someone who already has an account on this server</summary>
+          <form class="inline-form" aria-label="Add a member" onSubmit={(e) => { e.preventDefault(); void act(() => api.addMember(props.studyId, email(), role())).then(() => setEmail('')); }}>
+            <label>Email <input type="email" required value={email()} onInput={(e) => setEmail(e.currentTarget.value)} /></label>
+            <label>Role
+              <select value={role()} onChange={(e) => setRole(e.currentTarget.value as Role)}>
+                <For each={ROLES}>{(r) => <option value={r}>{r}</option>}</For>
+              </select>
+            </label>
+            <button type="submit">Add member</button>
+          </form>
+        </details>
       </Show>
       <p class="muted">Roles: owner and lead manage the study and the codebook; coders and trainees code their own layers; observers read.</p>
     </main>

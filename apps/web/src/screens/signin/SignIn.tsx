@@ -40,6 +40,10 @@ export function SignIn() {
         </Show>
         <button type="submit" disabled={busy()}>{busy() ? 'Signing in…' : 'Sign in'}</button>
       </form>
+      <p class="muted" data-testid="offline-copy-note">
+        Working offline keeps a copy of the texts, codebook and memos you open on this device (in the browser’s storage).
+        Signing out deletes that copy. On a shared or public computer, sign out when you are done.
+      </p>
       <DataNotice />
     </main>
   );

@@ -4,7 +4,7 @@ import { href } from '../../ui/router.js';
 import { Loading } from '../../ui/Loading.js';
 import { DataNotice } from '../../ui/DataNotice.js';
 import type { StudyScope } from './study-context.js';
-import { StudyNav } from './StudyNav.js';
+import { StudyNav, allowed } from './StudyNav.js';
 import { PresenceList } from './PresenceList.js';
 
 export function StudyScreen(props: { studyId: string; scope: StudyScope }) {
@@ -27,14 +27,29 @@ export function StudyScreen(props: { studyId: string; scope: StudyScope }) {
       <StudyNav studyId={props.studyId} scope={props.scope} current="study" />
       <div class="two-col">
         <section aria-labelledby="texts-h">
-          <h2 id="texts-h">Texts</h2>
+          <div class="section-head">
+            <h2 id="texts-h">Texts</h2>
+            <Show when={allowed(props.scope, 'text.import')}><a class="button" href={href({ name: 'upload', studyId: props.studyId })}>Upload texts</a></Show>
+          </div>
           <Loading loading={texts.loading} error={texts.error} what="the texts">
             <table class="texts">
               <thead>
                 <tr><th scope="col">Text</th><th scope="col">Coding so far (segments per coder)</th><th scope="col">Open now</th></tr>
               </thead>
               <tbody>
-                <For each={texts()} fallback={<tr><td colSpan={3}>No texts yet.</td></tr>}>
+                <For
+                  each={texts()}
+                  fallback={
+                    <tr>
+                      <td colSpan={3} data-testid="no-texts">
+                        No texts yet.{' '}
+                        {allowed(props.scope, 'text.import')
+                          ? <>Upload interview transcripts (plain text, WebVTT, SRT or DOCX) with <a href={href({ name: 'upload', studyId: props.studyId })}>Upload texts</a>; then invite your coders under Members.</>
+                          : 'An owner or lead of the study uploads the texts; they will appear here.'}
+                      </td>
+                    </tr>
+                  }
+                >
                   {(t) => (
                     <tr>
                       <td><a href={href({ name: 'coding', studyId: props.studyId, textId: t.id })}>{t.title}</a></td>
