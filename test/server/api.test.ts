@@ -313,7 +313,7 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
     expect((await as('coder').call('GET', '/api/me')).status).toBe(401);
     if (kind === 'pglite') await server.kill();
     expect(await readExpiry()).toBeUndefined();
-  }, 120_000); // PGlite is single-process: three stop/seed/start cycles
+  }, 300_000); // PGlite is single-process: three stop/seed/start cycles (each 30-40 s on a loaded machine)
 
   it('logged study creation, member changes and text import in the audit log', async () => {
     await server.kill();
