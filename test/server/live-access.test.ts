@@ -13,6 +13,7 @@ import { WebSocket } from 'ws';
 import { WebsocketProvider } from 'y-websocket';
 import * as Y from 'yjs';
 import { openDatabase } from '@gloss/db';
+import { addMemo, listMemos } from '@gloss/model';
 import { LOST_ACCESS } from '../../apps/server/src/access/authorizer.js';
 import { createPgUpdateStore } from '../../apps/server/src/store/index.js';
 import { apiClient, signIn, webSocketWithHeaders } from '../support/http.js';
@@ -60,6 +61,11 @@ function clients() {
   };
 }
 
+// The memos room takes from each person only memos of their own (the server checks every update), so a
+// probe write there is a memo by the writer; elsewhere a probe is a plain map entry.
+const writeProbe = (doc: Y.Doc, author: string, key: string) => addMemo(doc, { kind: 'memo', author, title: key, body: '', attachedTo: { kind: 'study' } });
+const hasProbe = (doc: Y.Doc, key: string) => listMemos(doc).some((m) => m.title === key);
+
 const synced = (...cs: Client[]) => waitFor(() => cs.every((c) => c.provider.synced), 'clients synced');
 const closedFor = (c: Client, what: string) => waitFor(() => c.closes.length > 0, what, 20_000);
 
@@ -105,8 +111,8 @@ describe.runIf(Boolean(process.env.DATABASE_URL && process.env.REDIS_URL))('live
     // The colleague in the same room still gets edits (from the lead, on the other node).
     const lead = connect(a, await cookie('lead'), seed.memosRoom);
     await synced(lead);
-    lead.doc.getMap('probe').set('after-removal', 1);
-    await waitFor(() => colleague.doc.getMap('probe').get('after-removal') === 1, 'the colleague still reads');
+    writeProbe(lead.doc, seed.users.lead.id, 'after-removal');
+    await waitFor(() => hasProbe(colleague.doc, 'after-removal'), 'the colleague still reads');
     expect(colleague.closes).toEqual([]);
   }, 120_000);
 
@@ -117,8 +123,8 @@ describe.runIf(Boolean(process.env.DATABASE_URL && process.env.REDIS_URL))('live
     const lead = connect(a, await cookie('lead'), seed.memosRoom);
     await synced(atA, atB, lead);
     // Before: the coder's write is accepted (the lead sees it).
-    atA.doc.getMap('probe').set('while-coder', 1);
-    await waitFor(() => lead.doc.getMap('probe').get('while-coder') === 1, 'a coder’s write arrives');
+    writeProbe(atA.doc, seed.users.coder2.id, 'while-coder');
+    await waitFor(() => hasProbe(lead.doc, 'while-coder'), 'a coder’s write arrives');
     expect(atA.denied() + atB.denied()).toBe(0);
 
     const changed = await apiClient(b.url, await cookie('owner', b)).call('PATCH', `/api/studies/${seed.studyId}/members/${seed.users.coder2.id}`, { role: 'observer' });
@@ -126,21 +132,20 @@ describe.runIf(Boolean(process.env.DATABASE_URL && process.env.REDIS_URL))('live
     // Each socket is told once that it may no longer write (y-protocols auth: permission denied).
     await waitFor(() => atA.denied() === 1 && atB.denied() === 1, 'both sockets are told they are read-only now');
 
-    atA.doc.getMap('probe').set('as-observer-a', 1);
-    atB.doc.getMap('probe').set('as-observer-b', 1);
+    writeProbe(atA.doc, seed.users.coder2.id, 'as-observer-a');
+    writeProbe(atB.doc, seed.users.coder2.id, 'as-observer-b');
     await waitFor(() => atA.denied() === 2 && atB.denied() === 2, 'the writes are refused');
-    lead.doc.getMap('probe').set('from-lead', 1);
-    await waitFor(() => [atA, atB].every((c) => c.doc.getMap('probe').get('from-lead') === 1), 'the observer still reads');
+    writeProbe(lead.doc, seed.users.lead.id, 'from-lead');
+    await waitFor(() => [atA, atB].every((c) => hasProbe(c.doc, 'from-lead')), 'the observer still reads');
     expect([...atA.closes, ...atB.closes]).toEqual([]);
-    expect(lead.doc.getMap('probe').has('as-observer-a')).toBe(false);
+    expect(hasProbe(lead.doc, 'as-observer-a')).toBe(false);
 
     // The database holds the coder's and the lead's writes and neither refused one.
     const database = await openDatabase({ databaseUrl: a.dbEnv.DATABASE_URL, maxConnections: 2 });
     try {
       const stored = new Y.Doc();
       for (const u of (await createPgUpdateStore(database).load(seed.memosRoom)).updates) Y.applyUpdate(stored, u);
-      const probe = stored.getMap('probe');
-      expect([probe.get('while-coder'), probe.get('from-lead'), probe.has('as-observer-a'), probe.has('as-observer-b')]).toEqual([1, 1, false, false]);
+      expect(['while-coder', 'from-lead', 'as-observer-a', 'as-observer-b'].map((k) => hasProbe(stored, k))).toEqual([true, true, false, false]);
     } finally {
       await database.close();
     }
@@ -209,9 +214,9 @@ describe(`live access on one node (${oneNodeDb}, no relay)`, () => {
     expect(changed.status).toBe(204);
     await closedFor(other, 'the other session’s socket closes');
     expect(other.closes[0]).toEqual({ code: POLICY_VIOLATION, reason: LOST_ACCESS.signedOut });
-    own.doc.getMap('probe').set('after-password-change', 1);
+    writeProbe(own.doc, seed.users.coder.id, 'after-password-change');
     const reader = connect(server, await signIn(server.url, PEOPLE.lead.email, PASSWORD), seed.memosRoom);
-    await waitFor(() => reader.doc.getMap('probe').get('after-password-change') === 1, 'the session that changed it still writes');
+    await waitFor(() => hasProbe(reader.doc, 'after-password-change'), 'the session that changed it still writes');
     expect(own.closes).toEqual([]);
   }, 60_000);
 
