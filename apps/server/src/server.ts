@@ -19,6 +19,7 @@ import { createRedisRelay, noRelay } from './relay/index.js';
 import { createProjector, scheduleCatchUp, withProjection } from './projection/index.js';
 import { createPgUpdateStore } from './store/index.js';
 import { attachSync, createLiveAccess } from './sync/index.js';
+import { createStudyEvents } from './exchange/study-events.js';
 import type { Relay } from './sync/contracts.js';
 import type { DocWriter } from './rounds/doc-change.js';
 
@@ -62,12 +63,10 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
 
     let syncStats: () => Record<string, unknown> = () => ({});
     // Server-made document changes go through the sync layer, which is attached after the app.
-    let syncWrite: DocWriter['write'] | null = null;
+    let syncDocs: DocWriter | null = null;
     const docs: DocWriter = {
-      write: (docId, update, userId) => {
-        if (!syncWrite) return Promise.reject(new Error('sync is not attached yet'));
-        return syncWrite(docId, update, userId);
-      },
+      write: (docId, update, userId) => (syncDocs ? syncDocs.write(docId, update, userId) : Promise.reject(new Error('sync is not attached yet'))),
+      announce: (docId, seq, update) => (syncDocs ? syncDocs.announce(docId, seq, update) : Promise.reject(new Error('sync is not attached yet'))),
     };
     const app = buildApp(
       {
@@ -81,6 +80,8 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
         signInLimiter: createRateLimiter(config.signInMaxFailures, config.signInWindowMs),
         config,
         commentEvents: createCommentEvents(relay, (err) => logger.warn({ err }, 'unreadable comment event from the relay')),
+        logger,
+        studyEvents: createStudyEvents(relay, (err) => logger.warn({ err }, 'unreadable study event from the relay')),
         health: () => ({ sync: syncStats() }),
         firstRun,
       },
@@ -105,7 +106,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     });
     cleanups.push(() => sync.close());
     syncStats = () => ({ ...sync.stats() });
-    syncWrite = (docId, update, userId) => sync.write(docId, update, userId);
+    syncDocs = sync;
 
     const sweep = setInterval(() => {
       sessions.deleteExpired().catch((err: unknown) => logger.warn({ err }, 'expired-session sweep failed'));

@@ -11,6 +11,7 @@ import {
   projectedCases,
   projectedCodes,
   projectedSegments,
+  rounds,
   texts,
   users,
 } from '@gloss/db';
@@ -32,17 +33,46 @@ export interface CaseInfo extends CaseFact {
   name: string;
 }
 
+/**
+ * A readable layer: a coder's (outside rounds or in a round), or a round's consensus layer (no coder).
+ * `round` is the round's number when the layer belongs to one.
+ */
+export interface LayerInfo {
+  id: string;
+  kind: 'coder' | 'consensus';
+  coderId: string | null;
+  round: { id: string; number: number; name: string; phase: string } | null;
+}
+
 /** Layer documents of the study the caller may read. */
-export async function readableLayers(db: Db, studyId: string, role: Role, me: string): Promise<string[]> {
+export async function readableLayers(db: Db, studyId: string, role: Role, me: string): Promise<LayerInfo[]> {
   const rows = await db
     .select({ id: documents.id, coderId: documents.coderId, roundId: documents.roundId, textId: documents.textId })
     .from(documents)
     .where(and(eq(documents.studyId, studyId), eq(documents.kind, 'layer')));
-  // Rounds narrow who reads which layer (an independent phase hides others' coding): the one rule in access/.
+  // Rounds narrow who reads which layer (an independent phase hides others' coding, and a consensus
+  // layer opens at the reveal): the one rule in access/.
   const { byId, openByText } = await studyRounds(db, studyId);
-  return rows
-    .filter((r) => documentAccess(role, { kind: 'layer', coderId: r.coderId, roundId: r.roundId }, me, { openRound: openByText.get(r.textId ?? '') ?? null, layerRound: r.roundId ? (byId.get(r.roundId) ?? null) : null }).read)
-    .map((r) => r.id);
+  const readable = rows.filter(
+    (r) => documentAccess(role, { kind: 'layer', coderId: r.coderId, roundId: r.roundId }, me, { openRound: openByText.get(r.textId ?? '') ?? null, layerRound: r.roundId ? (byId.get(r.roundId) ?? null) : null }).read,
+  );
+  const roundIds = [...new Set(readable.map((r) => r.roundId).filter((x): x is string => x !== null))];
+  const named = roundIds.length ? await db.select({ id: rounds.id, number: rounds.number, name: rounds.name, phase: rounds.phase }).from(rounds).where(inArray(rounds.id, roundIds)) : [];
+  const roundOf = new Map(named.map((r) => [r.id, r]));
+  return readable.map((r) => ({ id: r.id, kind: r.coderId === null ? 'consensus' : 'coder', coderId: r.coderId, round: r.roundId ? (roundOf.get(r.roundId) ?? null) : null }));
+}
+
+/**
+ * Which layers a filter keeps: `source` coders (every coder's layer) or consensus (rounds' consensus
+ * layers, readable once a round is revealed); `round` a round's number: that round's layers, and layers
+ * outside rounds (whose segments may carry the round their coder's client recorded; segmentFacts checks).
+ */
+export function chooseLayers(layers: readonly LayerInfo[], f: { source?: 'all' | 'coders' | 'consensus'; round?: number }): LayerInfo[] {
+  return layers.filter(
+    (l) =>
+      (f.source === undefined || f.source === 'all' || (f.source === 'coders') === (l.kind === 'coder')) &&
+      (f.round === undefined || l.round === null || l.round.number === f.round),
+  );
 }
 
 export async function studyCodes(db: Db, studyId: string): Promise<CodeInfo[]> {
@@ -82,6 +112,7 @@ export interface FactFilter {
   coderIds?: string[];
   textIds?: string[];
   speaker?: string;
+  /** A round's number: a round layer's own round, or (outside rounds) the round the segment recorded. */
   round?: number;
 }
 
@@ -93,15 +124,15 @@ export interface Fact extends SegmentFact {
 }
 
 /** Segments (not orphaned) of readable layers matching the filter; no quotes (see pageRows). */
-export async function segmentFacts(db: Db, studyId: string, layers: string[], f: FactFilter): Promise<Fact[]> {
+export async function segmentFacts(db: Db, studyId: string, layers: readonly LayerInfo[], f: FactFilter): Promise<Fact[]> {
   if (layers.length === 0) return [];
-  const conds = [eq(projectedSegments.studyId, studyId), inArray(projectedSegments.layerDocId, layers), eq(projectedSegments.orphaned, false)];
+  const conds = [eq(projectedSegments.studyId, studyId), inArray(projectedSegments.layerDocId, layers.map((l) => l.id)), eq(projectedSegments.orphaned, false)];
   if (f.codeIds) conds.push(inArray(projectedSegments.codeId, f.codeIds.length ? f.codeIds : ['\u0000']));
   if (f.coderIds) conds.push(inArray(projectedSegments.coderId, f.coderIds.length ? f.coderIds : ['00000000-0000-0000-0000-000000000000']));
   if (f.textIds) conds.push(inArray(projectedSegments.textId, f.textIds.length ? f.textIds : ['00000000-0000-0000-0000-000000000000']));
   if (f.speaker !== undefined) conds.push(eq(projectedSegments.speaker, f.speaker));
-  if (f.round !== undefined) conds.push(eq(projectedSegments.round, f.round));
-  return db
+  const inRound = new Map(layers.filter((l) => l.round).map((l) => [l.id, l.round!.number]));
+  const rows = await db
     .select({
       id: projectedSegments.id,
       layerDocId: projectedSegments.layerDocId,
@@ -117,6 +148,9 @@ export async function segmentFacts(db: Db, studyId: string, layers: string[], f:
     })
     .from(projectedSegments)
     .where(and(...conds));
+  // A round layer's segments are of its round, whatever a client recorded.
+  const facts = rows.map((r) => (inRound.has(r.layerDocId) ? { ...r, round: inRound.get(r.layerDocId)! } : r));
+  return f.round === undefined ? facts : facts.filter((r) => r.round === f.round);
 }
 
 /** Full rows (with quotes), text titles and coder names for one page of facts. */

@@ -54,6 +54,13 @@ export interface ImportReport {
   warnings: string[];
   /** Documents written: the server notes them for projection. */
   documentIds: string[];
+  /** The texts added. */
+  textIds: string[];
+  /**
+   * Updates appended to documents that existed before (the codebook and memos of an existing study),
+   * with their log position: the server hands them to open rooms so screens see them live.
+   */
+  appended: Array<{ docId: string; seq: number; update: Uint8Array }>;
 }
 
 const PLACEHOLDER_HASH = '!'; // never verifies: argon2 refuses it, so the account cannot sign in
@@ -241,6 +248,7 @@ export async function applyImport(db: Db, store: DocLoader, target: ImportTarget
 
   // --- one transaction ---
   const documentIds: string[] = [];
+  const appended: ImportReport['appended'] = [];
   const title = 'newStudy' in target ? target.newStudy.title : '';
   await db.transaction(async (tx) => {
     const t = tx as unknown as Db;
@@ -268,13 +276,11 @@ export async function applyImport(db: Db, store: DocLoader, target: ImportTarget
       await t.insert(updates).values({ docId: l.docId, data: l.update, bytes: l.update.byteLength, userId: l.coderId });
       documentIds.push(l.docId);
     }
-    if (cbDocId && cbUpdate.byteLength > 2) {
-      await t.insert(updates).values({ docId: cbDocId, data: cbUpdate, bytes: cbUpdate.byteLength, userId: actorId });
-      documentIds.push(cbDocId);
-    }
-    if (memosDocId && memosUpdate.byteLength > 2) {
-      await t.insert(updates).values({ docId: memosDocId, data: memosUpdate, bytes: memosUpdate.byteLength, userId: actorId });
-      documentIds.push(memosDocId);
+    for (const [docId, update] of [[cbDocId, cbUpdate], [memosDocId, memosUpdate]] as const) {
+      if (!docId || update.byteLength <= 2) continue;
+      const [row] = await t.insert(updates).values({ docId, data: update, bytes: update.byteLength, userId: actorId }).returning({ seq: updates.seq });
+      documentIds.push(docId);
+      if (!('newStudy' in target)) appended.push({ docId, seq: Number(row!.seq), update });
     }
     await recordAudit(t, {
       userId: actorId,
@@ -297,6 +303,8 @@ export async function applyImport(db: Db, store: DocLoader, target: ImportTarget
     endReading: data.endReading,
     warnings,
     documentIds,
+    textIds: textRows.map((r) => r.id),
+    appended,
   };
 }
 

@@ -4,8 +4,10 @@
  *       its context (the turn around it) and linked to its place (textId, start, end).
  *   GET /api/studies/:studyId/tables?kind=frequency|cooccurrence|code-by-attribute|case-by-code
  * Both read the relational projection (about a second behind the documents). Retrieval filters:
- * code (+descendants), coder, text, speaker, round, case, attribute+value, and with+mode (the segments of
- * `code` that co-occur with `with`: the words behind a co-occurrence cell).
+ * code (+descendants), coder, source (coders or consensus), round, text, speaker, case, attribute+value,
+ * and with+mode (the segments of `code` that co-occur with `with`: the words behind a co-occurrence cell).
+ * A round's consensus layer is readable (and so counted) once the round is revealed or closed; its
+ * segments have no coder and answer `kind: consensus`.
  */
 import { documents, projectedAttributes, texts, users } from '@gloss/db';
 import { and, asc, eq, inArray } from 'drizzle-orm';
@@ -13,7 +15,7 @@ import { Hono } from 'hono';
 import { z } from 'zod';
 import { HttpError } from '../errors.js';
 import { contexts } from '../analysis/context.js';
-import { pageRows, readableLayers, segmentFacts, studyCases, studyCodes, textOrder, withDescendants, type Fact, type FactFilter } from '../analysis/facts.js';
+import { chooseLayers, pageRows, readableLayers, type LayerInfo, segmentFacts, studyCases, studyCodes, textOrder, withDescendants, type Fact, type FactFilter } from '../analysis/facts.js';
 import { caseByCode, codeByAttribute, cooccurrence, cooccurringSegments } from '../analysis/tables.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
@@ -24,15 +26,26 @@ const list = z
   .string()
   .optional()
   .transform((s) => (s === undefined || s.trim() === '' ? undefined : [...new Set(s.split(',').map((x) => x.trim()).filter(Boolean))]));
+const source = z
+  .enum(['all', 'coders', 'consensus'])
+  .default('all')
+  .describe("whose segments: every readable layer (all), coders' layers only, or only rounds' consensus layers (readable once a round is revealed or closed)");
+const roundNumber = z.coerce
+  .number()
+  .int()
+  .min(1)
+  .optional()
+  .describe("a round's number: the layers of that round (its coders' and its consensus), and segments outside rounds that recorded it");
 const flag = z.enum(['true', 'false', '1', '0']).optional().transform((v) => v === 'true' || v === '1');
 
 export const RetrievalQuery = z.object({
   code: list.describe('code ids, comma-separated'),
   descendants: flag.describe('include the codes under each code'),
   coder: list.describe('coder user ids'),
+  source,
+  round: roundNumber,
   text: list.describe('text ids'),
   speaker: z.string().max(200).optional(),
-  round: z.coerce.number().int().min(0).optional(),
   case: z.string().max(100).optional().describe('only texts of this case'),
   attribute: z.string().max(100).optional(),
   value: z.string().max(500).optional().describe('with attribute: cases whose value (as text) is this; empty = no value'),
@@ -48,8 +61,10 @@ export const TablesQuery = z.object({
   mode: z.enum(['overlap', 'unit']).default('overlap'),
   attribute: z.string().max(100).optional(),
   count: z.enum(['cases', 'segments']).default('cases'),
-  coder: list,
-  text: list,
+  coder: list.describe('coder user ids'),
+  source,
+  round: roundNumber,
+  text: list.describe('text ids'),
 });
 
 function parse<S extends z.ZodType>(schema: S, q: Record<string, string>): z.infer<S> {
@@ -61,8 +76,20 @@ function parse<S extends z.ZodType>(schema: S, q: Record<string, string>): z.inf
   return r.data;
 }
 
-/** What the filters of the screens offer: attributes, cases, coders with readable segments, texts, speakers. */
-async function tableFacets(db: AppDeps['db'], studyId: string, facts: Fact[], cases: Array<{ id: string; name: string }>) {
+/** Rounds whose layers the caller may read, and whether each has a readable consensus layer. */
+function roundFacets(layers: readonly LayerInfo[]) {
+  const out = new Map<number, { number: number; name: string; phase: string; consensus: boolean }>();
+  for (const l of layers) {
+    if (!l.round) continue;
+    const r = out.get(l.round.number) ?? { number: l.round.number, name: l.round.name, phase: l.round.phase, consensus: false };
+    if (l.kind === 'consensus') r.consensus = true;
+    out.set(r.number, r);
+  }
+  return [...out.values()].sort((a, b) => a.number - b.number);
+}
+
+/** What the filters of the screens offer: attributes, cases, coders with readable segments, texts, speakers, rounds. */
+async function tableFacets(db: AppDeps['db'], studyId: string, facts: Fact[], cases: Array<{ id: string; name: string }>, layers: readonly LayerInfo[]) {
   const coderIds = [...new Set(facts.map((f) => f.coderId).filter((x): x is string => Boolean(x)))];
   const [attrs, textRows, people] = await Promise.all([
     db.select({ id: projectedAttributes.id, name: projectedAttributes.name }).from(projectedAttributes).where(eq(projectedAttributes.studyId, studyId)).orderBy(asc(projectedAttributes.name)),
@@ -75,6 +102,7 @@ async function tableFacets(db: AppDeps['db'], studyId: string, facts: Fact[], ca
     coders: people,
     texts: textRows,
     speakers: [...new Set(facts.map((f) => f.speaker).filter((x): x is string => Boolean(x)))].sort((a, b) => a.localeCompare(b)),
+    rounds: roundFacets(layers),
   };
 }
 
@@ -89,7 +117,8 @@ export function analysisRoutes(deps: AppDeps) {
     const { studyId, role } = await studyRole(deps, c, 'study.read');
     const me = c.get('session').user.id;
     const q = parse(RetrievalQuery, c.req.query());
-    const [layers, codes, cases] = await Promise.all([readableLayers(deps.db, studyId, role, me), studyCodes(deps.db, studyId), studyCases(deps.db, studyId)]);
+    const [readable, codes, cases] = await Promise.all([readableLayers(deps.db, studyId, role, me), studyCodes(deps.db, studyId), studyCases(deps.db, studyId)]);
+    const layers = chooseLayers(readable, q);
     const filter: FactFilter = {};
     if (q.code) filter.codeIds = q.descendants ? [...new Set(q.code.flatMap((id) => withDescendants(codes, id)))] : q.code;
     if (q.coder) filter.coderIds = q.coder;
@@ -113,6 +142,7 @@ export function analysisRoutes(deps: AppDeps) {
     }
     const order = await textOrder(deps.db, studyId);
     const label = new Map(codes.map((k) => [k.id, k.label]));
+    const layerOf = new Map(readable.map((l) => [l.id, l]));
     const byText = (a: Fact, b: Fact) => (order.get(a.textId) ?? 0) - (order.get(b.textId) ?? 0) || a.start - b.start || a.end - b.end || (a.id < b.id ? -1 : 1);
     facts.sort(
       q.sort === 'coded'
@@ -138,7 +168,8 @@ export function analysisRoutes(deps: AppDeps) {
         textId: r.textId,
         textTitle: titles.get(r.textId) ?? '',
         coderId: r.coderId,
-        coderName: r.coderId ? names.get(r.coderId) ?? '' : '',
+        coderName: r.coderId ? (names.get(r.coderId) ?? '') : `Consensus, round ${layerOf.get(r.layerDocId)?.round?.number ?? '?'}`,
+        kind: layerOf.get(r.layerDocId)?.kind ?? 'coder',
         codeId: r.codeId,
         codeLabel: label.get(r.codeId) ?? r.codeId,
         start: r.start,
@@ -146,7 +177,7 @@ export function analysisRoutes(deps: AppDeps) {
         quote: r.quote,
         speaker: r.speaker,
         turnIndex: r.turnIndex,
-        round: r.round,
+        round: layerOf.get(r.layerDocId)?.round?.number ?? r.round,
         note: r.note,
         createdAt: r.createdAt.toISOString(),
         context: ctx.get(`${r.layerDocId}/${r.id}`) ?? null,
@@ -158,15 +189,19 @@ export function analysisRoutes(deps: AppDeps) {
     const { studyId, role } = await studyRole(deps, c, 'study.read');
     const q = parse(TablesQuery, c.req.query());
     const me = c.get('session').user.id;
-    const [layers, codes, cases] = await Promise.all([readableLayers(deps.db, studyId, role, me), studyCodes(deps.db, studyId), studyCases(deps.db, studyId)]);
-    const facts = await segmentFacts(deps.db, studyId, layers, { ...(q.coder ? { coderIds: q.coder } : {}), ...(q.text ? { textIds: q.text } : {}) });
+    const [readable, codes, cases] = await Promise.all([readableLayers(deps.db, studyId, role, me), studyCodes(deps.db, studyId), studyCases(deps.db, studyId)]);
+    const facts = await segmentFacts(deps.db, studyId, chooseLayers(readable, q), {
+      ...(q.coder ? { coderIds: q.coder } : {}),
+      ...(q.text ? { textIds: q.text } : {}),
+      ...(q.round !== undefined ? { round: q.round } : {}),
+    });
     const used = new Set(facts.map((f) => f.codeId));
     // codes in use or still current; retired and merged ones only where they were applied
     const shown = codes.filter((k) => used.has(k.id) || k.status === 'active' || k.status === 'draft');
     const codeIds = shown.map((k) => k.id);
     const codeHeads = shown.map((k) => ({ id: k.id, label: k.label, colour: k.colour }));
     const caseHeads = cases.map((k) => ({ id: k.id, label: k.name }));
-    const facets = await tableFacets(deps.db, studyId, facts, cases);
+    const facets = await tableFacets(deps.db, studyId, facts, cases, readable);
     switch (q.kind) {
       case 'frequency': {
         const rows = codeIds.map((id) => {

@@ -23,6 +23,7 @@ import { accountLinkRoutes } from './account-links.js';
 import { invitationRoutes } from './invitations.js';
 import { exchangeRoutes, lossesRoutes } from './exchange.js';
 import { analysisRoutes } from './analysis.js';
+import { studyEventRoutes } from './study-events.js';
 import { roundRoutes, studyRoundRoutes } from './rounds.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
@@ -40,6 +41,7 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/studies/:studyId/invitations', invitationRoutes(deps));
   api.route('/studies', exchangeRoutes(deps));
   api.route('/studies', analysisRoutes(deps));
+  api.route('/studies', studyEventRoutes(deps));
   api.route('/exchange', lossesRoutes());
   api.route('/studies', studyRoutes(deps));
   api.route('/studies/:studyId/members', memberRoutes(deps));

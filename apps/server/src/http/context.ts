@@ -4,7 +4,9 @@ import type { FirstRun } from '../auth/first-run.js';
 import type { RateLimiter } from '../auth/rate-limit.js';
 import type { SessionService, ValidSession } from '../auth/sessions.js';
 import type { ServerConfig } from '../config.js';
+import type { Logger } from '../logger.js';
 import type { CommentEvents } from '../comments/events.js';
+import type { StudyEvents } from '../exchange/study-events.js';
 import type { UpdateStore } from '../sync/contracts.js';
 import type { LiveAccess } from '../sync/live-access.js';
 import type { DocWriter } from '../rounds/doc-change.js';
@@ -24,8 +26,12 @@ export interface AppDeps {
   config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist'>;
   /** Live comment events across nodes; absent in bare app tests. */
   commentEvents?: CommentEvents;
-  /** Notes documents written outside sync (imports) for the relational projection. */
-  projector?: { notify(docId: string): void };
+  /** For what a route cannot answer with (a live notice that failed after the work was stored). */
+  logger?: Pick<Logger, 'warn'>;
+  /** Live study changes (texts added, an import) across nodes; absent in bare app tests. */
+  studyEvents?: StudyEvents;
+  /** Notes documents written outside sync (imports) for the relational projection; `settle` projects them now. */
+  projector?: { notify(docId: string): void; settle?(docIds: readonly string[]): Promise<void> };
   /** Server-made document changes through the sync layer (absent in bare app tests). */
   docs?: DocWriter;
   /** Extra readiness facts for /api/health (sync stats…). */

@@ -101,8 +101,8 @@ export function exchangeRoutes(deps: AppDeps) {
       if (err instanceof ExchangeError) return c.json(exchangeBody(err), err.code === 'too-large' ? 413 : 422);
       throw err;
     }
-    for (const id of report.documentIds) deps.projector?.notify(id);
-    const { documentIds: _ids, ...out } = report;
+    await publishImport(deps, report);
+    const { documentIds: _ids, textIds: _texts, appended: _appended, ...out } = report;
     return c.json(out, 201);
   };
 
@@ -118,6 +118,19 @@ export function exchangeRoutes(deps: AppDeps) {
   });
 
   return app;
+}
+
+/**
+ * Makes an import seen live by open screens: its codebook and memos additions go to the open rooms (on
+ * every node), its documents are projected now (so analysis counts them when told), then open texts
+ * lists and analysis screens are told. The import is stored by now: a failure here is logged, not answered.
+ */
+async function publishImport(deps: AppDeps, report: ImportReport): Promise<void> {
+  const warn = (err: unknown) => deps.logger?.warn({ err, studyId: report.studyId }, 'an import could not be announced live; screens see it when they reload');
+  if (!report.created) for (const a of report.appended) await deps.docs?.announce(a.docId, a.seq, a.update).catch(warn);
+  if (deps.projector?.settle) await deps.projector.settle(report.documentIds).catch(warn);
+  else for (const id of report.documentIds) deps.projector?.notify(id);
+  if (!report.created) await deps.studyEvents?.publish({ action: 'imported', studyId: report.studyId, textIds: report.textIds }).catch(warn);
 }
 
 export function lossesRoutes() {

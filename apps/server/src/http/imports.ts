@@ -58,6 +58,8 @@ export function importRoutes(deps: AppDeps) {
       );
       const title = (upload.title ?? transcript.title ?? upload.filename).trim().slice(0, 300) || upload.filename;
       const text = await addTextFromTranscript(deps.db, studyId, { title, transcript, sourceFormat: sourceFormat(upload), createdBy: userId });
+      // open texts lists follow live; the text is stored whether or not the news goes out
+      await deps.studyEvents?.publish({ action: 'texts-added', studyId, textIds: [text.id] }).catch((err: unknown) => deps.logger?.warn({ err, studyId }, 'study event not published'));
       return textSummary(text, text.room);
     };
 

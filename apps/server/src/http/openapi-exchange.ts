@@ -78,7 +78,15 @@ export const exchangePaths = {
       summary: 'Coded segments across the study, filtered, sorted and paged, each in its context; every member (layers they may read)',
       security: secured,
       parameters: [study, ...queryParams(RetrievalQuery)],
-      responses: { '200': { description: '{total, offset, limit, items:[{id, textId, textTitle, coderId, coderName, codeId, codeLabel, start, end, quote, speaker, round, note, createdAt, context:{before, after}}]}', ...json({ type: 'object' }) }, ...errors(400, 401, 404) },
+      responses: { '200': { description: '{total, offset, limit, items:[{id, textId, textTitle, coderId, coderName, kind (coder|consensus), codeId, codeLabel, start, end, quote, speaker, round, note, createdAt, context:{before, after}}]}', ...json({ type: 'object' }) }, ...errors(400, 401, 404) },
+    },
+  },
+  '/api/studies/{studyId}/events': {
+    get: {
+      summary: 'Server-sent events for open screens: "ready", then "study" {action: texts-added|imported, textIds} when texts are uploaded or a REFI-QDA file is imported into the study (on any node); every member',
+      security: secured,
+      parameters: [study],
+      responses: { '200': { description: 'text/event-stream', content: { 'text/event-stream': { schema: { type: 'string' } } } }, ...errors(401, 404) },
     },
   },
   '/api/studies/{studyId}/tables': {
@@ -86,7 +94,7 @@ export const exchangePaths = {
       summary: 'Code frequencies, co-occurrence, code by attribute (cases by default) or case by code, with the caution that frequency is not importance',
       security: secured,
       parameters: [study, ...queryParams(TablesQuery)],
-      responses: { '200': { description: '{kind, rows, cols, cells, caution, attributes, cases, coders, texts, speakers}', ...json({ type: 'object' }) }, ...errors(400, 401, 404) },
+      responses: { '200': { description: '{kind, rows, cols, cells, caution, attributes, cases, coders, texts, speakers, rounds:[{number, name, phase, consensus}]}', ...json({ type: 'object' }) }, ...errors(400, 401, 404) },
     },
   },
 };

@@ -22,6 +22,8 @@ export interface Projector {
   notify(docId: string): void;
   /** Projects everything noted so far, now, and resolves when the queue is empty. */
   flush(): Promise<void>;
+  /** Projects these documents now (not waiting for the quiet time); resolves when they are done. */
+  settle(docIds: readonly string[]): Promise<void>;
   /** Flushes, then ignores later notifications. */
   close(): Promise<void>;
   /** Documents projected so far (successfully). */
@@ -72,6 +74,11 @@ export function createProjector(o: ProjectorOptions): Projector {
         await seen;
         if (seen === queue && timers.size === 0) return;
       }
+    },
+    async settle(docIds) {
+      if (closed) return;
+      for (const id of docIds) enqueue(id);
+      await queue;
     },
     async close() {
       await this.flush();

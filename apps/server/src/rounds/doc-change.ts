@@ -8,6 +8,8 @@ import { loadDoc, type DocLoader } from '../projection/load-doc.js';
 
 export interface DocWriter {
   write(docId: string, update: Uint8Array, userId: string | null): Promise<void>;
+  /** An update committed outside sync (an import): to the open rooms of every node (sync `announce`). */
+  announce(docId: string, seq: number, update: Uint8Array): Promise<void>;
 }
 
 /** Applies `change` to the stored document; writes and returns true when it changed anything. */

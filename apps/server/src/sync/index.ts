@@ -11,6 +11,7 @@ import { CloseCode, SyncError } from './errors.js';
 import type { ConnectionTracker } from './live-access.js';
 import { consoleLogger, type SyncLogger } from './logger.js';
 import { RoomRegistry } from './room-registry.js';
+import { encodeRelayFrame } from './relay-frame.js';
 import type { RoomPeer, RoomState } from './room.js';
 import { refuse, roomFromUrl, statusOf, type IncomingMessage } from './upgrade.js';
 
@@ -41,6 +42,11 @@ export interface SyncHandle {
    * to the open room here (its peers receive it) and relayed to other nodes. Rejects if not stored.
    */
   write(docId: string, update: Uint8Array, userId: string | null): Promise<void>;
+  /**
+   * Hands an update already committed to the log by someone else (an import's transaction, log
+   * position `seq`) to the open room here (its peers receive it) and to other nodes' rooms.
+   */
+  announce(docId: string, seq: number, update: Uint8Array): Promise<void>;
   close(): Promise<void>;
   stats(): SyncStats;
 }
@@ -144,6 +150,12 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
         registry.leave(room, peer);
       }
       if (failure) throw failure;
+    },
+    async announce(docId, seq, update) {
+      // Rooms are named by their document id (DEVELOPERS.md).
+      const room = registry.ready(docId);
+      if (room) return room.applyCommitted(seq, update);
+      await options.relay.publish(docId, encodeRelayFrame({ kind: 'update', seq, data: update }));
     },
     async close() {
       closing = true;

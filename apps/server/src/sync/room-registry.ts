@@ -45,6 +45,12 @@ export class RoomRegistry {
     await Promise.all([...this.rooms.values()].map((room) => this.unload(room)));
   }
 
+  /** The room of that name when it is open and ready on this node. */
+  ready(name: string): Room | undefined {
+    const room = this.rooms.get(name);
+    return room?.state === 'ready' ? room : undefined;
+  }
+
   /** Runs `fn` for each ready room (periodic or reconnect catch-up). */
   forEachReady(fn: (room: Room) => void): void {
     for (const room of this.rooms.values()) if (room.state === 'ready') fn(room);

@@ -115,6 +115,25 @@ export class Room {
   }
 
   /**
+   * An update committed to the log outside sync (an import's transaction): applied here in order with
+   * the room's other applies (local peers receive it) and relayed to other nodes.
+   */
+  applyCommitted(seq: number, update: Uint8Array): Promise<void> {
+    this.tail = this.tail.then(() => {
+      if (this.stateValue !== 'ready') return;
+      try {
+        Y.applyUpdate(this.doc, update, FROM_STORE);
+      } catch (error) {
+        this.deps.logger.error({ err: error, room: this.name }, 'committed update failed to apply');
+        return;
+      }
+      if (this.deps.catchUpIntervalMs > 0) this.applied.add(seq);
+      this.publish(encodeRelayFrame({ kind: 'update', seq, data: update }));
+    });
+    return this.tail;
+  }
+
+  /**
    * A scratch copy of the document as it will be once every accepted update has landed (the room's
    * state plus the updates whose commit is in flight), for checking a restricted writer's next update
    * against (access/write-rules.ts). A fresh Y.Doc each time; the caller may change it freely.

@@ -33,6 +33,8 @@ export interface TableOut {
   coders: Array<{ id: string; name: string }>;
   texts: Array<{ id: string; title: string }>;
   speakers: string[];
+  /** Rounds whose layers the caller may read; `consensus`: its consensus layer is readable (revealed or closed). */
+  rounds: Array<{ number: number; name: string; phase: string; consensus: boolean }>;
   mode?: string;
   count?: string;
   attribute?: string;
@@ -44,6 +46,8 @@ export interface RetrievedSegment {
   textTitle: string;
   coderId: string | null;
   coderName: string;
+  /** consensus: a round's consensus layer (no coder). */
+  kind: 'coder' | 'consensus';
   codeId: string;
   codeLabel: string;
   start: number;

@@ -3,7 +3,8 @@
  * the words behind any cell) and a chart of code frequencies, and the study's exports and REFI-QDA
  * imports. One screen with three parts; the part and the retrieval filters live in component state.
  */
-import { createSignal, Match, Switch } from 'solid-js';
+import { createSignal, Match, onCleanup, Switch } from 'solid-js';
+import { watchStudy } from '../../api/study-events.js';
 import { DataNotice } from '../../ui/DataNotice.js';
 import { StudyNav } from '../study/StudyNav.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -16,6 +17,9 @@ type Part = 'retrieve' | 'tables' | 'exchange';
 export function AnalysisScreen(props: { studyId: string; scope: StudyScope }) {
   const [part, setPart] = createSignal<Part>('retrieve');
   const [filters, setFilters] = createSignal<Filters>({});
+  // an import into this study (by anyone, on any node) changes every count: read them again
+  const [changes, setChanges] = createSignal(0);
+  onCleanup(watchStudy(props.studyId, () => setChanges((n) => n + 1)));
   const drill = (f: Filters) => {
     setFilters(f);
     setPart('retrieve');
@@ -36,12 +40,12 @@ export function AnalysisScreen(props: { studyId: string; scope: StudyScope }) {
       <Switch>
         <Match when={part() === 'retrieve'}>
           <section role="tabpanel" id="panel-retrieve" aria-labelledby="tab-retrieve">
-            <Retrieve studyId={props.studyId} filters={filters()} onFilters={setFilters} />
+            <Retrieve studyId={props.studyId} filters={filters()} onFilters={setFilters} changes={changes()} />
           </section>
         </Match>
         <Match when={part() === 'tables'}>
           <section role="tabpanel" id="panel-tables" aria-labelledby="tab-tables">
-            <Tables studyId={props.studyId} onDrill={drill} />
+            <Tables studyId={props.studyId} onDrill={drill} changes={changes()} />
           </section>
         </Match>
         <Match when={part() === 'exchange'}>

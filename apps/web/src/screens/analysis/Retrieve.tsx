@@ -1,6 +1,6 @@
 /** Retrieval: every segment of a code (optionally with the codes under it) across the study, filtered, in context, paged by the server. */
 import { createEffect, createResource, createSignal, For, on, Show } from 'solid-js';
-import { analysisApi, type Query } from '../../api/analysis.js';
+import { analysisApi, type Query, type TableOut } from '../../api/analysis.js';
 import { errorMessage } from '../../api/errors.js';
 import { href } from '../../ui/router.js';
 
@@ -8,6 +8,9 @@ export interface Filters {
   code?: string;
   descendants?: boolean;
   coder?: string;
+  /** coders' layers only, or rounds' consensus layers only (default: every readable layer) */
+  source?: 'coders' | 'consensus';
+  round?: number;
   text?: string;
   speaker?: string;
   case?: string;
@@ -22,17 +25,17 @@ export interface Filters {
 
 const PAGE = 25;
 
-export function Retrieve(props: { studyId: string; filters: Filters; onFilters: (f: Filters) => void }) {
+export function Retrieve(props: { studyId: string; filters: Filters; onFilters: (f: Filters) => void; changes?: number }) {
   const [offset, setOffset] = createSignal(0);
-  const [facets, { refetch: refetchFacets }] = createResource(() => props.studyId, (id) => analysisApi.table(id, { kind: 'frequency' }));
+  const [facets, { refetch: refetchFacets }] = createResource(() => ({ id: props.studyId, changes: props.changes }), ({ id }) => analysisApi.table(id, { kind: 'frequency' }));
   createEffect(on(() => props.filters, () => setOffset(0), { defer: true }));
   const query = () => {
     const f = props.filters;
-    const q: Query = { code: f.code, descendants: f.descendants, coder: f.coder, text: f.text, speaker: f.speaker, case: f.case, with: f.with, mode: f.mode, sort: f.sort, limit: PAGE, offset: offset() };
+    const q: Query = { code: f.code, descendants: f.descendants, coder: f.coder, source: f.source, round: f.round, text: f.text, speaker: f.speaker, case: f.case, with: f.with, mode: f.mode, sort: f.sort, limit: PAGE, offset: offset() };
     if (f.attribute) Object.assign(q, { attribute: f.attribute, value: f.value ?? '' });
     return q;
   };
-  const [result] = createResource(() => ({ id: props.studyId, q: query() }), ({ id, q }) => analysisApi.retrieve(id, q));
+  const [result] = createResource(() => ({ id: props.studyId, q: query(), changes: props.changes }), ({ id, q }) => analysisApi.retrieve(id, q));
   // the lists on offer come from the projection, which may still be catching up (a study just imported):
   // when the segments found outnumber what the lists know of, read the lists again
   createEffect(
@@ -63,6 +66,7 @@ export function Retrieve(props: { studyId: string; filters: Filters; onFilters: 
             <For each={facets()?.coders ?? []}>{(c) => <option value={c.id} selected={c.id === props.filters.coder}>{c.name}</option>}</For>
           </select>
         </label>
+        <SourceAndRound filters={props.filters} rounds={facets()?.rounds ?? []} onChange={set} />
         <label>
           Text
           <select value={props.filters.text ?? ''} onChange={(e) => set({ text: e.currentTarget.value || undefined })}>
@@ -121,7 +125,8 @@ export function Retrieve(props: { studyId: string; filters: Filters; onFilters: 
                       </blockquote>
                       <p class="meta">
                         <span class="tag">{s.codeLabel}</span> {s.speaker ? <span>{s.speaker} · </span> : null}
-                        coded by {s.coderName || 'a former member'} ·{' '}
+                        {s.kind === 'consensus' ? s.coderName : `coded by ${s.coderName || 'a former member'}`}
+                        {s.kind !== 'consensus' && s.round !== null ? ` (round ${s.round})` : ''} ·{' '}
                         <a href={href({ name: 'coding', studyId: props.studyId, textId: s.textId })}>{s.textTitle}</a>
                         <span class="muted"> (characters {s.start}–{s.end})</span>
                       </p>
@@ -139,5 +144,36 @@ export function Retrieve(props: { studyId: string; filters: Filters; onFilters: 
         </Show>
       </Show>
     </div>
+  );
+}
+
+/** Whose segments (every layer, coders' layers, rounds' consensus layers) and which round: shared by retrieval and the tables. */
+export function SourceAndRound(props: { filters: Pick<Filters, 'source' | 'round'>; rounds: TableOut['rounds']; onChange: (patch: Pick<Filters, 'source' | 'round'>) => void }) {
+  return (
+    <>
+      <label>
+        Layers
+        <select value={props.filters.source ?? ''} onChange={(e) => props.onChange({ source: (e.currentTarget.value || undefined) as Filters['source'] })}>
+          <option value="">every layer</option>
+          <option value="coders" selected={props.filters.source === 'coders'}>coders’ layers</option>
+          <option value="consensus" selected={props.filters.source === 'consensus'}>consensus (revealed or closed rounds)</option>
+        </select>
+      </label>
+      <Show when={props.rounds.length > 0}>
+        <label>
+          Round
+          <select value={props.filters.round ?? ''} onChange={(e) => props.onChange({ round: e.currentTarget.value ? Number(e.currentTarget.value) : undefined })}>
+            <option value="">any round</option>
+            <For each={props.rounds}>
+              {(r) => (
+                <option value={r.number} selected={r.number === props.filters.round}>
+                  Round {r.number}: {r.name} ({r.phase}{r.consensus ? ', consensus' : ''})
+                </option>
+              )}
+            </For>
+          </select>
+        </label>
+      </Show>
+    </>
   );
 }

@@ -7,18 +7,19 @@ import { createResource, createSignal, For, Show } from 'solid-js';
 import { analysisApi, type TableOut } from '../../api/analysis.js';
 import { errorMessage } from '../../api/errors.js';
 import { FrequencyChart } from './FrequencyChart.js';
-import type { Filters } from './Retrieve.js';
+import { SourceAndRound, type Filters } from './Retrieve.js';
 
 type Kind = TableOut['kind'];
 
-export function Tables(props: { studyId: string; onDrill: (f: Filters) => void }) {
+export function Tables(props: { studyId: string; onDrill: (f: Filters) => void; changes?: number }) {
   const [kind, setKind] = createSignal<Kind>('frequency');
   const [mode, setMode] = createSignal<'overlap' | 'unit'>('overlap');
   const [count, setCount] = createSignal<'cases' | 'segments'>('cases');
   const [attribute, setAttribute] = createSignal('');
+  const [layers, setLayers] = createSignal<Pick<Filters, 'source' | 'round'>>({});
   const [table] = createResource(
-    () => ({ id: props.studyId, kind: kind(), mode: mode(), count: count(), attribute: attribute() }),
-    (q) => (q.kind === 'code-by-attribute' && !q.attribute ? analysisApi.table(q.id, { kind: 'frequency' }) : analysisApi.table(q.id, q)),
+    () => ({ id: props.studyId, kind: kind(), mode: mode(), count: count(), attribute: attribute(), source: layers().source, round: layers().round, changes: props.changes }),
+    ({ changes: _changes, ...q }) => (q.kind === 'code-by-attribute' && !q.attribute ? analysisApi.table(q.id, { kind: 'frequency', source: q.source, round: q.round }) : analysisApi.table(q.id, q)),
   );
   const ready = () => {
     const t = table();
@@ -30,17 +31,19 @@ export function Tables(props: { studyId: string; onDrill: (f: Filters) => void }
   const drill = (t: TableOut, i: number, j: number) => {
     const r = t.rows[i]!;
     const c = t.cols[j]!;
+    // the words behind a cell come from the same layers the table counted
+    const onDrill = (f: Filters) => props.onDrill({ ...layers(), ...f });
     switch (t.kind) {
       case 'frequency':
-        return props.onDrill({ code: r.id, origin: `Segments of ${r.label}` });
+        return onDrill({ code: r.id, origin: `Segments of ${r.label}` });
       case 'cooccurrence':
-        return props.onDrill(i === j ? { code: r.id, origin: `Segments of ${r.label}` } : { code: r.id, with: c.id, mode: mode(), origin: 'From the co-occurrence table:' });
+        return onDrill(i === j ? { code: r.id, origin: `Segments of ${r.label}` } : { code: r.id, with: c.id, mode: mode(), origin: 'From the co-occurrence table:' });
       case 'code-by-attribute': {
         const a = t.attributes.find((x) => x.id === t.attribute);
-        return props.onDrill({ code: r.id, attribute: t.attribute!, value: c.id, origin: `Segments of ${r.label} in cases whose ${a?.name ?? 'attribute'} is ${c.label}` });
+        return onDrill({ code: r.id, attribute: t.attribute!, value: c.id, origin: `Segments of ${r.label} in cases whose ${a?.name ?? 'attribute'} is ${c.label}` });
       }
       case 'case-by-code':
-        return props.onDrill({ code: c.id, case: r.id, origin: `Segments of ${c.label} in the texts of ${r.label}` });
+        return onDrill({ code: c.id, case: r.id, origin: `Segments of ${c.label} in the texts of ${r.label}` });
     }
   };
 
@@ -56,6 +59,7 @@ export function Tables(props: { studyId: string; onDrill: (f: Filters) => void }
             <option value="case-by-code">Case by code</option>
           </select>
         </label>
+        <SourceAndRound filters={layers()} rounds={table()?.rounds ?? []} onChange={(patch) => setLayers({ ...layers(), ...patch })} />
         <Show when={kind() === 'cooccurrence'}>
           <label>
             Co-occurring when

@@ -1,4 +1,5 @@
-import { createResource, For, Show } from 'solid-js';
+import { createResource, For, onCleanup, Show } from 'solid-js';
+import { watchStudy } from '../../api/study-events.js';
 import { api } from '../../api/client.js';
 import { href } from '../../ui/router.js';
 import { Loading } from '../../ui/Loading.js';
@@ -8,7 +9,9 @@ import { StudyNav, allowed } from './StudyNav.js';
 import { PresenceList } from './PresenceList.js';
 
 export function StudyScreen(props: { studyId: string; scope: StudyScope }) {
-  const [texts] = createResource(() => props.studyId, (id) => api.texts(id));
+  const [texts, { refetch: refetchTexts }] = createResource(() => props.studyId, (id) => api.texts(id));
+  // texts uploaded or imported by someone else appear without a reload
+  onCleanup(watchStudy(props.studyId, () => void refetchTexts()));
   const [members] = createResource(() => props.studyId, (id) => api.members(id).catch(() => []));
   // progress per coder: segments per visible layer, counted from the server's resolution of each text
   const [progress] = createResource(texts, async (list) => {
