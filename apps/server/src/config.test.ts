@@ -11,6 +11,7 @@ describe('loadConfig', () => {
     expect(c.dataDir.endsWith('/data')).toBe(true);
     expect(c.host).toBe('127.0.0.1');
     expect(c.maxMessageBytes).toBe(10_485_760);
+    expect(c.maxPresenceBytes).toBe(65_536);
     expect(c.sessionMs).toBe(14 * 86_400_000);
     expect(c.logLevel).toBe('info');
     expect(c.webDist.endsWith('/apps/web/dist')).toBe(true);
@@ -25,6 +26,7 @@ describe('loadConfig', () => {
       REDIS_URL: 'redis://cache:6379',
       PUBLIC_URL: 'https://gloss.example.org/some/path',
       MAX_MESSAGE_BYTES: '2048',
+      MAX_PRESENCE_BYTES: '4096',
       SESSION_DAYS: '0.5',
       WEB_DIST: '/srv/web',
       LOG_LEVEL: 'warn',
@@ -37,6 +39,7 @@ describe('loadConfig', () => {
       redisUrl: 'redis://cache:6379',
       publicUrl: 'https://gloss.example.org',
       maxMessageBytes: 2048,
+      maxPresenceBytes: 4096,
       sessionMs: 43_200_000,
       webDist: '/srv/web',
       logLevel: 'warn',
@@ -52,6 +55,7 @@ describe('loadConfig', () => {
     ['SESSION_DAYS', '-1'],
     ['LOG_LEVEL', 'loud'],
     ['MAX_MESSAGE_BYTES', '10'],
+    ['MAX_PRESENCE_BYTES', '12'],
   ])('refuses %s=%s with a ConfigError naming the variable', (name, value) => {
     let err: unknown;
     try {

@@ -14,6 +14,8 @@ export interface ServerConfig {
   /** Public origin (https://gloss.example.org), allowed for Origin checks and used for Secure cookies. */
   publicUrl: string | undefined;
   maxMessageBytes: number;
+  /** Largest presence (awareness) state one client may hold in a room; larger closes that connection. */
+  maxPresenceBytes: number;
   /** Session lifetime; sessions slide forward when used past half of it. */
   sessionMs: number;
   webDist: string;
@@ -72,6 +74,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
     redisUrl: url(env, 'REDIS_URL', ['redis:', 'rediss:']),
     publicUrl: publicUrl ? new URL(publicUrl).origin : undefined,
     maxMessageBytes: int(env, 'MAX_MESSAGE_BYTES', 10 * 1024 * 1024, 1024),
+    // A caret, a selection, a name and a colour take well under 1 KiB; every joiner is sent every state.
+    maxPresenceBytes: int(env, 'MAX_PRESENCE_BYTES', 64 * 1024, 256),
     // SESSION_DAYS may be fractional so tests can use seconds-long sessions.
     sessionMs: Math.round(positive(env, 'SESSION_DAYS', 14) * 86_400_000),
     webDist: resolve(env.WEB_DIST || new URL('../../web/dist', import.meta.url).pathname),

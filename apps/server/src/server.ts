@@ -101,6 +101,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
       relay,
       liveAccess,
       maxMessageBytes: config.maxMessageBytes,
+      maxPresenceBytes: config.maxPresenceBytes,
       pingIntervalMs: config.pingIntervalMs,
       logger,
     });

@@ -28,8 +28,10 @@ export function testAuthorizer(rooms: Map<string, string> | Set<string>, userId:
       const docId = rooms instanceof Map ? rooms.get(room) : rooms.has(room) ? room : undefined;
       if (docId === undefined) throw new TestHttpError(404);
       const role = (params.get('as') ?? 'coder') as Role;
+      // `?user=` speaks as another person (presence ownership tests); default: the one test user
+      const who = params.get('user') ?? userId;
       const far = new Date(Date.now() + 86_400_000);
-      return { room, docId, studyId: 'study', kind: 'text', userId, userName: 'Test coder', sessionId: 'session', sessionExpiresAt: far, role, canWrite: role !== 'observer' };
+      return { room, docId, studyId: 'study', kind: 'text', userId: who, userName: 'Test coder', sessionId: 'session', sessionExpiresAt: far, role, canWrite: role !== 'observer' };
     },
     // Grants here never change after the upgrade.
     recheck: async (grant) => ({ ok: true, grant }),
@@ -49,6 +51,7 @@ export async function startSyncServer(options: {
   authorizer: RoomAuthorizer;
   relay?: Relay;
   maxMessageBytes?: number;
+  maxPresenceBytes?: number;
   pingIntervalMs?: number;
   catchUpIntervalMs?: number;
   logger?: SyncOptions['logger'];
@@ -59,6 +62,7 @@ export async function startSyncServer(options: {
     authorizer: options.authorizer,
     relay: options.relay ?? noRelay(),
     maxMessageBytes: options.maxMessageBytes ?? 1024 * 1024,
+    ...(options.maxPresenceBytes !== undefined ? { maxPresenceBytes: options.maxPresenceBytes } : {}),
     pingIntervalMs: options.pingIntervalMs ?? 30_000,
     catchUpIntervalMs: options.catchUpIntervalMs,
     logger: options.logger ?? quietLogger,

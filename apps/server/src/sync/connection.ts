@@ -16,6 +16,14 @@ import { checkWrite } from '../access/write-rules.js';
 
 /** Messages held per connection while its room loads; a client needs a handful (sync step 1, awareness, edits). */
 const MAX_BACKLOG = 1_000;
+export const DEFAULT_MAX_PRESENCE_BYTES = 64 * 1024;
+
+export interface ConnectionLimits {
+  /** Largest presence state (JSON, UTF-8 bytes) this connection may hold; it is replayed to every joiner. */
+  maxPresenceBytes: number;
+}
+
+const utf8 = new TextEncoder();
 
 export class Connection implements RoomPeer {
   /** Messages that arrive before the room is ready, handled in order once it is. */
@@ -30,6 +38,7 @@ export class Connection implements RoomPeer {
     readonly ws: WebSocket,
     private grantValue: RoomGrant,
     private readonly logger: SyncLogger,
+    private readonly limits: ConnectionLimits = { maxPresenceBytes: DEFAULT_MAX_PRESENCE_BYTES },
   ) {
     const grant = grantValue;
     ws.on('message', (data, isBinary) => this.onMessage(data as Buffer, isBinary));
@@ -86,7 +95,7 @@ export class Connection implements RoomPeer {
   stop(): void {
     this.closed = true;
     this.backlog = null;
-    if (this.room !== null && this.ownedClientId !== null) this.room.removeAwareness(this.ownedClientId);
+    if (this.room !== null && this.ownedClientId !== null) this.room.releasePresence(this.ownedClientId, this);
   }
 
   send(message: Uint8Array): void {
@@ -172,11 +181,23 @@ export class Connection implements RoomPeer {
         return;
       }
       case 'awareness': {
-        const entries = decodeAwarenessUpdate(readPayload(decoder)).filter((entry) => {
-          this.ownedClientId ??= entry.clientId;
-          return entry.clientId === this.ownedClientId;
-        });
-        room.submitAwareness(entries, this);
+        const entries = decodeAwarenessUpdate(readPayload(decoder));
+        for (const e of entries) {
+          const bytes = utf8.encode(e.state).byteLength;
+          if (bytes > this.limits.maxPresenceBytes) {
+            throw new SyncError('presence-too-large', `presence state of ${bytes} bytes is over the limit of ${this.limits.maxPresenceBytes}`, CloseCode.tooBig);
+          }
+        }
+        // The first state this connection sends names its client id; it speaks for that one only.
+        const first = entries.find((e) => e.state !== 'null');
+        if (this.ownedClientId === null && first !== undefined) {
+          if (!room.claimPresence(first.clientId, this, this.grant.userId)) {
+            throw new SyncError('presence-taken', `presence client id ${first.clientId} belongs to another person's connection`, CloseCode.policyViolation);
+          }
+          this.ownedClientId = first.clientId;
+        }
+        // Others' ids (a client passes on removals of states it timed out) are not this connection's to speak for.
+        room.submitAwareness(entries.filter((e) => e.clientId === this.ownedClientId && room.ownsPresence(e.clientId, this)), this);
         return;
       }
       case 'query-awareness':

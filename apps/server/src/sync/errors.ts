@@ -1,5 +1,12 @@
 /** Typed errors of the sync layer. `closeCode` is the WebSocket close code sent to the offending peer. */
-export type SyncErrorCode = 'malformed-message' | 'unsupported-message' | 'invalid-update' | 'invalid-awareness' | 'store-failed';
+export type SyncErrorCode =
+  | 'malformed-message'
+  | 'unsupported-message'
+  | 'invalid-update'
+  | 'invalid-awareness'
+  | 'presence-too-large'
+  | 'presence-taken'
+  | 'store-failed';
 
 export class SyncError extends Error {
   readonly code: SyncErrorCode;

@@ -5,7 +5,7 @@
 import type { Server } from 'node:http';
 import type { Duplex } from 'node:stream';
 import { WebSocketServer, type WebSocket } from 'ws';
-import { Connection } from './connection.js';
+import { Connection, DEFAULT_MAX_PRESENCE_BYTES } from './connection.js';
 import type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
 import { CloseCode, SyncError } from './errors.js';
 import type { ConnectionTracker } from './live-access.js';
@@ -21,6 +21,8 @@ export interface SyncOptions {
   relay: Relay;
   /** Larger messages close their connection with 1009. */
   maxMessageBytes: number;
+  /** A larger presence state closes its connection with 1009 (default 64 KiB). */
+  maxPresenceBytes?: number;
   /** A connection that has not answered the previous ping by the next one is terminated. */
   pingIntervalMs: number;
   /** How often an open room re-reads the log for updates the relay lost (default: 5 s for a lossy relay, else never). */
@@ -93,7 +95,7 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
   }
 
   async function open(ws: WebSocket, grant: RoomGrant, stamp: number): Promise<void> {
-    const connection = new Connection(ws, grant, logger);
+    const connection = new Connection(ws, grant, logger, { maxPresenceBytes: options.maxPresenceBytes ?? DEFAULT_MAX_PRESENCE_BYTES });
     connections.add(connection);
     // Followed from now on, also while the room loads: a revoked connection then never starts.
     const untrack = options.liveAccess?.track(connection, stamp) ?? (() => {});

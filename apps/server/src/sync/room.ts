@@ -37,6 +37,8 @@ export class Room {
   readonly doc = new Y.Doc({ gc: false });
   readonly awareness = new AwarenessTable();
   readonly peers = new Set<RoomPeer>();
+  /** Which local connection speaks for each presence client id, and for whom (DESIGN §6: one id per connection). */
+  private readonly presenceOwners = new Map<number, { peer: RoomPeer; userId: string }>();
   readonly ready: Promise<void>;
   private unloading: Promise<void> | null = null;
   /** Per-room order of applies: each link waits for its own commit and for every earlier link. */
@@ -152,6 +154,30 @@ export class Room {
     const update = encodeAwarenessUpdate(accepted);
     this.broadcastAwareness(accepted, encodeAwarenessMessage(update), from);
     if (from !== null) this.publish(encodeRelayFrame({ kind: 'awareness', data: update }));
+  }
+
+  /**
+   * Gives `clientId` to `peer`. Free, or already its own: yes. Held by another connection of the same
+   * person (a reconnect whose old socket is not closed yet): moved, so the old socket's close no longer
+   * removes it. Held by someone else's connection: no.
+   */
+  claimPresence(clientId: number, peer: RoomPeer, userId: string): boolean {
+    const held = this.presenceOwners.get(clientId);
+    if (held !== undefined && held.peer !== peer && held.userId !== userId) return false;
+    this.presenceOwners.set(clientId, { peer, userId });
+    return true;
+  }
+
+  /** Whether `peer` speaks for `clientId` now. */
+  ownsPresence(clientId: number, peer: RoomPeer): boolean {
+    return this.presenceOwners.get(clientId)?.peer === peer;
+  }
+
+  /** A leaving peer's presence goes, unless the id has moved to another connection since. */
+  releasePresence(clientId: number, peer: RoomPeer): void {
+    if (!this.ownsPresence(clientId, peer)) return;
+    this.presenceOwners.delete(clientId);
+    this.removeAwareness(clientId);
   }
 
   /** Removes a departed client's presence everywhere. */
