@@ -98,3 +98,40 @@ for (const role of ['lead', 'coder', 'observer'] as const) {
     await p.context.close();
   });
 }
+
+// An import into a study reaches screens already open on it (issue 10): the study's texts list and the
+// analysis counts change without a reload, by the study's event stream.
+test('an import into an open study shows on open screens without a reload', async ({ browser, baseURL }) => {
+  test.setTimeout(180_000);
+  const file = () => ({ name: 'harbour.qdpx', mimeType: 'application/zip', buffer: Buffer.from(projectQdpx(projectFile(sampleStudy(), 'e2e-live'))) });
+  const owner = await signIn(browser, account('owner'), baseURL!);
+  const page = owner.page;
+  await page.getByLabel('Title of the new study').fill('Harbour lives (live)');
+  await page.getByLabel('Project (.qdpx) or codebook (.qdc) file').setInputFiles(file());
+  await page.getByRole('button', { name: 'Import into a new study' }).click();
+  await page.locator('.import-report').getByRole('link', { name: 'Open the new study' }).click();
+  await expect(page.getByRole('table').first().locator('tbody tr')).toHaveCount(2);
+  const studyUrl = page.url();
+
+  // a second window of the same person: the analysis screen, six segments so far
+  const other = await owner.context.newPage();
+  await other.goto(studyUrl);
+  await other.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Analysis' }).click();
+  await expect(other.locator('p.count')).toHaveText('Segments 1–6 of 6', { timeout: 20_000 });
+
+  // a third imports the same project into this study
+  const importer = await owner.context.newPage();
+  await importer.goto(studyUrl);
+  await importer.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Analysis' }).click();
+  await importer.getByRole('tab', { name: 'Export and import' }).click();
+  await importer.getByLabel('Codebook (.qdc) or project (.qdpx) file').setInputFiles(file());
+  await importer.getByRole('button', { name: 'Import', exact: true }).click();
+  await expect(importer.locator('.import-report')).toContainText('Imported 2 texts');
+
+  // the open screens follow: four texts listed, twelve segments counted
+  await expect(page.getByRole('table').first().locator('tbody tr')).toHaveCount(4);
+  await expect(other.locator('p.count')).toHaveText('Segments 1–12 of 12');
+  await shot(page, 'analysis-live-import-texts');
+  await shot(other, 'analysis-live-import-retrieve');
+  await owner.context.close();
+});
