@@ -94,6 +94,14 @@ describe('gloss import and export', () => {
     }
     const bad = await gloss(['export', '--study', studyId, '--format', 'pdf'], env);
     expect(bad.code).toBe(2);
+    // consensus layers (none in an imported study: it has no rounds) go out in the CSV only
+    const consensus = await gloss(['export', '--study', studyId, '--format', 'csv', '--layers', 'consensus'], env);
+    expect(consensus.code, consensus.stderr).toBe(0);
+    expect(Papa.parse<string[]>(consensus.stdout.toString('utf8').replace(/^\uFEFF/, ''), { newline: '\r\n', skipEmptyLines: true }).data).toHaveLength(1); // the header
+    const notThere = await gloss(['export', '--study', studyId, '--format', 'qdpx', '--layers', 'consensus'], env);
+    expect(notThere.code).toBe(2);
+    expect(notThere.stderr).toContain('segments CSV only');
+    expect((await gloss(['export', '--study', studyId, '--format', 'csv', '--layers', 'everyone'], env)).code).toBe(2);
   }, 600_000);
 
   it('refuses a hostile archive with status 2 and a typed error, and writes nothing', async () => {

@@ -5,6 +5,7 @@
  * consensus layer"; issue 8: nobody but its coder reads a round layer while the round is independent).
  * Expected quotes and counts are worked out by hand from the seeded segments below.
  */
+import { createRequire } from 'node:module';
 import { addSegment, newLayerDoc } from '@gloss/model';
 import type { Db } from '@gloss/db';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -15,6 +16,10 @@ import { appendUpdate, clientFor, loadStoredDoc, seedCoding, type CodingSeed } f
 import type { Person } from '../support/seed.js';
 import { dbKinds, spawnServer, type SpawnedServer } from '../support/server.js';
 import { waitFor } from '../support/wait.js';
+
+const Papa = createRequire(new URL('../../packages/interchange/package.json', import.meta.url))('papaparse') as {
+  parse<T>(s: string, o: object): { data: T[]; errors: unknown[] };
+};
 
 interface Seed extends CodingSeed {
   round1: string;
@@ -110,6 +115,25 @@ describe.each(dbKinds().slice(-1))('analysis with rounds and consensus layers on
     expect((await rounds('coder')).map((r) => [r.number, r.consensus])).toEqual([[1, true], [2, false]]);
     expect((await get('/retrieval?round=0')).status).toBe(400);
     expect((await get('/retrieval?source=nobody')).status).toBe(400);
+  }, 60_000);
+
+  it('the segments CSV of consensus layers: revealed rounds only, each as "Consensus, round N"', async () => {
+    const lead = await clientFor(server.url, 'lead');
+    const csv = async (q: string) => {
+      const r = await fetch(`${server.url}/api/studies/${server.seeded.studyId}/export?format=csv${q}`, { headers: { cookie: lead.cookie, origin: server.url } });
+      expect(r.status).toBe(200);
+      // read back with papaparse (RFC 4180), as the exports tests do
+      const rows = Papa.parse<Record<string, string>>((await r.text()).replace(/^\uFEFF/, ''), { header: true, newline: '\r\n', skipEmptyLines: true });
+      expect(rows.errors).toEqual([]);
+      return rows.data.map((x) => [x.quote, x.coder, x.round]);
+    };
+    expect(await csv('&layers=consensus')).toEqual([
+      ['lent me a spade', 'Consensus, round 1', '1'],
+      ['keys to the shed', 'Consensus, round 1', '1'],
+    ]);
+    expect(await csv('')).toEqual([['lent me a spade', 'Rua Taliaferro', '']]); // default: coders' layers outside rounds
+    const qdpx = await fetch(`${server.url}/api/studies/${server.seeded.studyId}/export?format=qdpx&layers=consensus`, { headers: { cookie: lead.cookie, origin: server.url } });
+    expect(qdpx.status).toBe(400);
   }, 60_000);
 
   it('a closed round’s consensus stays in analysis; revealing the other round brings its consensus in', async () => {

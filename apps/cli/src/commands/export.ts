@@ -15,10 +15,12 @@ import { createPgUpdateStore, exchange, loadConfig } from '@gloss/server';
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 export async function exportCommand(argv: string[]): Promise<number> {
-  const { values } = parseArgs({ args: argv, options: { study: { type: 'string' }, format: { type: 'string' }, out: { type: 'string' } }, strict: true });
+  const { values } = parseArgs({ args: argv, options: { study: { type: 'string' }, format: { type: 'string' }, out: { type: 'string' }, layers: { type: 'string' } }, strict: true });
   if (!values.study || !UUID.test(values.study)) return usage('--study needs a study id');
   if (!exchange.isExportFormat(values.format)) return usage(`--format must be one of ${exchange.EXPORT_FORMATS.join(', ')}`);
   const format = values.format;
+  const layers = values.layers ?? 'coders';
+  if (layers !== 'coders' && layers !== 'consensus') return usage('--layers must be coders or consensus');
   const config = loadConfig();
   const database = await openDatabase({ databaseUrl: config.databaseUrl, dataDir: config.dataDir });
   const store = createPgUpdateStore(database);
@@ -33,7 +35,7 @@ export async function exportCommand(argv: string[]): Promise<number> {
   };
   try {
     if (format === 'qdc' || format === 'qdpx') for (const l of exportLosses(format)) err.write(`note: ${l}\n`);
-    const result = await exchange.runExport(database.db, store, values.study.toLowerCase(), format, { actorId: null, via: 'cli', onProgress }).catch((e: { status?: number; message?: string }) => {
+    const result = await exchange.runExport(database.db, store, values.study.toLowerCase(), format, { actorId: null, via: 'cli', onProgress, layers }).catch((e: { status?: number; message?: string }) => {
       if (e.status && e.status < 500) throw Object.assign(new Error(e.message), { exitCode: 2 });
       throw e;
     });
@@ -64,6 +66,6 @@ export async function exportCommand(argv: string[]): Promise<number> {
 }
 
 function usage(message: string): number {
-  process.stderr.write(`gloss export: ${message}\nusage: gloss export --study ID --format csv|codebook-md|codebook-csv|memos-md|qdc|qdpx [--out FILE]\n`);
+  process.stderr.write(`gloss export: ${message}\nusage: gloss export --study ID --format csv|codebook-md|codebook-csv|memos-md|qdc|qdpx [--layers coders|consensus] [--out FILE]\n`);
   return 2;
 }

@@ -38,10 +38,11 @@ export const commandTable: Record<string, CommandEntry> = {
     run: async (argv) => (await import('./agreement.js')).agreementCommand(argv, io),
   },
   export: {
-    usage: 'gloss export --study ID --format csv|codebook-md|codebook-csv|memos-md|qdc|qdpx [--out FILE]',
+    usage: 'gloss export --study ID --format csv|codebook-md|codebook-csv|memos-md|qdc|qdpx [--layers coders|consensus] [--out FILE]',
     summary:
       'Export a study: segments as CSV, the codebook as Markdown or CSV, memos and jottings as Markdown, or the REFI-QDA ' +
-      'codebook (.qdc) or project (.qdpx). Writes to stdout unless --out is given; progress on stderr. Audited. The file is personal data.',
+      'codebook (.qdc) or project (.qdpx). --layers consensus: the segments CSV of revealed or closed rounds\' consensus layers. ' +
+      'Writes to stdout unless --out is given; progress on stderr. Audited. The file is personal data.',
     run: async (argv) => (await import('./export.js')).exportCommand(argv),
   },
   import: {

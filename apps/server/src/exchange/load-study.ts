@@ -4,7 +4,7 @@
  * rounds narrow it later through the role table). Documents are read from the update store, not the
  * projection, so an export has every change committed before it started.
  */
-import { type Db, documents, memberships, studies, texts, users } from '@gloss/db';
+import { type Db, documents, memberships, rounds, studies, texts, users } from '@gloss/db';
 import type { ExCode, ExCoder, ExGroup, ExMemo, ExSegment, ExText, StudyFrame, TextWithSegments } from '@gloss/interchange';
 import {
   getCodes,
@@ -27,7 +27,16 @@ import { loadDoc, withDocs, type DocLoader } from '../projection/load-doc.js';
 export interface LoadOptions {
   /** Which layers may be read (by coder id); default: all. */
   canReadLayer?: (coderId: string) => boolean;
+  /**
+   * Whose segments: coders' layers outside rounds (default), or the consensus layers of rounds that
+   * are revealed or closed (before the reveal a consensus layer is read by nobody). Each consensus
+   * layer appears as one coder, "Consensus, round N", and its segments carry round N.
+   */
+  layers?: 'coders' | 'consensus';
 }
+
+/** The pseudo-coder a round's consensus segments are listed under in exports. */
+export const consensusCoder = (round: { id: string; number: number }) => ({ id: `consensus:${round.id}`, name: `Consensus, round ${round.number}`, email: '' });
 
 export interface LoadedStudy {
   frame: StudyFrame;
@@ -71,7 +80,7 @@ export function memoList(memos: Y.Doc): ExMemo[] {
   return listMemos(memos).map((m) => ({ ...m, attachedTo: m.attachedTo }));
 }
 
-export function textData(textId: string, title: string, textDoc: Y.Doc, layers: Array<{ coderId: string; doc: Y.Doc }>): TextWithSegments {
+export function textData(textId: string, title: string, textDoc: Y.Doc, layers: Array<{ coderId: string; doc: Y.Doc; round?: number }>): TextWithSegments {
   const turns = readTurns(textDoc);
   const text: ExText = { id: textId, title, content: readText(textDoc), turns: turns.map((t) => ({ start: t.start, speaker: t.speaker, startMs: t.startMs, endMs: t.endMs })) };
   const segments: ExSegment[] = [];
@@ -91,7 +100,8 @@ export function textData(textId: string, title: string, textDoc: Y.Doc, layers: 
         quote: s.quote,
         createdAt: s.createdAt,
         ...(r.note !== undefined ? { note: r.note } : {}),
-        ...(r.round !== undefined ? { round: r.round } : {}),
+        // a round layer's segments are of its round, whatever a client recorded
+        ...(l.round !== undefined ? { round: l.round } : r.round !== undefined ? { round: r.round } : {}),
       });
     }
   }
@@ -116,15 +126,22 @@ export async function loadStudy(db: Db, store: DocLoader, studyId: string, opts:
     memos?.destroy();
   }
   const canRead = opts.canReadLayer ?? (() => true);
-  // Layers outside rounds: a round's layers are calibration material (its report covers them), and a
-  // coder's round layer beside their own layer would count them twice on a text.
-  const layerDocs = docs.filter((d) => d.kind === 'layer' && d.roundId === null && d.coderId !== null && canRead(d.coderId));
+  const studyRounds = await db.select({ id: rounds.id, number: rounds.number, phase: rounds.phase }).from(rounds).where(eq(rounds.studyId, studyId));
+  const shown = new Map(studyRounds.filter((r) => r.phase !== 'independent').map((r) => [r.id, r]));
+  // Coders: layers outside rounds (a round's layers are calibration material, its report covers them,
+  // and a coder's round layer beside their own layer would count them twice on a text).
+  const layerDocs =
+    opts.layers === 'consensus'
+      ? docs.filter((d) => d.kind === 'layer' && d.coderId === null && d.roundId !== null && shown.has(d.roundId))
+      : docs.filter((d) => d.kind === 'layer' && d.roundId === null && d.coderId !== null && canRead(d.coderId));
+  const layerCoder = (d: (typeof docs)[number]) => (d.coderId ?? consensusCoder(shown.get(d.roundId!)!).id);
   // everyone who appears: members, coders of readable layers, memo authors
   const members = await db.select({ userId: memberships.userId }).from(memberships).where(eq(memberships.studyId, studyId));
-  const ids = new Set([...members.map((m) => m.userId), ...layerDocs.map((d) => d.coderId!), ...memoRows.map((m) => m.author)]);
+  const ids = new Set([...members.map((m) => m.userId), ...layerDocs.flatMap((d) => (d.coderId ? [d.coderId] : [])), ...memoRows.map((m) => m.author)]);
   const uuidLike = [...ids].filter((id) => /^[0-9a-f-]{36}$/i.test(id));
   const people = uuidLike.length ? await db.select({ id: users.id, name: users.name, email: users.email }).from(users).where(inArray(users.id, uuidLike)) : [];
   const coders: ExCoder[] = people.map((p) => ({ id: p.id, name: p.name, email: p.email })).sort((a, b) => a.name.localeCompare(b.name));
+  if (opts.layers === 'consensus') for (const r of [...shown.values()].sort((a, b) => a.number - b.number)) coders.push(consensusCoder(r));
   const textRows = await db.select({ id: texts.id, title: texts.title }).from(texts).where(eq(texts.studyId, studyId)).orderBy(asc(texts.createdAt), asc(texts.id));
   const frame: StudyFrame = { title: study.title, description: study.description, coders, ...frameParts, memos: memoRows };
   return {
@@ -136,7 +153,7 @@ export async function loadStudy(db: Db, store: DocLoader, studyId: string, opts:
         if (!textDoc) continue;
         const layers = layerDocs.filter((d) => d.textId === t.id);
         const data = await withDocs(store, [textDoc.id, ...layers.map((l) => l.id)], ([td, ...ls]) =>
-          textData(t.id, t.title, td!, layers.map((l, i) => ({ coderId: l.coderId!, doc: ls[i]! }))),
+          textData(t.id, t.title, td!, layers.map((l, i) => ({ coderId: layerCoder(l), doc: ls[i]!, ...(l.roundId ? { round: shown.get(l.roundId)!.number } : {}) }))),
         );
         yield data;
       }

@@ -60,6 +60,9 @@ async function* encode(parts: AsyncIterable<string> | Iterable<string>): AsyncGe
 }
 
 export async function runExport(db: Db, store: DocLoader, studyId: string, format: ExportFormat, opts: ExportOptions): Promise<ExportResult> {
+  if (opts.layers === 'consensus' && format !== 'csv') {
+    throw new HttpError(400, 'bad_request', 'Consensus layers go out in the segments CSV only: the REFI-QDA standard has no place for them, and codebooks and memos have no segments.');
+  }
   const study = await loadStudy(db, store, studyId, opts);
   const { frame } = study;
   if (format === 'qdc' && frame.codes.length === 0) {
@@ -70,10 +73,10 @@ export async function runExport(db: Db, store: DocLoader, studyId: string, forma
     studyId,
     action: 'export',
     target: studyId,
-    detail: { format, via: opts.via, texts: study.textList.length, codes: frame.codes.length, memos: frame.memos.length },
+    detail: { format, via: opts.via, layers: opts.layers ?? 'coders', texts: study.textList.length, codes: frame.codes.length, memos: frame.memos.length },
   });
   const t = TYPES[format];
-  const filename = `${fileStem(frame.title)}-${t.suffix}.${t.ext}`;
+  const filename = `${fileStem(frame.title)}-${opts.layers === 'consensus' ? 'consensus-' : ''}${t.suffix}.${t.ext}`;
   const progress = opts.onProgress;
   const total = study.textList.length;
   const collect = async (): Promise<TextWithSegments[]> => {

@@ -63,7 +63,9 @@ export function exchangeRoutes(deps: AppDeps) {
     const { studyId } = await studyRole(deps, c, 'export');
     const format = c.req.query('format');
     if (!isExportFormat(format)) throw new HttpError(400, 'bad_request', `format must be one of ${EXPORT_FORMATS.join(', ')}.`);
-    const result = await runExport(deps.db, requireStore(deps), studyId, format, { actorId: c.get('session').user.id, via: 'http' });
+    const layers = c.req.query('layers') ?? 'coders';
+    if (layers !== 'coders' && layers !== 'consensus') throw new HttpError(400, 'bad_request', 'layers must be coders or consensus.');
+    const result = await runExport(deps.db, requireStore(deps), studyId, format, { actorId: c.get('session').user.id, via: 'http', layers });
     const iterator = result.body[Symbol.asyncIterator]();
     const stream = new ReadableStream<Uint8Array>({
       async pull(controller) {

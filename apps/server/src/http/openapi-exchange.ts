@@ -39,7 +39,17 @@ export const exchangePaths = {
     get: {
       summary: 'Export the study (streamed attachment); owner and lead; audited before the first byte',
       security: secured,
-      parameters: [study, { name: 'format', in: 'query', required: true, schema: { type: 'string', enum: ['csv', 'codebook-md', 'codebook-csv', 'memos-md', 'qdc', 'qdpx'] } }],
+      parameters: [
+        study,
+        { name: 'format', in: 'query', required: true, schema: { type: 'string', enum: ['csv', 'codebook-md', 'codebook-csv', 'memos-md', 'qdc', 'qdpx'] } },
+        {
+          name: 'layers',
+          in: 'query',
+          required: false,
+          description: "coders (default): coders' layers outside rounds; consensus: the consensus layers of revealed or closed rounds, each as the coder \"Consensus, round N\" (csv only)",
+          schema: { type: 'string', enum: ['coders', 'consensus'] },
+        },
+      ],
       responses: {
         '200': {
           description: 'The file: text/csv (RFC 4180, UTF-8 with BOM), text/markdown, application/xml (.qdc) or application/zip (.qdpx)',

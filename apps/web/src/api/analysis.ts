@@ -98,10 +98,10 @@ export const analysisApi = {
   retrieve: (studyId: string, q: Query) => getJson<Retrieval>(`/api/studies/${enc(studyId)}/retrieval?${qs(q)}`),
   losses: () => getJson<Losses>('/api/exchange/losses'),
   /** Streams an export, reporting bytes received; resolves with the file as a Blob and its name. */
-  async download(studyId: string, format: string, onBytes: (n: number) => void): Promise<{ blob: Blob; filename: string }> {
+  async download(studyId: string, format: string, onBytes: (n: number) => void, layers?: 'consensus'): Promise<{ blob: Blob; filename: string }> {
     let res: Response;
     try {
-      res = await fetch(`/api/studies/${enc(studyId)}/export?format=${enc(format)}`, { credentials: 'same-origin' });
+      res = await fetch(`/api/studies/${enc(studyId)}/export?format=${enc(format)}${layers ? `&layers=${layers}` : ''}`, { credentials: 'same-origin' });
     } catch (err) {
       throw new NetworkError(err);
     }

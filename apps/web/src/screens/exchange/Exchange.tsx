@@ -10,6 +10,7 @@ import { ImportReportView } from './ImportReportView.js';
 
 const FORMATS = [
   { id: 'csv', label: 'Segments (CSV)', about: 'One row per segment: code path, coder, text, offsets in code points and UTF-16 units, the quoted words, speaker, time, and the attributes of the text’s cases.' },
+  { id: 'csv-consensus', label: 'Consensus segments (CSV)', about: 'The same columns for the consensus layers of calibration rounds that are revealed or closed; the coder reads “Consensus, round N”.' },
   { id: 'codebook-md', label: 'Codebook (Markdown)', about: 'Every field of every entry, with examples, near-misses and its history.' },
   { id: 'codebook-csv', label: 'Codebook (CSV)', about: 'The same, one row per code.' },
   { id: 'memos-md', label: 'Memos and jottings (Markdown)', about: 'With author, dates and what each is attached to.' },
@@ -33,7 +34,7 @@ export function Exchange(props: { studyId: string; scope: StudyScope }) {
     setDone();
     setFailure();
     try {
-      const { blob, filename } = await analysisApi.download(props.studyId, format, setReceived);
+      const { blob, filename } = await (format === 'csv-consensus' ? analysisApi.download(props.studyId, 'csv', setReceived, 'consensus') : analysisApi.download(props.studyId, format, setReceived));
       const url = URL.createObjectURL(blob);
       const a = document.createElement('a');
       a.href = url;
