@@ -133,5 +133,30 @@ test('an import into an open study shows on open screens without a reload', asyn
   await expect(other.locator('p.count')).toHaveText('Segments 1–12 of 12');
   await shot(page, 'analysis-live-import-texts');
   await shot(other, 'analysis-live-import-retrieve');
+
+  // a calibration round on one text, revealed: its consensus layer becomes something analysis may use
+  const studyId = /study\/([0-9a-f-]{36})/.exec(studyUrl)![1]!;
+  const api = owner.context.request;
+  const headers = { origin: new URL(baseURL!).origin };
+  const texts = (await (await api.get(`/api/studies/${studyId}/texts`)).json()) as Array<{ id: string }>;
+  const members = (await (await api.get(`/api/studies/${studyId}/members`)).json()) as Array<{ userId: string; role: string }>;
+  const coders = members.filter((m) => m.role === 'coder').map((m) => m.userId);
+  const started = await api.post(`/api/studies/${studyId}/rounds`, { headers, data: { name: 'First look', textIds: [texts[0]!.id], participantIds: coders, unit: 'turn', statistic: 'krippendorff-alpha' } });
+  expect(started.status(), await started.text()).toBe(201);
+  const roundId = ((await started.json()) as { id: string }).id;
+  expect((await api.post(`/api/rounds/${roundId}/reveal`, { headers })).status()).toBe(200);
+  await other.reload();
+  await other.getByRole('combobox', { name: /^Layers\b/ }).selectOption('consensus');
+  const round = other.getByRole('combobox', { name: /^Round\b/ });
+  await expect(round.locator('option', { hasText: 'Round 1: First look (revealed, consensus)' })).toHaveCount(1, { timeout: 20_000 });
+  await round.selectOption({ label: 'Round 1: First look (revealed, consensus)' });
+  await expect(other.locator('p.count')).toHaveText('No segments match.'); // nobody has adjudicated yet
+  await shot(other, 'analysis-retrieve-consensus-filter');
+  await other.getByRole('tab', { name: 'Tables and chart' }).click();
+  await other.getByRole('combobox', { name: /^Layers\b/ }).selectOption('coders');
+  // the second import brought its codes again under new ids (REFI-QDA codes are added, not merged): eight bars
+  await expect(other.getByRole('img', { name: /Segments per code: Work at sea 2, .*Calm 2, Work at sea 2, .*Calm 2$/ })).toBeVisible();
+  await shot(other, 'analysis-tables-layers-filter');
+  await axe(other, 'tables with the layers filter');
   await owner.context.close();
 });

@@ -11,7 +11,9 @@ export function FrequencyChart(props: { labels: string[]; values: number[]; colo
   createEffect(() => {
     const Plot = plot();
     if (!Plot) return;
-    const rows = props.labels.map((label, i) => ({ label, value: props.values[i] ?? 0, colour: props.colours[i] ?? '#0b6e6e' }));
+    // keyed by position: two codes may share a label (a codebook imported twice), and Plot would stack them on one band
+    const rows = props.labels.map((label, i) => ({ key: String(i), label, value: props.values[i] ?? 0, colour: props.colours[i] ?? '#0b6e6e' }));
+    const labelOf = (key: string) => rows[Number(key)]?.label ?? '';
     const chart = Plot.plot({
       width: 640,
       height: Math.max(80, 28 * rows.length + 50),
@@ -19,8 +21,8 @@ export function FrequencyChart(props: { labels: string[]; values: number[]; colo
       ariaLabel: `${props.caption}: ${rows.map((r) => `${r.label} ${r.value}`).join(', ')}`,
       style: { background: 'transparent', fontSize: '13px', color: '#1f2933' },
       x: { label: 'segments →', grid: true, tickFormat: (d: number) => (Number.isInteger(d) ? String(d) : '') },
-      y: { domain: rows.map((r) => r.label), label: null, tickFormat: (d: string) => (d.length > 30 ? d.slice(0, 29) + '…' : d) },
-      marks: [Plot.barX(rows, { x: 'value', y: 'label', fill: (r: { colour: string }) => r.colour, title: (r: { label: string; value: number }) => `${r.label}: ${r.value}` }), Plot.ruleX([0])],
+      y: { domain: rows.map((r) => r.key), label: null, tickFormat: (k: string) => (labelOf(k).length > 30 ? labelOf(k).slice(0, 29) + '…' : labelOf(k)) },
+      marks: [Plot.barX(rows, { x: 'value', y: 'key', fill: (r: { colour: string }) => r.colour, title: (r: { label: string; value: number }) => `${r.label}: ${r.value}` }), Plot.ruleX([0])],
     });
     // one labelled image: Plot labels its inner groups too, which ARIA forbids on elements without a role
     chart.setAttribute('role', 'img');

@@ -10,7 +10,7 @@ import { ImportReportView } from './ImportReportView.js';
 
 const FORMATS = [
   { id: 'csv', label: 'Segments (CSV)', about: 'One row per segment: code path, coder, text, offsets in code points and UTF-16 units, the quoted words, speaker, time, and the attributes of the text’s cases.' },
-  { id: 'csv-consensus', label: 'Consensus segments (CSV)', about: 'The same columns for the consensus layers of calibration rounds that are revealed or closed; the coder reads “Consensus, round N”.' },
+  { id: 'csv-consensus', label: 'Consensus of rounds (CSV)', about: 'The same columns for the consensus layers of calibration rounds that are revealed or closed; the coder reads “Consensus, round N”.' },
   { id: 'codebook-md', label: 'Codebook (Markdown)', about: 'Every field of every entry, with examples, near-misses and its history.' },
   { id: 'codebook-csv', label: 'Codebook (CSV)', about: 'The same, one row per code.' },
   { id: 'memos-md', label: 'Memos and jottings (Markdown)', about: 'With author, dates and what each is attached to.' },
