@@ -25,8 +25,12 @@ import { notFound } from '../errors.js';
 import { loadDoc, withDocs, type DocLoader } from '../projection/load-doc.js';
 
 export interface LoadOptions {
-  /** Which layers may be read (by coder id); default: all. */
-  canReadLayer?: (coderId: string) => boolean;
+  /**
+   * Which layers may be read (by the layer's document id); default: all. An export made over HTTP passes
+   * the caller's rule (rounds included: a participant of an independent round reads no one else's layer
+   * of its texts).
+   */
+  canReadLayer?: (layerDocId: string) => boolean;
 }
 
 export interface LoadedStudy {
@@ -118,7 +122,7 @@ export async function loadStudy(db: Db, store: DocLoader, studyId: string, opts:
   const canRead = opts.canReadLayer ?? (() => true);
   // Layers outside rounds: a round's layers are calibration material (its report covers them), and a
   // coder's round layer beside their own layer would count them twice on a text.
-  const layerDocs = docs.filter((d) => d.kind === 'layer' && d.roundId === null && d.coderId !== null && canRead(d.coderId));
+  const layerDocs = docs.filter((d) => d.kind === 'layer' && d.roundId === null && d.coderId !== null && canRead(d.id));
   // everyone who appears: members, coders of readable layers, memo authors
   const members = await db.select({ userId: memberships.userId }).from(memberships).where(eq(memberships.studyId, studyId));
   const ids = new Set([...members.map((m) => m.userId), ...layerDocs.map((d) => d.coderId!), ...memoRows.map((m) => m.author)]);
