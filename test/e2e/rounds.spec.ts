@@ -1,6 +1,6 @@
 // Issue 8 in Chromium: a whole calibration session. The lead adds a third coder and starts a round on
 // one text; three coders (separate browser contexts) code it independently and each sees only their own
-// coding; the lead's progress board shows progress only; the lead reveals; the team walks through the
+// coding; the lead's progress board shows progress only (words read, words coded, segments, done); the lead reveals; the team walks through the
 // differences with the coders' views following the lead's place; the lead revises a definition live
 // (the coders see it change); the lead adjudicates a consensus segment with a reason; the report is
 // downloaded as Markdown and CSV and its content checked. Expectations are the project's own (issue 8);
@@ -91,7 +91,11 @@ test('a calibration session: independent coding, progress, reveal, follow-mode w
 
   // 4. The lead's board: per participant, words coded, segments and done; no codes.
   await expect(board.locator('td[data-done="yes"]')).toHaveCount(3, { timeout: 20_000 });
-  for (const cell of await board.locator('td').all()) await expect(cell).toContainText('2 segments');
+  for (const cell of await board.locator('td').all()) {
+    await expect(cell).toContainText('2 segments');
+    // Words read: the turns each coder has had on screen, reported by their browser (more than none).
+    await expect(cell.getByTestId('words-read')).toHaveText(/^[1-9]\d* of \d+ words read$/, { timeout: 20_000 });
+  }
   await expect(board).not.toContainText('Workload');
   await shot(lead.page, 'round-04-lead-progress-done');
 
