@@ -265,8 +265,42 @@ describe.each(dbKinds())('calibration round lifecycle on %s', (kind) => {
     ]);
   });
 
-  it('reflexive mode: no route serves a coefficient (study agreement, round agreement, round report in json, md, csv)', async () => {
+  /**
+   * Every GET route of the OpenAPI description, called by the lead with the study's ids (several query
+   * variants for the agreement routes): the answers whose text carries a coefficient — a number under a
+   * coefficient's key in JSON, or a pooled coefficient row in Markdown or CSV.
+   */
+  async function answersWithCoefficients(): Promise<string[]> {
+    const spec = (await as.lead.call<{ paths: Record<string, { get?: unknown }> }>('GET', '/api/openapi.json')).body;
+    const values: Record<string, string[]> = { studyId: [s.studyId], textId: [s.codingTextId, s.textId], roundId: [roundId], room: [s.codebookRoom, s.codingTextRoom], versionId: [round.codebookVersionId ?? ''] };
+    const queries: Record<string, string[]> = {
+      '/api/studies/{studyId}/agreement': ['', '?bootstrap=50', `?coders=${s.users.coder.id},${s.users.trainee.id}&unit=sentence&statistic=cohen-kappa`],
+      '/api/rounds/{roundId}/agreement': ['', '?bootstrap=50'],
+      '/api/rounds/{roundId}/report': ['', '?format=md', '?format=csv'],
+      '/api/studies/{studyId}/export': ['?format=csv', '?format=codebook-md'],
+      '/api/studies/{studyId}/tables': ['?kind=frequency'],
+    };
+    const coefficient = /"(pooled|alpha|kappa|pi|coefficient|estimate|percentAgreement)"\s*:\s*(-?\d|\{)|\| pooled \||coefficient,pooled/;
+    const hits: string[] = [];
+    for (const [path, item] of Object.entries(spec.paths)) {
+      // the description itself names the coefficients' fields; the token routes need a link's secret
+      if (!item.get || path === '/api/openapi.json' || path.includes('{token}') || path.endsWith('/events')) continue;
+      let urls = [path];
+      for (const p of [...path.matchAll(/\{(\w+)\}/g)].map((m) => m[1]!)) urls = urls.flatMap((u) => (values[p] ?? []).map((v) => u.replace(`{${p}}`, v)));
+      for (const u of urls) for (const q of queries[path] ?? ['']) {
+        const res = await fetch(`${server.url}${u}${q}`, { headers: { cookie: as.lead.cookie, origin: server.url } });
+        if (coefficient.test(await res.text())) hits.push(`${u}${q}`);
+      }
+    }
+    return hits;
+  }
+
+  it('reflexive mode: no route serves a coefficient (every GET route scanned; study agreement, round agreement, round report in json, md, csv)', async () => {
+    // In the coding-reliability mode the scan finds the coefficients (so it can see one when it is there).
+    const before = await answersWithCoefficients();
+    expect(before).toEqual(expect.arrayContaining([`/api/studies/${s.studyId}/agreement`, `/api/rounds/${roundId}/agreement`, `/api/rounds/${roundId}/report?format=md`, `/api/rounds/${roundId}/report?format=csv`]));
     expect((await as.owner.call('PATCH', `/api/studies/${s.studyId}`, { mode: 'reflexive' })).status).toBe(200);
+    expect(await answersWithCoefficients()).toEqual([]);
     const study = await as.lead.call<Record<string, unknown>>('GET', `/api/studies/${s.studyId}/agreement`);
     const round = await as.lead.call<Record<string, unknown>>('GET', `/api/rounds/${roundId}/agreement`);
     for (const body of [study.body, round.body]) {
