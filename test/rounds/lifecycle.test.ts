@@ -126,14 +126,25 @@ describe.each(dbKinds())('calibration round lifecycle on %s', (kind) => {
       { action: 'close before reveal', expect: { owner: 409, lead: 409, outsider: 404 }, others: 403, run: (w) => status(as[w].call('POST', `/api/rounds/${roundId}/close`)) },
     ]);
     // Progress: counts only; a participant sees their own row.
-    const board = await as.lead.call<{ rows: Array<{ participantId: string; done: boolean; segments: number; wordsCoded: number }> }>('GET', `/api/rounds/${roundId}/progress`);
+    const board = await as.lead.call<{ rows: Array<{ participantId: string; done: boolean; segments: number; words: number; wordsCoded: number }> }>('GET', `/api/rounds/${roundId}/progress`);
     expect(board.body.rows.map((r) => [r.participantId, r.done, r.segments])).toEqual(
       expect.arrayContaining([
         [s.users.coder.id, true, 0],
         [s.users.trainee.id, true, 0],
       ]),
     );
-    expect(Object.keys(board.body.rows[0]!).sort()).toEqual(['doneAt', 'done', 'name', 'participantId', 'segments', 'textId', 'title', 'words', 'wordsCoded'].sort());
+    expect(Object.keys(board.body.rows[0]!).sort()).toEqual(['doneAt', 'done', 'name', 'participantId', 'segments', 'textId', 'title', 'words', 'wordsRead', 'wordsCoded'].sort());
+    // Words read: reported by the participant's browser; the figure only grows and never passes the text's length.
+    const read = (who: Person, words: unknown) => as[who].call<{ wordsRead: number }>('PUT', `/api/rounds/${roundId}/texts/${s.codingTextId}/read`, { words });
+    expect((await read('coder', 7)).body.wordsRead).toBe(7);
+    expect((await read('coder', 3)).body.wordsRead).toBe(7);
+    const total = board.body.rows.find((r) => r.participantId === s.users.coder.id)!.words;
+    expect((await read('coder', total + 1000)).body.wordsRead).toBe(total);
+    expect((await read('coder', -1)).status).toBe(400);
+    expect((await read('observer', 3)).status).toBe(403);
+    expect((await read('lead', 3)).status).toBe(403);
+    const after = await as.lead.call<{ rows: Array<{ participantId: string; wordsRead: number }> }>('GET', `/api/rounds/${roundId}/progress`);
+    expect(after.body.rows.map((r) => [r.participantId, r.wordsRead])).toEqual(expect.arrayContaining([[s.users.coder.id, total], [s.users.trainee.id, 0]]));
     const own = await as.coder.call<{ rows: Array<{ participantId: string }> }>('GET', `/api/rounds/${roundId}/progress`);
     expect(own.body.rows.map((r) => r.participantId)).toEqual([s.users.coder.id]);
     expect((await as.coder.call('DELETE', `/api/rounds/${roundId}/texts/${s.codingTextId}/done`)).body).toMatchObject({ done: false });
@@ -158,6 +169,7 @@ describe.each(dbKinds())('calibration round lifecycle on %s', (kind) => {
       { action: 'open the consensus layer', expect: { outsider: 403 }, others: 101, run: (w) => open(w, consensus) },
       { action: 'round agreement', expect: { owner: 200, lead: 200, coder: 200, trainee: 200, observer: 200, outsider: 404 }, others: 403, run: (w) => status(as[w].call('GET', `/api/rounds/${roundId}/agreement`)) },
       { action: 'mark done', expect: { coder: 409, trainee: 409, outsider: 404 }, others: 403, run: (w) => status(as[w].call('POST', `/api/rounds/${roundId}/texts/${s.codingTextId}/done`)) },
+      { action: 'report reading', expect: { coder: 409, trainee: 409, outsider: 404 }, others: 403, run: (w) => status(as[w].call('PUT', `/api/rounds/${roundId}/texts/${s.codingTextId}/read`, { words: 1 })) },
     ]);
     // Who may write the consensus layer: the lead's client writes, the coder's write is refused by the room.
     const textForLead = gcOffClient(server.url, as.lead.cookie, s.codingTextRoom);
@@ -253,8 +265,42 @@ describe.each(dbKinds())('calibration round lifecycle on %s', (kind) => {
     ]);
   });
 
-  it('reflexive mode: no route serves a coefficient (study agreement, round agreement, round report in json, md, csv)', async () => {
+  /**
+   * Every GET route of the OpenAPI description, called by the lead with the study's ids (several query
+   * variants for the agreement routes): the answers whose text carries a coefficient — a number under a
+   * coefficient's key in JSON, or a pooled coefficient row in Markdown or CSV.
+   */
+  async function answersWithCoefficients(): Promise<string[]> {
+    const spec = (await as.lead.call<{ paths: Record<string, { get?: unknown }> }>('GET', '/api/openapi.json')).body;
+    const values: Record<string, string[]> = { studyId: [s.studyId], textId: [s.codingTextId, s.textId], roundId: [roundId], room: [s.codebookRoom, s.codingTextRoom], versionId: [round.codebookVersionId ?? ''] };
+    const queries: Record<string, string[]> = {
+      '/api/studies/{studyId}/agreement': ['', '?bootstrap=50', `?coders=${s.users.coder.id},${s.users.trainee.id}&unit=sentence&statistic=cohen-kappa`],
+      '/api/rounds/{roundId}/agreement': ['', '?bootstrap=50'],
+      '/api/rounds/{roundId}/report': ['', '?format=md', '?format=csv'],
+      '/api/studies/{studyId}/export': ['?format=csv', '?format=codebook-md'],
+      '/api/studies/{studyId}/tables': ['?kind=frequency'],
+    };
+    const coefficient = /"(pooled|alpha|kappa|pi|coefficient|estimate|percentAgreement)"\s*:\s*(-?\d|\{)|\| pooled \||coefficient,pooled/;
+    const hits: string[] = [];
+    for (const [path, item] of Object.entries(spec.paths)) {
+      // the description itself names the coefficients' fields; the token routes need a link's secret
+      if (!item.get || path === '/api/openapi.json' || path.includes('{token}') || path.endsWith('/events')) continue;
+      let urls = [path];
+      for (const p of [...path.matchAll(/\{(\w+)\}/g)].map((m) => m[1]!)) urls = urls.flatMap((u) => (values[p] ?? []).map((v) => u.replace(`{${p}}`, v)));
+      for (const u of urls) for (const q of queries[path] ?? ['']) {
+        const res = await fetch(`${server.url}${u}${q}`, { headers: { cookie: as.lead.cookie, origin: server.url } });
+        if (coefficient.test(await res.text())) hits.push(`${u}${q}`);
+      }
+    }
+    return hits;
+  }
+
+  it('reflexive mode: no route serves a coefficient (every GET route scanned; study agreement, round agreement, round report in json, md, csv)', async () => {
+    // In the coding-reliability mode the scan finds the coefficients (so it can see one when it is there).
+    const before = await answersWithCoefficients();
+    expect(before).toEqual(expect.arrayContaining([`/api/studies/${s.studyId}/agreement`, `/api/rounds/${roundId}/agreement`, `/api/rounds/${roundId}/report?format=md`, `/api/rounds/${roundId}/report?format=csv`]));
     expect((await as.owner.call('PATCH', `/api/studies/${s.studyId}`, { mode: 'reflexive' })).status).toBe(200);
+    expect(await answersWithCoefficients()).toEqual([]);
     const study = await as.lead.call<Record<string, unknown>>('GET', `/api/studies/${s.studyId}/agreement`);
     const round = await as.lead.call<Record<string, unknown>>('GET', `/api/rounds/${roundId}/agreement`);
     for (const body of [study.body, round.body]) {

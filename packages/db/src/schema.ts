@@ -187,6 +187,28 @@ export const roundDone = pgTable(
 );
 
 /**
+ * How much of a round text a participant has read: the words of the speaker turns that have been on
+ * their screen in the round's coding view (reported by their browser; only ever grows).
+ */
+export const roundReading = pgTable(
+  'round_reading',
+  {
+    roundId: uuid('round_id')
+      .notNull()
+      .references(() => rounds.id, { onDelete: 'cascade' }),
+    textId: uuid('text_id')
+      .notNull()
+      .references(() => texts.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    wordsRead: integer('words_read').notNull().default(0),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.roundId, t.textId, t.userId] })],
+);
+
+/**
  * One row per Y.Doc; its id is the sync room name. A layer belongs to a round when `round_id` is set;
  * a round's consensus layer is the layer of a round with no coder (`coder_id` null), written by the
  * lead and owner only. Layers outside rounds always have a coder.

@@ -25,8 +25,12 @@ import { notFound } from '../errors.js';
 import { loadDoc, withDocs, type DocLoader } from '../projection/load-doc.js';
 
 export interface LoadOptions {
-  /** Which layers may be read (by coder id); default: all. */
-  canReadLayer?: (coderId: string) => boolean;
+  /**
+   * Which layers may be read (by the layer's document id); default: all. An export made over HTTP passes
+   * the caller's rule (rounds included: a participant of an independent round reads no one else's layer
+   * of its texts).
+   */
+  canReadLayer?: (layerDocId: string) => boolean;
   /**
    * Whose segments: coders' layers outside rounds (default), or the consensus layers of rounds that
    * are revealed or closed (before the reveal a consensus layer is read by nobody). Each consensus
@@ -132,8 +136,8 @@ export async function loadStudy(db: Db, store: DocLoader, studyId: string, opts:
   // and a coder's round layer beside their own layer would count them twice on a text).
   const layerDocs =
     opts.layers === 'consensus'
-      ? docs.filter((d) => d.kind === 'layer' && d.coderId === null && d.roundId !== null && shown.has(d.roundId))
-      : docs.filter((d) => d.kind === 'layer' && d.roundId === null && d.coderId !== null && canRead(d.coderId));
+      ? docs.filter((d) => d.kind === 'layer' && d.coderId === null && d.roundId !== null && shown.has(d.roundId) && canRead(d.id))
+      : docs.filter((d) => d.kind === 'layer' && d.roundId === null && d.coderId !== null && canRead(d.id));
   const layerCoder = (d: (typeof docs)[number]) => (d.coderId ?? consensusCoder(shown.get(d.roundId!)!).id);
   // everyone who appears: members, coders of readable layers, memo authors
   const members = await db.select({ userId: memberships.userId }).from(memberships).where(eq(memberships.studyId, studyId));

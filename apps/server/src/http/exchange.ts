@@ -16,6 +16,7 @@ import { Hono } from 'hono';
 import { can } from '../access/policy.js';
 import { HttpError, forbidden } from '../errors.js';
 import type { ImportReport, ImportTarget } from '../exchange/apply-import.js';
+import { readableLayers } from '../analysis/facts.js';
 import { EXPORT_FORMATS, isExportFormat, runExport } from '../exchange/run-export.js';
 import { IMPORT_FORMATS, runImport, type ImportFormat } from '../exchange/run-import.js';
 import type { AppDeps, AppEnv } from './context.js';
@@ -60,12 +61,15 @@ export function exchangeRoutes(deps: AppDeps) {
   app.use('*', requireSession(deps));
 
   app.get('/:studyId/export', async (c) => {
-    const { studyId } = await studyRole(deps, c, 'export');
+    const { studyId, role } = await studyRole(deps, c, 'export');
     const format = c.req.query('format');
     if (!isExportFormat(format)) throw new HttpError(400, 'bad_request', `format must be one of ${EXPORT_FORMATS.join(', ')}.`);
     const layers = c.req.query('layers') ?? 'coders';
     if (layers !== 'coders' && layers !== 'consensus') throw new HttpError(400, 'bad_request', 'layers must be coders or consensus.');
-    const result = await runExport(deps.db, requireStore(deps), studyId, format, { actorId: c.get('session').user.id, via: 'http', layers });
+    const me = c.get('session').user.id;
+    // A lead coding a round independently exports no one else's layer of the round's texts.
+    const readable = new Set((await readableLayers(deps.db, studyId, role, me)).map((l) => l.id));
+    const result = await runExport(deps.db, requireStore(deps), studyId, format, { actorId: me, via: 'http', layers, canReadLayer: (id) => readable.has(id) });
     const iterator = result.body[Symbol.asyncIterator]();
     const stream = new ReadableStream<Uint8Array>({
       async pull(controller) {

@@ -107,9 +107,18 @@ export const roundPaths = {
       },
     },
   },
+  '/api/rounds/{roundId}/texts/{textId}/read': {
+    put: {
+      summary: 'Report the words of a round text shown on screen so far (a participant, independent phase; the stored figure only grows and never passes the text’s length)',
+      security: secured,
+      parameters: [path('roundId'), path('textId')],
+      requestBody: { required: true, ...json(toSchema(S.ReadBody)) },
+      responses: { '200': { description: 'The stored figure', ...json({ type: 'object', properties: { roundId: { type: 'string' }, textId: { type: 'string' }, wordsRead: { type: 'integer' } } }) }, ...errors(400, 401, 403, 404, 409) },
+    },
+  },
   '/api/rounds/{roundId}/progress': {
     get: {
-      summary: "Progress board: per participant and text, words coded, segments and the done mark (counts only). Owner and lead see everyone; a participant their own row",
+      summary: "Progress board: per participant and text, words read, words coded, segments and the done mark (counts only). Owner and lead see everyone; a participant their own row",
       security: secured,
       parameters: [path('roundId')],
       responses: { '200': { description: 'Progress', ...json(toSchema(S.RoundProgress)) }, ...errors(401, 403, 404) },

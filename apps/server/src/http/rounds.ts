@@ -22,11 +22,11 @@ import { loadDoc } from '../projection/load-doc.js';
 import { changeDoc } from '../rounds/doc-change.js';
 import { layerEntries } from '../rounds/layer-entries.js';
 import { roundProgress } from '../rounds/progress.js';
-import { advanceRound, checkNewRound, doneMarks, findRound, insertRound, roundLayers, roundMembers, roundsOfStudy, setDone, type RoundMembers } from '../rounds/records.js';
+import { advanceRound, checkNewRound, doneMarks, findRound, insertRound, roundLayers, roundMembers, roundsOfStudy, setDone, setWordsRead, type RoundMembers } from '../rounds/records.js';
 import type { Role } from '../sync/contracts.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
-import { DoneBody, NewRoundBody } from './schemas.js';
+import { DoneBody, NewRoundBody, ReadBody } from './schemas.js';
 import { requireStore } from './segments.js';
 import { studyRole } from './study-access.js';
 import { codebookDocId } from './text-layers.js';
@@ -210,6 +210,17 @@ export function roundRoutes(deps: AppDeps) {
   app.post('/:roundId/texts/:textId/done', markDone(true));
   app.delete('/:roundId/texts/:textId/done', markDone(false));
   app.put('/:roundId/texts/:textId/done', markDone(true));
+
+  app.put('/:roundId/texts/:textId/read', async (c) => {
+    const { round, me, members } = await roundRole(deps, c, 'round.read');
+    const textId = idParam(c, 'textId', 'Text');
+    const text = members.texts.find((t) => t.id === textId);
+    if (!text) throw notFound('Text in this round');
+    if (!members.participants.some((p) => p.id === me)) throw forbidden('Only the round’s participants report their reading.');
+    const { words } = await readJson(c, ReadBody);
+    const wordsRead = await setWordsRead(deps.db, round, text, me, words);
+    return c.json({ roundId: round.id, textId, wordsRead });
+  });
 
   app.get('/:roundId/progress', async (c) => {
     const store = requireStore(deps);

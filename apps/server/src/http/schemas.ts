@@ -147,6 +147,7 @@ export const RoundProgress = z.object({
       textId: z.uuid(),
       title: z.string(),
       words: z.number().int().describe('words in the text'),
+      wordsRead: z.number().int().describe('words of the speaker turns that have been on the participant’s screen in the round’s coding view (reported by their browser)'),
       wordsCoded: z.number().int().describe('words covered by at least one of the participant’s segments'),
       segments: z.number().int(),
       done: z.boolean(),
@@ -155,3 +156,4 @@ export const RoundProgress = z.object({
   ),
 });
 export const DoneBody = z.object({ done: z.boolean() });
+export const ReadBody = z.strictObject({ words: z.number().int().min(0).max(100_000_000).describe('words of the text shown on screen so far') });

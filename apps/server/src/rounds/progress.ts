@@ -1,14 +1,14 @@
 /**
- * The progress board of a round (issue 8): per participant and text, the words their segments cover,
- * the number of segments and their "done" mark. Counts only — never which codes or where — so the
- * lead can watch a round's independent phase without seeing anyone's coding.
- * ("Words read" is not tracked: Gloss does not record reading.)
+ * The progress board of a round (issue 8): per participant and text, the words read (those of the
+ * speaker turns that have been on their screen in the round's coding view, as their browser reports),
+ * the words their segments cover, the number of segments and their "done" mark. Counts only — never
+ * which codes or where — so the lead can watch a round's independent phase without seeing anyone's coding.
  */
 import { type Db, type RoundRow, documents } from '@gloss/db';
 import { listSegments, readTurns, resolveSegments } from '@gloss/model';
 import { and, eq } from 'drizzle-orm';
 import { withDocs, type DocLoader } from '../projection/load-doc.js';
-import { doneMarks, roundLayers, type RoundMembers } from './records.js';
+import { doneMarks, readingMarks, roundLayers, type RoundMembers } from './records.js';
 
 export interface ProgressRow {
   participantId: string;
@@ -16,6 +16,7 @@ export interface ProgressRow {
   textId: string;
   title: string;
   words: number;
+  wordsRead: number;
   wordsCoded: number;
   segments: number;
   done: boolean;
@@ -47,6 +48,7 @@ export function wordsCovered(text: string, ranges: ReadonlyArray<{ start: number
 export async function roundProgress(db: Db, store: DocLoader, round: RoundRow, members: RoundMembers, onlyUserId: string | null): Promise<ProgressRow[]> {
   const layers = await roundLayers(db, round.id);
   const marks = await doneMarks(db, round.id);
+  const reading = await readingMarks(db, round.id);
   const people = members.participants.filter((p) => onlyUserId === null || p.id === onlyUserId);
   const rows: ProgressRow[] = [];
   for (const t of members.texts) {
@@ -67,6 +69,7 @@ export async function roundProgress(db: Db, store: DocLoader, round: RoundRow, m
           textId: t.id,
           title: t.title,
           words: t.wordCount,
+          wordsRead: reading.find((r) => r.textId === t.id && r.userId === p.id)?.wordsRead ?? 0,
           wordsCoded: wordsCovered(content, resolved),
           segments: resolved.length,
           done: mark !== undefined,

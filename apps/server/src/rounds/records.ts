@@ -11,6 +11,7 @@ import {
   memberships,
   roundDone,
   roundParticipants,
+  roundReading,
   roundTexts,
   rounds,
   texts,
@@ -199,4 +200,27 @@ export async function setDone(db: Db, round: RoundRow, textId: string, userId: s
   }
   await db.delete(roundDone).where(and(eq(roundDone.roundId, round.id), eq(roundDone.textId, textId), eq(roundDone.userId, userId)));
   return null;
+}
+
+export async function readingMarks(db: Db, roundId: string) {
+  return db.select().from(roundReading).where(eq(roundReading.roundId, roundId));
+}
+
+/**
+ * A participant's browser reports how many words of a round text have been on their screen; the
+ * figure only grows (a report lower than the stored one changes nothing) and never passes the text's
+ * length. Independent phase only: after the reveal, reading is no longer independent work.
+ */
+export async function setWordsRead(db: Db, round: RoundRow, text: { id: string; wordCount: number }, userId: string, words: number): Promise<number> {
+  if (round.phase !== 'independent') throw conflict('Reading is counted during the independent phase only.');
+  const n = Math.min(Math.max(0, Math.floor(words)), text.wordCount);
+  const [row] = await db
+    .insert(roundReading)
+    .values({ roundId: round.id, textId: text.id, userId, wordsRead: n })
+    .onConflictDoUpdate({
+      target: [roundReading.roundId, roundReading.textId, roundReading.userId],
+      set: { wordsRead: sql`greatest(${roundReading.wordsRead}, excluded.words_read)`, updatedAt: sql`now()` },
+    })
+    .returning();
+  return row!.wordsRead;
 }

@@ -18,6 +18,8 @@ export interface ProgressCell {
   wordsCoded: number | null;
   /** Words of the text (the denominator of wordsCoded), when the server says. */
   words: number | null;
+  /** Words of the speaker turns that have been on the participant's screen in the round's coding view. */
+  wordsRead: number | null;
   segments: number;
   done: boolean;
 }
@@ -74,6 +76,7 @@ function toProgress(v: unknown): ProgressCell {
     textId: str(j.textId) ?? '',
     wordsCoded: num(j.wordsCoded ?? j.codedWords),
     words: num(j.words ?? j.wordCount),
+    wordsRead: num(j.wordsRead),
     segments: num(j.segments ?? j.segmentCount) ?? 0,
     done: j.done === true || typeof j.doneAt === 'string',
   };
@@ -129,6 +132,9 @@ export const roundsApi = {
   },
   markDone: async (roundId: string, textId: string, done: boolean): Promise<void> =>
     void (await call(done ? 'POST' : 'DELETE', `/api/rounds/${enc(roundId)}/texts/${enc(textId)}/done`)),
+  /** Reports the words of a round text shown on screen so far (the server keeps the highest figure). */
+  reportRead: async (roundId: string, textId: string, words: number): Promise<void> =>
+    void (await call('PUT', `/api/rounds/${enc(roundId)}/texts/${enc(textId)}/read`, { words })),
   reportUrl: (roundId: string, format: 'md' | 'csv'): string => `/api/rounds/${enc(roundId)}/report?format=${format}`,
   report: async (roundId: string): Promise<string> => {
     const res = await fetch(`/api/rounds/${enc(roundId)}/report?format=md`, { credentials: 'same-origin' });

@@ -3,7 +3,7 @@ import { For, Show, createMemo, createSignal, onCleanup, onMount } from 'solid-j
 import * as Y from 'yjs';
 import {
   addCode, addExample, addInVivoCode, addMemo, addSegment, correctText, createUndoManager, getSegmentsMap,
-  recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments, reconcileLayer, withOrigin, proposeCode,
+  recheckSegment, recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments, reconcileLayer, withOrigin, proposeCode,
 } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -86,6 +86,13 @@ export function CodingView(props: CodingViewProps) {
   let jotInput: HTMLTextAreaElement | undefined;
   let transcriptEl: HTMLElement | undefined;
 
+  /** Segments flagged `stale-definition` (their coder is offered "re-checked" in the segment panel). */
+  const staleIds = createMemo(() => {
+    const f = state.flags();
+    const ids = new Set<string>();
+    for (let i = 0; i < f.length; i++) if (f.kindAt(i) === 'stale-definition') for (const id of f.at(i).segmentIds) ids.add(id);
+    return ids;
+  });
   const chosenSeg = createMemo(() => (chosen() ? state.segments().find((s) => s.id === chosen()) : undefined));
   const chosenIsMine = () => !!mine && chosenSeg()?.coderId === mine.coderId;
   const sel = () => {
@@ -313,6 +320,8 @@ export function CodingView(props: CodingViewProps) {
                   end: Y.encodeRelativePosition(Y.createRelativePositionFromTypeIndex(ys, s.end, -1)),
                 }, kind, { by: props.me.id });
               }) : undefined}
+              stale={staleIds().has(s.id)}
+              onRecheck={() => attempt('Marked re-checked against the current definition.', () => recheckSegment(mine!.doc.doc, s.id))}
               noteRef={(el) => (noteInput = el)}
             />
           )}

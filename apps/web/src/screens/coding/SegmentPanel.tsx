@@ -16,6 +16,10 @@ export function SegmentPanel(props: {
   onResize: (edge: 'start' | 'end', dir: 1 | -1) => void;
   onNote: (note: string) => void;
   onExample?: (kind: 'example' | 'near-miss') => void;
+  /** The segment carries `stale-definition`: its code's definition changed in a later round. */
+  stale?: boolean;
+  /** Its coder marks it re-checked against the current definition (clears the flag). */
+  onRecheck?: () => void;
   noteRef: (el: HTMLTextAreaElement) => void;
 }) {
   const [note, setNote] = createSignal(props.segment.note ?? '');
@@ -27,6 +31,14 @@ export function SegmentPanel(props: {
       </h2>
       <blockquote data-testid="segment-quote">{props.segment.orphaned ? '(all its words were deleted)' : props.segment.quote}</blockquote>
       <p class="muted">Coder: {props.coderName}</p>
+      <Show when={props.stale}>
+        <div class="stale-note" data-testid="stale-definition">
+          <p>The definition of {props.code?.label ?? 'this code'} changed in a later round, after this was coded.</p>
+          <Show when={props.mine && props.onRecheck} fallback={<p class="muted">Its coder re-checks it.</p>}>
+            <button type="button" class="quiet" onClick={() => props.onRecheck!()}>Re-checked: still fits</button>
+          </Show>
+        </div>
+      </Show>
       <Show when={props.mine} fallback={<Show when={props.segment.note}><p>Note: {props.segment.note}</p></Show>}>
         <div class="row">
           <button type="button" onClick={props.onRecode} aria-keyshortcuts="r">Recode…</button>

@@ -1,6 +1,6 @@
 /**
- * The lead's view of the independent phase: per participant and text, words coded, segments and
- * "done". Progress only: which codes, and where, stay with each coder until the reveal.
+ * The lead's view of the independent phase: per participant and text, words read (turns that have
+ * been on their screen), words coded, segments and "done". Progress only: which codes, and where, stay with each coder until the reveal.
  */
 import { For, Show, createSignal, onCleanup } from 'solid-js';
 import { roundsApi, type ProgressCell, type Round } from '../../api/rounds.js';
@@ -54,8 +54,10 @@ export function ProgressBoard(props: { round: Round; pollMs: number }) {
                         <Show when={c()} fallback={<span class="muted">not opened</span>}>
                           {(x) => (
                             <>
+                              <span data-testid="words-read">{x().wordsRead ?? 0}{x().words ? ` of ${x().words}` : ''} words read</span>
+                              <br />
                               <span>
-                                {x().wordsCoded ?? 0}{x().words ? ` of ${x().words}` : ''} words coded, {x().segments} segment{x().segments === 1 ? '' : 's'}
+                                {x().wordsCoded ?? 0} words coded, {x().segments} segment{x().segments === 1 ? '' : 's'}
                               </span>
                               <br />
                               <strong class={x().done ? 'done' : 'not-done'}>{x().done ? '✓ done' : 'not done yet'}</strong>

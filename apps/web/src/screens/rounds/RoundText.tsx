@@ -3,7 +3,7 @@
  * layer (the server serves nobody else's), with the participant's "done" mark. Once revealed: the
  * walk-through with follow mode and adjudication.
  */
-import { Match, Show, Switch, createSignal } from 'solid-js';
+import { Match, Show, Switch, createSignal, onCleanup, onMount } from 'solid-js';
 import type { Me } from '../../api/types.js';
 import { roundsApi, type Round } from '../../api/rounds.js';
 import { errorMessage } from '../../api/errors.js';
@@ -14,6 +14,7 @@ import { Loading } from '../../ui/Loading.js';
 import { href } from '../../ui/router.js';
 import { WalkThrough } from './WalkThrough.js';
 import { useMembers, useRound } from './round-data.js';
+import { trackReading } from './reading.js';
 
 export function RoundText(props: { studyId: string; roundId: string; textId: string; at?: number; scope: StudyScope; me: Me }) {
   const { round, error, loading, refetch } = useRound(() => props.roundId, 5000);
@@ -56,6 +57,15 @@ function DoneBanner(props: { round: Round; textId: string; me: Me; studyId: stri
   const [busy, setBusy] = createSignal(false);
   const participant = () => props.round.me.participant;
   const done = () => props.round.me.done.includes(props.textId);
+  let el!: HTMLDivElement;
+  // A participant's reading counts on the lead's progress board ("words read"); a failed report is retried by the next one.
+  onMount(() => {
+    if (!participant()) return;
+    const stop = trackReading(el.closest('main') ?? document.body, (words) => {
+      roundsApi.reportRead(props.round.id, props.textId, words).catch((err: unknown) => console.warn('reading not reported', err));
+    });
+    onCleanup(stop);
+  });
   const mark = async (on: boolean) => {
     setBusy(true);
     setError('');
@@ -69,7 +79,7 @@ function DoneBanner(props: { round: Round; textId: string; me: Me; studyId: stri
     }
   };
   return (
-    <div class="round-banner" data-testid="round-banner">
+    <div class="round-banner" data-testid="round-banner" ref={el}>
       <p>
         <strong>{props.round.name}</strong> — independent coding. You see only your own coding on this text until the lead reveals the round.{' '}
         <a href={href({ name: 'round', studyId: props.studyId, roundId: props.round.id })}>Back to the round</a>

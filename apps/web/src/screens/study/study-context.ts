@@ -4,6 +4,7 @@
  * room's awareness.
  */
 import { createEffect, createResource, createSignal, onCleanup, untrack, type Accessor, type Resource } from 'solid-js';
+import { trackFieldEdits } from '@gloss/model';
 import { api } from '../../api/client.js';
 import type { Me, Study } from '../../api/types.js';
 import { openDoc, type OpenDoc } from '../../sync/open-doc.js';
@@ -50,7 +51,11 @@ export function useStudy(studyId: () => string, me: () => Me): StudyScope {
     const on = () => refresh(cb);
     cb.provider.awareness.on('change', on);
     refresh(cb);
+    // Definition edits typed here are recorded (who, when, the round in force, what this copy had seen)
+    // for the definition-race and stale-definition flags (model field-edits.ts).
+    const stopRecording = trackFieldEdits(cb.doc, { by: user.id });
     onCleanup(() => {
+      stopRecording();
       cb.provider.awareness.off('change', on);
       cb.release();
       mm.release();
