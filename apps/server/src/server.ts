@@ -6,7 +6,7 @@
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import { serve } from '@hono/node-server';
-import { openDatabase, type Database } from '@gloss/db';
+import { openDatabase, type Database, type Db } from '@gloss/db';
 import { createRoomAuthorizer } from './access/authorizer.js';
 import { createFirstRun, type FirstRun } from './auth/first-run.js';
 import { createRateLimiter } from './auth/rate-limit.js';
@@ -21,6 +21,7 @@ import { createPgUpdateStore } from './store/index.js';
 import { attachSync, createLiveAccess } from './sync/index.js';
 import type { Relay } from './sync/contracts.js';
 import type { DocWriter } from './rounds/doc-change.js';
+import { createReadiness } from './readiness.js';
 
 export interface RunningServer {
   url: string;
@@ -32,9 +33,22 @@ export interface RunningServer {
   close(): Promise<void>;
 }
 
+export interface StartOptions {
+  /**
+   * A start-up step run once the server listens and before it counts as ready (seeding the demo):
+   * meanwhile /api/health answers 503 naming `what`, and the rest of the API and sync answer 503.
+   */
+  prepare?: { what: string; run(db: Db, url: string): Promise<void> };
+}
+
 const SESSION_SWEEP_MS = 60 * 60 * 1000;
 
-export async function startServer(config: ServerConfig, logger: Logger = createLogger(config.logLevel)): Promise<RunningServer> {
+/** Resolves once the server is ready: listening, sync attached, `options.prepare` done. */
+export async function startServer(
+  config: ServerConfig,
+  logger: Logger = createLogger(config.logLevel),
+  options: StartOptions = {},
+): Promise<RunningServer> {
   const database = await openDatabase({ databaseUrl: config.databaseUrl, dataDir: config.dataDir });
   const cleanups: Array<() => Promise<unknown>> = [() => database.close()];
   const undo = async () => {
@@ -60,6 +74,9 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     await liveAccess.start();
     cleanups.push(() => liveAccess.close());
 
+    const readiness = createReadiness();
+    const syncAttached = readiness.wait('sync starting');
+    const prepared = options.prepare ? readiness.wait(options.prepare.what) : () => undefined;
     let syncStats: () => Record<string, unknown> = () => ({});
     // Server-made document changes go through the sync layer, which is attached after the app.
     let syncWrite: DocWriter['write'] | null = null;
@@ -82,6 +99,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
         config,
         commentEvents: createCommentEvents(relay, (err) => logger.warn({ err }, 'unreadable comment event from the relay')),
         health: () => ({ sync: syncStats() }),
+        readiness,
         firstRun,
       },
       (err) => logger.error({ err }, 'request failed'),
@@ -102,10 +120,21 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
       maxMessageBytes: config.maxMessageBytes,
       pingIntervalMs: config.pingIntervalMs,
       logger,
+      ready: readiness.ready,
     });
     cleanups.push(() => sync.close());
     syncStats = () => ({ ...sync.stats() });
     syncWrite = (docId, update, userId) => sync.write(docId, update, userId);
+    syncAttached();
+
+    const port = (server.address() as AddressInfo).port;
+    const host = config.host === '0.0.0.0' || config.host === '::' ? 'localhost' : config.host.includes(':') ? `[${config.host}]` : config.host;
+    const url = `http://${host}:${port}`;
+    if (options.prepare) {
+      logger.info({ step: options.prepare.what, url }, 'preparing before ready');
+      await options.prepare.run(database.db, url);
+      prepared();
+    }
 
     const sweep = setInterval(() => {
       sessions.deleteExpired().catch((err: unknown) => logger.warn({ err }, 'expired-session sweep failed'));
@@ -113,11 +142,9 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     sweep.unref();
     cleanups.push(async () => clearInterval(sweep));
 
-    const port = (server.address() as AddressInfo).port;
-    const host = config.host === '0.0.0.0' || config.host === '::' ? 'localhost' : config.host.includes(':') ? `[${config.host}]` : config.host;
     let closing: Promise<void> | undefined;
     return {
-      url: `http://${host}:${port}`,
+      url,
       port,
       database,
       db: database.db,

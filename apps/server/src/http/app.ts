@@ -6,7 +6,7 @@ import { auditRoutes } from './audit.js';
 import { limitBody } from './body-limit.js';
 import { healthRoutes } from './health.js';
 import { memberRoutes } from './members.js';
-import { csrf } from './middleware.js';
+import { csrf, whenReady } from './middleware.js';
 import { openApiRoutes } from './openapi.js';
 import { sessionRoutes } from './session.js';
 import { staticRoutes } from './static.js';
@@ -30,6 +30,7 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   app.onError(onError(log));
 
   const api = new Hono<AppEnv>();
+  api.use('*', whenReady(deps));
   api.use('*', limitBody(deps.config.maxBodyBytes));
   api.use('*', csrf(deps));
   api.route('/', healthRoutes(deps));

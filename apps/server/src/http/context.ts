@@ -8,6 +8,7 @@ import type { CommentEvents } from '../comments/events.js';
 import type { UpdateStore } from '../sync/contracts.js';
 import type { LiveAccess } from '../sync/live-access.js';
 import type { DocWriter } from '../rounds/doc-change.js';
+import type { Readiness } from '../readiness.js';
 
 export interface AppDeps {
   db: Db;
@@ -28,8 +29,10 @@ export interface AppDeps {
   projector?: { notify(docId: string): void };
   /** Server-made document changes through the sync layer (absent in bare app tests). */
   docs?: DocWriter;
-  /** Extra readiness facts for /api/health (sync stats…). */
+  /** Connection and room counts for /api/health (shown to owners only). */
   health?: () => Record<string, unknown>;
+  /** Start-up steps still pending; absent: always ready (bare app tests). */
+  readiness?: Readiness;
   /** The first-run claim (set-up code); absent: this server cannot be set up from the browser. */
   firstRun?: FirstRun;
 }

@@ -51,3 +51,14 @@ export function requireSession(deps: AppDeps): MiddlewareHandler<AppEnv> {
     await next();
   };
 }
+
+/** 503 `not_ready` for every API route but /api/health while start-up steps are pending (readiness.ts). */
+export function whenReady(deps: AppDeps): MiddlewareHandler<AppEnv> {
+  return async (c, next) => {
+    const waiting = deps.readiness?.pending() ?? [];
+    if (waiting.length > 0 && c.req.path !== '/api/health') {
+      throw new HttpError(503, 'not_ready', `Gloss is still starting (${waiting.join(', ')}). Try again in a moment.`, { 'Retry-After': '2' });
+    }
+    await next();
+  };
+}
