@@ -64,7 +64,6 @@ export async function startServer(
     // Segments, codes and memos follow each committed change into relational tables (projection/).
     const projector = createProjector({ db: database.db, store: logStore, onError: (err, docId) => logger.error({ err, docId }, 'projection failed') });
     const store = withProjection(logStore, projector);
-    scheduleCatchUp(database.db, projector).catch((err: unknown) => logger.warn({ err }, 'projection catch-up could not start'));
     cleanups.push(() => store.close());
 
     const firstRun = createFirstRun(database.db);
@@ -135,6 +134,8 @@ export async function startServer(
       await options.prepare.run(database.db, url);
       prepared();
     }
+    // After the start-up step, so documents it wrote without the store (the demo's) are projected too.
+    scheduleCatchUp(database.db, projector).catch((err: unknown) => logger.warn({ err }, 'projection catch-up could not start'));
 
     const sweep = setInterval(() => {
       sessions.deleteExpired().catch((err: unknown) => logger.warn({ err }, 'expired-session sweep failed'));

@@ -7,6 +7,7 @@ import { limitBody } from './body-limit.js';
 import { healthRoutes } from './health.js';
 import { memberRoutes } from './members.js';
 import { csrf, whenReady } from './middleware.js';
+import { securityHeaders } from './security-headers.js';
 import { openApiRoutes } from './openapi.js';
 import { sessionRoutes } from './session.js';
 import { staticRoutes } from './static.js';
@@ -28,6 +29,7 @@ import { roundRoutes, studyRoundRoutes } from './rounds.js';
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
   const app = new Hono<AppEnv>();
   app.onError(onError(log));
+  app.use('*', securityHeaders(deps.config.publicUrl));
 
   const api = new Hono<AppEnv>();
   api.use('*', whenReady(deps));

@@ -21,15 +21,18 @@ export function clientAddress(c: Context): string {
 }
 
 /**
- * Refuses cookie-carrying, state-changing requests from foreign origins (after the Lucia guide:
- * non-GET requests must carry an Origin, or a Referer, matching an allowed origin).
+ * Refuses state-changing requests from foreign origins (after the Lucia guide: non-GET requests must
+ * carry an Origin, or a Referer, matching the allowed origin exactly — auth/origin.ts). Checked with
+ * or without a session cookie: without one, the only writes that succeed are those that start a
+ * session (sign-in, set-up, an invitation or reset link), and a forged one would sign the victim's
+ * browser in to the attacker's account (login CSRF).
  */
 export function csrf(deps: AppDeps): MiddlewareHandler<AppEnv> {
   return async (c, next) => {
     const method = c.req.method;
-    if (method !== 'GET' && method !== 'HEAD' && method !== 'OPTIONS' && readSessionToken(c.req.header('cookie'))) {
+    if (method !== 'GET' && method !== 'HEAD' && method !== 'OPTIONS') {
       const ok = isAllowedOrigin(
-        { origin: c.req.header('origin'), referer: c.req.header('referer'), host: c.req.header('host') },
+        { origin: c.req.header('origin'), referer: c.req.header('referer'), selfOrigin: new URL(c.req.url).origin },
         deps.config.publicUrl,
       );
       if (!ok) throw new HttpError(403, 'bad_origin', 'Request refused: it did not come from this site (Origin check).');
