@@ -102,8 +102,19 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
       const retry = Number(limited.headers.get('retry-after'));
       expect(retry).toBeGreaterThan(0);
       expect(retry).toBeLessThanOrEqual(15 * 60);
+      // A forged X-Forwarded-For does not make a new address: TRUST_PROXY is off by default.
+      expect((await anon().call('POST', '/api/session', { email, password: PASSWORD }, { 'x-forwarded-for': '198.51.100.7' })).status).toBe(429);
       // Another account from the same address is not affected.
       expect((await anon().call('POST', '/api/session', { email: PEOPLE.observer.email, password: PASSWORD })).status).toBe(200);
+    });
+
+    it('counts parallel guesses before any is answered: of 12 at once, exactly 5 are tried and 7 refused (429)', async () => {
+      // An email without an account: it is limited exactly like one with an account (nothing tells them apart).
+      const guesses = await Promise.all(
+        Array.from({ length: 12 }, (_, i) => anon().call('POST', '/api/session', { email: 'parallel.guess@example.test', password: `guess-${i}-xxxx` })),
+      );
+      const statuses = guesses.map((g) => g.status).sort();
+      expect(statuses).toEqual([...Array<number>(5).fill(401), ...Array<number>(7).fill(429)]);
     });
 
     it('refuses cookie-authenticated writes from another origin or with no Origin/Referer (403 bad_origin)', async () => {

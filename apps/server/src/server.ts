@@ -11,6 +11,7 @@ import { createRoomAuthorizer } from './access/authorizer.js';
 import { createFirstRun, type FirstRun } from './auth/first-run.js';
 import { createRateLimiter } from './auth/rate-limit.js';
 import { createSessionService } from './auth/sessions.js';
+import { warmVerifyTime } from './auth/passwords.js';
 import type { ServerConfig } from './config.js';
 import { createCommentEvents } from './comments/events.js';
 import { buildApp } from './http/app.js';
@@ -56,6 +57,7 @@ export async function startServer(
   };
   try {
     const sessions = createSessionService(database.db, config.sessionMs);
+    await warmVerifyTime();
     const relay: Relay = config.redisUrl ? await createRedisRelay(config.redisUrl) : noRelay();
     cleanups.push(() => relay.close());
     const logStore = createPgUpdateStore(database, {
@@ -94,7 +96,11 @@ export async function startServer(
         docs,
         sessions,
         liveAccess,
-        signInLimiter: createRateLimiter(config.signInMaxFailures, config.signInWindowMs),
+        signInLimiter: createRateLimiter({
+          windowMs: config.signInWindowMs,
+          maxKeys: config.signInTrackedKeys,
+          onBusy: () => logger.warn({ trackedKeys: config.signInTrackedKeys }, 'sign-in limiter full: refusing attempts on new keys'),
+        }),
         config,
         commentEvents: createCommentEvents(relay, (err) => logger.warn({ err }, 'unreadable comment event from the relay')),
         health: () => ({ sync: syncStats() }),

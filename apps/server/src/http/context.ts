@@ -22,7 +22,7 @@ export interface AppDeps {
    * open sync connections on every node are re-checked and closed or downgraded if they lost a right.
    */
   liveAccess: LiveAccess;
-  config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist'>;
+  config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist' | 'trustProxy' | 'signInMaxFailures' | 'signInMaxFailuresPerEmail' | 'signInMaxFailuresPerAddress'>;
   /** Live comment events across nodes; absent in bare app tests. */
   commentEvents?: CommentEvents;
   /** Notes documents written outside sync (imports) for the relational projection. */

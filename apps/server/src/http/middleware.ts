@@ -2,6 +2,7 @@
 import type { Context, MiddlewareHandler } from 'hono';
 import { getConnInfo } from '@hono/node-server/conninfo';
 import { readSessionToken, sessionCookie } from '../auth/cookies.js';
+import { clientAddress as addressOf } from '../auth/client-address.js';
 import { isAllowedOrigin } from '../auth/origin.js';
 import { HttpError, unauthenticated } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
@@ -12,12 +13,24 @@ export function isSecure(c: Context, publicUrl: string | undefined): boolean {
   return new URL(c.req.url).protocol === 'https:';
 }
 
-export function clientAddress(c: Context): string {
+/** The caller's address for rate limits (auth/client-address.ts: X-Forwarded-For only with TRUST_PROXY). */
+export function clientAddress(c: Context, trustProxy: number): string {
+  let socket: string | undefined;
   try {
-    return getConnInfo(c).remote.address ?? 'unknown';
+    socket = getConnInfo(c).remote.address;
   } catch {
-    return 'unknown'; // app.request() in tests has no socket
+    socket = undefined; // app.request() in tests has no socket
   }
+  return addressOf(socket, c.req.header('x-forwarded-for'), trustProxy);
+}
+
+/** 429 with Retry-After for a refused attempt, in words. */
+export function tooMany(begun: { retryAfter: number; reason: 'limit' | 'busy' }, what: string): HttpError {
+  const message =
+    begun.reason === 'busy'
+      ? `The server is refusing new ${what} for a moment (too many at once). Try again in ${begun.retryAfter} s.`
+      : `Too many failed ${what}. Try again in ${begun.retryAfter} s.`;
+  return new HttpError(429, 'rate_limited', message, { 'Retry-After': String(begun.retryAfter) });
 }
 
 /**
