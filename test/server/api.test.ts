@@ -179,6 +179,16 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
     });
   });
 
+  describe('small leaks', () => {
+    it('agreement coders= never answers with the name of someone who is not in the study', async () => {
+      const stranger = seed.users.outsider.id; // an account, but no member of this study
+      const res = await as('lead').call<{ error: { code: string; message: string } }>('GET', `/api/studies/${seed.studyId}/agreement?coders=${seed.users.coder.id},${stranger}`);
+      expect(res.status).toBe(400);
+      expect(res.body.error.message).toContain('is not a member of this study');
+      expect(JSON.stringify(res.body)).not.toContain(PEOPLE.outsider.name);
+    });
+  });
+
   describe('validation and bad input', () => {
     it('answers zod failures as 400 {error:{code:"invalid_body",message,details}}', async () => {
       const res = await as('owner').call<{ error: { code: string; message: string; details: Array<{ path: string }> } }>('POST', '/api/studies', { title: 5, mode: 'secret' });
