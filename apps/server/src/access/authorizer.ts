@@ -75,7 +75,7 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
         return Array.isArray(v) ? v[0] : v;
       };
       const host = header('host');
-      const scheme = (req.socket as { encrypted?: boolean }).encrypted ? 'https' : 'http';
+      const scheme = (req.socket as { encrypted?: boolean } | undefined)?.encrypted ? 'https' : 'http';
       if (!isAllowedOrigin({ origin: header('origin'), referer: header('referer'), selfOrigin: host ? `${scheme}://${host}` : null }, publicUrl)) {
         throw new HttpError(403, 'bad_origin', 'This origin may not open sync connections.');
       }
