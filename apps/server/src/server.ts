@@ -105,6 +105,7 @@ export async function startServer(
         commentEvents: createCommentEvents(relay, (err) => logger.warn({ err }, 'unreadable comment event from the relay')),
         health: () => ({ sync: syncStats() }),
         readiness,
+        logger,
         firstRun,
       },
       (err) => logger.error({ err }, 'request failed'),

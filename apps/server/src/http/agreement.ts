@@ -18,7 +18,7 @@ import { recordAudit } from '../admin/audit.js';
 import { computeAgreement } from '../agreement/compute.js';
 import { STATISTICS } from '../agreement/statistics.js';
 import { UNIT_KINDS } from '../agreement/units.js';
-import { isUuid } from '../access/membership.js';
+import { isUuid } from '../ids.js';
 import { HttpError, notFound } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';

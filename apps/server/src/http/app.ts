@@ -8,6 +8,7 @@ import { healthRoutes } from './health.js';
 import { memberRoutes } from './members.js';
 import { csrf, whenReady } from './middleware.js';
 import { securityHeaders } from './security-headers.js';
+import { logFor } from './log.js';
 import { openApiRoutes } from './openapi.js';
 import { sessionRoutes } from './session.js';
 import { staticRoutes } from './static.js';
@@ -26,7 +27,7 @@ import { exchangeRoutes, lossesRoutes } from './exchange.js';
 import { analysisRoutes } from './analysis.js';
 import { roundRoutes, studyRoundRoutes } from './rounds.js';
 
-export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
+export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => logFor(deps).error({ err }, 'request failed')) {
   const app = new Hono<AppEnv>();
   app.onError(onError(log));
   app.use('*', securityHeaders(deps.config.publicUrl));

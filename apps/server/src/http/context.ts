@@ -9,6 +9,7 @@ import type { UpdateStore } from '../sync/contracts.js';
 import type { LiveAccess } from '../sync/live-access.js';
 import type { DocWriter } from '../rounds/doc-change.js';
 import type { Readiness } from '../readiness.js';
+import type { Logger } from '../logger.js';
 
 export interface AppDeps {
   db: Db;
@@ -31,6 +32,8 @@ export interface AppDeps {
   docs?: DocWriter;
   /** Connection and room counts for /api/health (shown to owners only). */
   health?: () => Record<string, unknown>;
+  /** The server's one logger (JSON lines on stderr); absent in bare app tests: errors go to a default one. */
+  logger?: Logger;
   /** Start-up steps still pending; absent: always ready (bare app tests). */
   readiness?: Readiness;
   /** The first-run claim (set-up code); absent: this server cannot be set up from the browser. */
