@@ -75,6 +75,14 @@ describe.each(dbKinds())('versions on %s', (db) => {
       expect(got.body.comparison.segments).toEqual([
         expect.objectContaining({ id: segId, then: expect.objectContaining({ quote: 'lent me a spade' }), now: expect.objectContaining({ quote: 'lent a rusty spade' }) }),
       ]);
+
+      // The lead reading the version reads Rua's segments: that is in the access log, as reading them
+      // through the segments route is (issue 13, small leaks; DESIGN §6).
+      expect((await lead.call('GET', `/api/documents/${s.codingTextRoom}/versions/${made.body.id}`)).status).toBe(200);
+      const views = await lead.call<Array<{ userId: string; target: string; detail: { coderIds: string[]; versionId?: string } }>>('GET', `/api/studies/${s.studyId}/audit?action=segments.view`);
+      const byVersion = views.body.filter((e) => e.detail.versionId === made.body.id && e.userId === s.users.lead.id);
+      expect(byVersion.map((e) => e.target)).toEqual([s.codingTextId]);
+      expect(byVersion[0]!.detail.coderIds).toContain(s.users.coder.id);
     } finally {
       for (const c of clients) c.destroy();
     }

@@ -17,12 +17,20 @@ delete env.DATABASE_URL;
 delete env.REDIS_URL;
 delete env.PUBLIC_URL;
 
-const server = await startServer(loadConfig(env));
-const seeded = await seedDemo(server.db);
-// An invented extra coder with an account but no study: the calibration-round test (rounds.spec.ts)
-// makes them a member of the demo study through the members screen, as a lead would.
-await admin.createUser(server.db, { email: EXTRA.email, password: EXTRA.password, name: EXTRA.name });
-process.stdout.write(JSON.stringify({ event: 'listening', url: server.url, port: server.port, seeded: seeded.seeded, studyId: seeded.studyId }) + '\n');
+let seeded: Awaited<ReturnType<typeof seedDemo>> | undefined;
+// Seeding is the server's start-up step, so /api/health (which Playwright waits for) answers ok only after it.
+const server = await startServer(loadConfig(env), undefined, {
+  prepare: {
+    what: 'demo study seeding',
+    async run(db) {
+      seeded = await seedDemo(db);
+      // An invented extra coder with an account but no study: the calibration-round test (rounds.spec.ts)
+      // makes them a member of the demo study through the members screen, as a lead would.
+      await admin.createUser(db, { email: EXTRA.email, password: EXTRA.password, name: EXTRA.name });
+    },
+  },
+});
+process.stdout.write(JSON.stringify({ event: 'listening', url: server.url, port: server.port, seeded: seeded!.seeded, studyId: seeded!.studyId }) + '\n');
 
 let stopping = false;
 const stop = () => {

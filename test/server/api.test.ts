@@ -102,8 +102,19 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
       const retry = Number(limited.headers.get('retry-after'));
       expect(retry).toBeGreaterThan(0);
       expect(retry).toBeLessThanOrEqual(15 * 60);
+      // A forged X-Forwarded-For does not make a new address: TRUST_PROXY is off by default.
+      expect((await anon().call('POST', '/api/session', { email, password: PASSWORD }, { 'x-forwarded-for': '198.51.100.7' })).status).toBe(429);
       // Another account from the same address is not affected.
       expect((await anon().call('POST', '/api/session', { email: PEOPLE.observer.email, password: PASSWORD })).status).toBe(200);
+    });
+
+    it('counts parallel guesses before any is answered: of 12 at once, exactly 5 are tried and 7 refused (429)', async () => {
+      // An email without an account: it is limited exactly like one with an account (nothing tells them apart).
+      const guesses = await Promise.all(
+        Array.from({ length: 12 }, (_, i) => anon().call('POST', '/api/session', { email: 'parallel.guess@example.test', password: `guess-${i}-xxxx` })),
+      );
+      const statuses = guesses.map((g) => g.status).sort();
+      expect(statuses).toEqual([...Array<number>(5).fill(401), ...Array<number>(7).fill(429)]);
     });
 
     it('refuses cookie-authenticated writes from another origin or with no Origin/Referer (403 bad_origin)', async () => {
@@ -121,6 +132,60 @@ describe.each(dbKinds())('HTTP API on %s', (kind) => {
       expect(viaReferer.status).toBe(201);
       // Reads are not subject to the check.
       expect((await as('owner').call('GET', '/api/studies', undefined, { origin: 'http://evil.example' })).status).toBe(200);
+    });
+  });
+
+  describe('headers and origins', () => {
+    it('puts CSP with frame-ancestors, X-Frame-Options, Referrer-Policy and nosniff on every answer, errors and the web app included', async () => {
+      // Header meanings: CSP Level 3 (W3C), RFC 7034 (X-Frame-Options), Referrer Policy (W3C), Fetch standard (nosniff).
+      const answers = [
+        await anon().call('GET', '/api/health'),
+        await anon().call('GET', '/api/me'), // 401
+        await anon().call('GET', '/api/no-such-thing'), // 404
+        await as('owner').call('POST', '/api/studies', { title: 'x' }, { origin: 'http://evil.example' }), // 403
+        await anon().call('GET', '/'), // the web app (or its not-built page)
+        await anon().call('GET', '/sync/some-room'), // 426
+      ];
+      for (const res of answers) {
+        const csp = res.headers.get('content-security-policy') ?? '';
+        expect(csp, String(res.status)).toContain("frame-ancestors 'none'");
+        expect(csp).toContain("default-src 'self'");
+        expect(csp).toContain("script-src 'self'");
+        expect(csp).not.toMatch(/script-src[^;]*unsafe/);
+        expect(res.headers.get('x-frame-options')).toBe('DENY');
+        expect(res.headers.get('referrer-policy')).toBe('same-origin');
+        expect(res.headers.get('x-content-type-options')).toBe('nosniff');
+        expect(res.headers.get('strict-transport-security')).toBeNull(); // plain http: HSTS would mean nothing
+      }
+    });
+
+    it('compares origins exactly: another scheme or port of the same host is refused (403 bad_origin)', async () => {
+      const { port } = new URL(server.url);
+      for (const origin of [`https://127.0.0.1:${port}`, `http://127.0.0.1:${Number(port) + 1}`, `http://127.0.0.1:${port}.evil.example`]) {
+        const res = await as('owner').call<{ error: { code: string } }>('POST', '/api/studies', { title: 'Cross-origin attempt' }, { origin });
+        expect([res.status, res.body.error.code], origin).toEqual([403, 'bad_origin']);
+        expect(await upgradeStatus(server.url, seed.textRoom, { cookie: cookies.owner, origin }), origin).toBe(403);
+      }
+    });
+
+    it('checks the origin of a sign-in even without a cookie (login CSRF), and lets this site’s own sign-in through', async () => {
+      const body = { email: PEOPLE.observer.email, password: PASSWORD };
+      const forged = await anon().call<{ error: { code: string } }>('POST', '/api/session', body, { origin: 'http://evil.example' });
+      expect([forged.status, forged.body.error.code]).toEqual([403, 'bad_origin']);
+      expect(forged.headers.getSetCookie()).toEqual([]);
+      const bare = await fetch(`${server.url}/api/session`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+      expect(bare.status).toBe(403);
+      expect((await anon().call('POST', '/api/session', body)).status).toBe(200);
+    });
+  });
+
+  describe('small leaks', () => {
+    it('agreement coders= never answers with the name of someone who is not in the study', async () => {
+      const stranger = seed.users.outsider.id; // an account, but no member of this study
+      const res = await as('lead').call<{ error: { code: string; message: string } }>('GET', `/api/studies/${seed.studyId}/agreement?coders=${seed.users.coder.id},${stranger}`);
+      expect(res.status).toBe(400);
+      expect(res.body.error.message).toContain('is not a member of this study');
+      expect(JSON.stringify(res.body)).not.toContain(PEOPLE.outsider.name);
     });
   });
 

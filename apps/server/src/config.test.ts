@@ -56,6 +56,9 @@ describe('loadConfig', () => {
     ['LOG_LEVEL', 'loud'],
     ['MAX_MESSAGE_BYTES', '10'],
     ['MAX_PRESENCE_BYTES', '12'],
+    ['TRUST_PROXY', 'yes'],
+    ['TRUST_PROXY', '-1'],
+    ['SIGNIN_MAX_FAILURES_PER_ADDRESS', '0'],
   ])('refuses %s=%s with a ConfigError naming the variable', (name, value) => {
     let err: unknown;
     try {
@@ -65,5 +68,12 @@ describe('loadConfig', () => {
     }
     expect(err).toBeInstanceOf(ConfigError);
     expect((err as ConfigError).message).toContain(name);
+  });
+
+  it('reads TRUST_PROXY as off by default, true as one proxy, or a number of proxies', () => {
+    expect(loadConfig({}).trustProxy).toBe(0);
+    expect(loadConfig({ TRUST_PROXY: 'false' }).trustProxy).toBe(0);
+    expect(loadConfig({ TRUST_PROXY: 'true' }).trustProxy).toBe(1);
+    expect(loadConfig({ TRUST_PROXY: '2' }).trustProxy).toBe(2);
   });
 });

@@ -22,9 +22,16 @@ export interface ServerConfig {
   logLevel: LogLevel;
   /** Largest accepted HTTP request body. */
   maxBodyBytes: number;
-  /** Sign-in failures per email+IP within the window before 429. */
+  /** Sign-in failures per email+address within the window before 429. */
   signInMaxFailures: number;
+  /** Failures per email from all addresses, and per address for all emails, within the window. */
+  signInMaxFailuresPerEmail: number;
+  signInMaxFailuresPerAddress: number;
   signInWindowMs: number;
+  /** Most keys the sign-in limiter tracks; when full, new keys are refused rather than old ones forgotten. */
+  signInTrackedKeys: number;
+  /** Proxies in front that append to X-Forwarded-For (0: the header is ignored; the socket's address counts). */
+  trustProxy: number;
   pingIntervalMs: number;
   /** Open sync connections are all re-checked this often (0: only on changes and session expiry). */
   accessRecheckMs: number;
@@ -61,6 +68,15 @@ function url(env: NodeJS.ProcessEnv, name: string, protocols: string[]): string 
   return raw;
 }
 
+/** TRUST_PROXY: a number of proxy hops, or true/false (1/0). */
+function trustProxy(raw: string | undefined): number {
+  if (raw === undefined || raw === '' || raw === 'false') return 0;
+  if (raw === 'true') return 1;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 0 || n > 10) throw new ConfigError(`TRUST_PROXY must be false, true or a number of proxies from 0 to 10, got "${raw}"`);
+  return n;
+}
+
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
   const logLevel = (env.LOG_LEVEL || 'info') as LogLevel;
   if (!LOG_LEVELS.includes(logLevel)) throw new ConfigError(`LOG_LEVEL must be one of ${LOG_LEVELS.join(', ')}`);
@@ -82,7 +98,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
     logLevel,
     maxBodyBytes: int(env, 'MAX_BODY_BYTES', 5 * 1024 * 1024, 1024),
     signInMaxFailures: int(env, 'SIGNIN_MAX_FAILURES', 5, 1),
+    signInMaxFailuresPerEmail: int(env, 'SIGNIN_MAX_FAILURES_PER_EMAIL', 20, 1),
+    signInMaxFailuresPerAddress: int(env, 'SIGNIN_MAX_FAILURES_PER_ADDRESS', 100, 1),
     signInWindowMs: int(env, 'SIGNIN_WINDOW_SECONDS', 15 * 60, 1) * 1000,
+    signInTrackedKeys: int(env, 'SIGNIN_TRACKED_KEYS', 100_000, 100),
+    trustProxy: trustProxy(env.TRUST_PROXY),
     pingIntervalMs: int(env, 'PING_INTERVAL_MS', 30_000, 100),
     accessRecheckMs: int(env, 'ACCESS_RECHECK_SECONDS', 60, 0) * 1000,
   };

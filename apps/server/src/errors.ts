@@ -20,6 +20,7 @@ export type ErrorCode =
   | 'bad_setup_code'
   | 'link_used'
   | 'link_expired'
+  | 'not_ready'
   | 'internal';
 
 export class HttpError extends Error {

@@ -1,5 +1,5 @@
 /** The server as a library: for the CLI, benchmarks and tests. */
-export { startServer, type RunningServer } from './server.js';
+export { startServer, type RunningServer, type StartOptions } from './server.js';
 export { loadConfig, type ServerConfig } from './config.js';
 export { createLogger, type Logger } from './logger.js';
 export { seedDemo, type SeedResult } from './demo/seed.js';

@@ -6,11 +6,12 @@
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import { serve } from '@hono/node-server';
-import { openDatabase, type Database } from '@gloss/db';
+import { openDatabase, type Database, type Db } from '@gloss/db';
 import { createRoomAuthorizer } from './access/authorizer.js';
 import { createFirstRun, type FirstRun } from './auth/first-run.js';
 import { createRateLimiter } from './auth/rate-limit.js';
 import { createSessionService } from './auth/sessions.js';
+import { warmVerifyTime } from './auth/passwords.js';
 import type { ServerConfig } from './config.js';
 import { createCommentEvents } from './comments/events.js';
 import { buildApp } from './http/app.js';
@@ -22,6 +23,7 @@ import { attachSync, createLiveAccess } from './sync/index.js';
 import { createStudyEvents } from './exchange/study-events.js';
 import type { Relay } from './sync/contracts.js';
 import type { DocWriter } from './rounds/doc-change.js';
+import { createReadiness } from './readiness.js';
 
 export interface RunningServer {
   url: string;
@@ -33,9 +35,22 @@ export interface RunningServer {
   close(): Promise<void>;
 }
 
+export interface StartOptions {
+  /**
+   * A start-up step run once the server listens and before it counts as ready (seeding the demo):
+   * meanwhile /api/health answers 503 naming `what`, and the rest of the API and sync answer 503.
+   */
+  prepare?: { what: string; run(db: Db, url: string): Promise<void> };
+}
+
 const SESSION_SWEEP_MS = 60 * 60 * 1000;
 
-export async function startServer(config: ServerConfig, logger: Logger = createLogger(config.logLevel)): Promise<RunningServer> {
+/** Resolves once the server is ready: listening, sync attached, `options.prepare` done. */
+export async function startServer(
+  config: ServerConfig,
+  logger: Logger = createLogger(config.logLevel),
+  options: StartOptions = {},
+): Promise<RunningServer> {
   const database = await openDatabase({ databaseUrl: config.databaseUrl, dataDir: config.dataDir });
   const cleanups: Array<() => Promise<unknown>> = [() => database.close()];
   const undo = async () => {
@@ -43,6 +58,7 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
   };
   try {
     const sessions = createSessionService(database.db, config.sessionMs);
+    await warmVerifyTime();
     const relay: Relay = config.redisUrl ? await createRedisRelay(config.redisUrl) : noRelay();
     cleanups.push(() => relay.close());
     const logStore = createPgUpdateStore(database, {
@@ -51,7 +67,6 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     // Segments, codes and memos follow each committed change into relational tables (projection/).
     const projector = createProjector({ db: database.db, store: logStore, onError: (err, docId) => logger.error({ err, docId }, 'projection failed') });
     const store = withProjection(logStore, projector);
-    scheduleCatchUp(database.db, projector).catch((err: unknown) => logger.warn({ err }, 'projection catch-up could not start'));
     cleanups.push(() => store.close());
 
     const firstRun = createFirstRun(database.db);
@@ -61,6 +76,9 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     await liveAccess.start();
     cleanups.push(() => liveAccess.close());
 
+    const readiness = createReadiness();
+    const syncAttached = readiness.wait('sync starting');
+    const prepared = options.prepare ? readiness.wait(options.prepare.what) : () => undefined;
     let syncStats: () => Record<string, unknown> = () => ({});
     // Server-made document changes go through the sync layer, which is attached after the app.
     let syncDocs: DocWriter | null = null;
@@ -77,12 +95,17 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
         docs,
         sessions,
         liveAccess,
-        signInLimiter: createRateLimiter(config.signInMaxFailures, config.signInWindowMs),
+        signInLimiter: createRateLimiter({
+          windowMs: config.signInWindowMs,
+          maxKeys: config.signInTrackedKeys,
+          onBusy: () => logger.warn({ trackedKeys: config.signInTrackedKeys }, 'sign-in limiter full: refusing attempts on new keys'),
+        }),
         config,
         commentEvents: createCommentEvents(relay, (err) => logger.warn({ err }, 'unreadable comment event from the relay')),
         logger,
         studyEvents: createStudyEvents(relay, (err) => logger.warn({ err }, 'unreadable study event from the relay')),
         health: () => ({ sync: syncStats() }),
+        readiness,
         firstRun,
       },
       (err) => logger.error({ err }, 'request failed'),
@@ -104,10 +127,23 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
       maxPresenceBytes: config.maxPresenceBytes,
       pingIntervalMs: config.pingIntervalMs,
       logger,
+      ready: readiness.ready,
     });
     cleanups.push(() => sync.close());
     syncStats = () => ({ ...sync.stats() });
     syncDocs = sync;
+    syncAttached();
+
+    const port = (server.address() as AddressInfo).port;
+    const host = config.host === '0.0.0.0' || config.host === '::' ? 'localhost' : config.host.includes(':') ? `[${config.host}]` : config.host;
+    const url = `http://${host}:${port}`;
+    if (options.prepare) {
+      logger.info({ step: options.prepare.what, url }, 'preparing before ready');
+      await options.prepare.run(database.db, url);
+      prepared();
+    }
+    // After the start-up step, so documents it wrote without the store (the demo's) are projected too.
+    scheduleCatchUp(database.db, projector).catch((err: unknown) => logger.warn({ err }, 'projection catch-up could not start'));
 
     const sweep = setInterval(() => {
       sessions.deleteExpired().catch((err: unknown) => logger.warn({ err }, 'expired-session sweep failed'));
@@ -115,11 +151,9 @@ export async function startServer(config: ServerConfig, logger: Logger = createL
     sweep.unref();
     cleanups.push(async () => clearInterval(sweep));
 
-    const port = (server.address() as AddressInfo).port;
-    const host = config.host === '0.0.0.0' || config.host === '::' ? 'localhost' : config.host.includes(':') ? `[${config.host}]` : config.host;
     let closing: Promise<void> | undefined;
     return {
-      url: `http://${host}:${port}`,
+      url,
       port,
       database,
       db: database.db,

@@ -14,12 +14,14 @@ export async function serveCommand(argv: string[]): Promise<number> {
   });
   const config = loadConfig({ ...process.env, ...(values.port ? { PORT: values.port } : {}) });
   const logger = createLogger(config.logLevel);
-  const server = await startServer(config, logger);
-
   // The demo goes only into the embedded database, and only when it holds no study yet:
   // a PostgreSQL deployment is seeded on purpose with `gloss demo`, never by accident.
-  let seeded = null;
-  if (!config.databaseUrl && !values['no-demo']) seeded = await seedDemo(server.db);
+  // It runs as the server's start-up step: health says "not ready" and sign-in waits until it is done.
+  let seeded: Awaited<ReturnType<typeof seedDemo>> | null = null;
+  const withDemo = !config.databaseUrl && !values['no-demo'];
+  const server = await startServer(config, logger, {
+    prepare: withDemo ? { what: 'demo study seeding', run: async (db) => void (seeded = await seedDemo(db)) } : undefined,
+  });
 
   // Without the demo (PostgreSQL, or --no-demo) a fresh database waits for its owner: print the code.
   await printSetupCode(server, process.stdout);

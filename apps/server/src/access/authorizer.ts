@@ -74,7 +74,9 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
         const v = req.headers[name];
         return Array.isArray(v) ? v[0] : v;
       };
-      if (!isAllowedOrigin({ origin: header('origin'), referer: header('referer'), host: header('host') }, publicUrl)) {
+      const host = header('host');
+      const scheme = (req.socket as { encrypted?: boolean } | undefined)?.encrypted ? 'https' : 'http';
+      if (!isAllowedOrigin({ origin: header('origin'), referer: header('referer'), selfOrigin: host ? `${scheme}://${host}` : null }, publicUrl)) {
         throw new HttpError(403, 'bad_origin', 'This origin may not open sync connections.');
       }
       const token = readSessionToken(header('cookie'));

@@ -2,6 +2,7 @@
 import { type Db, documents, memberships } from '@gloss/db';
 import { and, eq } from 'drizzle-orm';
 import type { Role } from '../sync/contracts.js';
+import { isUuid } from '../ids.js';
 
 export async function roleIn(db: Db, studyId: string, userId: string): Promise<Role | null> {
   const [row] = await db
@@ -11,11 +12,6 @@ export async function roleIn(db: Db, studyId: string, userId: string): Promise<R
   return row?.role ?? null;
 }
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-/** Ids arrive from URLs; anything not a uuid cannot name a row (and would make PostgreSQL raise 22P02). */
-export function isUuid(value: string): boolean {
-  return UUID.test(value);
-}
 
 export async function findDocument(db: Db, docId: string) {
   if (!isUuid(docId)) return null;

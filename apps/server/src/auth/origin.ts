@@ -1,13 +1,15 @@
 /**
- * CSRF defence for cookie-authenticated requests: a state-changing request (and every WebSocket
- * upgrade) must come from an allowed origin — the configured PUBLIC_URL or the request's own host.
- * Origin is checked when present, else Referer; a request carrying neither is refused (browsers
- * send Origin on cross-site POSTs and on WebSocket handshakes).
+ * CSRF defence: a state-changing request (and every WebSocket upgrade) must come from the allowed
+ * origin — PUBLIC_URL when set, else the origin the request itself reached (its scheme and Host).
+ * The comparison is exact on scheme, host and port, as hono's csrf middleware compares Origin with
+ * `new URL(c.req.url).origin`. Origin is checked when present, else Referer; a request carrying
+ * neither is refused (browsers send Origin on POST, PUT, DELETE and on WebSocket handshakes).
  */
 export interface OriginRequest {
   origin: string | undefined | null;
   referer: string | undefined | null;
-  host: string | undefined | null;
+  /** `scheme://host[:port]` the request reached (http or https as the socket says, Host header). */
+  selfOrigin: string | undefined | null;
 }
 
 export function originOf(value: string): string | null {
@@ -22,9 +24,7 @@ export function originOf(value: string): string | null {
 export function isAllowedOrigin(req: OriginRequest, publicUrl: string | undefined): boolean {
   const claimed = req.origin ? originOf(req.origin) : req.referer ? originOf(req.referer) : null;
   if (!claimed) return false;
-  if (publicUrl && claimed === originOf(publicUrl)) return true;
-  if (!req.host) return false;
-  // Same host as the request reached, on either scheme (a TLS proxy may sit in front).
-  const host = new URL(claimed).host;
-  return host.toLowerCase() === req.host.toLowerCase();
+  // Behind a TLS proxy the request reaches us as http: PUBLIC_URL names the one origin browsers use.
+  const allowed = publicUrl ? originOf(publicUrl) : req.selfOrigin ? originOf(req.selfOrigin) : null;
+  return allowed !== null && claimed === allowed;
 }

@@ -12,5 +12,6 @@ describe('passwords', () => {
 
   it('treats a malformed stored hash as a failed check, not a crash', async () => {
     expect(await verifyPassword('not-a-hash', 'x')).toBe(false);
+    expect(await verifyPassword('!', 'x')).toBe(false); // the placeholder of imported accounts
   });
 });

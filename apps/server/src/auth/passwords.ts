@@ -19,17 +19,23 @@ export async function verifyPassword(passwordHash: string, password: string): Pr
   try {
     return await verify(passwordHash, password);
   } catch {
-    // A malformed stored hash is a failed sign-in, not a crash.
+    // A malformed stored hash (an imported account's placeholder) is a failed sign-in, not a crash, and
+    // costs a full verification: a fast refusal would tell a caller that this email has an account.
+    await spendVerifyTime(password);
     return false;
   }
 }
 
 let dummyHash: Promise<string> | undefined;
+/** Makes the throwaway hash now, so the first unknown email costs no more than later ones. */
+export function warmVerifyTime(): Promise<string> {
+  return (dummyHash ??= hashPassword('gloss-timing-equaliser'));
+}
+
 /**
- * Verifies against a throwaway hash so that an unknown email costs about as much time as a known
- * one with a wrong password (no cheap account probing by timing).
+ * Verifies against a throwaway hash so that an unknown email costs as much as a known one with a
+ * wrong password (one argon2id verification on every sign-in path: no account probing by timing).
  */
 export async function spendVerifyTime(password: string): Promise<void> {
-  dummyHash ??= hashPassword('gloss-timing-equaliser');
-  await verifyPassword(await dummyHash, password);
+  await verify(await warmVerifyTime(), password).catch(() => false);
 }

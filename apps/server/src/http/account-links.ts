@@ -17,7 +17,7 @@ import { createUser, findUserByEmail, setPassword } from '../admin/users.js';
 import { spendVerifyTime, verifyPassword } from '../auth/passwords.js';
 import { HttpError } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
-import { clientAddress } from './middleware.js';
+import { clientAddress, tooMany } from './middleware.js';
 import { beginSession } from './session.js';
 import { readJson } from './validate.js';
 
@@ -44,30 +44,36 @@ export function accountLinkRoutes(deps: AppDeps) {
     const token = c.req.param('token');
     const body = await readJson(c, AcceptInvitationBody);
     // Guessing the password of an existing account through an invitation counts like a failed sign-in.
-    const key = `invite|${clientAddress(c)}`;
-    const wait = deps.signInLimiter.retryAfter(key);
-    if (wait > 0) throw new HttpError(429, 'rate_limited', `Too many failed attempts. Try again in ${wait} s.`, { 'Retry-After': String(wait) });
-    const link = await findLink(deps.db, token, 'invite');
-    const existing = await findUserByEmail(deps.db, link.email);
-    if (existing) {
-      if (!(await verifyPassword(existing.passwordHash, body.password))) {
-        deps.signInLimiter.fail(key);
-        throw new HttpError(401, 'invalid_credentials', `An account with ${link.email} exists already: enter its password to join.`);
+    const begun = deps.signInLimiter.begin([{ key: `invite|${clientAddress(c, deps.config.trustProxy)}`, max: deps.config.signInMaxFailures }]);
+    if (!begun.allowed) throw tooMany(begun, 'attempts');
+    const joined = async () => {
+      const link = await findLink(deps.db, token, 'invite');
+      const existing = await findUserByEmail(deps.db, link.email);
+      if (existing) {
+        if (!(await verifyPassword(existing.passwordHash, body.password))) {
+          throw new HttpError(401, 'invalid_credentials', `An account with ${link.email} exists already: enter its password to join.`);
+        }
+      } else {
+        if (!body.name) throw new HttpError(400, 'invalid_body', 'name: say what others in the study should call you.');
+        await spendVerifyTime(body.password);
       }
-    } else {
-      if (!body.name) throw new HttpError(400, 'invalid_body', 'name: say what others in the study should call you.');
-      await spendVerifyTime(body.password);
-    }
-    const user = await deps.db.transaction(async (tx) => {
-      const t = tx as unknown as Db;
-      await spendLink(t, link);
-      const u = existing ?? (await createUser(t, { email: link.email, name: body.name!, password: body.password }));
-      // Someone already in the study keeps their role: an invitation adds people, it does not demote them.
-      await t.insert(memberships).values({ studyId: link.studyId!, userId: u.id, role: link.role! }).onConflictDoNothing();
-      await recordAudit(t, { userId: u.id, studyId: link.studyId, action: 'member.join', target: u.id, detail: { role: link.role, invitation: link.id } });
-      return u;
+      const user = await deps.db.transaction(async (tx) => {
+        const t = tx as unknown as Db;
+        await spendLink(t, link);
+        const u = existing ?? (await createUser(t, { email: link.email, name: body.name!, password: body.password }));
+        // Someone already in the study keeps their role: an invitation adds people, it does not demote them.
+        await t.insert(memberships).values({ studyId: link.studyId!, userId: u.id, role: link.role! }).onConflictDoNothing();
+        await recordAudit(t, { userId: u.id, studyId: link.studyId, action: 'member.join', target: u.id, detail: { role: link.role, invitation: link.id } });
+        return u;
+      });
+      return { user, link };
+    };
+    // Only a wrong password counts against the limit; other refusals (a used link, a missing name) are refunded.
+    const { user, link } = await joined().catch((err: unknown) => {
+      if (!(err instanceof HttpError && err.code === 'invalid_credentials')) begun.succeeded();
+      throw err;
     });
-    deps.signInLimiter.reset(key);
+    begun.succeeded();
     const expiresAt = await beginSession(deps, c, user.id);
     const [membership] = await deps.db
       .select({ role: memberships.role })

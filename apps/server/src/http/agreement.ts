@@ -10,7 +10,7 @@
  * cannot steer coding still under way. Every report is audited. A study in reflexive mode gets no
  * coefficient: the units coded differently, side by side (DESIGN §5).
  */
-import { documents, studies, texts } from '@gloss/db';
+import { documents, memberships, studies, texts } from '@gloss/db';
 import { and, eq, inArray } from 'drizzle-orm';
 import { Hono } from 'hono';
 import { z } from 'zod';
@@ -18,7 +18,7 @@ import { recordAudit } from '../admin/audit.js';
 import { computeAgreement } from '../agreement/compute.js';
 import { STATISTICS } from '../agreement/statistics.js';
 import { UNIT_KINDS } from '../agreement/units.js';
-import { isUuid } from '../access/membership.js';
+import { isUuid } from '../ids.js';
 import { HttpError, notFound } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
@@ -80,6 +80,14 @@ export function agreementRoutes(deps: AppDeps) {
     // Every layer on these texts outside rounds is read: who counts is decided from what each layer
     // holds (coders.ts). A round's layers are compared in that round's own report (GET /api/rounds/:id/agreement).
     const layerDocs = docs.filter((d) => d.kind === 'layer' && d.roundId === null && d.coderId !== null);
+    if (q.coders) {
+      // Only people of this study (members, or whoever left a layer here): an arbitrary user id must not
+      // come back with that person's name.
+      const members = await deps.db.select({ userId: memberships.userId }).from(memberships).where(eq(memberships.studyId, studyId));
+      const known = new Set([...members.map((m) => m.userId), ...layerDocs.map((d) => d.coderId!)]);
+      const stranger = q.coders.find((id) => !known.has(id.toLowerCase()));
+      if (stranger) throw new HttpError(400, 'bad_request', `coders: ${stranger} is not a member of this study.`);
+    }
     const cbId = await codebookDocId(deps.db, studyId);
     const reflexive = study.mode === 'reflexive';
     const { body, coderIds } = await computeAgreement(deps.db, store, {

@@ -6,7 +6,9 @@ import { auditRoutes } from './audit.js';
 import { limitBody } from './body-limit.js';
 import { healthRoutes } from './health.js';
 import { memberRoutes } from './members.js';
-import { csrf } from './middleware.js';
+import { csrf, whenReady } from './middleware.js';
+import { securityHeaders } from './security-headers.js';
+import { logFor } from './log.js';
 import { openApiRoutes } from './openapi.js';
 import { sessionRoutes } from './session.js';
 import { staticRoutes } from './static.js';
@@ -26,11 +28,13 @@ import { analysisRoutes } from './analysis.js';
 import { studyEventRoutes } from './study-events.js';
 import { roundRoutes, studyRoundRoutes } from './rounds.js';
 
-export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
+export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => logFor(deps).error({ err }, 'request failed')) {
   const app = new Hono<AppEnv>();
   app.onError(onError(log));
+  app.use('*', securityHeaders(deps.config.publicUrl));
 
   const api = new Hono<AppEnv>();
+  api.use('*', whenReady(deps));
   api.use('*', limitBody(deps.config.maxBodyBytes));
   api.use('*', csrf(deps));
   api.route('/', healthRoutes(deps));

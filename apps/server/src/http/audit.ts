@@ -1,7 +1,7 @@
 /** GET /api/studies/:studyId/audit — the study's access and change log, newest first (owner, lead), with filters. */
 import { auditLog, users } from '@gloss/db';
 import { type SQL, and, desc, eq, gte, like, lt } from 'drizzle-orm';
-import { isUuid } from '../access/membership.js';
+import { isUuid } from '../ids.js';
 import { Hono } from 'hono';
 import { HttpError } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';

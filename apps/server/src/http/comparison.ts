@@ -10,7 +10,7 @@ import { compareLayers, ComparisonInputError, listSegments, readText, readTurns,
 import { Hono } from 'hono';
 import { z } from 'zod';
 import { recordAudit } from '../admin/audit.js';
-import { isUuid } from '../access/membership.js';
+import { isUuid } from '../ids.js';
 import { HttpError, notFound } from '../errors.js';
 import { withDocs } from '../projection/load-doc.js';
 import type { AppDeps, AppEnv } from './context.js';

@@ -10,6 +10,7 @@ import type { StudyEvents } from '../exchange/study-events.js';
 import type { UpdateStore } from '../sync/contracts.js';
 import type { LiveAccess } from '../sync/live-access.js';
 import type { DocWriter } from '../rounds/doc-change.js';
+import type { Readiness } from '../readiness.js';
 
 export interface AppDeps {
   db: Db;
@@ -23,19 +24,21 @@ export interface AppDeps {
    * open sync connections on every node are re-checked and closed or downgraded if they lost a right.
    */
   liveAccess: LiveAccess;
-  config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist'>;
+  config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist' | 'trustProxy' | 'signInMaxFailures' | 'signInMaxFailuresPerEmail' | 'signInMaxFailuresPerAddress'>;
   /** Live comment events across nodes; absent in bare app tests. */
   commentEvents?: CommentEvents;
-  /** For what a route cannot answer with (a live notice that failed after the work was stored). */
-  logger?: Pick<Logger, 'warn'>;
   /** Live study changes (texts added, an import) across nodes; absent in bare app tests. */
   studyEvents?: StudyEvents;
   /** Notes documents written outside sync (imports) for the relational projection; `settle` projects them now. */
   projector?: { notify(docId: string): void; settle?(docIds: readonly string[]): Promise<void> };
   /** Server-made document changes through the sync layer (absent in bare app tests). */
   docs?: DocWriter;
-  /** Extra readiness facts for /api/health (sync stats…). */
+  /** Connection and room counts for /api/health (shown to owners only). */
   health?: () => Record<string, unknown>;
+  /** The server's one logger (JSON lines on stderr); absent in bare app tests: errors go to a default one. */
+  logger?: Logger;
+  /** Start-up steps still pending; absent: always ready (bare app tests). */
+  readiness?: Readiness;
   /** The first-run claim (set-up code); absent: this server cannot be set up from the browser. */
   firstRun?: FirstRun;
 }

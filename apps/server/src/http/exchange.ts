@@ -24,6 +24,7 @@ import { errorBody } from './errors.js';
 import { requireSession } from './middleware.js';
 import { requireStore } from './segments.js';
 import { studyRole } from './study-access.js';
+import { logFor } from './log.js';
 
 export function exchangeBody(err: ExchangeError) {
   return errorBody(err.code.replace(/-/g, '_'), err.message);
@@ -78,7 +79,7 @@ export function exchangeRoutes(deps: AppDeps) {
           if (next.done) controller.close();
           else controller.enqueue(next.value);
         } catch (err) {
-          console.error(err);
+          logFor(deps).error({ err }, 'export stream failed');
           controller.error(err);
         }
       },

@@ -19,6 +19,7 @@ import { errorBody } from './errors.js';
 import { requireSession } from './middleware.js';
 import { studyRole } from './study-access.js';
 import { textSummary } from './texts.js';
+import { logFor } from './log.js';
 
 interface Upload {
   filename: string;
@@ -87,7 +88,7 @@ export function importRoutes(deps: AppDeps) {
         } catch (err) {
           if (err instanceof ImportError) line(importErrorBody(err));
           else {
-            console.error(err);
+            logFor(deps).error({ err }, 'text import failed');
             line(errorBody('internal', 'Something went wrong on the server; nothing was imported.'));
           }
         }

@@ -75,7 +75,7 @@ export function buildOpenApi() {
       securitySchemes: { session: { type: 'apiKey', in: 'cookie', name: 'gloss_session' } },
     },
     paths: {
-      '/api/health': { get: { summary: 'Liveness and database kind', responses: { ...ok('Health', 'Up'), ...errors(503) } } },
+      '/api/health': { get: { summary: 'Ready (200) or still starting (503, naming what it waits for); connection counts for study owners', responses: { ...ok('Health', 'Up'), ...errors(503) } } },
       '/api/openapi.json': { get: { summary: 'This description', responses: { '200': { description: 'OpenAPI 3.1 document' } } } },
       '/api/session': {
         post: {

@@ -31,6 +31,7 @@ import { requireStore } from './segments.js';
 import { studyRole } from './study-access.js';
 import { codebookDocId } from './text-layers.js';
 import { idParam, readJson } from './validate.js';
+import { logFor } from './log.js';
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
 
@@ -182,7 +183,7 @@ export function roundRoutes(deps: AppDeps) {
         await changeDoc(deps.store, deps.docs, cbId, me, (cb) => {
           enterRound(cb, round.number, { by: me }, `round ${round.number} revealed: ${round.name}`);
         }).catch((err: unknown) => {
-          console.error(err);
+          logFor(deps).error({ err }, 'codebook could not be stamped with the revealed round');
           warning = 'The round is revealed, but the codebook could not be stamped with it: definition edits will carry the previous round number.';
         });
       }

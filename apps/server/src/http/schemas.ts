@@ -44,7 +44,14 @@ export const NewTextBody = z.object({
 export const ErrorResponse = z.object({
   error: z.object({ code: z.string(), message: z.string(), details: z.unknown().optional() }),
 });
-export const Health = z.object({ ok: z.boolean(), db: z.enum(['pglite', 'postgres']) });
+export const Health = z.object({
+  ok: z.boolean(),
+  db: z.enum(['pglite', 'postgres']),
+  /** Start-up steps still pending (with ok false and status 503). */
+  waiting: z.array(z.string()).optional(),
+  /** Open sync connections and loaded rooms: shown to owners of a study only. */
+  sync: z.object({ connections: z.number(), rooms: z.number() }).passthrough().optional(),
+});
 export const Me = z.object({ id: z.uuid(), email: z.string(), name: z.string() });
 export const StudySummary = z.object({
   id: z.uuid(),

@@ -6,7 +6,7 @@ import { spendVerifyTime, verifyPassword } from '../auth/passwords.js';
 import { findUserByEmail, normaliseEmail } from '../admin/users.js';
 import { HttpError } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
-import { clientAddress, isSecure, requireSession } from './middleware.js';
+import { clientAddress, isSecure, requireSession, tooMany } from './middleware.js';
 import { SignInBody } from './schemas.js';
 import { ChangePasswordBody, changeOwnPassword } from './account-links.js';
 import { readJson } from './validate.js';
@@ -30,18 +30,21 @@ export function sessionRoutes(deps: AppDeps) {
 
   app.post('/session', async (c) => {
     const body = await readJson(c, SignInBody);
-    const key = `${normaliseEmail(body.email)}|${clientAddress(c)}`;
-    const wait = deps.signInLimiter.retryAfter(key);
-    if (wait > 0) {
-      throw new HttpError(429, 'rate_limited', `Too many failed sign-ins. Try again in ${wait} s.`, { 'Retry-After': String(wait) });
-    }
-    const user = await findUserByEmail(deps.db, body.email);
+    const email = normaliseEmail(body.email);
+    const address = clientAddress(c, deps.config.trustProxy);
+    const pair = `signin|${email}|${address}`;
+    // Checked and recorded in one step, before any await (auth/rate-limit.ts); refunded on success.
+    const begun = deps.signInLimiter.begin([
+      { key: pair, max: deps.config.signInMaxFailures },
+      { key: `signin-email|${email}`, max: deps.config.signInMaxFailuresPerEmail },
+      { key: `signin-address|${address}`, max: deps.config.signInMaxFailuresPerAddress },
+    ]);
+    if (!begun.allowed) throw tooMany(begun, 'sign-ins');
+    // One argon2 verification whether or not the email has an account: same cost on every path.
+    const user = await findUserByEmail(deps.db, email);
     const ok = user ? await verifyPassword(user.passwordHash, body.password) : (await spendVerifyTime(body.password), false);
-    if (!user || !ok) {
-      deps.signInLimiter.fail(key);
-      throw new HttpError(401, 'invalid_credentials', WRONG);
-    }
-    deps.signInLimiter.reset(key);
+    if (!user || !ok) throw new HttpError(401, 'invalid_credentials', WRONG);
+    begun.succeeded([pair]);
     const expiresAt = await beginSession(deps, c, user.id);
     return c.json({ id: user.id, email: user.email, name: user.name, expiresAt: expiresAt.toISOString() });
   });

@@ -8,7 +8,7 @@ import { Hono } from 'hono';
 import { z } from 'zod';
 import { HttpError } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
-import { clientAddress } from './middleware.js';
+import { clientAddress, tooMany } from './middleware.js';
 import { beginSession } from './session.js';
 import { readJson } from './validate.js';
 
@@ -33,17 +33,14 @@ export function setupRoutes(deps: AppDeps) {
     if (!firstRun || !(await firstRun.open())) {
       throw new HttpError(409, 'already_set_up', 'This server is set up already: sign in, or ask an owner for an invitation.');
     }
-    const key = `setup|${clientAddress(c)}`;
-    const wait = deps.signInLimiter.retryAfter(key);
-    if (wait > 0) throw new HttpError(429, 'rate_limited', `Too many wrong set-up codes. Try again in ${wait} s.`, { 'Retry-After': String(wait) });
-    let user;
-    try {
-      user = await firstRun.claim(body.code, { email: body.email, name: body.name, password: body.password });
-    } catch (err) {
-      if (err instanceof HttpError && err.code === 'bad_setup_code') deps.signInLimiter.fail(key);
+    const begun = deps.signInLimiter.begin([{ key: `setup|${clientAddress(c, deps.config.trustProxy)}`, max: deps.config.signInMaxFailures }]);
+    if (!begun.allowed) throw tooMany(begun, 'set-up codes');
+    const user = await firstRun.claim(body.code, { email: body.email, name: body.name, password: body.password }).catch((err: unknown) => {
+      // Only a wrong code counts against the limit.
+      if (!(err instanceof HttpError && err.code === 'bad_setup_code')) begun.succeeded();
       throw err;
-    }
-    deps.signInLimiter.reset(key);
+    });
+    begun.succeeded();
     const expiresAt = await beginSession(deps, c, user.id);
     return c.json({ ...user, expiresAt: expiresAt.toISOString() }, 201);
   });

@@ -2,7 +2,7 @@
 import type { Context } from 'hono';
 import type { z } from 'zod';
 import { HttpError } from '../errors.js';
-import { isUuid } from '../access/membership.js';
+import { isUuid } from '../ids.js';
 
 export async function readJson<S extends z.ZodType>(c: Context, schema: S): Promise<z.infer<S>> {
   const type = c.req.header('content-type') ?? '';

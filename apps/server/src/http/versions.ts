@@ -2,7 +2,8 @@
  * Named versions of a text or codebook document (a Yjs snapshot kept in `versions`):
  * POST /api/documents/:room/versions {name} (owner, lead: whoever may edit that document), GET …/versions,
  * GET …/versions/:versionId — the past state read-only and a comparison with the current one.
- * Readers of the document may list and read its versions. Creation is audited.
+ * Readers of the document may list and read its versions. Creation is audited, and so is reading a
+ * text version's segments of other coders.
  */
 import { type Db, users, versions } from '@gloss/db';
 import { getCodes } from '@gloss/model';
@@ -115,6 +116,12 @@ export function versionRoutes(deps: AppDeps) {
       });
     }
     const { layers } = await textDocuments(deps.db, doc.textId!, role, me);
+    const others = layers.filter((l) => l.coderId !== me).map((l) => l.coderId ?? 'consensus');
+    if (others.length > 0) {
+      // The comparison carries other coders' segments: who read whose coding is in the access log
+      // (DESIGN §6), as for the segments route and an opened layer room.
+      await recordAudit(deps.db, { userId: me, studyId: doc.studyId, action: 'segments.view', target: doc.textId, detail: { coderIds: others, versionId } });
+    }
     return withDocs(store, [doc.id, ...layers.map((l) => l.layerDocId)], ([current, ...layerDocs]) => {
       const past = pastDoc(current!, snap);
       try {

@@ -7,6 +7,7 @@
 import { rowsOf, type Db } from '@gloss/db';
 import { sql } from 'drizzle-orm';
 import { StoreError } from './errors.js';
+import { isUuid } from '../ids.js';
 
 export interface LogRow {
   docId: string;
@@ -14,9 +15,6 @@ export interface LogRow {
   userId: string | null;
 }
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
-export const isUuid = (id: string): boolean => UUID.test(id);
 
 /** Inserts the rows in order; returns their seqs in the same order. */
 export async function insertBatch(db: Db, rows: readonly LogRow[]): Promise<number[]> {
@@ -26,7 +24,7 @@ export async function insertBatch(db: Db, rows: readonly LogRow[]): Promise<numb
   let offset = 0;
   for (const row of rows) {
     // Ids go into array literals below, so they must be plain UUIDs.
-    if (!UUID.test(row.docId) || (row.userId !== null && !UUID.test(row.userId))) {
+    if (!isUuid(row.docId) || (row.userId !== null && !isUuid(row.userId))) {
       throw new StoreError('append-failed', `not a UUID: ${row.docId} / ${row.userId}`);
     }
     blob.set(row.data, offset);

@@ -8,7 +8,8 @@ import type { UpdateStore } from '../sync/contracts.js';
 import { compactDocument, type CompactionResult } from './compaction.js';
 import { StoreError } from './errors.js';
 import { GroupCommit } from './group-commit.js';
-import { insertBatch, isUuid, type LogRow } from './insert-batch.js';
+import { insertBatch, type LogRow } from './insert-batch.js';
+import { isUuid } from '../ids.js';
 import { FULL_READ, flatten, readLog } from './log-rows.js';
 
 export interface PgUpdateStoreOptions {

@@ -4,7 +4,9 @@
  */
 import type { IncomingMessage } from 'node:http';
 
-export type Role = 'owner' | 'lead' | 'coder' | 'trainee' | 'observer';
+import type { Role } from '@gloss/db';
+// One Role type for the whole server: the database's (memberships.role).
+export type { Role };
 export type DocKind = 'text' | 'layer' | 'codebook' | 'memos';
 
 /** What an authenticated connection may do in one room. */

@@ -30,6 +30,8 @@ export interface SyncOptions {
   logger?: SyncLogger;
   /** Follows open connections so access changes reach them (live-access.ts); absent: grants stay as decided at the upgrade. */
   liveAccess?: ConnectionTracker;
+  /** False while the server is still starting (readiness.ts): upgrades are refused with 503 until then. */
+  ready?: () => boolean;
 }
 
 export interface SyncStats {
@@ -80,7 +82,8 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
 
   async function upgrade(req: IncomingMessage, socket: Duplex, head: Buffer): Promise<void> {
     const room = roomFromUrl(req.url);
-    if (room === null || closing) return refuse(socket, room === null ? 404 : 503);
+    if (room === null) return refuse(socket, 404);
+    if (closing || options.ready?.() === false) return refuse(socket, 503);
     const stamp = options.liveAccess?.stamp() ?? 0;
     let grant: RoomGrant;
     try {

@@ -1,4 +1,6 @@
 /** The little the sync layer needs to report; pino-compatible. */
+import { createLogger } from '../logger.js';
+
 export interface SyncLogger {
   /** Expected events worth a trace when debugging (clients hanging up mid-handshake). */
   debug?(obj: object, msg?: string): void;
@@ -6,7 +8,5 @@ export interface SyncLogger {
   error(obj: object, msg?: string): void;
 }
 
-export const consoleLogger: SyncLogger = {
-  warn: (obj, msg) => console.warn(msg ?? '', obj),
-  error: (obj, msg) => console.error(msg ?? '', obj),
-};
+/** The default when no logger is passed: the server's JSON-line logger at info level (one log format). */
+export const consoleLogger: SyncLogger = createLogger('info');
