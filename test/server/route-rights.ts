@@ -78,4 +78,6 @@ export const ROUTE_RIGHTS: Record<string, Rights> = {
   'GET /api/rounds/:roundId/progress': members,
   'GET /api/rounds/:roundId/agreement': members,
   'GET /api/rounds/:roundId/report': members,
+  'PUT /api/rounds/:roundId/texts/:textId/read': members, // a participant reports their own words read
+  'GET /api/studies/:studyId/events': members, // live study changes (texts added, an import)
 };
