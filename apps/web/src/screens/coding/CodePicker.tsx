@@ -1,7 +1,7 @@
 /** Type-ahead over the codebook: arrows choose, Enter applies; every code is also a button. */
 import { For, Show, createMemo, createSignal } from 'solid-js';
-import type { CodeView } from '@gloss/model';
-import { codeColour } from '../../doc/palette.js';
+import type { CodeMark, CodeView } from '@gloss/model';
+import { CodeSwatch } from '../../ui/CodeSwatch.js';
 
 export function matchCodes(codes: readonly CodeView[], query: string): CodeView[] {
   const q = query.trim().toLowerCase();
@@ -14,6 +14,7 @@ export function matchCodes(codes: readonly CodeView[], query: string): CodeView[
 
 export function CodePicker(props: {
   codes: readonly CodeView[];
+  marks: ReadonlyMap<string, CodeMark>;
   recent: readonly string[];
   mode: 'apply' | 'recode';
   disabled: boolean;
@@ -47,7 +48,7 @@ export function CodePicker(props: {
           <For each={props.recent.filter((id) => byId().has(id)).slice(0, 9)}>
             {(id, i) => (
               <button type="button" class="chip" disabled={props.disabled} onClick={() => pick(id)} aria-keyshortcuts={String(i() + 1)}>
-                <kbd>{i() + 1}</kbd> <span class="swatch" style={{ background: codeColour(id, byId().get(id)?.colour) }} /> {byId().get(id)?.label}
+                <kbd>{i() + 1}</kbd> <CodeSwatch mark={props.marks.get(id)} /> {byId().get(id)?.label}
               </button>
             )}
           </For>
@@ -74,7 +75,7 @@ export function CodePicker(props: {
           {(c, i) => (
             <li id={`opt-${c.id}`} role="option" aria-selected={i() === active()} classList={{ active: i() === active() }}>
               <button type="button" disabled={props.disabled} onClick={() => pick(c.id)} tabindex="-1" title={c.briefDefinition}>
-                <span class="swatch" style={{ background: codeColour(c.id, c.colour) }} /> {c.label}
+                <CodeSwatch mark={props.marks.get(c.id)} /> {c.label}
                 <Show when={c.status === 'draft'}> <span class="tag">draft</span></Show>
               </button>
             </li>

@@ -28,7 +28,7 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
       const text = openDoc(d.room, { label: `“${d.title || 'this text'}”`, gc: false });
       const layers = d.layers.filter(props.layers ?? ((l) => !l.round)).map((l) => {
         const mine = l.mine ?? l.coderId === props.me.id;
-        return { coderId: l.coderId, name: mine ? `${l.name ?? props.me.name} (you)` : l.name ?? l.coderId, mine, doc: openDoc(l.room, { label: mine ? 'your coding' : `${l.name ?? 'a'} layer`, gc: false, offline: mine || l.canWrite === true }) };
+        return { coderId: l.coderId, name: mine ? `${l.name ?? props.me.name} (you)` : l.kind === 'consensus' ? 'Consensus' : l.name ?? l.coderId, mine, kind: l.kind, canWrite: l.canWrite, doc: openDoc(l.room, { label: mine ? 'your coding' : `${l.name ?? 'a'} layer`, gc: false, offline: mine || l.canWrite === true }) };
       });
       setDocs({ text, layers });
       // draw once the text and every layer hold the server's state (or the offline copy)

@@ -15,6 +15,7 @@ export type Command =
   | { do: 'undo' }
   | { do: 'redo' }
   | { do: 'clear' }
+  | { do: 'keys' }
   | { do: 'resize'; edge: 'start' | 'end'; dir: 1 | -1 };
 
 export interface KeyLike { key: string; ctrlKey: boolean; metaKey: boolean; altKey: boolean; shiftKey: boolean }
@@ -42,6 +43,7 @@ export function commandFor(e: KeyLike): Command | null {
     case 'r': return { do: 'recode' };
     case 'n': return { do: 'note' };
     case 'Escape': return { do: 'clear' };
+    case '?': return { do: 'keys' };
   }
   return null;
 }
@@ -58,4 +60,5 @@ export const KEY_HELP: Array<[string, string]> = [
   ['r, n, Delete', 'recode, note, remove the chosen segment'],
   ['Alt+→ / Alt+←', 'move the chosen segment’s end (Shift: its start)'],
   ['Ctrl+Z / Ctrl+Shift+Z', 'undo / redo your own coding'],
+  ['?', 'show or hide this list (the Keys button)'],
 ];
