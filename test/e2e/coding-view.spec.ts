@@ -30,9 +30,9 @@ test('a coder reads the codes of two passages from the page, no hovering', async
 
   // the names are on the page as text, under each turn (read without any pointer event)
   await turnWith('Nobody compliments the wiring').scrollIntoViewIfNeeded();
-  expect(await chipsIn('Nobody compliments the wiring').allTextContents()).toEqual(expect.arrayContaining([expect.stringContaining('Invisible work')]));
+  await expect(chipsIn('Nobody compliments the wiring').filter({ hasText: 'Invisible work' })).not.toHaveCount(0);
   await turnWith('So I\'m, um').scrollIntoViewIfNeeded();
-  expect(await chipsIn('So I\'m, um').allTextContents()).toEqual(expect.arrayContaining([expect.stringContaining('Pride in craft')]));
+  await expect(chipsIn('So I\'m, um').filter({ hasText: 'Pride in craft' })).not.toHaveCount(0);
 
   // the words themselves are underlined, in the colour and line of the code's swatch
   const chip = chipsIn('So I\'m, um').filter({ hasText: 'Pride in craft' }).first();
@@ -54,6 +54,19 @@ test('a coder reads the codes of two passages from the page, no hovering', async
   await page.getByRole('toolbar', { name: 'Coding tools' }).getByRole('button', { name: 'Redo' }).click();
   await expect(page.getByTestId('coding-message')).toHaveText('Redone: coded “Pride in craft”. Saved.');
   await expect(chipsIn('So I\'m, um').filter({ hasText: 'Pride in craft' })).toHaveCount(1);
+
+  // the keyboard cursor is visible and named; keys select the sentence and the whole turn; Keys lists them
+  await page.getByTestId('transcript').focus();
+  await page.keyboard.press('Escape');
+  for (let i = 0; i < 3; i++) await page.keyboard.press('ArrowDown');
+  await expect(page.getByTestId('own-caret')).toBeVisible();
+  await expect(page.getByTestId('selection-info')).toHaveText(/^Cursor in turn 4 of \d+ \(P03\); no words selected$/);
+  await page.keyboard.press('s');
+  await expect(page.getByTestId('selection-info')).toHaveText('Selected: “So I\'m, um, I suppose you\'d call me the technical side.”');
+  await page.keyboard.press('t');
+  await expect(page.getByTestId('selection-info')).toHaveText(/^Selected: “So I'm, um, I suppose you'd call me the technical side\. I'm an electrician/);
+  await page.getByRole('toolbar', { name: 'Coding tools' }).getByRole('button', { name: 'Keys' }).click();
+  await expect(page.getByRole('region', { name: 'Keys of the coding view' })).toContainText('select the sentence at the cursor');
 
   // and it is all still there after a reload (the server kept it)
   await page.reload();

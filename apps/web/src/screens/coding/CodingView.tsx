@@ -4,7 +4,7 @@ import * as Y from 'yjs';
 import {
   addCode, addExample, addInVivoCode, addMemo, addSegment, correctText, createUndoManager, getSegmentsMap,
   recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments, reconcileLayer, withOrigin, proposeCode,
-  getText, MEMOS_ROOT, PROPOSALS_ROOT, DISTINCT_MARKS,
+  getText, MEMOS_ROOT, PROPOSALS_ROOT, DISTINCT_MARKS, turnIndexAt,
 } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -17,7 +17,7 @@ import { CodePicker } from './CodePicker.js';
 import { SegmentPanel } from './SegmentPanel.js';
 import { FlagList } from './FlagList.js';
 import { commandFor, KEY_HELP, type Command } from './coding-keys.js';
-import { nextWordEnd, ordered, prevWordStart, type Sel } from './keyboard-selection.js';
+import { nextWordEnd, ordered, prevWordStart, sentenceSelection, turnSelection, type Sel } from './keyboard-selection.js';
 import { rangeFor } from './dom-selection.js';
 import { errorMessage } from '../../api/errors.js';
 import { decide, refusedMessage, savedMessage, undoMessage, type CodingAction } from './coding-actions.js';
@@ -105,6 +105,15 @@ export function CodingView(props: CodingViewProps) {
     if (!s) return null;
     const o = ordered(s);
     return o.end > o.start ? o : null;
+  };
+  // where the keyboard cursor is, in words, while no words are selected (the person is never lost)
+  const cursorWords = () => {
+    const s = selection();
+    if (!s) return 'Nothing selected: press ↓ or click the text to start';
+    const turns = state.turns();
+    const i = Math.max(0, turnIndexAt(turns, s.head));
+    const t = turns[i];
+    return `Cursor in turn ${i + 1} of ${turns.length}${t?.speaker ? ` (${t.speaker})` : ''}; no words selected`;
   };
   const laneName = (coderId: string) => props.layers.find((l) => l.coderId === coderId)?.name ?? coderId;
 
@@ -264,6 +273,13 @@ export function CodingView(props: CodingViewProps) {
       case 'clear': setSelection(null); setChosen(null); setPickerMode('apply'); document.getSelection()?.removeAllRanges(); break;
       case 'resize': { const d = can('resize'); if (!d.allowed) { setMessage(d.message); break; } resize(c.edge, c.dir); break; }
       case 'keys': setKeysOpen((o) => !o); break;
+      case 'select-turn': case 'select-sentence': {
+        const at = selection()?.head ?? 0;
+        const next = c.do === 'select-turn' ? turnSelection(state.turns(), at) : sentenceSelection(state.words(), state.turns(), at);
+        if (next) setSelection(next);
+        backToText();
+        break;
+      }
     }
   };
 
@@ -303,9 +319,11 @@ export function CodingView(props: CodingViewProps) {
           <Show when={allowed('correct')}>
             <button type="button" class="quiet" disabled={!sel()} onClick={() => setCorrection(state.words().slice(sel()!.start, sel()!.end))}>Correct words…</button>
           </Show>
+          <button type="button" class="quiet" onClick={() => run({ do: 'select-turn' })} aria-keyshortcuts="t">Whole turn</button>
+          <button type="button" class="quiet" onClick={() => run({ do: 'select-sentence' })} aria-keyshortcuts="s">Sentence</button>
           <button type="button" class="quiet" aria-expanded={keysOpen()} aria-controls="coding-keys" onClick={() => run({ do: 'keys' })} aria-keyshortcuts="?">Keys</button>
           <span class="muted sel-info" data-testid="selection-info">
-            {sel() ? `Selected: “${state.words().slice(sel()!.start, sel()!.end).slice(0, 80)}”` : 'Nothing selected'}
+            {sel() ? `Selected: “${state.words().slice(sel()!.start, sel()!.end).slice(0, 80)}”` : cursorWords()}
           </span>
         </div>
         <section id="coding-keys" class="keys-panel" aria-label="Keys of the coding view" hidden={!keysOpen()}>
@@ -353,6 +371,7 @@ export function CodingView(props: CodingViewProps) {
         <Show when={mine && codingAllowed()} fallback={<p class="muted" data-testid="read-only-note">{mine ? 'You may read this text and the coding shown; your role does not code.' : 'You have no layer on this text: you can read it and the coding shown.'}</p>}>
           <CodePicker
             codes={state.codes()}
+            themes={state.themes()}
             marks={state.marks().marks}
             recent={recent.recent()}
             mode={pickerMode()}

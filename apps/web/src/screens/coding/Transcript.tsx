@@ -7,13 +7,13 @@
 import { For, Index, Show, createEffect, createMemo, createSignal, onCleanup, onMount, type Accessor } from 'solid-js';
 import type { CodeView } from '@gloss/model';
 import { formatTime } from '../../doc/time.js';
-import type { CodeMark } from '@gloss/model';
+import { turnIndexAt, type CodeMark } from '@gloss/model';
 import { CodeSwatch } from '../../ui/CodeSwatch.js';
 import { layoutBars, mergeLanes, sameBars, type Bar } from './margin.js';
 import { stackDepths, stripsFor, type Strip } from './underlines.js';
 import { createMeasureQueue, type MeasureQueue } from './measure-queue.js';
 import { move, ordered, type Move, type Sel } from './keyboard-selection.js';
-import { rangeFor, readDomSelection } from './dom-selection.js';
+import { offsetOf, rangeFor, readDomSelection } from './dom-selection.js';
 import type { CodingState, ViewTurn } from './coding-state.js';
 import type { RemoteCaret } from './text-presence.js';
 import { describeFlag, type Flag } from '../../doc/flag-view.js';
@@ -192,6 +192,35 @@ export function Transcript(props: TranscriptProps) {
     }
   };
 
+  // selections set elsewhere (the whole-turn and sentence keys) show as the page selection too
+  createEffect(() => {
+    const s = props.selection();
+    if (!s || s.anchor === s.head) return;
+    const o = ordered(s);
+    const cur = readDomSelection(root);
+    if (!cur || cur.start !== o.start || cur.end !== o.end) showSelection(s);
+  });
+  // the keyboard cursor: its turn is marked, and a caret shows where it is while nothing is selected
+  const cursorTurn = createMemo(() => {
+    const s = props.selection();
+    return s ? Math.max(0, turnIndexAt(props.state.turns(), s.head)) : -1;
+  });
+  const [ownCaret, setOwnCaret] = createSignal<{ x: number; y: number; h: number } | null>(null);
+  createEffect(() => {
+    const s = props.selection();
+    shown();
+    props.state.words();
+    queueMicrotask(() => {
+      if (!s || s.anchor !== s.head) return setOwnCaret(null);
+      const r = rangeFor(root, s.head, s.head);
+      const rect = r?.getClientRects()[0] ?? r?.getBoundingClientRect();
+      if (!rect || (rect.width === 0 && rect.height === 0)) return setOwnCaret(null);
+      const base = root.getBoundingClientRect();
+      setOwnCaret({ x: rect.left - base.left + root.scrollLeft, y: rect.top - base.top + root.scrollTop, h: rect.height });
+      (r?.startContainer.parentElement as HTMLElement | null)?.scrollIntoView({ block: 'nearest' });
+    });
+  });
+
   const onKeyDown = (e: KeyboardEvent) => {
     const how = KEYS[e.key];
     if (!how || e.altKey || e.ctrlKey || e.metaKey) return;
@@ -203,7 +232,15 @@ export function Transcript(props: TranscriptProps) {
   };
   const onMouseUp = () => {
     const s = readDomSelection(root);
-    if (s) props.setSelection({ anchor: s.start, head: s.end });
+    if (s) return props.setSelection({ anchor: s.start, head: s.end });
+    // a click without a drag puts the keyboard cursor there
+    const ds = document.getSelection();
+    const node = ds?.anchorNode ?? null;
+    const inWords = (node?.nodeType === Node.TEXT_NODE ? node.parentElement : (node as Element | null))?.closest('.words');
+    if (ds && ds.rangeCount > 0 && ds.isCollapsed && inWords && root.contains(inWords)) {
+      const at = offsetOf(ds.anchorNode, ds.anchorOffset);
+      if (at !== null) props.setSelection({ anchor: at, head: at });
+    }
   };
 
   const tipSegment = () => (tip() ? segById().get(tip()!.id) : undefined);
@@ -239,6 +276,7 @@ export function Transcript(props: TranscriptProps) {
             labelOf={(codeId) => props.state.codeById().get(codeId)?.label ?? 'Unknown code'}
             coderTag={(layer) => (props.lanes().length > 1 ? initials(props.laneName(layer)) : '')}
             selected={props.selectedSegment}
+            cursor={() => cursorTurn() === i}
             watch={watch}
             measure={measure}
             codes={props.state.codeById}
@@ -249,6 +287,9 @@ export function Transcript(props: TranscriptProps) {
         <p class="progress" role="progressbar" aria-valuemin={0} aria-valuemax={total()} aria-valuenow={shown()}>
           Showing {shown()} of {total()} turns…
         </p>
+      </Show>
+      <Show when={ownCaret()}>
+        {(c) => <span class="own-caret" style={{ left: `${c().x}px`, top: `${c().y}px`, height: `${c().h}px` }} aria-hidden="true" data-testid="own-caret" />}
       </Show>
       <For each={carets()}>
         {(c) => (
@@ -283,6 +324,8 @@ function TurnRow(props: {
   /** Who coded it, shown beside the code when more than one layer is drawn ('' when only one). */
   coderTag: (layer: string) => string;
   selected: Accessor<string | null>;
+  /** The keyboard cursor is in this turn. */
+  cursor: Accessor<boolean>;
   watch: (el: Element, set: (v: boolean) => void) => void;
   measure: MeasureQueue;
   codes: Accessor<Map<string, CodeView>>;
@@ -327,7 +370,7 @@ function TurnRow(props: {
   });
   const words = () => props.turn().words;
   return (
-    <div class="turn" ref={(el) => { rowEl = el; props.watch(el, setNear); }}>
+    <div class="turn" classList={{ 'cursor-turn': props.cursor() }} ref={(el) => { rowEl = el; props.watch(el, setNear); }}>
       <div class="margin" aria-hidden="true">
         <Show when={props.flags().count > 0}>
           <span class="flag-mark" data-id={props.flags().first[0]!.segmentIds[0]} title={props.flags().first.map((f) => describeFlag(f, props.codes())).join('\n')}>

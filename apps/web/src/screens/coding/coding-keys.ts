@@ -16,6 +16,8 @@ export type Command =
   | { do: 'redo' }
   | { do: 'clear' }
   | { do: 'keys' }
+  | { do: 'select-turn' }
+  | { do: 'select-sentence' }
   | { do: 'resize'; edge: 'start' | 'end'; dir: 1 | -1 };
 
 export interface KeyLike { key: string; ctrlKey: boolean; metaKey: boolean; altKey: boolean; shiftKey: boolean }
@@ -44,6 +46,8 @@ export function commandFor(e: KeyLike): Command | null {
     case 'n': return { do: 'note' };
     case 'Escape': return { do: 'clear' };
     case '?': return { do: 'keys' };
+    case 't': return { do: 'select-turn' };
+    case 's': return { do: 'select-sentence' };
   }
   return null;
 }
@@ -51,7 +55,9 @@ export function commandFor(e: KeyLike): Command | null {
 /** The key list shown on screen (and read by screen readers via aria-describedby). */
 export const KEY_HELP: Array<[string, string]> = [
   ['→ / ←', 'select the next / previous word (Shift extends)'],
-  ['↓ / ↑', 'next / previous turn (Shift extends)'],
+  ['↓ / ↑', 'cursor to the next / previous turn (Shift extends by whole turns)'],
+  ['t', 'select the whole turn at the cursor'],
+  ['s', 'select the sentence at the cursor'],
   ['c or /', 'find a code, Enter applies it'],
   ['1–9', 'apply a recently used code'],
   ['i', 'in vivo code from the selected words'],

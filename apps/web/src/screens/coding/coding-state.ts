@@ -6,7 +6,7 @@
 import { createMemo, createSignal, onCleanup, type Accessor } from 'solid-js';
 import * as Y from 'yjs';
 import {
-  assignMarks, getCodes, getText, pendingProposalCodes, listExclusiveSets, listSegments, readTurns, resolveSegments,
+  assignMarks, getCodes, getText, pendingProposalCodes, listExclusiveSets, listThemes, listSegments, readTurns, resolveSegments,
   type CodeGroup, type CodeView, type MarkAssignment, type ResolvedTurn,
 } from '@gloss/model';
 import type { OpenDoc } from '../../sync/open-doc.js';
@@ -30,6 +30,7 @@ export interface CodingState {
   /** Each code's colour and mark (codebook order, so the same for everyone): see model `assignMarks`. */
   marks: Accessor<MarkAssignment>;
   exclusiveSets: Accessor<CodeGroup[]>;
+  themes: Accessor<CodeGroup[]>;
   flags: Accessor<FlagSet>;
 }
 
@@ -56,7 +57,7 @@ function version(types: Array<Y.AbstractType<any>>): Accessor<number> {
  */
 export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, codebook: OpenDoc, opts: { showDisagreement: Accessor<boolean> }): CodingState {
   const textV = version([getText(text.doc), text.doc.getArray('turns')]);
-  const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets'), codebook.doc.getMap('proposals')]);
+  const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets'), codebook.doc.getMap('proposals'), codebook.doc.getMap('themes')]);
   const layerVersions = new Map<string, Accessor<number>>(allLayers.map((l) => [l.doc.room, version([l.doc.doc.getMap('segments')])]));
   const layerV = (l: LayerHandle) => layerVersions.get(l.doc.room)?.();
 
@@ -83,10 +84,11 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
   const codeById = createMemo(() => new Map(codes().map((c) => [c.id, c])));
   const marks = createMemo(() => assignMarks(codes()));
   const exclusiveSets = createMemo(() => (cbV(), listExclusiveSets(codebook.doc)));
+  const themes = createMemo(() => (cbV(), listThemes(codebook.doc)));
   const source = useFlags(text, codebook, allLayers, visible, () => !opts.showDisagreement());
   const flags = source.flags;
   const layerSegments = new Map(allLayers.map((l) => [l.coderId, perLayer.get(l.doc.room)!]));
-  return { turns, words, segments, layerSegments, codes, codeById, marks, exclusiveSets, flags };
+  return { turns, words, segments, layerSegments, codes, codeById, marks, exclusiveSets, themes, flags };
 }
 
 /** Turns with their words; a text without a turns array is read one turn per line. */
