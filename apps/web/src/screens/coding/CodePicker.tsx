@@ -4,7 +4,7 @@
  * code's brief definition and when (not) to use it are shown in a card of our own, not a tooltip.
  */
 import { For, Show, createMemo, createSignal } from 'solid-js';
-import type { CodeGroup, CodeMark, CodeView } from '@gloss/model';
+import type { ChangeEntry, CodeGroup, CodeMark, CodeView } from '@gloss/model';
 import { CodeSwatch } from '../../ui/CodeSwatch.js';
 import { codeList } from './code-list.js';
 
@@ -18,6 +18,9 @@ export function CodePicker(props: {
   onPick: (codeId: string) => void;
   onDone: () => void;
   inputRef: (el: HTMLInputElement) => void;
+  /** The definition edit this person has not seen yet, if any (an "updated" mark until they open it). */
+  unseenEdit: (codeId: string) => ChangeEntry | undefined;
+  onSeen: (codeId: string) => void;
 }) {
   const [query, setQuery] = createSignal('');
   const [active, setActive] = createSignal(0);
@@ -82,6 +85,7 @@ export function CodePicker(props: {
                 style={{ 'padding-left': `${8 + (query() || e.recent ? 0 : e.depth) * 16}px` }}>
                 <CodeSwatch mark={props.marks.get(e.code.id)} /> {e.code.label}
                 <Show when={e.code.status === 'draft'}> <span class="tag">draft</span></Show>
+                <Show when={props.unseenEdit(e.code.id)}> <span class="tag updated" data-testid="updated-mark" aria-hidden="true">updated</span></Show>
                 <Show when={(query() || e.recent) && e.path.length > 0}> <span class="muted code-where" aria-hidden="true">in {e.path.join(' › ')}</span></Show>
                 <Show when={e.themes.length > 0}> <span class="muted code-where" aria-hidden="true">· {e.themes.join(', ')}</span></Show>
               </button>
@@ -96,6 +100,15 @@ export function CodePicker(props: {
             <Show when={e.code.briefDefinition} fallback={<p class="muted">No definition yet.</p>}><p>{e.code.briefDefinition}</p></Show>
             <Show when={e.code.inclusion}><p><span class="muted">Use when:</span> {e.code.inclusion}</p></Show>
             <Show when={e.code.exclusion}><p><span class="muted">Not when:</span> {e.code.exclusion}</p></Show>
+            <Show when={props.unseenEdit(e.code.id)}>
+              {(edit) => (
+                <div class="card-updated" data-testid="card-updated">
+                  <p><span class="tag updated">updated</span> {new Date(edit().at).toLocaleString()}{edit().reason ? ` — why: ${edit().reason}` : ''}</p>
+                  <p class="edit-diff"><del>{edit().before || '(empty)'}</del> → <ins>{edit().after || '(empty)'}</ins></p>
+                  <button type="button" class="quiet" onClick={() => props.onSeen(e.code.id)}>Seen</button>
+                </div>
+              )}
+            </Show>
           </div>
         )}
       </Show>

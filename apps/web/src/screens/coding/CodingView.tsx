@@ -22,6 +22,7 @@ import { rangeFor } from './dom-selection.js';
 import { errorMessage } from '../../api/errors.js';
 import { decide, refusedMessage, savedMessage, undoMessage, type CodingAction } from './coding-actions.js';
 import { WhoseCoding } from './WhoseCoding.js';
+import { useSeenCodes } from '../../ui/seen-codes.js';
 import { diff } from '../../ui/ytext-binding.js';
 
 export interface CodingViewProps {
@@ -74,6 +75,7 @@ export function CodingView(props: CodingViewProps) {
   }
 
   const recent = useRecentCodes(props.studyId);
+  const seen = useSeenCodes(props.studyId, props.me.id);
   const presence = useTextPresence(props.text, props.me);
   const [selection, setSelectionSig] = createSignal<Sel | null>(null);
   const setSelection = (s: Sel | null) => {
@@ -372,6 +374,8 @@ export function CodingView(props: CodingViewProps) {
           <CodePicker
             codes={state.codes()}
             themes={state.themes()}
+            unseenEdit={(id) => { const e = state.lastEdits().get(id); return e && e.by !== props.me.id && e.at > seen.seenAt(id) ? e : undefined; }}
+            onSeen={(id) => seen.markSeen(id)}
             marks={state.marks().marks}
             recent={recent.recent()}
             mode={pickerMode()}

@@ -6,8 +6,8 @@
 import { createMemo, createSignal, onCleanup, type Accessor } from 'solid-js';
 import * as Y from 'yjs';
 import {
-  assignMarks, getCodes, getText, pendingProposalCodes, listExclusiveSets, listThemes, listSegments, readTurns, resolveSegments,
-  type CodeGroup, type CodeView, type MarkAssignment, type ResolvedTurn,
+  assignMarks, getCodes, getText, pendingProposalCodes, listExclusiveSets, listThemes, lastDefinitionEdits, listSegments, readTurns, resolveSegments,
+  type ChangeEntry, type CodeGroup, type CodeView, type MarkAssignment, type ResolvedTurn,
 } from '@gloss/model';
 import type { OpenDoc } from '../../sync/open-doc.js';
 import { useFlags } from './flags-source.js';
@@ -31,6 +31,8 @@ export interface CodingState {
   marks: Accessor<MarkAssignment>;
   exclusiveSets: Accessor<CodeGroup[]>;
   themes: Accessor<CodeGroup[]>;
+  /** Each code's newest recorded definition edit. */
+  lastEdits: Accessor<Map<string, ChangeEntry>>;
   flags: Accessor<FlagSet>;
 }
 
@@ -57,7 +59,7 @@ function version(types: Array<Y.AbstractType<any>>): Accessor<number> {
  */
 export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, codebook: OpenDoc, opts: { showDisagreement: Accessor<boolean> }): CodingState {
   const textV = version([getText(text.doc), text.doc.getArray('turns')]);
-  const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets'), codebook.doc.getMap('proposals'), codebook.doc.getMap('themes')]);
+  const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets'), codebook.doc.getMap('proposals'), codebook.doc.getMap('themes'), codebook.doc.getArray('changes')]);
   const layerVersions = new Map<string, Accessor<number>>(allLayers.map((l) => [l.doc.room, version([l.doc.doc.getMap('segments')])]));
   const layerV = (l: LayerHandle) => layerVersions.get(l.doc.room)?.();
 
@@ -85,10 +87,11 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
   const marks = createMemo(() => assignMarks(codes()));
   const exclusiveSets = createMemo(() => (cbV(), listExclusiveSets(codebook.doc)));
   const themes = createMemo(() => (cbV(), listThemes(codebook.doc)));
+  const lastEdits = createMemo(() => (cbV(), lastDefinitionEdits(codebook.doc)));
   const source = useFlags(text, codebook, allLayers, visible, () => !opts.showDisagreement());
   const flags = source.flags;
   const layerSegments = new Map(allLayers.map((l) => [l.coderId, perLayer.get(l.doc.room)!]));
-  return { turns, words, segments, layerSegments, codes, codeById, marks, exclusiveSets, themes, flags };
+  return { turns, words, segments, layerSegments, codes, codeById, marks, exclusiveSets, themes, lastEdits, flags };
 }
 
 /** Turns with their words; a text without a turns array is read one turn per line. */
