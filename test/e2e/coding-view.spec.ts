@@ -45,6 +45,12 @@ test('a coder reads the codes of two passages from the page, no hovering', async
   await chip.click();
   await expect(chip).toHaveAttribute('aria-pressed', 'true');
   await expect(page.getByTestId('segment-panel')).toContainText('Pride in craft');
+  // a jotting on the chosen segment leaves a mark on its name in the text
+  await page.getByRole('toolbar', { name: 'Coding tools' }).getByRole('button', { name: 'Jotting', exact: true }).click();
+  await page.getByLabel('Jotting', { exact: true }).fill('He starts from what he can fix.');
+  await page.getByRole('button', { name: 'Keep jotting' }).click();
+  await expect(page.getByTestId('coding-message')).toHaveText('Jotting added to the memos. Saved.');
+  await expect(chip.getByTestId('jotting-mark')).toHaveText(/1/);
   await shot(page, 'coding-view-two-passages');
 
   // undo and redo say what they undid, and that the server has it

@@ -16,7 +16,7 @@ test('in vivo code, jotting, and promoting the jotting to a memo', async ({ brow
   await expect(page.getByTestId('segment-panel')).toContainText('“the whole story of the film club” (proposed)');
 
   await selectWords(page, "the sound was so bad I couldn't follow the plot");
-  await page.getByRole('button', { name: 'Jotting' }).click();
+  await page.getByRole('button', { name: 'Jotting', exact: true }).click();
   await page.getByLabel('Jotting', { exact: true }).fill('Makeshift start: compare with the borrowed projector in P04.');
   await page.getByRole('button', { name: 'Keep jotting' }).click();
   await expect(page.getByTestId('coding-message')).toHaveText('Jotting added to the memos. Saved.');
@@ -30,5 +30,9 @@ test('in vivo code, jotting, and promoting the jotting to a memo', async ({ brow
   await item.getByRole('button', { name: 'Promote to memo' }).click();
   await expect(item).toHaveAttribute('data-kind', 'memo');
   await shot(page, 'memos-promoted');
+  // every memo on a text leads back to its passage
+  await item.getByRole('link', { name: 'Go to the passage' }).click();
+  await expect(page.getByTestId('coding-view')).toHaveAttribute('data-ready', 'yes', { timeout: 20_000 });
+  await expect(page.getByRole('heading', { name: TEXT })).toBeVisible();
   await coder.context.close();
 });

@@ -4,7 +4,7 @@ import * as Y from 'yjs';
 import {
   addCode, addExample, addInVivoCode, addMemo, addSegment, correctText, createUndoManager, getSegmentsMap,
   recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments, reconcileLayer, withOrigin, proposeCode,
-  getText, MEMOS_ROOT, PROPOSALS_ROOT, DISTINCT_MARKS, turnIndexAt,
+  getText, listMemos, MEMOS_ROOT, PROPOSALS_ROOT, DISTINCT_MARKS, turnIndexAt,
 } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -34,6 +34,8 @@ export interface CodingViewProps {
   memos: OpenDoc;
   scope: StudyScope;
   me: Me;
+  /** Open with this segment chosen and in view ("go to the passage" from a memo or jotting). */
+  goToSegment?: string | undefined;
 }
 
 export function CodingView(props: CodingViewProps) {
@@ -74,6 +76,21 @@ export function CodingView(props: CodingViewProps) {
     reconcile();
   }
 
+  // jottings attached to segments of this text, counted per segment (a mark on the segment's name)
+  const [memosV, setMemosV] = createSignal(0);
+  const memosRoot = props.memos.doc.getMap(MEMOS_ROOT);
+  const onMemos = () => setMemosV((n) => n + 1);
+  memosRoot.observeDeep(onMemos);
+  onCleanup(() => memosRoot.unobserveDeep(onMemos));
+  const jottingsBySegment = createMemo(() => {
+    memosV();
+    const m = new Map<string, number>();
+    for (const memo of listMemos(props.memos.doc, { textId: props.textId, attachedKind: 'segment' })) {
+      const id = (memo.attachedTo as { segmentId?: string }).segmentId;
+      if (id) m.set(id, (m.get(id) ?? 0) + 1);
+    }
+    return m;
+  });
   const recent = useRecentCodes(props.studyId);
   const seen = useSeenCodes(props.studyId, props.me.id);
   const presence = useTextPresence(props.text, props.me);
@@ -93,6 +110,7 @@ export function CodingView(props: CodingViewProps) {
   // every layer and the codebook have arrived: mark the frame after they are drawn (the benchmark reads it)
   void Promise.all([props.codebook.whenReady, ...props.layers.map((l) => l.doc.whenReady)]).then(() => {
     setLayersIn(true);
+    if (props.goToSegment) requestAnimationFrame(() => goTo(props.goToSegment!));
     requestAnimationFrame(() => performance.mark('gloss:layers-drawn'));
   });
   let searchInput: HTMLInputElement | undefined;
@@ -219,7 +237,8 @@ export function CodingView(props: CodingViewProps) {
         author: props.me.id,
         title: quote ? `On “${quote.slice(0, 60)}${quote.length > 60 ? '…' : ''}”` : 'Jotting',
         body,
-        attachedTo: seg && seg.coderId === mine?.coderId ? { kind: 'segment', textId: props.textId, segmentId: seg.id } : { kind: 'text', textId: props.textId },
+        // on the chosen segment only when no other words are selected (the selection is what the jotting is about)
+        attachedTo: seg && seg.coderId === mine?.coderId && (!s || (s.start >= seg.start && s.end <= seg.end)) ? { kind: 'segment', textId: props.textId, segmentId: seg.id } : { kind: 'text', textId: props.textId },
       }),
     );
     setJotting(null);
@@ -365,6 +384,7 @@ export function CodingView(props: CodingViewProps) {
           selectedSegment={chosen}
           selectSegment={(id) => setChosen(id)}
           remote={presence.remote}
+          jottings={jottingsBySegment}
           onReady={() => setReady(true)}
           ref={(el) => (transcriptEl = el)}
         />

@@ -34,6 +34,8 @@ export interface TranscriptProps {
   selectedSegment: Accessor<string | null>;
   selectSegment: (id: string | null) => void;
   remote: Accessor<RemoteCaret[]>;
+  /** Jottings in the memos attached to each segment, by segment id (each shows a mark on the segment's name). */
+  jottings?: Accessor<Map<string, number>>;
   onReady?: () => void;
   ref?: (el: HTMLElement) => void;
 }
@@ -277,6 +279,7 @@ export function Transcript(props: TranscriptProps) {
             coderTag={(layer) => (props.lanes().length > 1 ? initials(props.laneName(layer)) : '')}
             selected={props.selectedSegment}
             cursor={() => cursorTurn() === i}
+            notesOf={(id) => ({ note: !!segById().get(id)?.note, jottings: props.jottings?.().get(id) ?? 0 })}
             watch={watch}
             measure={measure}
             codes={props.state.codeById}
@@ -326,6 +329,7 @@ function TurnRow(props: {
   selected: Accessor<string | null>;
   /** The keyboard cursor is in this turn. */
   cursor: Accessor<boolean>;
+  notesOf: (segmentId: string) => { note: boolean; jottings: number };
   watch: (el: Element, set: (v: boolean) => void) => void;
   measure: MeasureQueue;
   codes: Accessor<Map<string, CodeView>>;
@@ -420,6 +424,8 @@ function TurnRow(props: {
                     <CodeSwatch mark={props.markOf(b.codeId)} />
                     <span class="code-chip-label">{props.labelOf(b.codeId)}</span>
                     <Show when={props.coderTag(b.layer)}><span class="code-chip-coder">{props.coderTag(b.layer)}</span></Show>
+                    <Show when={props.notesOf(b.id).note}><span class="note-mark" title="This segment has a note" data-testid="note-mark">✎<span class="sr-only"> has a note</span></span></Show>
+                    <Show when={props.notesOf(b.id).jottings > 0}><span class="note-mark" title="Jottings on this segment in the memos" data-testid="jotting-mark">✉{props.notesOf(b.id).jottings}<span class="sr-only"> jottings</span></span></Show>
                   </button>
                 </li>
               )}
