@@ -56,7 +56,7 @@ export function EntryEditor(props: {
         )}
       </For>
       <Show when={props.canEdit}>
-        <label>Why you are changing the definition <span class="muted">(optional; goes with your next recorded change)</span>
+        <label>Grounds for the next definition change <span class="muted">(optional; recorded with it)</span>
           <input value={reason()} onInput={(e) => setReason(e.currentTarget.value)} data-testid="edit-reason" />
         </label>
         <p class="muted" role="status" data-testid="edit-recorded">{recorded()}</p>
