@@ -75,7 +75,7 @@ const MEASURE = `(async function () {
     full: done,
     interactive: Math.max(done, lastEnd()),
     longest: window.__long.reduce(function (m, l) { return Math.max(m, l.end - l.start); }, 0),
-    bars: document.querySelectorAll('.transcript .bar').length,
+    bars: document.querySelectorAll('.transcript .seg-line').length,
     marks: performance.getEntriesByType('mark').filter(function (m) { return m.name.indexOf('gloss:') === 0; }).map(function (m) { return m.name + '=' + Math.round(m.startTime); }).join(' '),
     resources: performance.getEntriesByType('resource').map(function (r) { return r.name.replace(location.origin, '') + '=' + Math.round(r.startTime) + '..' + Math.round(r.responseEnd); }).join(' '),
     long: window.__long.map(function (l) { return Math.round(l.start) + '+' + Math.round(l.end - l.start); }).join(' '),

@@ -10,7 +10,7 @@ async function correct(lead: Person, words: string, replacement: string): Promis
   await lead.page.getByRole('button', { name: 'Correct words…' }).click();
   await lead.page.getByTestId('correction-input').fill(replacement);
   await lead.page.getByRole('button', { name: 'Replace', exact: true }).click();
-  await expect(lead.page.getByTestId('coding-message')).toHaveText('Words corrected.');
+  await expect(lead.page.getByTestId('coding-message')).toHaveText('Words corrected. Saved.');
 }
 
 /** The coder's quotes, read by stepping through the segments with the keyboard. */

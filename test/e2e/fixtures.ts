@@ -104,21 +104,22 @@ export async function addCodes(lead: Person, labels: string[]): Promise<void> {
 export async function applyCode(page: Page, label: string): Promise<void> {
   await page.getByTestId('code-search').fill(label);
   await page.getByRole('listbox', { name: 'Codes' }).getByRole('button', { name: label, exact: true }).click();
-  await expect(page.getByTestId('coding-message')).toHaveText(`Coded “${label}”.`);
+  // the message ends with what the server made of it: saved, or kept on this device while offline
+  await expect(page.getByTestId('coding-message')).toHaveText(new RegExp(`^Coded “${label.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}”\\. (Saved\\.|Kept on this device)`));
 }
 
-/** Number of segment bars in the margin (optionally of one coder's layer). */
-export function bars(page: Page) {
-  return page.locator('.transcript .margin .bar');
+/** The code names listed under each turn near the viewport (one per segment and turn). */
+export function codeChips(page: Page) {
+  return page.locator('.transcript .turn-codes .code-chip');
 }
 
 /** Segments per layer as the coding view's layer list states them ("Name (12 segments)"), summed. */
 export async function segmentCount(page: Page): Promise<number> {
   const rows = await page.locator('.coding-side .layers li').allTextContents();
-  return rows.reduce((n, r) => n + Number(/\((\d+) segments\)/.exec(r)?.[1] ?? 0), 0);
+  return rows.reduce((n, r) => n + Number(/\((\d+) segments?\)/.exec(r)?.[1] ?? 0), 0);
 }
 
-/** Distinct segments drawn in the margin near the viewport (bars far off-screen are not drawn). */
+/** Distinct segments listed under turns near the viewport (turns far off-screen list none). */
 export async function drawnSegmentIds(page: Page): Promise<string[]> {
-  return page.locator('.transcript .margin .bar').evaluateAll((els) => [...new Set(els.map((e) => (e as HTMLElement).dataset.id!))]);
+  return page.locator('.transcript .turn-codes .code-chip').evaluateAll((els) => [...new Set(els.map((e) => (e as HTMLElement).dataset.id!))]);
 }

@@ -12,14 +12,14 @@ test('in vivo code, jotting, and promoting the jotting to a memo', async ({ brow
   await selectWords(page, 'the whole story of the film club');
   await page.getByRole('button', { name: 'In vivo code' }).click();
   // A coder may not write codes: the in vivo code goes to the lead as a proposal (proposals.spec.ts).
-  await expect(page.getByTestId('coding-message')).toHaveText('In vivo code proposed to the lead and applied; it shows as “(proposed)” until they decide.');
+  await expect(page.getByTestId('coding-message')).toHaveText('In vivo code “the whole story of the film club” proposed to the lead and applied; it shows as “(proposed)” until they decide. Saved.');
   await expect(page.getByTestId('segment-panel')).toContainText('“the whole story of the film club” (proposed)');
 
   await selectWords(page, "the sound was so bad I couldn't follow the plot");
-  await page.getByRole('button', { name: 'Jotting' }).click();
+  await page.getByRole('button', { name: 'Jotting', exact: true }).click();
   await page.getByLabel('Jotting', { exact: true }).fill('Makeshift start: compare with the borrowed projector in P04.');
   await page.getByRole('button', { name: 'Keep jotting' }).click();
-  await expect(page.getByTestId('coding-message')).toHaveText('Jotting kept.');
+  await expect(page.getByTestId('coding-message')).toHaveText('Jotting added to the memos. Saved.');
 
   await page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Memos' }).click();
   await page.getByTestId('memo-search').fill('borrowed projector');
@@ -30,5 +30,9 @@ test('in vivo code, jotting, and promoting the jotting to a memo', async ({ brow
   await item.getByRole('button', { name: 'Promote to memo' }).click();
   await expect(item).toHaveAttribute('data-kind', 'memo');
   await shot(page, 'memos-promoted');
+  // every memo on a text leads back to its passage
+  await item.getByRole('link', { name: 'Go to the passage' }).click();
+  await expect(page.getByTestId('coding-view')).toHaveAttribute('data-ready', 'yes', { timeout: 20_000 });
+  await expect(page.getByRole('heading', { name: TEXT })).toBeVisible();
   await coder.context.close();
 });

@@ -11,7 +11,7 @@ test('a coding pass by keyboard only', async ({ browser, baseURL }) => {
 
   const coder = await signIn(browser, account('trainee'), baseURL!);
   await openText(coder, TEXT);
-  const count = async () => Number(/\((\d+) segments\)/.exec((await mine(coder).textContent()) ?? '')?.[1] ?? NaN);
+  const count = async () => Number(/\((\d+) segments?\)/.exec((await mine(coder).textContent()) ?? '')?.[1] ?? NaN);
   const n0 = await count();
   const page = coder.page;
 
@@ -31,7 +31,7 @@ test('a coding pass by keyboard only', async ({ browser, baseURL }) => {
   await expect(page.getByTestId('code-search')).toBeFocused();
   await page.keyboard.type('paperw');
   await page.keyboard.press('Enter');
-  await expect(page.getByTestId('coding-message')).toHaveText('Coded “Paperwork load”.');
+  await expect(page.getByTestId('coding-message')).toHaveText('Coded “Paperwork load”. Saved.');
   await expect(page.getByTestId('transcript')).toBeFocused();
   await expect.poll(count).toBe(n0 + 1);
 
@@ -48,8 +48,11 @@ test('a coding pass by keyboard only', async ({ browser, baseURL }) => {
   await expect(remove).toBeVisible();
   await page.keyboard.press('Delete');
   await expect.poll(count).toBe(n0 + 1);
+  await expect(page.getByTestId('coding-message')).toHaveText(/^Removed the segment coded “.+”\. Saved\.$/);
   await page.keyboard.press('Control+z');
   await expect.poll(count).toBe(n0 + 2);
+  // undo says what it undid, and what the server made of it
+  await expect(page.getByTestId('coding-message')).toHaveText(/^Undone: removed the segment coded “.+”\. Saved\.$/);
   // (the lead stays signed in until here: closing a browser right after an edit may cut it off unsent)
   await Promise.all([lead, coder].map((p) => p.context.close()));
 });

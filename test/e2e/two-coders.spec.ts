@@ -1,5 +1,5 @@
 // Two coders on one text, each in their own browser context: each codes, and the other's segment
-// appears in their margin (DESIGN §2: layers travel to others in standard, non-independent mode).
+// appears under the turn, named (DESIGN §2: layers travel to others in standard, non-independent mode).
 import { test, expect, account, signIn, openText, addCodes, selectWords, applyCode, segmentCount, shot } from './fixtures.js';
 
 test('two coders see each other’s segments appear live', async ({ browser, baseURL }) => {
@@ -25,19 +25,15 @@ test('two coders see each other’s segments appear live', async ({ browser, bas
   await applyCode(bo.page, 'Sense of duty');
   await expect.poll(async () => await segmentCount(ann.page), { timeout: 10_000 }).toBe(before + 2);
 
-  // the other coder's segment is drawn in the margin: hovering its bar names the code and the coder
-  const found = async (p: typeof bo, code: string, coder: string) => {
-    const all = p.page.locator('.transcript .margin .bar');
-    for (let i = 0; i < Math.min(80, await all.count()); i++) {
-      // (an event, not a pointer move: bars under the sticky status bar cannot be hovered by position)
-      await all.nth(i).dispatchEvent('mouseover');
-      const tip = (await p.page.getByRole('tooltip').allTextContents()).join(' ');
-      if (tip.includes(code) && tip.includes(`Coder: ${coder}`)) return true;
-    }
-    return false;
+  // the other coder's segment is named under its turn without hovering: the code and the coder's initials
+  const initials = (name: string) => name.split(/\s+/).map((w) => w[0]!.toUpperCase()).join('');
+  const found = async (p: typeof bo, phrase: string, code: string, coder: string) => {
+    const turn = p.page.locator('.transcript .turn').filter({ has: p.page.locator('.words', { hasText: phrase }) });
+    await turn.scrollIntoViewIfNeeded();
+    await expect(turn.locator('.turn-codes .code-chip').filter({ hasText: code }).filter({ hasText: initials(coder) })).not.toHaveCount(0);
   };
-  expect(await found(bo, 'Sociability', ann.name)).toBe(true);
-  expect(await found(ann, 'Sense of duty', bo.name)).toBe(true);
+  await found(bo, 'pot of tea', 'Sociability', ann.name);
+  await found(ann, 'Ray texts me if I miss a Friday', 'Sense of duty', bo.name);
   await shot(ann.page, 'coding-two-coders');
   await Promise.all([lead, ann, bo].map((p) => p.context.close()));
 });

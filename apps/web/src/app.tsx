@@ -48,7 +48,7 @@ function StudyArea(props: { studyId: string; me: Me }) {
       <Match when={route().name === 'versions'}><VersionsScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'audit'}><AuditScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={(() => { const r = route(); return r.name === 'coding' ? r.textId : undefined; })()}>
-        {(textId) => <CodingScreen studyId={props.studyId} textId={textId()} scope={scope} me={props.me} />}
+        {(textId) => <CodingScreen studyId={props.studyId} textId={textId()} scope={scope} me={props.me} segmentId={(() => { const r = route(); return r.name === 'coding' ? r.segmentId : undefined; })()} />}
       </Match>
       <Match when={route().name === 'agreement'}><StudyAgreementScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'rounds'}><RoundsScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>

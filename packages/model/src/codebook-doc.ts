@@ -90,6 +90,9 @@ export interface ChangeEntry {
   reason?: string;
   round: number;
   detail?: string;
+  /** A definition edit's text before and after the run of typing it records (kind 'edit', `field` set). */
+  before?: string;
+  after?: string;
 }
 
 /** Who acts, and optionally why and when (the clock is injectable for tests). */
@@ -143,7 +146,7 @@ export function enterRound(cb: Y.Doc, round: number, actor: Actor, detail: strin
   return true;
 }
 
-export function logChange(cb: Y.Doc, actor: Actor, kind: ChangeKind, codeIds: string[], extra: { field?: string; detail?: string } = {}): ChangeEntry {
+export function logChange(cb: Y.Doc, actor: Actor, kind: ChangeKind, codeIds: string[], extra: { field?: string; detail?: string; before?: string; after?: string } = {}): ChangeEntry {
   const entry: ChangeEntry = {
     id: newId('c'),
     at: (actor.clock ?? systemClock)(),
@@ -154,6 +157,8 @@ export function logChange(cb: Y.Doc, actor: Actor, kind: ChangeKind, codeIds: st
   };
   if (extra.field !== undefined) entry.field = extra.field;
   if (extra.detail !== undefined) entry.detail = extra.detail;
+  if (extra.before !== undefined) entry.before = extra.before;
+  if (extra.after !== undefined) entry.after = extra.after;
   if (actor.reason !== undefined) entry.reason = actor.reason;
   changesArray(cb).push([entry]);
   return entry;
@@ -438,3 +443,37 @@ export const addExclusiveSet = (cb: Y.Doc, label: string, codeIds: string[], act
 export const setExclusiveSetMember = (cb: Y.Doc, setId: string, codeId: string, member: boolean, actor: Actor) =>
   setGroupMember(cb, EXCLUSIVE_ROOT, 'exclusive-set', setId, codeId, member, actor);
 export const listExclusiveSets = (cb: Y.Doc) => listGroups(cb, EXCLUSIVE_ROOT);
+
+/** Longest before / after text kept in a definition-edit entry; longer ones keep their start and end. */
+export const EDIT_TEXT_LIMIT = 2000;
+
+function clip(s: string): string {
+  if (s.length <= EDIT_TEXT_LIMIT) return s;
+  const half = Math.floor((EDIT_TEXT_LIMIT - 1) / 2);
+  return `${s.slice(0, half)}…${s.slice(s.length - half)}`;
+}
+
+/**
+ * Records a finished run of live typing in one definition field (the editor left the field or paused)
+ * in the change log: who, when, before → after, an optional reason. Nothing is logged when the text
+ * ended where it started. The field's Y.Text itself is edited live elsewhere; this is its history.
+ */
+export function recordDefinitionEdit(cb: Y.Doc, actor: Actor, codeId: string, field: DefinitionField, before: string, after: string): ChangeEntry | null {
+  requireCodeMap(cb, codeId);
+  checkEnum(field, DEFINITION_FIELDS, 'field');
+  if (before === after) return null;
+  return logChange(cb, actor, 'edit', [codeId], { field, before: clip(before), after: clip(after) });
+}
+
+/** The newest definition edit of each code (for "updated" marks), by code id. */
+export function lastDefinitionEdits(cb: Y.Doc): Map<string, ChangeEntry> {
+  const out = new Map<string, ChangeEntry>();
+  for (const c of changesArray(cb).toArray()) {
+    if (c.kind !== 'edit' || c.before === undefined) continue;
+    for (const id of c.codeIds) {
+      const prev = out.get(id);
+      if (!prev || prev.at <= c.at) out.set(id, c);
+    }
+  }
+  return out;
+}

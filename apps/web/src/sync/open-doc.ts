@@ -6,11 +6,15 @@
 import * as Y from 'yjs';
 import { WebsocketProvider } from 'y-websocket';
 import * as decoding from 'lib0/decoding';
+import * as encoding from 'lib0/encoding';
+import * as syncProtocol from 'y-protocols/sync';
 import { IndexeddbPersistence } from 'y-indexeddb';
 import { createSignal, type Accessor } from 'solid-js';
 import { syncBaseUrl } from './room-url.js';
 import { readPending, writePending } from './pending.js';
 import { registerDoc, unregisterDoc } from './status.js';
+
+export type Confirmation = { outcome: 'saved' } | { outcome: 'refused'; reason: string } | { outcome: 'offline' };
 
 export type DocState = 'loading' | 'ready' | 'unloading' | 'closed';
 /** The server closes a connection that lost the right to read its room with 1008 (RFC 6455 "policy violation"). */
@@ -30,6 +34,16 @@ export interface OpenDoc {
   lost: Accessor<string | null>;
   /** The server's words when it last refused a change to this document (not stored, not shared), else null. */
   refused: Accessor<string | null>;
+  /** How many refusals this document has had since it opened (a repeated refusal with the same words still counts). */
+  refusals: Accessor<number>;
+  /**
+   * Asks the server whether everything changed here so far was taken: resolves `saved` once the server
+   * answered a sync request sent after those changes without refusing any of them (it handles one
+   * connection's messages in order, and a change it takes is stored before anyone else sees it),
+   * `refused` with its words when it refused, `offline` when there is no connection (the change waits
+   * on this device and is sent on reconnecting).
+   */
+  confirm(): Promise<Confirmation>;
   /** Forgets the refusal message. */
   dismissRefusal(): void;
   /** Drops this device's copy of the document (with the refused change in it) and reloads the page. */
@@ -119,7 +133,26 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   provider.on('connection-close', (event: CloseEvent | null) => {
     if (event?.code === LOST_ACCESS_CLOSE) setLost(event.reason || 'You may no longer open this document.');
   });
-  const [refused, setRefused] = createSignal<string | null>(null);
+  const [refused, setRefusedSig] = createSignal<string | null>(null);
+  const [refusals, setRefusals] = createSignal(0);
+  // confirm() callers waiting for the answer to their sync request, oldest first
+  const waiting: Array<(c: Confirmation) => void> = [];
+  const setRefused = (reason: string) => {
+    setRefusedSig(reason);
+    setRefusals((n) => n + 1);
+    for (const w of waiting.splice(0)) w({ outcome: 'refused', reason });
+  };
+  provider.on('connection-close', () => {
+    for (const w of waiting.splice(0)) w({ outcome: 'offline' });
+  });
+  const handlers = (provider as unknown as { messageHandlers: Array<(e: unknown, d: decoding.Decoder, ...rest: unknown[]) => void> }).messageHandlers;
+  const syncHandler = handlers[0]!;
+  handlers[0] = (encoder, decoder, ...rest) => {
+    // a sync step 2 from the server only ever answers a sync step 1 of ours (its own greeting is a step 1)
+    const kind = decoding.peekVarUint(decoder);
+    syncHandler(encoder, decoder, ...rest);
+    if (kind === syncProtocol.messageYjsSyncStep2) waiting.shift()?.({ outcome: 'saved' });
+  };
   // y-websocket only logs a permission-denied message (type 2); keep its words so the status bar can
   // tell the person that their change was not saved (nothing is dropped without a word).
   // The server answers every read-only connection's sync step 2 with "read-only", written or not: that
@@ -191,7 +224,18 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     pending,
     lost,
     refused,
-    dismissRefusal: () => setRefused(null),
+    refusals,
+    confirm() {
+      if (!provider.wsconnected || !provider.synced || !provider.ws) return Promise.resolve({ outcome: 'offline' });
+      return new Promise<Confirmation>((resolve) => {
+        waiting.push(resolve);
+        const encoder = encoding.createEncoder();
+        encoding.writeVarUint(encoder, 0); // y-websocket's messageSync
+        syncProtocol.writeSyncStep1(encoder, doc);
+        provider.ws!.send(encoding.toUint8Array(encoder));
+      });
+    },
+    dismissRefusal: () => setRefusedSig(null),
     async discardLocalCopy() {
       provider.disconnect();
       await local?.clearData();

@@ -1,5 +1,5 @@
 /** The codebook: tree, themes and exclusive sets on the left; the chosen entry and second-cycle actions on the right. */
-import { For, Show, createMemo, createResource, createSignal } from 'solid-js';
+import { For, Show, createEffect, createMemo, createResource, createSignal, onCleanup } from 'solid-js';
 import { addCode, addExclusiveSet, addTheme, codeTree, getCodes, listChanges, listExclusiveSets, listThemes } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -12,6 +12,7 @@ import { CodeTree, GroupList } from './CodeTree.js';
 import { EntryEditor } from './EntryEditor.js';
 import { SecondCycle } from './SecondCycle.js';
 import { Proposals } from './Proposals.js';
+import { codebookLooked, useSeenCodes } from '../../ui/seen-codes.js';
 import type { OpenDoc } from '../../sync/open-doc.js';
 
 export function CodebookScreen(props: { studyId: string; scope: StudyScope; me: Me }) {
@@ -45,6 +46,15 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
   const canEdit = () => role() === 'owner' || role() === 'lead';
   const [label, setLabel] = createSignal('');
   const [message, setMessage] = createSignal('');
+  // opening a code's entry clears its "updated" mark; the list below shows what changed since the last visit
+  const seen = useSeenCodes(props.studyId, props.me.id);
+  createEffect(() => {
+    const id = chosenId();
+    if (id) seen.markSeen(id);
+  });
+  const looked = codebookLooked(props.studyId, props.me.id);
+  onCleanup(() => looked.now());
+  const sinceLast = createMemo(() => history().filter((h) => h.at > looked.at && h.by !== props.me.id && h.codeIds.length > 0));
 
   return (
     <div class="codebook">
@@ -65,6 +75,21 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
           </form>
           <Show when={message()}><p class="error" role="alert">{message()}</p></Show>
         </Show>
+        <section aria-labelledby="since-h" data-testid="changed-since">
+          <h3 id="since-h">{looked.at ? 'Changed since you last looked' : 'Changes by others'} ({sinceLast().length})</h3>
+          <Show when={sinceLast().length > 0} fallback={<p class="muted">Nothing new.</p>}>
+            <ul class="since">
+              <For each={[...sinceLast()].reverse().slice(0, 20)}>
+                {(h) => (
+                  <li>
+                    <button type="button" class="link" onClick={() => choose(h.codeIds[0]!)}>{byId().get(h.codeIds[0]!)?.label ?? 'a code'}</button>
+                    {' '}<span class="muted">{h.kind}{h.field ? ` (${h.field})` : ''} by {nameOf(h.by)}, {new Date(h.at).toLocaleString()}</span>
+                  </li>
+                )}
+              </For>
+            </ul>
+          </Show>
+        </section>
         <CodeTree nodes={tree()} chosen={chosenId()} onChoose={choose} />
         <Proposals codebook={doc} codes={codes()} canDecide={canEdit()} by={props.me.id} nameOf={nameOf} />
         <GroupList title="Themes" groups={themes()} codes={byId()} onChoose={choose} testid="themes" />

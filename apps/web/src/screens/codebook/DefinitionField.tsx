@@ -5,8 +5,35 @@ import type { Awareness } from 'y-protocols/awareness';
 import { bindField } from '../../ui/ytext-binding.js';
 import { caretCoordinates, readEditors, type FieldEditor } from './field-presence.js';
 
-export function DefinitionField(props: { codeId: string; field: string; label: string; ytext: Y.Text; awareness: Awareness; readOnly: boolean; rows?: number }) {
+/** After this long without typing, a run of edits counts as finished and goes into the code's history. */
+const PAUSE_MS = 3000;
+
+export function DefinitionField(props: {
+  codeId: string; field: string; label: string; ytext: Y.Text; awareness: Awareness; readOnly: boolean; rows?: number;
+  /** A run of this person's typing ended (they left the field or paused): the text before and after it. */
+  onRun?: (before: string, after: string) => void;
+}) {
   let el!: HTMLTextAreaElement;
+  // the text when this person's current run of typing began (null: not typing)
+  let before: string | null = null;
+  let pause: ReturnType<typeof setTimeout> | undefined;
+  const endRun = () => {
+    clearTimeout(pause);
+    if (before === null) return;
+    const after = props.ytext.toString();
+    const was = before;
+    before = null;
+    if (was !== after) props.onRun?.(was, after);
+  };
+  const typed = () => {
+    if (props.readOnly || !props.onRun) return;
+    before ??= lastSeen;
+    clearTimeout(pause);
+    pause = setTimeout(endRun, PAUSE_MS);
+  };
+  // the field's text as it was just before this person's latest keystroke
+  let lastSeen = props.ytext.toString();
+  onCleanup(endRun);
   const [editors, setEditors] = createSignal<FieldEditor[]>([]);
   const [marks, setMarks] = createSignal<Array<FieldEditor & { x: number; y: number; h: number }>>([]);
   const publish = () => {
@@ -40,8 +67,9 @@ export function DefinitionField(props: { codeId: string; field: string; label: s
           onFocus={publish}
           onKeyUp={publish}
           onClick={publish}
-          onInput={publish}
-          onBlur={() => props.awareness.setLocalStateField('editing', null)}
+          onBeforeInput={() => { lastSeen = props.ytext.toString(); }}
+          onInput={() => { publish(); typed(); }}
+          onBlur={() => { props.awareness.setLocalStateField('editing', null); endRun(); }}
         />
         <For each={marks()}>
           {(m) => (

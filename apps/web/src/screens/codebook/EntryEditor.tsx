@@ -1,9 +1,9 @@
 /** A codebook entry: label, definition fields (live, co-edited), type, status, colour, examples, history. */
-import { For, Show } from 'solid-js';
+import { For, Show, createSignal } from 'solid-js';
 import type * as Y from 'yjs';
 import type { Awareness } from 'y-protocols/awareness';
 import {
-  CODE_STATUSES, CODE_TYPES, getDefinitionText, removeExample, renameCode, updateCodeField,
+  CODE_STATUSES, CODE_TYPES, getDefinitionText, recordDefinitionEdit, removeExample, renameCode, updateCodeField,
   type ChangeEntry, type CodeView, type DefinitionField as Field,
 } from '@gloss/model';
 import { DefinitionField } from './DefinitionField.js';
@@ -29,6 +29,15 @@ export function EntryEditor(props: {
 }) {
   const { message, attempt } = createAttempt();
   const actor = () => ({ by: props.by });
+  const [reason, setReason] = createSignal('');
+  const [recorded, setRecorded] = createSignal('');
+  const record = (field: Field, label: string, before: string, after: string) => attempt(() => {
+    const why = reason().trim();
+    if (recordDefinitionEdit(props.codebook, why ? { by: props.by, reason: why } : { by: props.by }, props.code.id, field, before, after)) {
+      setReason('');
+      setRecorded(`${label} change recorded in the history${why ? ' with your reason' : ''}; coders see the code marked “updated”.`);
+    }
+  });
   return (
     <article class="entry" aria-labelledby="entry-h" data-testid="entry-editor">
       <h2 id="entry-h">{props.code.label}</h2>
@@ -42,9 +51,16 @@ export function EntryEditor(props: {
       </Show>
       <For each={FIELDS}>
         {([f, label, rows]) => (
-          <DefinitionField codeId={props.code.id} field={f} label={label} rows={rows} ytext={getDefinitionText(props.codebook, props.code.id, f)} awareness={props.awareness} readOnly={!props.canEdit} />
+          <DefinitionField codeId={props.code.id} field={f} label={label} rows={rows} ytext={getDefinitionText(props.codebook, props.code.id, f)} awareness={props.awareness} readOnly={!props.canEdit}
+            onRun={props.canEdit ? (b, a) => record(f, label, b, a) : undefined} />
         )}
       </For>
+      <Show when={props.canEdit}>
+        <label>Grounds for the next definition change <span class="muted">(optional; recorded with it)</span>
+          <input value={reason()} onInput={(e) => setReason(e.currentTarget.value)} data-testid="edit-reason" />
+        </label>
+        <p class="muted" role="status" data-testid="edit-recorded">{recorded()}</p>
+      </Show>
       <div class="row">
         <label>Type
           <select disabled={!props.canEdit} value={props.code.type} onChange={(e) => attempt(() => updateCodeField(props.codebook, props.code.id, 'type', e.currentTarget.value, actor()))}>
@@ -78,6 +94,9 @@ export function EntryEditor(props: {
               <li>
                 <time dateTime={new Date(h.at).toISOString()}>{new Date(h.at).toLocaleString()}</time> — {props.nameOf(h.by)}: {h.kind}
                 {h.field ? ` (${h.field})` : ''}{h.detail ? ` ${h.detail}` : ''}{h.reason ? ` — why: ${h.reason}` : ''} <span class="muted">round {h.round}</span>
+                <Show when={h.before !== undefined}>
+                  <div class="edit-diff"><del>{h.before || '(empty)'}</del> → <ins>{h.after || '(empty)'}</ins></div>
+                </Show>
               </li>
             )}
           </For>

@@ -1,42 +1,50 @@
-/** Type-ahead over the codebook: arrows choose, Enter applies; every code is also a button. */
+/**
+ * Type-ahead over the whole codebook: its hierarchy (children indented under their parent) and themes,
+ * recently used codes first; arrows choose, Enter applies; every code is also a button. The chosen
+ * code's brief definition and when (not) to use it are shown in a card of our own, not a tooltip.
+ */
 import { For, Show, createMemo, createSignal } from 'solid-js';
-import type { CodeView } from '@gloss/model';
-import { codeColour } from '../../doc/palette.js';
-
-export function matchCodes(codes: readonly CodeView[], query: string): CodeView[] {
-  const q = query.trim().toLowerCase();
-  const live = codes.filter((c) => c.status === 'active' || c.status === 'draft');
-  if (!q) return live;
-  const starts = live.filter((c) => c.label.toLowerCase().replace(/^[“"]/, '').startsWith(q));
-  const inside = live.filter((c) => !starts.includes(c) && (c.label.toLowerCase().includes(q) || c.briefDefinition.toLowerCase().includes(q)));
-  return [...starts, ...inside];
-}
+import type { ChangeEntry, CodeGroup, CodeMark, CodeView } from '@gloss/model';
+import { CodeSwatch } from '../../ui/CodeSwatch.js';
+import { codeList } from './code-list.js';
 
 export function CodePicker(props: {
   codes: readonly CodeView[];
+  themes: readonly CodeGroup[];
+  marks: ReadonlyMap<string, CodeMark>;
   recent: readonly string[];
   mode: 'apply' | 'recode';
   disabled: boolean;
   onPick: (codeId: string) => void;
   onDone: () => void;
   inputRef: (el: HTMLInputElement) => void;
+  /** The definition edit this person has not seen yet, if any (an "updated" mark until they open it). */
+  unseenEdit: (codeId: string) => ChangeEntry | undefined;
+  onSeen: (codeId: string) => void;
 }) {
   const [query, setQuery] = createSignal('');
   const [active, setActive] = createSignal(0);
-  const matches = createMemo(() => matchCodes(props.codes, query()));
+  const matches = createMemo(() => codeList(props.codes, props.themes, props.recent, query()));
   const byId = createMemo(() => new Map(props.codes.map((c) => [c.id, c])));
+  const current = () => matches()[active()];
   const pick = (id: string) => {
     props.onPick(id);
     setQuery('');
     setActive(0);
   };
+  let listEl: HTMLUListElement | undefined;
+  const moveTo = (i: number) => {
+    setActive(i);
+    const c = matches()[i];
+    if (c) listEl?.querySelector(`#opt-${CSS.escape(c.code.id)}`)?.scrollIntoView({ block: 'nearest' });
+  };
   const onKey = (e: KeyboardEvent) => {
-    if (e.key === 'ArrowDown') { e.preventDefault(); setActive((a) => Math.min(matches().length - 1, a + 1)); }
-    else if (e.key === 'ArrowUp') { e.preventDefault(); setActive((a) => Math.max(0, a - 1)); }
+    if (e.key === 'ArrowDown') { e.preventDefault(); moveTo(Math.min(matches().length - 1, active() + 1)); }
+    else if (e.key === 'ArrowUp') { e.preventDefault(); moveTo(Math.max(0, active() - 1)); }
     else if (e.key === 'Enter') {
       e.preventDefault();
-      const c = matches()[active()];
-      if (c) pick(c.id);
+      const c = current();
+      if (c) pick(c.code.id);
     } else if (e.key === 'Escape') { e.preventDefault(); setQuery(''); props.onDone(); }
   };
   return (
@@ -47,40 +55,63 @@ export function CodePicker(props: {
           <For each={props.recent.filter((id) => byId().has(id)).slice(0, 9)}>
             {(id, i) => (
               <button type="button" class="chip" disabled={props.disabled} onClick={() => pick(id)} aria-keyshortcuts={String(i() + 1)}>
-                <kbd>{i() + 1}</kbd> <span class="swatch" style={{ background: codeColour(id, byId().get(id)?.colour) }} /> {byId().get(id)?.label}
+                <kbd>{i() + 1}</kbd> <CodeSwatch mark={props.marks.get(id)} /> {byId().get(id)?.label}
               </button>
             )}
           </For>
         </div>
       </Show>
       <label>
-        Find a code
+        Find a code <span class="muted">({matches().length} of {props.codes.filter((c) => c.status === 'active' || c.status === 'draft').length})</span>
         <input
           ref={props.inputRef}
           type="search"
           role="combobox"
           aria-expanded="true"
           aria-controls="code-options"
-          aria-activedescendant={matches()[active()] ? `opt-${matches()[active()]!.id}` : undefined}
+          aria-activedescendant={current() ? `opt-${current()!.code.id}` : undefined}
           value={query()}
           onInput={(e) => { setQuery(e.currentTarget.value); setActive(0); }}
           onKeyDown={onKey}
-          placeholder="type to filter, Enter applies"
+          placeholder="name, definition or theme; Enter applies"
           data-testid="code-search"
         />
       </label>
-      <ul id="code-options" role="listbox" aria-label="Codes" class="code-options">
+      <ul id="code-options" role="listbox" aria-label="Codes" class="code-options" ref={listEl}>
         <For each={matches()} fallback={<li class="muted">No code matches.</li>}>
-          {(c, i) => (
-            <li id={`opt-${c.id}`} role="option" aria-selected={i() === active()} classList={{ active: i() === active() }}>
-              <button type="button" disabled={props.disabled} onClick={() => pick(c.id)} tabindex="-1" title={c.briefDefinition}>
-                <span class="swatch" style={{ background: codeColour(c.id, c.colour) }} /> {c.label}
-                <Show when={c.status === 'draft'}> <span class="tag">draft</span></Show>
+          {(e, i) => (
+            <li id={`opt-${e.code.id}`} role="option" aria-selected={i() === active()} classList={{ active: i() === active() }}>
+              <button type="button" disabled={props.disabled} onClick={() => pick(e.code.id)} onMouseEnter={() => setActive(i())} onFocus={() => setActive(i())} tabindex="-1"
+                style={{ 'padding-left': `${8 + (query() || e.recent ? 0 : e.depth) * 16}px` }}>
+                <CodeSwatch mark={props.marks.get(e.code.id)} /> {e.code.label}
+                <Show when={e.code.status === 'draft'}> <span class="tag">draft</span></Show>
+                <Show when={props.unseenEdit(e.code.id)}> <span class="tag updated" data-testid="updated-mark" aria-hidden="true">updated</span></Show>
+                <Show when={(query() || e.recent) && e.path.length > 0}> <span class="muted code-where" aria-hidden="true">in {e.path.join(' › ')}</span></Show>
+                <Show when={e.themes.length > 0}> <span class="muted code-where" aria-hidden="true">· {e.themes.join(', ')}</span></Show>
               </button>
             </li>
           )}
         </For>
       </ul>
+      <Show when={current()} keyed>
+        {(e) => (
+          <div class="code-card" data-testid="code-card" aria-live="polite">
+            <strong>{e.code.label}</strong>
+            <Show when={e.code.briefDefinition} fallback={<p class="muted">No definition yet.</p>}><p>{e.code.briefDefinition}</p></Show>
+            <Show when={e.code.inclusion}><p><span class="muted">Use when:</span> {e.code.inclusion}</p></Show>
+            <Show when={e.code.exclusion}><p><span class="muted">Not when:</span> {e.code.exclusion}</p></Show>
+            <Show when={props.unseenEdit(e.code.id)}>
+              {(edit) => (
+                <div class="card-updated" data-testid="card-updated">
+                  <p><span class="tag updated">updated</span> {new Date(edit().at).toLocaleString()}{edit().reason ? ` — why: ${edit().reason}` : ''}</p>
+                  <p class="edit-diff"><del>{edit().before || '(empty)'}</del> → <ins>{edit().after || '(empty)'}</ins></p>
+                  <button type="button" class="quiet" onClick={() => props.onSeen(e.code.id)}>Seen</button>
+                </div>
+              )}
+            </Show>
+          </div>
+        )}
+      </Show>
     </section>
   );
 }

@@ -16,7 +16,7 @@ import type { LayerHandle } from './coding-state.js';
  * `layers` narrows the layers opened (a round's text shows that round's layers only; elsewhere the
  * layers coded outside rounds); `banner` goes above the text (a round's "done" mark).
  */
-export function CodingScreen(props: { studyId: string; textId: string; scope: StudyScope; me: Me; layers?: (l: LayerInfo) => boolean; banner?: JSX.Element }) {
+export function CodingScreen(props: { studyId: string; textId: string; scope: StudyScope; me: Me; segmentId?: string | undefined; layers?: (l: LayerInfo) => boolean; banner?: JSX.Element }) {
   const [detail] = createResource(() => props.textId, (id) => api.text(id));
   const [docs, setDocs] = createSignal<{ text: OpenDoc; layers: LayerHandle[] }>();
   const [loaded, setLoaded] = createSignal(false);
@@ -28,7 +28,7 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
       const text = openDoc(d.room, { label: `“${d.title || 'this text'}”`, gc: false });
       const layers = d.layers.filter(props.layers ?? ((l) => !l.round)).map((l) => {
         const mine = l.mine ?? l.coderId === props.me.id;
-        return { coderId: l.coderId, name: mine ? `${l.name ?? props.me.name} (you)` : l.name ?? l.coderId, mine, doc: openDoc(l.room, { label: mine ? 'your coding' : `${l.name ?? 'a'} layer`, gc: false, offline: mine || l.canWrite === true }) };
+        return { coderId: l.coderId, name: mine ? `${l.name ?? props.me.name} (you)` : l.kind === 'consensus' ? 'Consensus' : l.name ?? l.coderId, mine, kind: l.kind, canWrite: l.canWrite, doc: openDoc(l.room, { label: mine ? 'your coding' : `${l.name ?? 'a'} layer`, gc: false, offline: mine || l.canWrite === true }) };
       });
       setDocs({ text, layers });
       // draw once the text and every layer hold the server's state (or the offline copy)
@@ -65,7 +65,7 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
         <h2 class="text-title">{detail()?.title}</h2>
         {props.banner}
         <Show when={ready()} keyed fallback={<p class="progress">Opening the text…</p>}>
-          {(r) => <CodingView {...r} studyId={props.studyId} textId={props.textId} scope={props.scope} me={props.me} />}
+          {(r) => <CodingView {...r} studyId={props.studyId} textId={props.textId} scope={props.scope} me={props.me} goToSegment={props.segmentId} />}
         </Show>
       </Loading>
     </main>

@@ -4,6 +4,7 @@ import * as Y from 'yjs';
 import {
   addCode, addExample, addInVivoCode, addMemo, addSegment, correctText, createUndoManager, getSegmentsMap,
   recheckSegment, recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments, reconcileLayer, withOrigin, proposeCode,
+  getText, listMemos, MEMOS_ROOT, PROPOSALS_ROOT, DISTINCT_MARKS, turnIndexAt,
 } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -16,9 +17,12 @@ import { CodePicker } from './CodePicker.js';
 import { SegmentPanel } from './SegmentPanel.js';
 import { FlagList } from './FlagList.js';
 import { commandFor, KEY_HELP, type Command } from './coding-keys.js';
-import { nextWordEnd, ordered, prevWordStart, type Sel } from './keyboard-selection.js';
+import { nextWordEnd, ordered, prevWordStart, sentenceSelection, turnSelection, type Sel } from './keyboard-selection.js';
 import { rangeFor } from './dom-selection.js';
 import { errorMessage } from '../../api/errors.js';
+import { decide, refusedMessage, savedMessage, undoMessage, type CodingAction } from './coding-actions.js';
+import { WhoseCoding } from './WhoseCoding.js';
+import { useSeenCodes } from '../../ui/seen-codes.js';
 import { diff } from '../../ui/ytext-binding.js';
 
 export interface CodingViewProps {
@@ -30,6 +34,8 @@ export interface CodingViewProps {
   memos: OpenDoc;
   scope: StudyScope;
   me: Me;
+  /** Open with this segment chosen and in view ("go to the passage" from a memo or jotting). */
+  goToSegment?: string | undefined;
 }
 
 export function CodingView(props: CodingViewProps) {
@@ -48,8 +54,16 @@ export function CodingView(props: CodingViewProps) {
     setCanUndo((undo?.undoStack.length ?? 0) > 0);
     setCanRedo((undo?.redoStack.length ?? 0) > 0);
   };
-  undo?.on('stack-item-added', refreshUndo);
+  // each undo step remembers what it did, in words, so undo and redo can say what they undid
+  let doing: string | undefined;
+  let popping: string | undefined;
+  undo?.on('stack-item-added', (e: { stackItem: { meta: Map<string, unknown> } }) => {
+    e.stackItem.meta.set('what', undo!.undoing || undo!.redoing ? popping : doing);
+    refreshUndo();
+  });
   undo?.on('stack-item-popped', refreshUndo);
+  const can = (a: CodingAction) => decide(role(), a, { permissions: props.scope.study()?.permissions, hasLayer: !!mine });
+  const allowed = (a: CodingAction) => can(a).allowed;
 
   // Bring my layer up to date with merges and splits made while it was closed or offline
   // (not through undo: the origin is not the one the undo manager tracks).
@@ -62,7 +76,23 @@ export function CodingView(props: CodingViewProps) {
     reconcile();
   }
 
+  // jottings attached to segments of this text, counted per segment (a mark on the segment's name)
+  const [memosV, setMemosV] = createSignal(0);
+  const memosRoot = props.memos.doc.getMap(MEMOS_ROOT);
+  const onMemos = () => setMemosV((n) => n + 1);
+  memosRoot.observeDeep(onMemos);
+  onCleanup(() => memosRoot.unobserveDeep(onMemos));
+  const jottingsBySegment = createMemo(() => {
+    memosV();
+    const m = new Map<string, number>();
+    for (const memo of listMemos(props.memos.doc, { textId: props.textId, attachedKind: 'segment' })) {
+      const id = (memo.attachedTo as { segmentId?: string }).segmentId;
+      if (id) m.set(id, (m.get(id) ?? 0) + 1);
+    }
+    return m;
+  });
   const recent = useRecentCodes(props.studyId);
+  const seen = useSeenCodes(props.studyId, props.me.id);
   const presence = useTextPresence(props.text, props.me);
   const [selection, setSelectionSig] = createSignal<Sel | null>(null);
   const setSelection = (s: Sel | null) => {
@@ -75,10 +105,12 @@ export function CodingView(props: CodingViewProps) {
   const [jotting, setJotting] = createSignal<string | null>(null);
   const [correction, setCorrection] = createSignal<string | null>(null);
   const [ready, setReady] = createSignal(false);
+  const [keysOpen, setKeysOpen] = createSignal(false);
   const [layersIn, setLayersIn] = createSignal(false);
   // every layer and the codebook have arrived: mark the frame after they are drawn (the benchmark reads it)
   void Promise.all([props.codebook.whenReady, ...props.layers.map((l) => l.doc.whenReady)]).then(() => {
     setLayersIn(true);
+    if (props.goToSegment) requestAnimationFrame(() => goTo(props.goToSegment!));
     requestAnimationFrame(() => performance.mark('gloss:layers-drawn'));
   });
   let searchInput: HTMLInputElement | undefined;
@@ -101,31 +133,84 @@ export function CodingView(props: CodingViewProps) {
     const o = ordered(s);
     return o.end > o.start ? o : null;
   };
+  // where the keyboard cursor is, in words, while no words are selected (the person is never lost)
+  const cursorWords = () => {
+    const s = selection();
+    if (!s) return 'Nothing selected: press ↓ or click the text to start';
+    const turns = state.turns();
+    const i = Math.max(0, turnIndexAt(turns, s.head));
+    const t = turns[i];
+    return `Cursor in turn ${i + 1} of ${turns.length}${t?.speaker ? ` (${t.speaker})` : ''}; no words selected`;
+  };
   const laneName = (coderId: string) => props.layers.find((l) => l.coderId === coderId)?.name ?? coderId;
 
-  const attempt = (what: string, f: () => void) => {
-    try {
-      f();
-      setMessage(what);
-    } catch (err) {
-      setMessage(`Not done: ${errorMessage(err)}`);
+  /**
+   * Does one change the role table allows, then tells what the server made of it: saved, kept on this
+   * device while offline, or refused (then the change is taken back here, so nothing stays that the
+   * server will not keep). Each target is a document and the root types the change may touch.
+   */
+  const act = async (action: CodingAction, done: string, targets: Array<{ doc: OpenDoc; types: Array<Y.AbstractType<any>> }>, f: (proposal: boolean) => void): Promise<boolean> => {
+    const d = can(action);
+    if (!d.allowed) {
+      setMessage(d.message);
+      return false;
     }
+    const takeBack = targets.map((t) => ({ doc: t.doc, um: new Y.UndoManager(t.types, { trackedOrigins: new Set([null]), captureTimeout: 0 }) }));
+    doing = done.replace(/\.$/, '').replace(/^./, (c) => c.toLowerCase()) + '.';
+    try {
+      f(d.proposal);
+    } catch (err) {
+      takeBack.forEach((t) => t.um.destroy());
+      setMessage(`Not done: ${errorMessage(err)}`);
+      return false;
+    } finally {
+      doing = undefined;
+    }
+    takeBack.forEach((t) => t.um.trackedOrigins.delete(null));
+    setMessage(`${done} Sending…`);
+    const answers = await Promise.all(takeBack.map((t) => t.doc.confirm()));
+    const refusal = answers.find((a) => a.outcome === 'refused');
+    if (refusal && refusal.outcome === 'refused') {
+      takeBack.forEach((t) => t.um.undo());
+      setMessage(refusedMessage(refusal.reason));
+    } else setMessage(savedMessage(done, answers.some((a) => a.outcome === 'offline') ? 'offline' : 'saved'));
+    takeBack.forEach((t) => t.um.destroy());
+    return !refusal;
+  };
+  const layerTarget = () => [{ doc: mine!.doc, types: [getSegmentsMap(mine!.doc.doc) as unknown as Y.AbstractType<any>] }];
+  const codebookTarget = () => ({ doc: props.codebook, types: [props.codebook.doc.getMap('codes'), props.codebook.doc.getMap(PROPOSALS_ROOT)] as Array<Y.AbstractType<any>> });
+  const memosTarget = () => [{ doc: props.memos, types: [props.memos.doc.getMap(MEMOS_ROOT)] as Array<Y.AbstractType<any>> }];
+  const undoStep = (kind: 'undo' | 'redo') => {
+    const d = can(kind);
+    if (!d.allowed) return setMessage(d.message);
+    const stack = kind === 'undo' ? undo?.undoStack : undo?.redoStack;
+    const top = stack?.[stack.length - 1];
+    popping = top?.meta.get('what') as string | undefined;
+    if (!top) return setMessage(undoMessage(kind, undefined));
+    if (kind === 'undo') undo!.undo(); else undo!.redo();
+    popping = undefined;
+    const said = undoMessage(kind, top.meta.get('what') as string | undefined ?? 'your last change.');
+    setMessage(`${said} Sending…`);
+    void mine!.doc.confirm().then((c) => setMessage(c.outcome === 'refused' ? refusedMessage(c.reason) : savedMessage(said, c.outcome)));
   };
   const backToText = () => transcriptEl?.focus();
 
   const apply = (codeId: string) => {
+    const label = `“${state.codeById().get(codeId)?.label ?? ''}”`;
     if (pickerMode() === 'recode' && chosenIsMine()) {
-      attempt('Recoded.', () => recodeSegment(mine!.doc.doc, chosen()!, codeId));
+      const id = chosen()!;
+      void act('recode', `Recoded as ${label}.`, layerTarget(), () => recodeSegment(mine!.doc.doc, id, codeId));
       recent.use(codeId);
       setPickerMode('apply');
       backToText();
       return;
     }
     const s = sel();
-    if (!mine) return setMessage('You have no layer on this text, so you cannot code it.');
+    const d = can('code');
+    if (!d.allowed) return setMessage(d.message);
     if (!s) return setMessage('Select some words first.');
-    attempt(`Coded “${state.codeById().get(codeId)?.label ?? ''}”.`, () => {
-      const id = addSegment(mine.doc.doc, props.text.doc, { codeId, start: s.start, end: s.end });
+    void act('code', `Coded ${label}.`, layerTarget(), () => {
+      const id = addSegment(mine!.doc.doc, props.text.doc, { codeId, start: s.start, end: s.end });
       setChosen(id);
     });
     recent.use(codeId);
@@ -133,15 +218,17 @@ export function CodingView(props: CodingViewProps) {
   };
 
   const inVivo = () => {
+    const d = can('in-vivo');
+    if (!d.allowed) return setMessage(d.message);
     const s = sel();
-    if (!s || !mine) return setMessage('Select the words to use as the code first.');
+    if (!s) return setMessage('Select the words to use as the code first.');
     const words = state.words().slice(s.start, s.end);
     // Only the lead and owner write codes; anyone else's in vivo code goes to them as a proposal.
-    attempt(isLead() ? 'In vivo code added and applied.' : 'In vivo code proposed to the lead and applied; it shows as “(proposed)” until they decide.', () => {
-      const codeId = isLead()
-        ? addInVivoCode(props.codebook.doc, words, { by: props.me.id })
-        : proposeCode(props.codebook.doc, { label: words, inVivo: true, author: props.me.id, textId: props.textId, quote: words });
-      const id = addSegment(mine.doc.doc, props.text.doc, { codeId, start: s.start, end: s.end });
+    void act('in-vivo', d.proposal ? `In vivo code “${words}” proposed to the lead and applied; it shows as “(proposed)” until they decide.` : `In vivo code “${words}” added and applied.`, [codebookTarget(), ...layerTarget()], (proposal) => {
+      const codeId = proposal
+        ? proposeCode(props.codebook.doc, { label: words, inVivo: true, author: props.me.id, textId: props.textId, quote: words })
+        : addInVivoCode(props.codebook.doc, words, { by: props.me.id });
+      const id = addSegment(mine!.doc.doc, props.text.doc, { codeId, start: s.start, end: s.end });
       recent.use(codeId);
       setChosen(id);
     });
@@ -151,13 +238,14 @@ export function CodingView(props: CodingViewProps) {
     const s = sel();
     const seg = chosenSeg();
     const quote = s ? state.words().slice(s.start, s.end) : seg?.quote ?? '';
-    attempt('Jotting kept.', () =>
-      addMemo(props.memos.doc, {
+    void act('jot', 'Jotting added to the memos.', memosTarget(), () =>
+      void addMemo(props.memos.doc, {
         kind: 'jotting',
         author: props.me.id,
         title: quote ? `On “${quote.slice(0, 60)}${quote.length > 60 ? '…' : ''}”` : 'Jotting',
         body,
-        attachedTo: seg && seg.coderId === mine?.coderId ? { kind: 'segment', textId: props.textId, segmentId: seg.id } : { kind: 'text', textId: props.textId },
+        // on the chosen segment only when no other words are selected (the selection is what the jotting is about)
+        attachedTo: seg && seg.coderId === mine?.coderId && (!s || (s.start >= seg.start && s.end <= seg.end)) ? { kind: 'segment', textId: props.textId, segmentId: seg.id } : { kind: 'text', textId: props.textId },
       }),
     );
     setJotting(null);
@@ -171,7 +259,7 @@ export function CodingView(props: CodingViewProps) {
     let { start, end } = seg;
     if (edge === 'start') start = dir > 0 ? Math.min(end - 1, nextWordEnd(w, start) + (w[nextWordEnd(w, start)] === ' ' ? 1 : 0)) : prevWordStart(w, start);
     else end = dir > 0 ? nextWordEnd(w, end) : Math.max(start + 1, prevWordStart(w, end) > start ? prevWordStart(w, end) - (w[prevWordStart(w, end) - 1] === ' ' ? 1 : 0) : start + 1);
-    attempt('Resized.', () => resizeSegment(mine!.doc.doc, props.text.doc, seg.id, start, end));
+    void act('resize', `Resized “${state.codeById().get(seg.codeId)?.label ?? ''}”.`, layerTarget(), () => resizeSegment(mine!.doc.doc, props.text.doc, seg.id, start, end));
   };
 
   const goTo = (segmentId: string) => {
@@ -192,19 +280,34 @@ export function CodingView(props: CodingViewProps) {
 
   const run = (c: Command) => {
     switch (c.do) {
-      case 'find-code': setPickerMode('apply'); searchInput?.focus(); break;
-      case 'recent': { const id = recent.recent()[c.n - 1]; if (id) apply(id); break; }
+      case 'find-code': { const d = can('code'); if (!d.allowed) { setMessage(d.message); break; } setPickerMode('apply'); searchInput?.focus(); break; }
+      case 'recent': { const d = can('code'); if (!d.allowed) { setMessage(d.message); break; } const id = recent.recent()[c.n - 1]; if (id) apply(id); break; }
       case 'in-vivo': inVivo(); break;
-      case 'jotting': setJotting(''); queueMicrotask(() => jotInput?.focus()); break;
+      case 'jotting': { const d = can('jot'); if (!d.allowed) { setMessage(d.message); break; } setJotting(''); queueMicrotask(() => jotInput?.focus()); break; }
       case 'next-segment': stepSegment(1); break;
       case 'prev-segment': stepSegment(-1); break;
-      case 'remove': if (chosenIsMine()) { attempt('Segment removed.', () => removeSegment(mine!.doc.doc, chosen()!)); setChosen(null); } break;
-      case 'recode': if (chosenIsMine()) { setPickerMode('recode'); searchInput?.focus(); } break;
-      case 'note': if (chosenIsMine()) noteInput?.focus(); break;
-      case 'undo': undo?.undo(); break;
-      case 'redo': undo?.redo(); break;
+      case 'remove': {
+        const seg = chosenSeg();
+        if (!seg) { setMessage('Choose a segment first ([ and ] step through them).'); break; }
+        if (!chosenIsMine()) { setMessage(can('remove').allowed ? 'Not saved: you can only remove your own segments.' : (can('remove') as { message: string }).message); break; }
+        void act('remove', `Removed the segment coded “${state.codeById().get(seg.codeId)?.label ?? ''}”.`, layerTarget(), () => removeSegment(mine!.doc.doc, seg.id));
+        setChosen(null);
+        break;
+      }
+      case 'recode': { const d = can('recode'); if (!d.allowed) { setMessage(d.message); break; } if (chosenIsMine()) { setPickerMode('recode'); searchInput?.focus(); } break; }
+      case 'note': { const d = can('note'); if (!d.allowed) { setMessage(d.message); break; } if (chosenIsMine()) noteInput?.focus(); break; }
+      case 'undo': undoStep('undo'); break;
+      case 'redo': undoStep('redo'); break;
       case 'clear': setSelection(null); setChosen(null); setPickerMode('apply'); document.getSelection()?.removeAllRanges(); break;
-      case 'resize': resize(c.edge, c.dir); break;
+      case 'resize': { const d = can('resize'); if (!d.allowed) { setMessage(d.message); break; } resize(c.edge, c.dir); break; }
+      case 'keys': setKeysOpen((o) => !o); break;
+      case 'select-turn': case 'select-sentence': {
+        const at = selection()?.head ?? 0;
+        const next = c.do === 'select-turn' ? turnSelection(state.turns(), at) : sentenceSelection(state.words(), state.turns(), at);
+        if (next) setSelection(next);
+        backToText();
+        break;
+      }
     }
   };
 
@@ -223,22 +326,39 @@ export function CodingView(props: CodingViewProps) {
 
   const layerCount = (coderId: string) => state.segments().filter((s) => s.coderId === coderId).length;
   const allCount = createMemo(() => new Map(props.layers.map((l) => [l.coderId, listSegments(l.doc.doc).length])));
+  const segmentsWord = (n: number) => `${n} ${n === 1 ? 'segment' : 'segments'}`;
+  const codingAllowed = () => allowed('code');
 
   return (
     <div class="coding" data-ready={ready() && layersIn() ? 'yes' : 'no'} data-testid="coding-view">
       <div class="coding-main">
         <div class="toolbar" role="toolbar" aria-label="Coding tools">
-          <button type="button" class="quiet" disabled={!canUndo()} onClick={() => run({ do: 'undo' })} aria-keyshortcuts="Control+Z">Undo</button>
-          <button type="button" class="quiet" disabled={!canRedo()} onClick={() => run({ do: 'redo' })} aria-keyshortcuts="Control+Shift+Z">Redo</button>
-          <button type="button" class="quiet" disabled={!sel() || !mine} onClick={inVivo} aria-keyshortcuts="i">In vivo code</button>
-          <button type="button" class="quiet" disabled={!sel() && !chosenSeg()} onClick={() => run({ do: 'jotting' })} aria-keyshortcuts="j">Jotting</button>
-          <Show when={isLead()}>
+          <Show when={allowed('undo')}>
+            <button type="button" class="quiet" disabled={!canUndo()} onClick={() => run({ do: 'undo' })} aria-keyshortcuts="Control+Z">Undo</button>
+            <button type="button" class="quiet" disabled={!canRedo()} onClick={() => run({ do: 'redo' })} aria-keyshortcuts="Control+Shift+Z">Redo</button>
+          </Show>
+          <Show when={allowed('in-vivo') && mine}>
+            <button type="button" class="quiet" disabled={!sel()} onClick={inVivo} aria-keyshortcuts="i">In vivo code</button>
+          </Show>
+          <Show when={allowed('jot')}>
+            <button type="button" class="quiet" disabled={!sel() && !chosenSeg()} onClick={() => run({ do: 'jotting' })} aria-keyshortcuts="j"
+              title="A jotting is a short memo in the study's memos, tied to these words: the whole team reads it there.">Jotting</button>
+          </Show>
+          <Show when={allowed('correct')}>
             <button type="button" class="quiet" disabled={!sel()} onClick={() => setCorrection(state.words().slice(sel()!.start, sel()!.end))}>Correct words…</button>
           </Show>
+          <button type="button" class="quiet" onClick={() => run({ do: 'select-turn' })} aria-keyshortcuts="t">Whole turn</button>
+          <button type="button" class="quiet" onClick={() => run({ do: 'select-sentence' })} aria-keyshortcuts="s">Sentence</button>
+          <button type="button" class="quiet" aria-expanded={keysOpen()} aria-controls="coding-keys" onClick={() => run({ do: 'keys' })} aria-keyshortcuts="?">Keys</button>
           <span class="muted sel-info" data-testid="selection-info">
-            {sel() ? `Selected: “${state.words().slice(sel()!.start, sel()!.end).slice(0, 80)}”` : 'Nothing selected'}
+            {sel() ? `Selected: “${state.words().slice(sel()!.start, sel()!.end).slice(0, 80)}”` : cursorWords()}
           </span>
         </div>
+        <section id="coding-keys" class="keys-panel" aria-label="Keys of the coding view" hidden={!keysOpen()}>
+          <dl>
+            <For each={KEY_HELP}>{([k, v]) => <><dt><kbd>{k}</kbd></dt><dd>{v}</dd></>}</For>
+          </dl>
+        </section>
         <p class="message" role="status" aria-live="polite" data-testid="coding-message">{message()}</p>
         <Show when={correction() !== null}>
           <form class="inline-form" aria-label="Correct the selected words" onSubmit={(e) => {
@@ -246,7 +366,7 @@ export function CodingView(props: CodingViewProps) {
             const s = sel();
             // only the changed middle is rewritten, so anchors on untouched characters stay where they are
             const [i, del, ins] = s ? diff(state.words().slice(s.start, s.end), correction()!) : [0, 0, ''];
-            if (s) attempt('Words corrected.', () => correctText(props.text.doc, s.start + i, del, ins));
+            if (s) void act('correct', 'Words corrected.', [{ doc: props.text, types: [getText(props.text.doc)] }], () => correctText(props.text.doc, s.start + i, del, ins));
             setCorrection(null);
             setSelection(null);
           }}>
@@ -262,9 +382,6 @@ export function CodingView(props: CodingViewProps) {
             <button type="button" class="quiet" onClick={() => { setJotting(null); backToText(); }}>Cancel</button>
           </form>
         </Show>
-        <div class="lane-head" aria-hidden="true">
-          <For each={visibleLayers()}>{(l) => <span class="lane-label" title={l.name}>{l.name.slice(0, 2)}</span>}</For>
-        </div>
         <Transcript
           state={state}
           lanes={() => visibleLayers().map((l) => l.coderId)}
@@ -274,14 +391,19 @@ export function CodingView(props: CodingViewProps) {
           selectedSegment={chosen}
           selectSegment={(id) => setChosen(id)}
           remote={presence.remote}
+          jottings={jottingsBySegment}
           onReady={() => setReady(true)}
           ref={(el) => (transcriptEl = el)}
         />
       </div>
       <aside class="coding-side" aria-label="Coding panel">
-        <Show when={mine} fallback={<p class="muted">You have no layer on this text: you can read it and its visible layers.</p>}>
+        <Show when={mine && codingAllowed()} fallback={<p class="muted" data-testid="read-only-note">{mine ? 'You may read this text and the coding shown; your role does not code.' : 'You have no layer on this text: you can read it and the coding shown.'}</p>}>
           <CodePicker
             codes={state.codes()}
+            themes={state.themes()}
+            unseenEdit={(id) => { const e = state.lastEdits().get(id); return e && e.by !== props.me.id && e.at > seen.seenAt(id) ? e : undefined; }}
+            onSeen={(id) => seen.markSeen(id)}
+            marks={state.marks().marks}
             recent={recent.recent()}
             mode={pickerMode()}
             disabled={pickerMode() === 'apply' ? !sel() : !chosenIsMine()}
@@ -289,30 +411,38 @@ export function CodingView(props: CodingViewProps) {
             onDone={backToText}
             inputRef={(el) => (searchInput = el)}
           />
+          <Show when={allowed('new-code')}>
           <form class="inline-form" aria-label={isLead() ? 'New code' : 'Propose a code'} onSubmit={(e) => {
             e.preventDefault();
             const input = e.currentTarget.elements.namedItem('label') as HTMLInputElement;
-            if (isLead()) attempt('Code added to the codebook.', () => { addCode(props.codebook.doc, { label: input.value }, { by: props.me.id }); input.value = ''; });
-            else attempt('Code proposed to the lead: it shows as “(proposed)” until they decide.', () => { proposeCode(props.codebook.doc, { label: input.value, author: props.me.id }); input.value = ''; });
+            const label = input.value;
+            const proposal = can('new-code').allowed && (can('new-code') as { proposal: boolean }).proposal;
+            void act('new-code', proposal ? `Code “${label}” proposed to the lead: it shows as “(proposed)” until they decide.` : `Code “${label}” added to the codebook.`, [codebookTarget()], (p) => {
+              if (p) proposeCode(props.codebook.doc, { label, author: props.me.id });
+              else addCode(props.codebook.doc, { label }, { by: props.me.id });
+              input.value = '';
+            });
           }}>
             <label>{isLead() ? 'New code' : 'Propose a code'} <input name="label" /></label>
             <button type="submit" class="quiet">{isLead() ? 'Add' : 'Propose'}</button>
           </form>
+          </Show>
         </Show>
         <Show when={chosenSeg()} keyed>
           {(s) => (
             <SegmentPanel
               segment={s}
               code={state.codeById().get(s.codeId)}
+              mark={state.marks().marks.get(s.codeId)}
               coderName={laneName(s.coderId)}
               mine={chosenIsMine()}
               hasSelection={!!sel()}
               onRecode={() => run({ do: 'recode' })}
               onRemove={() => run({ do: 'remove' })}
-              onFit={() => { const o = sel(); if (o) attempt('Segment fitted to the selection.', () => resizeSegment(mine!.doc.doc, props.text.doc, s.id, o.start, o.end)); }}
+              onFit={() => { const o = sel(); if (o) void act('resize', 'Segment fitted to the selection.', layerTarget(), () => resizeSegment(mine!.doc.doc, props.text.doc, s.id, o.start, o.end)); }}
               onResize={resize}
-              onNote={(n) => attempt('Note saved.', () => setSegmentNote(mine!.doc.doc, s.id, n || undefined))}
-              onExample={isLead() ? (kind) => attempt(kind === 'example' ? 'Added as an example.' : 'Added as a near-miss.', () => {
+              onNote={(n) => void act('note', n ? `Note on “${state.codeById().get(s.codeId)?.label ?? ''}” changed.` : `Note on “${state.codeById().get(s.codeId)?.label ?? ''}” removed.`, layerTarget(), () => setSegmentNote(mine!.doc.doc, s.id, n || undefined))}
+              onExample={allowed('example') ? (kind) => void act('example', kind === 'example' ? 'Added as an example.' : 'Added as a near-miss.', [codebookTarget()], () => {
                 const ys = props.text.doc.getText('text');
                 addExample(props.codebook.doc, s.codeId, {
                   textId: props.textId, segmentId: s.id, quote: s.quote,
@@ -321,14 +451,15 @@ export function CodingView(props: CodingViewProps) {
                 }, kind, { by: props.me.id });
               }) : undefined}
               stale={staleIds().has(s.id)}
-              onRecheck={() => attempt('Marked re-checked against the current definition.', () => recheckSegment(mine!.doc.doc, s.id))}
+              onRecheck={() => void act('recheck', 'Marked re-checked against the current definition.', layerTarget(), () => recheckSegment(mine!.doc.doc, s.id))}
               noteRef={(el) => (noteInput = el)}
             />
           )}
         </Show>
         <FlagList flags={state.flags()} codes={state.codeById()} onGo={(f) => f.segmentIds[0] && goTo(f.segmentIds[0])} />
         <section aria-labelledby="layers-h">
-          <h2 id="layers-h">Layers</h2>
+          <h2 id="layers-h">Whose coding is shown</h2>
+          <WhoseCoding layers={props.layers} hidden={hidden()} setHidden={setHidden} />
           <ul class="layers">
             <For each={props.layers}>
               {(l) => (
@@ -339,12 +470,17 @@ export function CodingView(props: CodingViewProps) {
                       if (e.currentTarget.checked) next.delete(l.coderId); else next.add(l.coderId);
                       setHidden(next);
                     }} />
-                    {l.name} <span class="muted">({hidden().has(l.coderId) ? allCount().get(l.coderId) : layerCount(l.coderId)} segments)</span>
+                    {l.name} <span class="muted">({segmentsWord(hidden().has(l.coderId) ? allCount().get(l.coderId) ?? 0 : layerCount(l.coderId))})</span>
                   </label>
                 </li>
               )}
             </For>
           </ul>
+          <Show when={state.marks().overflow}>
+            <p class="warn" data-testid="marks-overflow">
+              This codebook has {state.codes().length} codes, more than the {DISTINCT_MARKS} colour-and-line pairs that can be told apart: some codes share one. Read the code names under each turn.
+            </p>
+          </Show>
         </section>
         <section aria-labelledby="people-h">
           <h2 id="people-h">In this text now</h2>
@@ -354,12 +490,6 @@ export function CodingView(props: CodingViewProps) {
             </For>
           </ul>
         </section>
-        <details class="keys" id="coding-keys">
-          <summary>Keyboard</summary>
-          <dl>
-            <For each={KEY_HELP}>{([k, v]) => <><dt><kbd>{k}</kbd></dt><dd>{v}</dd></>}</For>
-          </dl>
-        </details>
       </aside>
     </div>
   );

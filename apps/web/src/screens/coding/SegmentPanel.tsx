@@ -1,12 +1,13 @@
 /** The chosen segment: its code, words, coder and note, and what may be done to it. */
 import { Show, createEffect, createSignal } from 'solid-js';
-import type { CodeView } from '@gloss/model';
+import type { CodeMark, CodeView } from '@gloss/model';
 import type { Segment } from '../../doc/flag-view.js';
-import { codeColour } from '../../doc/palette.js';
+import { CodeSwatch } from '../../ui/CodeSwatch.js';
 
 export function SegmentPanel(props: {
   segment: Segment;
   code: CodeView | undefined;
+  mark: CodeMark | undefined;
   coderName: string;
   mine: boolean;
   hasSelection: boolean;
@@ -27,7 +28,7 @@ export function SegmentPanel(props: {
   return (
     <section class="segment-panel" aria-labelledby="seg-h" data-testid="segment-panel">
       <h2 id="seg-h">
-        <span class="swatch" style={{ background: codeColour(props.segment.codeId, props.code?.colour) }} /> {props.code?.label ?? 'Unknown code'}
+        <CodeSwatch mark={props.mark} /> {props.code?.label ?? 'Unknown code'}
       </h2>
       <blockquote data-testid="segment-quote">{props.segment.orphaned ? '(all its words were deleted)' : props.segment.quote}</blockquote>
       <p class="muted">Coder: {props.coderName}</p>
@@ -52,7 +53,7 @@ export function SegmentPanel(props: {
           <button type="button" class="quiet" onClick={() => props.onResize('end', 1)} aria-label="End one word later">end ⇥</button>
         </div>
         <label>
-          Note
+          Note on this segment <span class="muted">(kept with your coding; a jotting goes to the study's memos instead)</span>
           <textarea ref={props.noteRef} rows="2" value={note()} onInput={(e) => setNote(e.currentTarget.value)} onBlur={() => note() !== (props.segment.note ?? '') && props.onNote(note())} />
         </label>
       </Show>

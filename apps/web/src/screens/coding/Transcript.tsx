@@ -7,17 +7,17 @@
 import { For, Index, Show, createEffect, createMemo, createSignal, onCleanup, onMount, type Accessor } from 'solid-js';
 import type { CodeView } from '@gloss/model';
 import { formatTime } from '../../doc/time.js';
-import { codeColour } from '../../doc/palette.js';
+import { turnIndexAt, type CodeMark } from '@gloss/model';
+import { CodeSwatch } from '../../ui/CodeSwatch.js';
 import { layoutBars, mergeLanes, sameBars, type Bar } from './margin.js';
+import { stackDepths, stripsFor, type Strip } from './underlines.js';
 import { createMeasureQueue, type MeasureQueue } from './measure-queue.js';
 import { move, ordered, type Move, type Sel } from './keyboard-selection.js';
-import { rangeFor, readDomSelection } from './dom-selection.js';
+import { offsetOf, rangeFor, readDomSelection } from './dom-selection.js';
 import type { CodingState, ViewTurn } from './coding-state.js';
 import type { RemoteCaret } from './text-presence.js';
 import { describeFlag, type Flag } from '../../doc/flag-view.js';
 
-export const LANE_W = 20;
-const COL_W = 6;
 const FIRST_BATCH = 60;
 const BATCH = 300;
 const FLAGS_SHOWN = 5;
@@ -34,8 +34,15 @@ export interface TranscriptProps {
   selectedSegment: Accessor<string | null>;
   selectSegment: (id: string | null) => void;
   remote: Accessor<RemoteCaret[]>;
+  /** Jottings in the memos attached to each segment, by segment id (each shows a mark on the segment's name). */
+  jottings?: Accessor<Map<string, number>>;
   onReady?: () => void;
   ref?: (el: HTMLElement) => void;
+}
+
+/** Up to three letters of a person's name ("Marisol Quenby (you)" -> "MQ"), to tell layers apart beside a code. */
+export function initials(name: string): string {
+  return name.replace(/\(.*?\)/g, '').split(/\s+/).filter(Boolean).map((w) => w[0]!.toUpperCase()).join('').slice(0, 3);
 }
 
 const KEYS: Record<string, Move> = { ArrowRight: 'word-right', ArrowLeft: 'word-left', ArrowDown: 'turn-down', ArrowUp: 'turn-up', Home: 'turn-start', End: 'turn-end' };
@@ -120,6 +127,10 @@ export function Transcript(props: TranscriptProps) {
   });
   const segById = createMemo(() => new Map(props.state.segments().map((s) => [s.id, s])));
 
+  const chosenStyle = document.createElement('style');
+  document.head.append(chosenStyle);
+  onCleanup(() => chosenStyle.remove());
+
   // highlights: own keyboard selection, the chosen segment, and other people's selections
   const paint = () => {
     const reg = (globalThis as { CSS?: { highlights?: Map<string, unknown> } }).CSS?.highlights;
@@ -128,6 +139,9 @@ export function Transcript(props: TranscriptProps) {
     const seg = props.selectedSegment() ? segById().get(props.selectedSegment()!) : undefined;
     const r1 = seg ? rangeFor(root, seg.start, seg.end) : null;
     reg.set('gloss-segment', new H(...(r1 ? [r1] : [])));
+    // the chosen segment is tinted in its own code's colour (a highlight's colour can only come from CSS)
+    const hex = seg ? props.state.marks().marks.get(seg.codeId)?.hex : undefined;
+    chosenStyle.textContent = hex ? `::highlight(gloss-segment) { background-color: ${hex}59; }` : '';
     const byColour = new Map<string, Range[]>();
     for (const c of props.remote()) {
       if (c.end <= c.start) continue;
@@ -180,6 +194,35 @@ export function Transcript(props: TranscriptProps) {
     }
   };
 
+  // selections set elsewhere (the whole-turn and sentence keys) show as the page selection too
+  createEffect(() => {
+    const s = props.selection();
+    if (!s || s.anchor === s.head) return;
+    const o = ordered(s);
+    const cur = readDomSelection(root);
+    if (!cur || cur.start !== o.start || cur.end !== o.end) showSelection(s);
+  });
+  // the keyboard cursor: its turn is marked, and a caret shows where it is while nothing is selected
+  const cursorTurn = createMemo(() => {
+    const s = props.selection();
+    return s ? Math.max(0, turnIndexAt(props.state.turns(), s.head)) : -1;
+  });
+  const [ownCaret, setOwnCaret] = createSignal<{ x: number; y: number; h: number } | null>(null);
+  createEffect(() => {
+    const s = props.selection();
+    shown();
+    props.state.words();
+    queueMicrotask(() => {
+      if (!s || s.anchor !== s.head) return setOwnCaret(null);
+      const r = rangeFor(root, s.head, s.head);
+      const rect = r?.getClientRects()[0] ?? r?.getBoundingClientRect();
+      if (!rect || (rect.width === 0 && rect.height === 0)) return setOwnCaret(null);
+      const base = root.getBoundingClientRect();
+      setOwnCaret({ x: rect.left - base.left + root.scrollLeft, y: rect.top - base.top + root.scrollTop, h: rect.height });
+      (r?.startContainer.parentElement as HTMLElement | null)?.scrollIntoView({ block: 'nearest' });
+    });
+  });
+
   const onKeyDown = (e: KeyboardEvent) => {
     const how = KEYS[e.key];
     if (!how || e.altKey || e.ctrlKey || e.metaKey) return;
@@ -191,11 +234,18 @@ export function Transcript(props: TranscriptProps) {
   };
   const onMouseUp = () => {
     const s = readDomSelection(root);
-    if (s) props.setSelection({ anchor: s.start, head: s.end });
+    if (s) return props.setSelection({ anchor: s.start, head: s.end });
+    // a click without a drag puts the keyboard cursor there
+    const ds = document.getSelection();
+    const node = ds?.anchorNode ?? null;
+    const inWords = (node?.nodeType === Node.TEXT_NODE ? node.parentElement : (node as Element | null))?.closest('.words');
+    if (ds && ds.rangeCount > 0 && ds.isCollapsed && inWords && root.contains(inWords)) {
+      const at = offsetOf(ds.anchorNode, ds.anchorOffset);
+      if (at !== null) props.setSelection({ anchor: at, head: at });
+    }
   };
 
   const tipSegment = () => (tip() ? segById().get(tip()!.id) : undefined);
-  const marginWidth = () => Math.max(1, props.lanes().length) * LANE_W + 14;
 
   return (
     <div
@@ -208,7 +258,7 @@ export function Transcript(props: TranscriptProps) {
       onKeyDown={onKeyDown}
       onMouseUp={onMouseUp}
       onMouseOver={(e) => {
-        const b = (e.target as HTMLElement).closest<HTMLElement>('.bar');
+        const b = (e.target as HTMLElement).closest<HTMLElement>('.seg-line, .code-chip');
         setTip(b ? { x: e.clientX, y: e.clientY, id: b.dataset.id! } : null);
       }}
       onMouseLeave={() => setTip(null)}
@@ -224,9 +274,12 @@ export function Transcript(props: TranscriptProps) {
             turn={turn}
             bars={() => bars()[i] ?? []}
             flags={() => flagsByTurn().get(i) ?? NO_FLAGS}
-            marginWidth={marginWidth}
-            colourOf={(codeId) => codeColour(codeId, props.state.codeById().get(codeId)?.colour)}
+            markOf={(codeId) => props.state.marks().marks.get(codeId)}
+            labelOf={(codeId) => props.state.codeById().get(codeId)?.label ?? 'Unknown code'}
+            coderTag={(layer) => (props.lanes().length > 1 ? initials(props.laneName(layer)) : '')}
             selected={props.selectedSegment}
+            cursor={() => cursorTurn() === i}
+            notesOf={(id) => ({ note: !!segById().get(id)?.note, jottings: props.jottings?.().get(id) ?? 0 })}
             watch={watch}
             measure={measure}
             codes={props.state.codeById}
@@ -237,6 +290,9 @@ export function Transcript(props: TranscriptProps) {
         <p class="progress" role="progressbar" aria-valuemin={0} aria-valuemax={total()} aria-valuenow={shown()}>
           Showing {shown()} of {total()} turns…
         </p>
+      </Show>
+      <Show when={ownCaret()}>
+        {(c) => <span class="own-caret" style={{ left: `${c().x}px`, top: `${c().y}px`, height: `${c().h}px` }} aria-hidden="true" data-testid="own-caret" />}
       </Show>
       <For each={carets()}>
         {(c) => (
@@ -266,65 +322,60 @@ function TurnRow(props: {
   turn: Accessor<ViewTurn>;
   bars: Accessor<Bar[]>;
   flags: Accessor<TurnFlags>;
-  marginWidth: Accessor<number>;
-  colourOf: (codeId: string) => string;
+  markOf: (codeId: string) => CodeMark | undefined;
+  labelOf: (codeId: string) => string;
+  /** Who coded it, shown beside the code when more than one layer is drawn ('' when only one). */
+  coderTag: (layer: string) => string;
   selected: Accessor<string | null>;
+  /** The keyboard cursor is in this turn. */
+  cursor: Accessor<boolean>;
+  notesOf: (segmentId: string) => { note: boolean; jottings: number };
   watch: (el: Element, set: (v: boolean) => void) => void;
   measure: MeasureQueue;
   codes: Accessor<Map<string, CodeView>>;
 }) {
   const [near, setNear] = createSignal(false);
-  // Exact bar positions: once a turn is near the viewport, measure where its segments' words sit.
+  // Underlines: once a turn is near the viewport, measure the line boxes of its segments' words.
   let rowEl!: HTMLDivElement;
   let wordsEl!: HTMLParagraphElement;
-  const [measured, setMeasured] = createSignal<Map<string, { top: number; height: number }>>(new Map());
+  const [strips, setStrips] = createSignal<Array<Strip & { id: string; codeId: string }>>([]);
   createEffect(() => {
     const list = near() ? bars() : [];
     props.turn().words;
-    if (list.length === 0) return props.measure.cancel(rowEl);
+    if (list.length === 0) {
+      setStrips([]);
+      return props.measure.cancel(rowEl);
+    }
+    const depths = stackDepths(list.map((b) => ({ id: b.id, from: b.from, to: b.to })));
     // reads here, the write returned: the queue runs all turns' reads before any write
     props.measure.schedule(rowEl, () => {
       const node = wordsEl.firstChild;
       if (!node) return;
-      const base = rowEl.getBoundingClientRect().top;
+      const base = wordsEl.getBoundingClientRect();
       const len = node.textContent?.length ?? 0;
-      const out = new Map<string, { top: number; height: number }>();
+      const out: Array<Strip & { id: string; codeId: string }> = [];
       const r = document.createRange();
       for (const b of list) {
+        if (b.orphaned || b.to <= b.from) continue;
         r.setStart(node, Math.min(b.from, len));
-        r.setEnd(node, Math.min(Math.max(b.to, b.from), len));
-        const rects = r.getClientRects();
-        const first = rects[0];
-        const last = rects[rects.length - 1];
-        if (!first || !last) continue;
-        out.set(b.id, { top: first.top - base, height: Math.max(8, last.bottom - first.top) });
+        r.setEnd(node, Math.min(b.to, len));
+        for (const st of stripsFor([...r.getClientRects()], base, depths.get(b.id) ?? 0)) out.push({ ...st, id: b.id, codeId: b.codeId });
       }
-      return () => setMeasured(out);
+      return () => setStrips(out);
     });
   });
   onCleanup(() => props.measure.cancel(rowEl));
-  // keep the DOM of unchanged turns: only a different layout replaces the bars
+  // keep the DOM of unchanged turns: only a different layout replaces the lines and the code list
   const bars = createMemo(props.bars, [], { equals: sameBars });
+  // one entry per segment touching this turn, in text order
+  const applied = createMemo(() => {
+    const seen = new Set<string>();
+    return bars().filter((b) => (seen.has(b.id) ? false : (seen.add(b.id), true))).sort((a, b) => a.from - b.from || a.to - b.to);
+  });
   const words = () => props.turn().words;
   return (
-    <div class="turn" ref={(el) => { rowEl = el; props.watch(el, setNear); }}>
-      <div class="margin" style={{ width: `${props.marginWidth()}px` }} aria-hidden="true">
-        <For each={near() ? bars() : []}>
-          {(b) => (
-            <div
-              class="bar"
-              classList={{ opens: b.opens, closes: b.closes, orphaned: b.orphaned, chosen: props.selected() === b.id }}
-              data-id={b.id}
-              data-layer={b.layer}
-              style={{
-                left: `${b.lane * LANE_W + b.column * COL_W}px`,
-                top: measured().get(b.id) ? `${measured().get(b.id)!.top}px` : `${b.top * 100}%`,
-                height: measured().get(b.id) ? `${measured().get(b.id)!.height}px` : `calc(${(b.bottom - b.top) * 100}% + 2px)`,
-                background: props.colourOf(b.codeId),
-              }}
-            />
-          )}
-        </For>
+    <div class="turn" classList={{ 'cursor-turn': props.cursor() }} ref={(el) => { rowEl = el; props.watch(el, setNear); }}>
+      <div class="margin" aria-hidden="true">
         <Show when={props.flags().count > 0}>
           <span class="flag-mark" data-id={props.flags().first[0]!.segmentIds[0]} title={props.flags().first.map((f) => describeFlag(f, props.codes())).join('\n')}>
             {props.flags().count > 1 ? props.flags().count : '!'}
@@ -336,7 +387,51 @@ function TurnRow(props: {
           <Show when={props.turn().speaker}><span class="speaker">{props.turn().speaker}</span></Show>
           <Show when={props.turn().startMs != null}><span class="time">{formatTime(props.turn().startMs!)}</span></Show>
         </div>
-        <p class="words" ref={wordsEl} data-start={props.turn().start}>{words()}</p>
+        <div class="words-box">
+          <p class="words" ref={wordsEl} data-start={props.turn().start}>{words()}</p>
+          <For each={strips()}>
+            {(st) => {
+              const m = () => props.markOf(st.codeId);
+              return (
+                <div
+                  class="seg-line"
+                  classList={{ chosen: props.selected() === st.id }}
+                  data-id={st.id}
+                  aria-hidden="true"
+                  style={{
+                    left: `${st.left}px`,
+                    top: `${st.top}px`,
+                    width: `${st.width}px`,
+                    'border-bottom': `${m()?.mark === 'double' ? 4 : 3}px ${m()?.mark ?? 'solid'} ${m()?.hex ?? '#888888'}`,
+                  }}
+                />
+              );
+            }}
+          </For>
+        </div>
+        <Show when={near() && applied().length > 0}>
+          <ul class="turn-codes" aria-label="Codes applied in this turn" data-testid="turn-codes">
+            <For each={applied()}>
+              {(b) => (
+                <li>
+                  <button
+                    type="button"
+                    class="code-chip"
+                    classList={{ chosen: props.selected() === b.id, orphaned: b.orphaned }}
+                    data-id={b.id}
+                    aria-pressed={props.selected() === b.id}
+                  >
+                    <CodeSwatch mark={props.markOf(b.codeId)} />
+                    <span class="code-chip-label">{props.labelOf(b.codeId)}</span>
+                    <Show when={props.coderTag(b.layer)}><span class="code-chip-coder">{props.coderTag(b.layer)}</span></Show>
+                    <Show when={props.notesOf(b.id).note}><span class="note-mark" title="This segment has a note" data-testid="note-mark">✎<span class="sr-only"> has a note</span></span></Show>
+                    <Show when={props.notesOf(b.id).jottings > 0}><span class="note-mark" title="Jottings on this segment in the memos" data-testid="jotting-mark">✉{props.notesOf(b.id).jottings}<span class="sr-only"> jottings</span></span></Show>
+                  </button>
+                </li>
+              )}
+            </For>
+          </ul>
+        </Show>
       </div>
     </div>
   );

@@ -15,6 +15,9 @@ export type Command =
   | { do: 'undo' }
   | { do: 'redo' }
   | { do: 'clear' }
+  | { do: 'keys' }
+  | { do: 'select-turn' }
+  | { do: 'select-sentence' }
   | { do: 'resize'; edge: 'start' | 'end'; dir: 1 | -1 };
 
 export interface KeyLike { key: string; ctrlKey: boolean; metaKey: boolean; altKey: boolean; shiftKey: boolean }
@@ -42,6 +45,9 @@ export function commandFor(e: KeyLike): Command | null {
     case 'r': return { do: 'recode' };
     case 'n': return { do: 'note' };
     case 'Escape': return { do: 'clear' };
+    case '?': return { do: 'keys' };
+    case 't': return { do: 'select-turn' };
+    case 's': return { do: 'select-sentence' };
   }
   return null;
 }
@@ -49,7 +55,9 @@ export function commandFor(e: KeyLike): Command | null {
 /** The key list shown on screen (and read by screen readers via aria-describedby). */
 export const KEY_HELP: Array<[string, string]> = [
   ['→ / ←', 'select the next / previous word (Shift extends)'],
-  ['↓ / ↑', 'next / previous turn (Shift extends)'],
+  ['↓ / ↑', 'cursor to the next / previous turn (Shift extends by whole turns)'],
+  ['t', 'select the whole turn at the cursor'],
+  ['s', 'select the sentence at the cursor'],
   ['c or /', 'find a code, Enter applies it'],
   ['1–9', 'apply a recently used code'],
   ['i', 'in vivo code from the selected words'],
@@ -58,4 +66,5 @@ export const KEY_HELP: Array<[string, string]> = [
   ['r, n, Delete', 'recode, note, remove the chosen segment'],
   ['Alt+→ / Alt+←', 'move the chosen segment’s end (Shift: its start)'],
   ['Ctrl+Z / Ctrl+Shift+Z', 'undo / redo your own coding'],
+  ['?', 'show or hide this list (the Keys button)'],
 ];

@@ -6,15 +6,15 @@
 import { createMemo, createSignal, onCleanup, type Accessor } from 'solid-js';
 import * as Y from 'yjs';
 import {
-  getCodes, getText, pendingProposalCodes, listExclusiveSets, listSegments, readTurns, resolveSegments,
-  type CodeGroup, type CodeView, type ResolvedTurn,
+  assignMarks, getCodes, getText, pendingProposalCodes, listExclusiveSets, listThemes, lastDefinitionEdits, listSegments, readTurns, resolveSegments,
+  type ChangeEntry, type CodeGroup, type CodeView, type MarkAssignment, type ResolvedTurn,
 } from '@gloss/model';
 import type { OpenDoc } from '../../sync/open-doc.js';
 import { useFlags } from './flags-source.js';
 import type { Segment } from '../../doc/flag-view.js';
 import type { FlagSet } from '../../doc/flag-pack.js';
 
-export interface LayerHandle { coderId: string; name: string; mine: boolean; doc: OpenDoc }
+export interface LayerHandle { coderId: string; name: string; mine: boolean; doc: OpenDoc; kind?: 'coder' | 'consensus' | undefined; canWrite?: boolean | undefined }
 
 /** A turn as shown: its words without the separating newline, `end` just past the last word. */
 export type ViewTurn = ResolvedTurn & { words: string };
@@ -27,7 +27,12 @@ export interface CodingState {
   layerSegments: ReadonlyMap<string, Accessor<Segment[]>>;
   codes: Accessor<CodeView[]>;
   codeById: Accessor<Map<string, CodeView>>;
+  /** Each code's colour and mark (codebook order, so the same for everyone): see model `assignMarks`. */
+  marks: Accessor<MarkAssignment>;
   exclusiveSets: Accessor<CodeGroup[]>;
+  themes: Accessor<CodeGroup[]>;
+  /** Each code's newest recorded definition edit. */
+  lastEdits: Accessor<Map<string, ChangeEntry>>;
   flags: Accessor<FlagSet>;
 }
 
@@ -54,7 +59,7 @@ function version(types: Array<Y.AbstractType<any>>): Accessor<number> {
  */
 export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, codebook: OpenDoc, opts: { showDisagreement: Accessor<boolean> }): CodingState {
   const textV = version([getText(text.doc), text.doc.getArray('turns')]);
-  const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets'), codebook.doc.getMap('proposals')]);
+  const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets'), codebook.doc.getMap('proposals'), codebook.doc.getMap('themes'), codebook.doc.getArray('changes')]);
   const layerVersions = new Map<string, Accessor<number>>(allLayers.map((l) => [l.doc.room, version([l.doc.doc.getMap('segments')])]));
   const layerV = (l: LayerHandle) => layerVersions.get(l.doc.room)?.();
 
@@ -79,11 +84,14 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
   // pending proposals (a coder's new or in vivo codes) show as "(proposed)" until the lead decides
   const codes = createMemo(() => (cbV(), [...getCodes(codebook.doc), ...pendingProposalCodes(codebook.doc)]));
   const codeById = createMemo(() => new Map(codes().map((c) => [c.id, c])));
+  const marks = createMemo(() => assignMarks(codes()));
   const exclusiveSets = createMemo(() => (cbV(), listExclusiveSets(codebook.doc)));
+  const themes = createMemo(() => (cbV(), listThemes(codebook.doc)));
+  const lastEdits = createMemo(() => (cbV(), lastDefinitionEdits(codebook.doc)));
   const source = useFlags(text, codebook, allLayers, visible, () => !opts.showDisagreement());
   const flags = source.flags;
   const layerSegments = new Map(allLayers.map((l) => [l.coderId, perLayer.get(l.doc.room)!]));
-  return { turns, words, segments, layerSegments, codes, codeById, exclusiveSets, flags };
+  return { turns, words, segments, layerSegments, codes, codeById, marks, exclusiveSets, themes, lastEdits, flags };
 }
 
 /** Turns with their words; a text without a turns array is read one turn per line. */

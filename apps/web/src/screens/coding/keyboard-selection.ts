@@ -38,7 +38,13 @@ export function move(text: string, turns: readonly TurnSpan[], sel: Sel, how: Mo
   switch (how) {
     case 'word-right': head = nextWordEnd(text, sel.head); break;
     case 'word-left': head = prevWordStart(text, sel.head); break;
-    case 'turn-down': head = turns[Math.min(turns.length - 1, turnAt(turns, sel.head) + 1)]?.start ?? head; break;
+    case 'turn-down': {
+      // plain: to the next turn's start; with Shift: by whole turns (the rest of this one, then the next)
+      const i = turnAt(turns, sel.head);
+      if (extend) head = sel.head < (t?.end ?? 0) ? t!.end : turns[Math.min(turns.length - 1, i + 1)]?.end ?? head;
+      else head = turns[Math.min(turns.length - 1, i + 1)]?.start ?? head;
+      break;
+    }
     case 'turn-up': {
       const i = turnAt(turns, sel.head);
       head = sel.head > (t?.start ?? 0) ? t!.start : turns[Math.max(0, i - 1)]?.start ?? 0;
@@ -55,4 +61,28 @@ export function move(text: string, turns: readonly TurnSpan[], sel: Sel, how: Mo
 
 export function ordered(sel: Sel): { start: number; end: number } {
   return sel.anchor <= sel.head ? { start: sel.anchor, end: sel.head } : { start: sel.head, end: sel.anchor };
+}
+
+/** The whole turn holding `offset`, its words only. */
+export function turnSelection(turns: readonly TurnSpan[], offset: number): Sel | null {
+  const t = turns[turnAt(turns, offset)];
+  return t ? { anchor: t.start, head: t.end } : null;
+}
+
+/**
+ * The sentence holding `offset`, by the Unicode sentence boundaries of UAX #29 (Intl.Segmenter), inside
+ * its turn; without its trailing spaces.
+ */
+export function sentenceSelection(text: string, turns: readonly TurnSpan[], offset: number): Sel | null {
+  const t = turns[turnAt(turns, offset)];
+  if (!t) return null;
+  const words = text.slice(t.start, t.end);
+  const at = Math.max(0, Math.min(words.length - 1, offset - t.start));
+  for (const seg of new Intl.Segmenter('en', { granularity: 'sentence' }).segment(words)) {
+    if (at >= seg.index && at < seg.index + seg.segment.length) {
+      const body = seg.segment.replace(/\s+$/u, '');
+      return { anchor: t.start + seg.index, head: t.start + seg.index + body.length };
+    }
+  }
+  return null;
 }

@@ -8,6 +8,7 @@ import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
 import { useY } from '../../ui/use-ydoc.js';
+import { href } from '../../ui/router.js';
 import { api } from '../../api/client.js';
 import { createAttempt } from '../../ui/attempt.js';
 import { bindField } from '../../ui/ytext-binding.js';
@@ -86,6 +87,9 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
                   <MemoBody memo={m} doc={doc} mine={m.author === props.me.id} />
                 </Show>
                 <div class="row">
+                  <Show when={m.attachedTo.kind === 'segment' || m.attachedTo.kind === 'text' ? m.attachedTo : undefined}>
+                    {(a) => <a class="button-link" href={href({ name: 'coding', studyId: props.studyId, textId: (a() as { textId: string }).textId, ...('segmentId' in a() ? { segmentId: (a() as { segmentId: string }).segmentId } : {}) })}>Go to the passage</a>}
+                  </Show>
                   <button type="button" class="quiet" onClick={() => setOpen(open() === m.id ? null : m.id)} aria-expanded={open() === m.id}>{open() === m.id ? 'Close' : m.author === props.me.id ? 'Open and edit' : 'Read'}</button>
                   <Show when={m.author === props.me.id && m.kind === 'jotting'}>
                     <button type="button" class="quiet" onClick={() => attempt(() => promoteJotting(doc, m.id))}>Promote to memo</button>

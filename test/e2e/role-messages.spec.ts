@@ -1,0 +1,116 @@
+// Telling the truth (issue 15 item 2): each role is driven through each control of the coding view, and
+// every message says what happened on the server. Controls a role may not use are not offered; an
+// observer's key presses are refused in plain words and leave nothing behind after a reload; a change
+// the server refuses (the person's role was lowered while the text was open) is reported at once and
+// taken back on the page. Messages come from one table (apps/web/src/screens/coding/coding-actions.ts).
+import { test, expect, account, signIn, openText, selectWords, applyCode, type Person } from './fixtures.js';
+
+const TEXT = 'P03 — sound and setup, Ferrowgate Film Club';
+const msg = (p: Person) => p.page.getByTestId('coding-message');
+const tool = (p: Person, name: string) => p.page.getByRole('toolbar', { name: 'Coding tools' }).getByRole('button', { name, exact: true });
+const chips = (p: Person) => p.page.locator('.transcript .turn-codes .code-chip');
+
+// one phrase per role, so the roles' segments and in vivo codes do not meet
+const PHRASES: Record<string, { code: string; inVivo: string; jot: string }> = {
+  owner: { code: 'a projector on a stack of hymn books', inVivo: 'speakers from someone', jot: 'the industrial estate' },
+  lead: { code: 'Everything that plugs in', inVivo: 'a mixing desk from a church', jot: 'three weekends' },
+  coder: { code: 'Twice a month', inVivo: 'the summer outdoor one', jot: 'It\'s satisfying' },
+  trainee: { code: 'the generator tripped', inVivo: 'a torch in my teeth', jot: 'a sing-song' },
+};
+
+for (const role of ['owner', 'lead', 'coder', 'trainee'] as const) {
+  test(`${role}: every control's message says what the server did`, async ({ browser, baseURL }) => {
+    const p = await signIn(browser, account(role), baseURL!);
+    await openText(p, TEXT);
+    const writesCodebook = role === 'owner' || role === 'lead';
+    const ph = PHRASES[role]!;
+
+    await selectWords(p.page, ph.code);
+    await applyCode(p.page, 'Workload');
+    await expect(msg(p)).toHaveText('Coded “Workload”. Saved.');
+    await tool(p, 'Undo').click();
+    await expect(msg(p)).toHaveText('Undone: coded “Workload”. Saved.');
+    await tool(p, 'Redo').click();
+    await expect(msg(p)).toHaveText('Redone: coded “Workload”. Saved.');
+
+    await selectWords(p.page, ph.inVivo);
+    await tool(p, 'In vivo code').click();
+    await expect(msg(p)).toHaveText(writesCodebook
+      ? `In vivo code “${ph.inVivo}” added and applied. Saved.`
+      : `In vivo code “${ph.inVivo}” proposed to the lead and applied; it shows as “(proposed)” until they decide. Saved.`);
+
+    await selectWords(p.page, ph.jot);
+    await tool(p, 'Jotting').click();
+    await p.page.getByLabel('Jotting', { exact: true }).fill(`A ${role}'s jotting.`);
+    await p.page.getByRole('button', { name: 'Keep jotting' }).click();
+    await expect(msg(p)).toHaveText('Jotting added to the memos. Saved.');
+
+    const form = p.page.getByRole('form', { name: writesCodebook ? 'New code' : 'Propose a code' });
+    await form.getByRole('textbox').fill(`Checked by the ${role}`);
+    await form.getByRole('button').click();
+    await expect(msg(p)).toHaveText(writesCodebook
+      ? `Code “Checked by the ${role}” added to the codebook. Saved.`
+      : `Code “Checked by the ${role}” proposed to the lead: it shows as “(proposed)” until they decide. Saved.`);
+
+    // correcting the transcript is offered only to those who may (the lead and the owner)
+    await expect(tool(p, 'Correct words…')).toHaveCount(writesCodebook ? 1 : 0);
+    await p.context.close();
+  });
+}
+
+test('observer: nothing to code with is offered, every key press is refused in words, nothing is left after reload', async ({ browser, baseURL }) => {
+  const p = await signIn(browser, account('observer'), baseURL!);
+  await openText(p, TEXT);
+  for (const name of ['Undo', 'Redo', 'In vivo code', 'Jotting', 'Correct words…']) await expect(tool(p, name)).toHaveCount(0);
+  await expect(p.page.getByTestId('code-search')).toHaveCount(0);
+  await expect(p.page.getByRole('form', { name: /New code|Propose a code/ })).toHaveCount(0);
+  const before = await chips(p).count();
+
+  await selectWords(p.page, 'Nobody compliments the wiring');
+  await p.page.getByTestId('transcript').focus();
+  await p.page.keyboard.press('c');
+  await expect(msg(p)).toHaveText('Not saved: observers cannot code passages.');
+  await p.page.keyboard.press('i');
+  await expect(msg(p)).toHaveText('Not saved: observers cannot create in vivo codes.');
+  await p.page.keyboard.press('j');
+  await expect(msg(p)).toHaveText('Not saved: observers cannot add jottings.');
+  await p.page.keyboard.press('Control+z');
+  await expect(msg(p)).toHaveText('Not saved: observers cannot undo coding.');
+
+  await p.page.reload();
+  await expect(p.page.getByTestId('coding-view')).toHaveAttribute('data-ready', 'yes', { timeout: 20_000 });
+  await expect.poll(() => chips(p).count()).toBe(before);
+  await p.page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Memos' }).click();
+  await expect(p.page.getByTestId('memo-search')).toBeVisible();
+  await expect(p.page.getByText('On “Nobody compliments the wiring”')).toHaveCount(0);
+  await p.context.close();
+});
+
+test('a change the server refuses is reported at once and taken back on the page', async ({ browser, baseURL }) => {
+  const lead = await signIn(browser, account('lead'), baseURL!);
+  const who = account('coder', 2);
+  const coder = await signIn(browser, who, baseURL!);
+  await openText(coder, TEXT);
+  const api = lead.context.request;
+  const headers = { origin: baseURL! };
+  const studyId = ((await (await api.get('/api/studies')).json()) as Array<{ id: string }>)[0]!.id;
+  const members = (await (await api.get(`/api/studies/${studyId}/members`)).json()) as Array<{ userId: string; email: string }>;
+  const member = members.find((m) => m.email === who.email)!;
+  const turn = coder.page.locator('.transcript .turn').filter({ has: coder.page.locator('.words', { hasText: 'Does it ever go bang?' }) });
+  try {
+    // lowered to observer while the text is open: the page still offers coding (it has not heard yet)
+    expect((await api.patch(`/api/studies/${studyId}/members/${member.userId}`, { headers, data: { role: 'observer' } })).status()).toBe(200);
+    await selectWords(coder.page, 'Does it ever go bang?');
+    await coder.page.getByTestId('code-search').fill('Workload');
+    await coder.page.getByRole('listbox', { name: 'Codes' }).getByRole('button', { name: 'Workload', exact: true }).click();
+    await expect(msg(coder)).toHaveText('Not saved: the server refused it (you may now only read this document). It has been taken back here.');
+    await expect(turn.locator('.turn-codes .code-chip')).toHaveCount(0);
+    await coder.page.reload();
+    await expect(coder.page.getByTestId('coding-view')).toHaveAttribute('data-ready', 'yes', { timeout: 20_000 });
+    await turn.scrollIntoViewIfNeeded();
+    await expect(turn.locator('.turn-codes .code-chip')).toHaveCount(0);
+  } finally {
+    await api.patch(`/api/studies/${studyId}/members/${member.userId}`, { headers, data: { role: 'coder' } });
+    await Promise.all([lead, coder].map((p) => p.context.close()));
+  }
+});
