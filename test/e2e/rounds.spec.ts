@@ -163,7 +163,7 @@ test('a calibration session: independent coding, progress, reveal, follow-mode w
   }
   expect(rechecked, 'a stale-definition flag on the coder’s own segment').toBe(true);
   await expect(stale).toHaveCount(staleBefore - 1);
-  await expect(first.page.getByTestId('coding-message')).toHaveText('Marked re-checked against the current definition.');
+  await expect(first.page.getByTestId('coding-message')).toHaveText('Marked re-checked against the current definition. Saved.');
   await openRound(first);
   await first.page.getByRole('link', { name: `Walk through “${TEXT}”` }).click();
   await expect(first.page.getByTestId('walk-through')).toHaveAttribute('data-ready', 'yes', { timeout: 30_000 });
