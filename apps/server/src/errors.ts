@@ -20,6 +20,8 @@ export type ErrorCode =
   | 'bad_setup_code'
   | 'link_used'
   | 'link_expired'
+  | 'document_replaced'
+  | 'nothing_to_purge'
   | 'internal';
 
 export class HttpError extends Error {
