@@ -143,4 +143,10 @@ describe.each(dbKinds())('deleting a study and a text on %s', (kind) => {
     // Accounts stay: people may belong to other studies.
     expect((await owner.api.call('GET', '/api/me')).status).toBe(200);
   });
+
+  it('describes both deletions in the OpenAPI document', async () => {
+    const doc = (await apiClient(server.url).call<{ paths: Record<string, Record<string, { responses: Record<string, unknown> }>> }>('GET', '/api/openapi.json')).body;
+    expect(Object.keys(doc.paths['/api/studies/{studyId}']!.delete!.responses)).toContain('204');
+    expect(Object.keys(doc.paths['/api/texts/{textId}']!.delete!.responses)).toContain('204');
+  });
 });

@@ -1,6 +1,7 @@
 import { For, Show } from 'solid-js';
 import { href } from '../../ui/router.js';
 import type { StudyScope } from './study-context.js';
+import { RetentionNote } from './RetentionNote.js';
 
 export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'review' | 'coding' | 'rounds' | 'agreement' | 'analysis' | 'cases' | 'upload' | 'versions' | 'audit' | 'settings';
 
@@ -34,6 +35,7 @@ export function StudyNav(props: { studyId: string; scope: StudyScope; current: S
       <h1>
         <Show when={props.scope.study()} fallback="Study">{(s) => s().title}</Show>
       </h1>
+      <RetentionNote studyId={props.studyId} scope={props.scope} />
       <nav aria-label="Study screens" class="tabs">
         <For each={TABS.filter((t) => (!t.needs || allowed(props.scope, t.needs)) && (!t.roles || t.roles.includes(props.scope.study()?.role ?? '')))}>
           {(t) => (
