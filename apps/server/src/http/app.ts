@@ -24,6 +24,7 @@ import { invitationRoutes } from './invitations.js';
 import { exchangeRoutes, lossesRoutes } from './exchange.js';
 import { analysisRoutes } from './analysis.js';
 import { roundRoutes, studyRoundRoutes } from './rounds.js';
+import { deidRoutes } from './deid.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
   const app = new Hono<AppEnv>();
@@ -41,6 +42,7 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/studies', exchangeRoutes(deps));
   api.route('/studies', analysisRoutes(deps));
   api.route('/exchange', lossesRoutes());
+  api.route('/studies', deidRoutes(deps));
   api.route('/studies', studyRoutes(deps));
   api.route('/studies/:studyId/members', memberRoutes(deps));
   api.route('/studies/:studyId/audit', auditRoutes(deps));
