@@ -103,7 +103,7 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     expect((await coder.call('POST', `/api/studies/${seed.studyId}/deid/candidates`, {})).status).toBe(403);
     expect((await coder.call('POST', `/api/studies/${seed.studyId}/deid/purge`, {})).status).toBe(403);
     expect((await lead.call('GET', `/api/studies/${seed.studyId}/pseudonyms`)).status).toBe(403);
-  });
+  }, 180_000); // generous: at load 18 on two cores one step took over 30 s
 
   it('finds the identifiers across both texts; the same person gets the same pseudonym; replacement keeps every quote outside the replaced words', async () => {
     const found = await lead.call<{ candidates: Array<{ original: string; kind: string; occurrences: number; textIds: string[]; suggestion: string }> }>(
@@ -129,21 +129,21 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     const applied = await lead.call<{ occurrences: number; texts: number }>('POST', `/api/studies/${seed.studyId}/deid/apply`, { replacements: accepted });
     expect(applied.body).toMatchObject({ occurrences: 6, texts: 2 }); // text 1: four, text 2: two
     const replace = (q: string) => q.replace(/Dana Whitcombe/g, person).replace(/\bDana\b/g, person).replace(/Lowmere/g, '[Town A]');
-    await waitFor(async () => JSON.stringify(await quotes(texts[0]!.id)) === JSON.stringify(before[0]!.map(replace).sort()), 'quotes of text 1 follow the replacement');
+    await waitFor(async () => JSON.stringify(await quotes(texts[0]!.id)) === JSON.stringify(before[0]!.map(replace).sort()), 'quotes of text 1 follow the replacement', 90_000);
     expect(await quotes(texts[0]!.id)).toEqual([person, `${person} drove me to [Town A]`, 'Who helped you at first?', 'every week'].sort());
     expect(await quotes(texts[1]!.id)).toEqual(before[1]!.map(replace).sort());
     // the audit log has each replacement, without the original words
     const entries = await server.db.select().from(auditLog).where(eq(auditLog.action, 'deid.replace'));
     expect(entries).toHaveLength(4);
     expect(JSON.stringify(entries)).not.toMatch(/Dana|Lowmere|07700/);
-  });
+  }, 180_000);
 
   it('before the purge the originals are still in the database (update log), and the scan says so', async () => {
     const scan = await lead.call<{ scan: { occurrences: number; byTable: Record<string, number> } }>('GET', `/api/studies/${seed.studyId}/deid/scan`);
     expect(scan.body.scan.occurrences).toBeGreaterThan(0);
     expect(scan.body.scan.byTable.updates).toBeGreaterThan(0);
     expect(Object.keys(await ownScan(server.db))).toContain('updates.data');
-  });
+  }, 180_000);
 
   it('the purge leaves no original in any table, keeps every quote, and an old client is told 4410 and cannot bring the history back', async () => {
     // an old client: a stock y-websocket client holding the text with its deleted names
@@ -154,7 +154,7 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
       disableBc: true,
     } as ConstructorParameters<typeof WebsocketProvider>[3]);
     provider.on('connection-close', (e: CloseEvent | null) => void (e && closes.push(e.code)));
-    await waitFor(() => provider.synced, 'old client synced');
+    await waitFor(() => provider.synced, 'old client synced', 60_000);
     expect(Buffer.from(Y.encodeStateAsUpdate(doc)).includes(Buffer.from('Whitcombe'))).toBe(true);
 
     const before = await Promise.all(texts.map((t) => quotes(t.id)));
@@ -164,7 +164,7 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     expect(purge.status).toBe(200);
     expect(purge.body.scan.occurrences).toBe(0);
     expect(purge.body.scan.tablesScanned).toBeGreaterThan(10);
-    await waitFor(() => closes.includes(4410), 'old client closed with 4410');
+    await waitFor(() => closes.includes(4410), 'old client closed with 4410', 60_000);
     // y-websocket 3 treats 4400–4499 as permanent and stops; a client that tries again anyway (raw
     // socket, the old room) completes the upgrade only to be closed with 4410 before any sync message.
     const again = await new Promise<string>((resolve) => {
@@ -198,5 +198,5 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     expect(await server.db.select().from(pseudonyms)).toEqual([]);
     const actions = (await server.db.select({ action: auditLog.action }).from(auditLog)).map((a) => a.action);
     expect(actions).toEqual(expect.arrayContaining(['deid.purge', 'deid.key.export', 'deid.key.delete']));
-  });
+  }, 180_000);
 });

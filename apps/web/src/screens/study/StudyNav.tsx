@@ -3,7 +3,7 @@ import { href } from '../../ui/router.js';
 import type { StudyScope } from './study-context.js';
 import { RetentionNote } from './RetentionNote.js';
 
-export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'review' | 'coding' | 'rounds' | 'agreement' | 'analysis' | 'cases' | 'upload' | 'versions' | 'audit' | 'settings';
+export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'review' | 'coding' | 'rounds' | 'agreement' | 'analysis' | 'cases' | 'upload' | 'versions' | 'audit' | 'deid' | 'settings';
 
 /** What the signed-in person may do in the study, as the server listed it (the server still decides). */
 export function allowed(scope: StudyScope, action: string): boolean {
@@ -24,6 +24,7 @@ const TABS: Array<{ name: Exclude<StudyTab, 'coding' | 'upload'>; label: string;
   { name: 'analysis', label: 'Analysis' },
   { name: 'versions', label: 'Versions' },
   { name: 'audit', label: 'Audit log', needs: 'audit.view' },
+  { name: 'deid', label: 'De-identify', needs: 'deid.manage' },
   { name: 'settings', label: 'Settings' },
 ];
 
