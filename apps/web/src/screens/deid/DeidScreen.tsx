@@ -25,6 +25,7 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
   const [applied, setApplied] = createSignal<string | null>(null);
   const [scan, setScan] = createSignal<{ scan: Scan; keyEntries: number } | null>(null);
   const [confirmPurge, setConfirmPurge] = createSignal(false);
+  const [changes, setChanges] = createSignal(0);
   const submit = createSubmit();
 
   const find = (e: Event) => {
@@ -45,6 +46,7 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
       const res = await deidApi.apply(props.studyId, accepted().map((r) => ({ original: r.original, pseudonym: r.pseudonym.trim(), kind: r.kind })));
       setApplied(`Replaced ${res.occurrences} occurrence(s) in ${res.texts} text(s); ${res.segmentsMoved} segment boundary(ies) moved to stay on their words.`);
       setRows(null);
+      setChanges((n) => n + 1);
       setScan(await deidApi.scan(props.studyId));
     });
   const purge = () =>
@@ -148,7 +150,7 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
           <p><button type="button" class="quiet" disabled={submit.busy()} onClick={check}>Check the database again</button></p>
 
           <Show when={allowed(props.scope, 'deid.key')}>
-            <PseudonymKey studyId={props.studyId} />
+            <PseudonymKey studyId={props.studyId} changes={changes()} />
           </Show>
         </section>
         <aside aria-labelledby="deid-caution-h" class="cautions">

@@ -3,8 +3,9 @@ import { deidApi } from '../../api/deid-api.js';
 import { createSubmit, when } from '../../ui/forms.js';
 
 /** The study's pseudonym key, for the owner only: read it, export it once, delete it. */
-export function PseudonymKey(props: { studyId: string }) {
-  const [key, { refetch }] = createResource(() => props.studyId, (id) => deidApi.key(id));
+export function PseudonymKey(props: { studyId: string; changes: number }) {
+  // read again after each apply (`changes` counts them)
+  const [key, { refetch }] = createResource(() => [props.studyId, props.changes] as const, ([id]) => deidApi.key(id));
   const [shown, setShown] = createSignal(false);
   const [confirmDelete, setConfirmDelete] = createSignal(false);
   const submit = createSubmit();
