@@ -82,5 +82,20 @@ test('an owner finds, accepts, applies and purges; an open copy is discarded and
   await page.getByRole('button', { name: 'Show the key' }).click();
   await expect(page.getByRole('table', { name: 'Pseudonym key' })).toContainText('Dana Whitcombe');
   await shot(page, 'deid-key-owner');
+
+  // deletion is offered with a confirmation that says what goes (the deletion itself: test/server/deletion.test.ts)
+  const tabs = page.getByRole('navigation', { name: 'Study screens' });
+  await tabs.getByRole('link', { name: 'Texts' }).click();
+  await page.getByRole('button', { name: 'Delete Helpers 2' }).click();
+  await expect(page.getByRole('alertdialog', { name: 'Delete Helpers 2?' })).toContainText('cannot be undone');
+  await shot(page, 'delete-text-confirm-owner');
+  await page.getByRole('button', { name: 'Keep it' }).click();
+  await tabs.getByRole('link', { name: 'Settings' }).click();
+  const zone = page.getByRole('form', { name: 'Delete this study' });
+  await expect(zone.getByRole('button', { name: 'Delete the study and all its data' })).toBeDisabled();
+  await zone.getByLabel('Type the study’s title to confirm').fill('Community transport');
+  await expect(zone.getByRole('button', { name: 'Delete the study and all its data' })).toBeEnabled();
+  await zone.scrollIntoViewIfNeeded();
+  await shot(page, 'delete-study-owner');
   await context.close();
 });
