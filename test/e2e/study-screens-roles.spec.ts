@@ -52,7 +52,13 @@ for (const role of ['owner', 'lead', 'coder', 'observer'] as const) {
     await expect(page.getByRole('button', { name: 'Password reset link' }).first()).toHaveCount(role === 'owner' ? 1 : 0);
     await audit(page, `roles-members-${role}`);
 
+    // de-identification: owners and leads only (the server refuses the rest: test/server/deid.test.ts)
+    await expect(tabs.getByRole('link', { name: 'De-identify' })).toHaveCount(leads ? 1 : 0);
     if (leads) {
+      await tabs.getByRole('link', { name: 'De-identify' }).click();
+      await expect(page.getByRole('heading', { name: 'De-identify the texts' })).toBeVisible();
+      await expect(page.getByRole('heading', { name: /pseudonym key/ })).toHaveCount(role === 'owner' ? 1 : 0);
+      await audit(page, `roles-deid-${role}`);
       await tabs.getByRole('link', { name: 'Audit log' }).click();
       await expect(page.getByRole('table', { name: 'Log entries' })).toBeVisible();
       await audit(page, `roles-audit-${role}`);

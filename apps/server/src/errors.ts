@@ -21,6 +21,8 @@ export type ErrorCode =
   | 'link_used'
   | 'link_expired'
   | 'not_ready'
+  | 'document_replaced'
+  | 'nothing_to_purge'
   | 'internal';
 
 export class HttpError extends Error {

@@ -21,6 +21,7 @@ import { Upload } from './screens/upload/Upload.js';
 import { CasesScreen } from './screens/cases/CasesScreen.js';
 import { VersionsScreen } from './screens/versions/VersionsScreen.js';
 import { AuditScreen } from './screens/audit/AuditScreen.js';
+import { DeidScreen } from './screens/deid/DeidScreen.js';
 import { useStudy } from './screens/study/study-context.js';
 import { StudyAgreementScreen } from './screens/agreement/AgreementScreen.js';
 import { RoundsScreen } from './screens/rounds/RoundsScreen.js';
@@ -47,6 +48,7 @@ function StudyArea(props: { studyId: string; me: Me }) {
       <Match when={route().name === 'cases'}><CasesScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'versions'}><VersionsScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'audit'}><AuditScreen studyId={props.studyId} scope={scope} /></Match>
+      <Match when={route().name === 'deid'}><DeidScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={(() => { const r = route(); return r.name === 'coding' ? r.textId : undefined; })()}>
         {(textId) => <CodingScreen studyId={props.studyId} textId={textId()} scope={scope} me={props.me} segmentId={(() => { const r = route(); return r.name === 'coding' ? r.segmentId : undefined; })()} />}
       </Match>

@@ -19,3 +19,4 @@ export * from './versions.js';
 export * from './examples.js';
 export * from './comparison.js';
 export * from './proposals.js';
+export * from './deid.js';

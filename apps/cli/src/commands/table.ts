@@ -52,6 +52,13 @@ export const commandTable: Record<string, CommandEntry> = {
       'prints a JSON report; what the standard cannot carry and any warnings go to stderr. --end auto|exclusive|inclusive.',
     run: async (argv) => (await import('./import.js')).importCommand(argv),
   },
+  retention: {
+    usage: 'gloss retention [--delete --yes]',
+    summary:
+      'List the studies past their retention date (JSON on stdout). --delete removes each with every row of it (asks on a ' +
+      'terminal; scripts add --yes). Each deletion leaves one audit entry with ids and counts only.',
+    run: async (argv) => (await import('./retention.js')).retentionCommand(argv),
+  },
 };
 
 export function printHelp(out: NodeJS.WritableStream): void {

@@ -13,7 +13,8 @@ import type { SessionService, ValidSession } from '../auth/sessions.js';
 import { recordAudit } from '../admin/audit.js';
 import { HttpError, forbidden, notFound, unauthenticated } from '../errors.js';
 import type { Recheck, RoomAuthorizer, RoomGrant } from '../sync/contracts.js';
-import { findDocument, roleIn } from './membership.js';
+import { AppCloseCode } from '../sync/errors.js';
+import { findDocument, findRetired, roleIn } from './membership.js';
 import { decideDocument } from './rounds.js';
 
 export interface AuthorizerDeps {
@@ -29,19 +30,27 @@ export const LOST_ACCESS = {
   expired: 'Your session expired. Sign in again to continue.',
   notMember: 'You are no longer a member of this study.',
   mayNotRead: 'Your role in this study no longer lets you open this document.',
-  gone: 'This document no longer exists.',
+  gone: 'This document was deleted.',
+  replaced: 'This text was rebuilt after de-identification: your copy on this device must be discarded.',
 } as const;
 
 /** `viewed`: someone else's layer (its coder and text), for the access log. */
 type Decision =
   | { ok: true; grant: RoomGrant; viewed: { coderId: string | null; textId: string | null } | null }
-  | { ok: false; status: 403 | 404; reason: string };
+  | { ok: false; status: 403 | 404 | 410; reason: string; closeCode?: number };
 
 export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }: AuthorizerDeps): RoomAuthorizer {
   /** The one rule: may this signed-in person open this room now, and may they write? */
   async function decide(session: ValidSession, room: string): Promise<Decision> {
+    // A purge retires the text's old room before it deletes it: connections to it must drop their copy.
+    const retired = await findRetired(db, room);
+    if (retired) {
+      const role = await roleIn(db, retired.studyId, session.user.id);
+      if (!role) return { ok: false, status: 403, reason: LOST_ACCESS.notMember };
+      return { ok: false, status: 410, reason: LOST_ACCESS.replaced, closeCode: AppCloseCode.replaced };
+    }
     const doc = await findDocument(db, room);
-    if (!doc) return { ok: false, status: 404, reason: LOST_ACCESS.gone };
+    if (!doc) return { ok: false, status: 404, reason: LOST_ACCESS.gone, closeCode: AppCloseCode.deleted };
     const role = await roleIn(db, doc.studyId, session.user.id);
     if (!role) return { ok: false, status: 403, reason: LOST_ACCESS.notMember };
     // Rounds narrow the role table per document (an independent phase); `reason` says why in plain words.
@@ -86,6 +95,7 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
       const decision = await decide(session, room);
       if (!decision.ok) {
         if (decision.status === 404) throw notFound('Room');
+        if (decision.status === 410) throw new HttpError(410, 'document_replaced', decision.reason);
         throw forbidden(decision.reason === LOST_ACCESS.notMember ? 'You are not a member of this study.' : decision.reason === LOST_ACCESS.mayNotRead ? undefined : decision.reason);
       }
       const { grant } = decision;
@@ -103,7 +113,7 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
         return { ok: false, reason: expired ? LOST_ACCESS.expired : LOST_ACCESS.signedOut };
       }
       const decision = await decide(session, grant.docId);
-      return decision.ok ? { ok: true, grant: decision.grant } : { ok: false, reason: decision.reason };
+      return decision.ok ? { ok: true, grant: decision.grant } : { ok: false, reason: decision.reason, ...(decision.closeCode ? { closeCode: decision.closeCode } : {}) };
     },
   };
 }

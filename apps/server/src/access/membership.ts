@@ -1,5 +1,5 @@
 /** Looking up a user's role in a study, and a document with its study. */
-import { type Db, documents, memberships } from '@gloss/db';
+import { type Db, documents, memberships, retiredDocuments } from '@gloss/db';
 import { and, eq } from 'drizzle-orm';
 import type { Role } from '../sync/contracts.js';
 import { isUuid } from '../ids.js';
@@ -16,5 +16,12 @@ export async function roleIn(db: Db, studyId: string, userId: string): Promise<R
 export async function findDocument(db: Db, docId: string) {
   if (!isUuid(docId)) return null;
   const [row] = await db.select().from(documents).where(eq(documents.id, docId));
+  return row ?? null;
+}
+
+/** A text document a de-identification purge replaced (its old room), or null. */
+export async function findRetired(db: Db, docId: string) {
+  if (!isUuid(docId)) return null;
+  const [row] = await db.select().from(retiredDocuments).where(eq(retiredDocuments.id, docId));
   return row ?? null;
 }

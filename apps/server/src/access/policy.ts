@@ -28,6 +28,10 @@ export const ACTIONS = [
   'round.read', // see the study's rounds (names, phases, progress of one's own)
   'round.manage', // start, reveal, close a round; see its progress board
   'consensus.write', // adjudicate into a round's consensus layer
+  'study.delete', // remove the study and every row of it
+  'text.delete', // remove a text and every row of it
+  'deid.manage', // find identifiers, apply pseudonyms, purge the originals
+  'deid.key', // read, export and delete the pseudonym key
 ] as const;
 export type Action = (typeof ACTIONS)[number];
 
@@ -56,6 +60,10 @@ const TABLE: Record<Action, Record<Role, boolean>> = {
   'round.read':         { owner: o, lead: o, coder: o, trainee: o, observer: o },
   'round.manage':       { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'consensus.write':    { owner: o, lead: o, coder: _, trainee: _, observer: _ },
+  'study.delete':       { owner: o, lead: _, coder: _, trainee: _, observer: _ },
+  'text.delete':        { owner: o, lead: o, coder: _, trainee: _, observer: _ },
+  'deid.manage':        { owner: o, lead: o, coder: _, trainee: _, observer: _ },
+  'deid.key':           { owner: o, lead: _, coder: _, trainee: _, observer: _ },
 };
 
 export function can(role: Role, action: Action): boolean {

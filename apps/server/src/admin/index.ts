@@ -5,3 +5,5 @@ export { createStudy, addMember, removeMember, type NewStudy } from './studies.j
 export { addTextFromTranscript, ensureLayer, type NewText } from './texts.js';
 export { transcriptFromPlainText, buildTextDocUpdate, wordCount } from './text-doc.js';
 export { recordAudit, type AuditEntry } from './audit.js';
+export { deleteStudy, deleteText, type Deleted } from './deletion.js';
+export { studiesPastRetention, retentionState, RETENTION_REMINDER_DAYS, type RetentionDue, type RetentionState } from './retention.js';

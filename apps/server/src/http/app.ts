@@ -27,6 +27,7 @@ import { exchangeRoutes, lossesRoutes } from './exchange.js';
 import { analysisRoutes } from './analysis.js';
 import { studyEventRoutes } from './study-events.js';
 import { roundRoutes, studyRoundRoutes } from './rounds.js';
+import { deidRoutes } from './deid.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => logFor(deps).error({ err }, 'request failed')) {
   const app = new Hono<AppEnv>();
@@ -47,6 +48,7 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => l
   api.route('/studies', analysisRoutes(deps));
   api.route('/studies', studyEventRoutes(deps));
   api.route('/exchange', lossesRoutes());
+  api.route('/studies', deidRoutes(deps));
   api.route('/studies', studyRoutes(deps));
   api.route('/studies/:studyId/members', memberRoutes(deps));
   api.route('/studies/:studyId/audit', auditRoutes(deps));

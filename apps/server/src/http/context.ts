@@ -16,7 +16,7 @@ export interface AppDeps {
   db: Db;
   dbKind: DbKind;
   /** Documents' current state (segments, versions, agreement read it); absent in bare app tests. */
-  store?: Pick<UpdateStore, 'load'>;
+  store?: Pick<UpdateStore, 'load'> & Partial<Pick<UpdateStore, 'flush'>>;
   sessions: SessionService;
   signInLimiter: RateLimiter;
   /**

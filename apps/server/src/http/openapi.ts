@@ -109,6 +109,15 @@ export function buildOpenApi() {
           requestBody: body('UpdateStudyBody'),
           responses: { ...ok('Study', 'Changed'), ...errors(400, 401, 403, 404) },
         },
+        delete: {
+          summary:
+            'Delete the study and every row of it in one transaction (texts, documents with their update log, snapshots and versions, projections, ' +
+            'memos, comments, rounds, cases, the pseudonym key, its audit log); one audit entry of ids and counts remains. Open sync connections of ' +
+            'its documents close with 4404. Owner.',
+          security: secured,
+          parameters: [idParam('studyId')],
+          responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) },
+        },
       },
       '/api/studies/{studyId}/audit': {
         get: {
@@ -168,6 +177,14 @@ export function buildOpenApi() {
           security: secured,
           parameters: [idParam('textId')],
           responses: { ...ok('TextDetail', 'The text'), ...errors(401, 404) },
+        },
+        delete: {
+          summary:
+            'Delete the text and every row of it in one transaction (its documents, update log, snapshots, versions, layers, segments, comments, ' +
+            'rounds\' rows for it, case links); earlier audit entries about it lose their details. Open sync connections close with 4404. Owner, lead.',
+          security: secured,
+          parameters: [idParam('textId')],
+          responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) },
         },
       },
       ...codingPaths,

@@ -5,6 +5,7 @@ import { Hono } from 'hono';
 import { ACTIONS, can } from '../access/policy.js';
 import { createStudy } from '../admin/studies.js';
 import { recordAudit } from '../admin/audit.js';
+import { deleteStudy } from '../admin/deletion.js';
 import { notFound } from '../errors.js';
 import type { Role } from '../sync/contracts.js';
 import type { AppDeps, AppEnv } from './context.js';
@@ -82,6 +83,14 @@ export function studyRoutes(deps: AppDeps) {
     const action = body.archived === true ? 'study.archive' : body.archived === false ? 'study.unarchive' : 'study.update';
     await recordAudit(deps.db, { userId: c.get('session').user.id, studyId, action, target: studyId, detail: body });
     return c.json(await describe(studyId, role));
+  });
+
+  app.delete('/:studyId', async (c) => {
+    const { studyId } = await studyRole(deps, c, 'study.delete');
+    await deleteStudy(deps.db, studyId, c.get('session').user.id);
+    // Open sockets of its documents close (4404, on every node) now that the rows are gone.
+    await deps.liveAccess.changed({ studyId });
+    return c.body(null, 204);
   });
 
   async function describe(studyId: string, role: Role) {

@@ -7,7 +7,8 @@ import { openRoundOfText } from '../access/rounds.js';
 import { layerEntries } from '../rounds/layer-entries.js';
 import { addTextFromTranscript, ensureLayer } from '../admin/texts.js';
 import { transcriptFromPlainText } from '../admin/text-doc.js';
-import { HttpError, notFound } from '../errors.js';
+import { HttpError, forbidden, notFound } from '../errors.js';
+import { deleteText } from '../admin/deletion.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
 import { NewTextBody } from './schemas.js';
@@ -61,6 +62,14 @@ export function studyTextRoutes(deps: AppDeps) {
 export function textRoutes(deps: AppDeps) {
   const app = new Hono<AppEnv>();
   app.use('*', requireSession(deps));
+
+  app.delete('/:textId', async (c) => {
+    const { text, role, me } = await textRole(deps, c);
+    if (!can(role, 'text.delete')) throw forbidden('Only the study’s owner or a lead may delete a text.');
+    const deleted = await deleteText(deps.db, text.id, me);
+    await deps.liveAccess.changed({ roomIds: deleted.docIds });
+    return c.body(null, 204);
+  });
 
   app.get('/:textId', async (c) => {
     const { text, me, role } = await textRole(deps, c);

@@ -72,13 +72,13 @@ export class Connection implements RoomPeer {
     }
   }
 
-  /** Closes this connection because it may no longer read its room (1008, a plain reason). */
-  revoke(reason: string): void {
+  /** Closes this connection because it may no longer read its room (1008 unless told otherwise, a plain reason). */
+  revoke(reason: string, closeCode: number = CloseCode.policyViolation): void {
     if (this.closed) return;
     this.closed = true;
     this.backlog = null;
     this.logger.debug?.({ room: this.grantValue.room, userId: this.grantValue.userId, reason }, 'access revoked; closing');
-    this.ws.close(CloseCode.policyViolation, closeReason(reason));
+    this.ws.close(closeCode, closeReason(reason));
   }
 
   /** Called once the room has loaded: greet, then handle what queued up meanwhile. */

@@ -43,7 +43,7 @@ export interface RoomGrant {
 }
 
 /** The outcome of re-running the decision for an open connection: its grant now, or why it lost the room. */
-export type Recheck = { ok: true; grant: RoomGrant } | { ok: false; reason: string };
+export type Recheck = { ok: true; grant: RoomGrant } | { ok: false; reason: string; /** default 1008 */ closeCode?: number };
 
 /**
  * Decides, at the WebSocket upgrade, whether a request may open a room. Throws an HttpError (401/403/404).

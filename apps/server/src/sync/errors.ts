@@ -29,3 +29,14 @@ export const CloseCode = {
   tryAgainLater: 1013,
   goingAway: 1001,
 } as const;
+
+/**
+ * Application close codes (RFC 6455 §7.4.2 leaves 4000–4999 to applications); the numbers echo the
+ * HTTP statuses they mean. A client must not reconnect to the room after either.
+ */
+export const AppCloseCode = {
+  /** The document was deleted (with its text or study). */
+  deleted: 4404,
+  /** The document was rebuilt under a new room (a de-identification purge): discard the local copy and reload. */
+  replaced: 4410,
+} as const;

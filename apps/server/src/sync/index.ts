@@ -7,7 +7,7 @@ import type { Duplex } from 'node:stream';
 import { WebSocketServer, type WebSocket } from 'ws';
 import { Connection, DEFAULT_MAX_PRESENCE_BYTES } from './connection.js';
 import type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
-import { CloseCode, SyncError } from './errors.js';
+import { AppCloseCode, CloseCode, SyncError } from './errors.js';
 import type { ConnectionTracker } from './live-access.js';
 import { consoleLogger, type SyncLogger } from './logger.js';
 import { RoomRegistry } from './room-registry.js';
@@ -91,6 +91,13 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
     } catch (error) {
       const status = statusOf(error);
       if (status === 500) logger.error({ err: error, room }, 'authorizer failed');
+      // A room a purge replaced: an HTTP refusal would only make the client retry with its old copy,
+      // so the upgrade completes and the socket closes at once with a code that says "discard it".
+      if (status === 410 && !socket.destroyed) {
+        const reason = error instanceof Error ? error.message.slice(0, 120) : 'replaced';
+        wss.handleUpgrade(req, socket, head, (ws) => ws.close(AppCloseCode.replaced, reason));
+        return;
+      }
       return refuse(socket, status);
     }
     if (socket.destroyed) return;
@@ -180,6 +187,6 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
 }
 
 export type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
-export { SyncError, CloseCode } from './errors.js';
+export { SyncError, CloseCode, AppCloseCode } from './errors.js';
 export { createLiveAccess, ACCESS_CHANNEL, type AccessChange, type LiveAccess, type LiveAccessService } from './live-access.js';
 export type { SyncLogger } from './logger.js';

@@ -32,8 +32,8 @@ export interface LiveConnection {
   readonly grant: RoomGrant;
   /** Applies a re-evaluated grant (may narrow write; the room stays the same). */
   regrant(grant: RoomGrant): void;
-  /** Closes with 1008 and `reason`. */
-  revoke(reason: string): void;
+  /** Closes with `closeCode` (default 1008) and `reason`. */
+  revoke(reason: string, closeCode?: number): void;
 }
 
 /** The side the sync endpoint uses. */
@@ -115,7 +115,7 @@ export function createLiveAccess(options: LiveAccessOptions): LiveAccessService 
     if (entry === undefined) return; // closed meanwhile
     if (!outcome.ok) {
       untrack(connection);
-      connection.revoke(outcome.reason);
+      connection.revoke(outcome.reason, outcome.closeCode);
       return;
     }
     if (outcome.grant.room !== connection.grant.room) return; // cannot happen: the decision is for the same document

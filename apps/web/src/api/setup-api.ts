@@ -78,6 +78,8 @@ export const setupApi = {
   studySettings: async (id: string): Promise<StudySettings> => (await call('GET', `/api/studies/${enc(id)}`)) as StudySettings,
   updateStudy: async (id: string, body: Partial<NewStudy> & { archived?: boolean }): Promise<StudySettings> =>
     (await call('PATCH', `/api/studies/${enc(id)}`, body)) as StudySettings,
+  deleteStudy: async (id: string): Promise<void> => void (await call('DELETE', `/api/studies/${enc(id)}`)),
+  deleteText: async (id: string): Promise<void> => void (await call('DELETE', `/api/texts/${enc(id)}`)),
   allStudies: async (): Promise<Array<{ id: string; title: string; role: Role; mode: StudyMode; archivedAt: string | null; description: string }>> =>
     (await call('GET', '/api/studies')) as never,
 

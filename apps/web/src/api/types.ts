@@ -22,6 +22,8 @@ export interface Study extends StudySummary {
   memosRoom: string;
   /** Independent coding or reflexive mode etc., as the server reports it. */
   mode?: string;
+  /** The date after which the study's data should be deleted (ISO), when one is set. */
+  retentionUntil?: string | null;
   /** Actions the caller's role allows in this study (the server's role table). */
   permissions?: string[];
 }

@@ -19,6 +19,16 @@ export type Confirmation = { outcome: 'saved' } | { outcome: 'refused'; reason: 
 export type DocState = 'loading' | 'ready' | 'unloading' | 'closed';
 /** The server closes a connection that lost the right to read its room with 1008 (RFC 6455 "policy violation"). */
 export const LOST_ACCESS_CLOSE = 1008;
+/** The document was deleted (with its text or study): nothing to reconnect to; the local copy goes too. */
+export const DELETED_CLOSE = 4404;
+/**
+ * The text was rebuilt under a new room by a de-identification purge: the copy here still holds the
+ * removed words, so it is discarded (never sent back) and the page reloads onto the new room.
+ */
+export const REPLACED_CLOSE = 4410;
+const NO_RECONNECT = new Set([LOST_ACCESS_CLOSE, DELETED_CLOSE, REPLACED_CLOSE]);
+/** Survives the reload after a replaced document, so the next page can say why it reloaded. */
+export const RELOAD_NOTICE_KEY = 'gloss-reload-notice';
 export type LinkState = 'connecting' | 'connected' | 'disconnected' | 'paused';
 
 export interface OpenDoc {
@@ -113,7 +123,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     connect: !paused && !defer,
     maxBackoffTime: 2500,
     // Access taken away is not a network problem: reconnecting would only be refused again.
-    shouldReconnect: (event: CloseEvent) => event.code !== LOST_ACCESS_CLOSE,
+    shouldReconnect: (event: CloseEvent) => !NO_RECONNECT.has(event.code),
   });
   let released = false;
   let closing: Promise<void> = Promise.resolve();
@@ -132,6 +142,14 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   const [lost, setLost] = createSignal<string | null>(null);
   provider.on('connection-close', (event: CloseEvent | null) => {
     if (event?.code === LOST_ACCESS_CLOSE) setLost(event.reason || 'You may no longer open this document.');
+    if (event?.code === DELETED_CLOSE) {
+      setLost(event.reason || 'This document was deleted.');
+      void local?.clearData();
+    }
+    if (event?.code === REPLACED_CLOSE) {
+      sessionStorage.setItem(RELOAD_NOTICE_KEY, `${opts.label}: ${event.reason || 'the text was rebuilt after de-identification'} This device’s copy was discarded and the page reloaded.`);
+      void handle.discardLocalCopy();
+    }
   });
   const [refused, setRefusedSig] = createSignal<string | null>(null);
   const [refusals, setRefusals] = createSignal(0);

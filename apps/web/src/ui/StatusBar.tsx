@@ -1,7 +1,7 @@
 /** Always-visible connection status, what is waiting to be sent, and the work-offline switch. */
 import { For, Show, createSignal } from 'solid-js';
 import { lostAccess, openDocs, overall, refusedChanges, waiting } from '../sync/status.js';
-import { isPaused, setPaused } from '../sync/open-doc.js';
+import { isPaused, RELOAD_NOTICE_KEY, setPaused } from '../sync/open-doc.js';
 import { DataNotice } from './DataNotice.js';
 
 const WORDS = {
@@ -13,14 +13,28 @@ const WORDS = {
   lost: 'Access ended by the server',
 } as const;
 
+/** Why the page just reloaded (a document replaced by a purge), read once and forgotten. */
+function takeReloadNotice(): string | null {
+  const notice = sessionStorage.getItem(RELOAD_NOTICE_KEY);
+  sessionStorage.removeItem(RELOAD_NOTICE_KEY);
+  return notice;
+}
+
 export function StatusBar() {
   const [paused, setP] = createSignal(isPaused());
+  const [reloadNotice, setReloadNotice] = createSignal(takeReloadNotice());
   const toggle = () => {
     setPaused(!paused());
     setP(!paused());
   };
   return (
     <footer class="status-bar">
+      <Show when={reloadNotice()}>
+        <div class="status-line refused" role="alert" data-testid="reload-notice">
+          <span>{reloadNotice()}</span>
+          <button type="button" class="link" onClick={() => setReloadNotice(null)}>Dismiss</button>
+        </div>
+      </Show>
       <For each={refusedChanges()}>
         {(r) => (
           <div class="status-line refused" role="alert" data-testid="refused-change">

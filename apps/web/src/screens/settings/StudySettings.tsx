@@ -7,6 +7,7 @@ import { DataNotice } from '../../ui/DataNotice.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
 import { emptyStudy, StudyFields } from '../studies/NewStudyForm.js';
+import { DeleteStudy } from './DeleteStudy.js';
 
 /** A study's settings: the owner edits them and archives the study; everyone else reads them. */
 export function StudySettings(props: { studyId: string; scope: StudyScope }) {
@@ -53,6 +54,9 @@ export function StudySettings(props: { studyId: string; scope: StudyScope }) {
               <button type="button" class="quiet" onClick={() => archive(false)}>Bring the study back</button>
             </Show>
           </section>
+        </Show>
+        <Show when={study()?.permissions.includes('study.delete')}>
+          <DeleteStudy studyId={props.studyId} title={study()!.title} />
         </Show>
         <p><a href={href({ name: 'study', studyId: props.studyId })}>Go to the texts</a> to upload transcripts next.</p>
       </Loading>

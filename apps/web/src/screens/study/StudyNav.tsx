@@ -1,8 +1,9 @@
 import { For, Show } from 'solid-js';
 import { href } from '../../ui/router.js';
 import type { StudyScope } from './study-context.js';
+import { RetentionNote } from './RetentionNote.js';
 
-export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'review' | 'coding' | 'rounds' | 'agreement' | 'analysis' | 'cases' | 'upload' | 'versions' | 'audit' | 'settings';
+export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'review' | 'coding' | 'rounds' | 'agreement' | 'analysis' | 'cases' | 'upload' | 'versions' | 'audit' | 'deid' | 'settings';
 
 /** What the signed-in person may do in the study, as the server listed it (the server still decides). */
 export function allowed(scope: StudyScope, action: string): boolean {
@@ -23,6 +24,7 @@ const TABS: Array<{ name: Exclude<StudyTab, 'coding' | 'upload'>; label: string;
   { name: 'analysis', label: 'Analysis' },
   { name: 'versions', label: 'Versions' },
   { name: 'audit', label: 'Audit log', needs: 'audit.view' },
+  { name: 'deid', label: 'De-identify', needs: 'deid.manage' },
   { name: 'settings', label: 'Settings' },
 ];
 
@@ -34,6 +36,7 @@ export function StudyNav(props: { studyId: string; scope: StudyScope; current: S
       <h1>
         <Show when={props.scope.study()} fallback="Study">{(s) => s().title}</Show>
       </h1>
+      <RetentionNote studyId={props.studyId} scope={props.scope} />
       <nav aria-label="Study screens" class="tabs">
         <For each={TABS.filter((t) => (!t.needs || allowed(props.scope, t.needs)) && (!t.roles || t.roles.includes(props.scope.study()?.role ?? '')))}>
           {(t) => (

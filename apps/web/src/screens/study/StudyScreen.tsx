@@ -7,6 +7,7 @@ import { DataNotice } from '../../ui/DataNotice.js';
 import type { StudyScope } from './study-context.js';
 import { StudyNav, allowed } from './StudyNav.js';
 import { PresenceList } from './PresenceList.js';
+import { DeleteText } from './DeleteText.js';
 
 export function StudyScreen(props: { studyId: string; scope: StudyScope }) {
   const [texts, { refetch: refetchTexts }] = createResource(() => props.studyId, (id) => api.texts(id));
@@ -24,6 +25,7 @@ export function StudyScreen(props: { studyId: string; scope: StudyScope }) {
     }));
     return out;
   });
+  const canDelete = () => allowed(props.scope, 'text.delete');
   const nameOf = (id: string) => members()?.find((m) => m.userId === id)?.name ?? 'a coder';
   return (
     <main class="page">
@@ -37,7 +39,7 @@ export function StudyScreen(props: { studyId: string; scope: StudyScope }) {
           <Loading loading={texts.loading} error={texts.error} what="the texts">
             <table class="texts">
               <thead>
-                <tr><th scope="col">Text</th><th scope="col">Coding so far (segments per coder)</th><th scope="col">Open now</th></tr>
+                <tr><th scope="col">Text</th><th scope="col">Coding so far (segments per coder)</th><th scope="col">Open now</th><Show when={canDelete()}><th scope="col"><span class="sr-only">Delete</span></th></Show></tr>
               </thead>
               <tbody>
                 <For
@@ -66,6 +68,9 @@ export function StudyScreen(props: { studyId: string; scope: StudyScope }) {
                           {(p) => <span class="person" style={{ 'border-color': p.colour }}>{p.name}</span>}
                         </For>
                       </td>
+                      <Show when={canDelete()}>
+                        <td><DeleteText textId={t.id} title={t.title} onDeleted={() => void refetchTexts()} /></td>
+                      </Show>
                     </tr>
                   )}
                 </For>
