@@ -17,6 +17,7 @@ import {
 import { and, asc, eq, inArray } from 'drizzle-orm';
 import { documentAccess } from '../access/policy.js';
 import { studyRounds } from '../access/rounds.js';
+import { studySupervision } from '../access/supervision.js';
 import type { Role } from '../sync/contracts.js';
 import type { CaseFact, SegmentFact } from './tables.js';
 
@@ -40,8 +41,9 @@ export async function readableLayers(db: Db, studyId: string, role: Role, me: st
     .where(and(eq(documents.studyId, studyId), eq(documents.kind, 'layer')));
   // Rounds narrow who reads which layer (an independent phase hides others' coding): the one rule in access/.
   const { byId, openByText } = await studyRounds(db, studyId);
+  const supervision = await studySupervision(db, studyId, me);
   return rows
-    .filter((r) => documentAccess(role, { kind: 'layer', coderId: r.coderId, roundId: r.roundId }, me, { openRound: openByText.get(r.textId ?? '') ?? null, layerRound: r.roundId ? (byId.get(r.roundId) ?? null) : null }).read)
+    .filter((r) => documentAccess(role, { id: r.id, kind: 'layer', coderId: r.coderId, roundId: r.roundId }, me, { openRound: openByText.get(r.textId ?? '') ?? null, layerRound: r.roundId ? (byId.get(r.roundId) ?? null) : null }, supervision.of(r.textId)).read)
     .map((r) => r.id);
 }
 

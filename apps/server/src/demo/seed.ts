@@ -15,6 +15,7 @@ import * as Y from 'yjs';
 import { loadDemo } from '../../../../demo/load.js';
 import { addMember, addTextFromTranscript, createStudy, createUser, ensureLayer, findUserByEmail } from '../admin/index.js';
 import type { Role } from '../sync/contracts.js';
+import { assignText, setReference } from '../supervision/records.js';
 
 interface DemoAccount { email: string; password: string; role: Role; name: string }
 interface DemoCode {
@@ -41,6 +42,8 @@ export interface SeedResult {
 
 /** The texts that get two coders' layers at seed time (first and last interview). */
 const LAYERED_TEXTS = new Set(['p01-beacon-projection.txt', 'p04-ferrowgate-chair.txt']);
+/** The text assigned to the demo's trainee (with the first coder's layer as its reference). */
+const TRAINEE_TEXT = 'p01-beacon-projection.txt';
 
 async function hasAnyStudy(db: Db): Promise<boolean> {
   const rows = await db.select({ id: studies.id }).from(studies).limit(1);
@@ -166,6 +169,7 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
   }
   await putFirstState(db, created.memosRoom, memoDoc, lead.by);
 
+  let reference: string | null = null;
   // Two coders' layers on two texts: both code the examples; the second coder also applies codes to
   // their near-misses, so the demo shows disagreement and (on P04) the exclusive-set flag.
   for (const [file, doc] of textDocs) {
@@ -183,7 +187,15 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
       }
       const layerId = await ensureLayer(db, created.id, textIds.get(file)!, coderId);
       await putFirstState(db, layerId, layer, coderId);
+      if (file === TRAINEE_TEXT && i === 0) reference = layerId;
     }
+  }
+  // Supervision: the trainee practises on the first interview, compared with the first coder's layer.
+  const trainee = accounts.find((a) => a.role === 'trainee');
+  const practice = textIds.get(TRAINEE_TEXT);
+  if (trainee && practice) {
+    await assignText(db, { studyId: created.id, textId: practice, userId: userIds.get(trainee.email)!, assignedBy: lead.by });
+    if (reference) await setReference(db, practice, reference, lead.by);
   }
   return { seeded: true, studyId: created.id, accounts: listed };
 }

@@ -24,6 +24,7 @@ import { invitationRoutes } from './invitations.js';
 import { exchangeRoutes, lossesRoutes } from './exchange.js';
 import { analysisRoutes } from './analysis.js';
 import { roundRoutes, studyRoundRoutes } from './rounds.js';
+import { studySupervisionRoutes, textReferenceRoutes } from './supervision.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => console.error(err)) {
   const app = new Hono<AppEnv>();
@@ -50,6 +51,8 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => c
   api.route('/studies/:studyId/agreement', agreementRoutes(deps));
   api.route('/texts', segmentRoutes(deps));
   api.route('/texts', comparisonRoutes(deps));
+  api.route('/texts', textReferenceRoutes(deps));
+  api.route('/studies/:studyId', studySupervisionRoutes(deps));
   api.route('/', commentRoutes(deps));
   api.route('/documents', versionRoutes(deps));
   api.route('/studies/:studyId/rounds', studyRoundRoutes(deps));
