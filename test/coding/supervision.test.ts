@@ -74,7 +74,7 @@ describe.each(dbKinds())('supervision of trainees at the wire on %s', (db) => {
       const segId = addSegment(tLayer.doc, tText.doc, { codeId: s.codes.tools, start: at, end: at + words.length });
       const at2 = aText.doc.getText('text').toString().indexOf('spade');
       addSegment(aLayer.doc, aText.doc, { codeId: s.codes.tools, start: at2, end: at2 + 5 });
-      await until(async () => (await coder.call<{ segments: unknown[] }>('GET', `/api/texts/${unassigned}/segments`)).body.segments?.length === 1, 'coder segment stored');
+      await until(async () => (await coder.call<unknown[]>('GET', `/api/texts/${unassigned}/segments`)).body.length === 1, 'coder segment stored');
       const thread = await lead.call<{ id: string }>('POST', `/api/texts/${unassigned}/comments`, { layer: coderLayer, segmentId: segId, body: 'Is a spade a tool here?' });
       expect(thread.status).toBe(201);
 
