@@ -10,7 +10,7 @@ const TEXT = 'P03 — sound and setup, Ferrowgate Film Club';
 const ROUND_TEXT = 'P02 — Saturday matinee and publicity, Beacon Picture Hall (with P02b)';
 const ROUND_NAME = 'Supervised practice round';
 const A = "I'm an electrician by trade"; // both: Pride in craft (the same)
-const B = "the heating's on a timer that the hall committee controls"; // lead: Who decides; trainee: Money worries (other code)
+const B = "The heating's on a timer that the hall committee controls"; // lead: Who decides; trainee: Money worries (other code)
 const C = "It's always this cold"; // trainee only: Workload (extra)
 
 async function openSupervision(p: Person): Promise<void> {
