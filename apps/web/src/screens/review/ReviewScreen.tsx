@@ -179,17 +179,17 @@ export function ComparePanel(props: { studyId: string; label: (id: string) => st
         <label for="review-text">Text</label>
         <select id="review-text" value={textId()} onChange={(e) => { setTextId(e.currentTarget.value); setLayer(''); setReference(''); setResult(null); }}>
             <option value="">Choose a text</option>
-            <For each={texts()}>{(t) => <option value={t.id}>{t.title}</option>}</For>
+            <For each={texts()}>{(t) => <option value={t.id} selected={t.id === textId()}>{t.title}</option>}</For>
         </select>
         <label for="review-layer">Layer to review</label>
         <select id="review-layer" value={layer()} onChange={(e) => setLayer(e.currentTarget.value)} disabled={!detail()}>
             <option value="">Choose a layer</option>
-            <For each={detail()?.layers}>{(l) => <option value={l.room}>{layerName(l.room)}</option>}</For>
+            <For each={detail()?.layers}>{(l) => <option value={l.room} selected={l.room === layer()}>{layerName(l.room)}</option>}</For>
         </select>
         <label for="review-reference">Reference</label>
         <select id="review-reference" value={reference()} onChange={(e) => setReference(e.currentTarget.value)} disabled={!detail()}>
             <option value="">Choose the reference</option>
-            <For each={detail()?.layers}>{(l) => <option value={l.room}>{layerName(l.room)}</option>}</For>
+            <For each={detail()?.layers}>{(l) => <option value={l.room} selected={l.room === reference()}>{layerName(l.room)}</option>}</For>
         </select>
         <label for="review-tolerance">Boundary tolerance (words)</label>
         <input id="review-tolerance" type="number" min="0" max="50" value={tolerance()} onInput={(e) => setTolerance(Math.max(0, Math.floor(Number(e.currentTarget.value) || 0)))} />

@@ -156,28 +156,29 @@ function Supervise(props: { studyId: string; scope: StudyScope; me: Me }) {
             <tbody>
               <For each={assignments()} fallback={<tr><td colSpan={5} class="muted">{assignments.loading ? 'Loading…' : 'Nothing assigned yet.'}</td></tr>}>
                 {(a) => (
-                  <>
-                    <tr data-state={a.reviewState}>
-                      <th scope="row">{a.textTitle}</th>
-                      <td>{a.userName} <span class="muted">({a.role})</span></td>
-                      <td><span class={`state state-${a.reviewState}`}>{STATE_WORDS[a.reviewState]}</span></td>
-                      <td>{a.comparisonShared ? 'yes' : 'no'}</td>
-                      <td>
-                        <button type="button" aria-expanded={open() === key(a)} onClick={() => setOpen(open() === key(a) ? null : key(a))}>
-                          {open() === key(a) ? 'Close review' : `Review ${a.userName}`}
-                        </button>
-                      </td>
-                    </tr>
-                    <Show when={open() === key(a)}>
-                      <tr class="review-row"><td colSpan={5}>
-                        <ReviewAssignment studyId={props.studyId} scope={props.scope} me={props.me} assignment={a} tolerance={settings()?.toleranceWords ?? 2} onChanged={() => void refetch()} onClosed={() => setOpen(null)} />
-                      </td></tr>
-                    </Show>
-                  </>
+                  <tr data-state={a.reviewState}>
+                    <th scope="row">{a.textTitle}</th>
+                    <td>{a.userName} <span class="muted">({a.role})</span></td>
+                    <td><span class={`state state-${a.reviewState}`}>{STATE_WORDS[a.reviewState]}</span></td>
+                    <td>{a.comparisonShared ? 'yes' : 'no'}</td>
+                    <td>
+                      <button type="button" aria-expanded={open() === key(a)} onClick={() => setOpen(open() === key(a) ? null : key(a))}>
+                        {open() === key(a) ? 'Close review' : `Review ${a.userName}`}
+                      </button>
+                    </td>
+                  </tr>
                 )}
               </For>
             </tbody>
           </table>
+        </Show>
+        {/* Outside the table's rows: a refetched list must not rebuild the open review (its drafts stay). */}
+        <Show when={open()} keyed>
+          {(k) => (
+            <Show when={assignments()?.find((a) => key(a) === k)}>
+              {(a) => <ReviewAssignment studyId={props.studyId} scope={props.scope} me={props.me} assignment={a()} tolerance={settings()?.toleranceWords ?? 2} onChanged={() => void refetch()} onClosed={() => setOpen(null)} />}
+            </Show>
+          )}
         </Show>
       </section>
 
@@ -214,7 +215,7 @@ function ReviewAssignment(props: { studyId: string; scope: StudyScope; me: Me; a
         <label for={`ref-${key(a())}`}>Reference for this text</label>
         <select id={`ref-${key(a())}`} value={reference()} onChange={(e) => setReference(e.currentTarget.value)} disabled={!detail()}>
           <option value="">No reference</option>
-          <For each={candidates()}>{(l) => <option value={l.room}>{layerName(l)}</option>}</For>
+          <For each={candidates()}>{(l) => <option value={l.room} selected={l.room === reference()}>{layerName(l)}</option>}</For>
         </select>
         <button type="submit">Save reference</button>
         <label class="check">
