@@ -33,7 +33,7 @@ async function api<T>(p: Person, method: string, path: string, body?: unknown): 
 }
 
 test('assign, code, compare, comment, return, fix, reply, accept; the chart shows the round', async ({ browser, baseURL }) => {
-  test.setTimeout(480_000); // two people, many screens and a round: slow on a loaded machine
+  test.setTimeout(600_000); // two people, many screens and a round: slow on a loaded machine
   const traineeAccount = account('trainee');
   const lead = await signIn(browser, account('lead'), baseURL!);
 
@@ -123,9 +123,9 @@ test('assign, code, compare, comment, return, fix, reply, accept; the chart show
   // The trainee fixes B: removes the Money worries segment and codes the words Who decides.
   await openText(trainee, TEXT);
   await trainee.page.getByTestId('transcript').focus();
-  for (let i = 0; i < 10 && !/Money worries/.test((await trainee.page.getByTestId('segment-panel').textContent().catch(() => '')) ?? ''); i++) {
-    await trainee.page.keyboard.press(']');
-  }
+  // Step through the trainee's own segments (the only layer drawn for them) until that one is chosen.
+  const panelText = () => trainee.page.getByTestId('segment-panel').textContent({ timeout: 2_000 }).catch(() => '');
+  for (let i = 0; i < 10 && !/Money worries/.test((await panelText()) ?? ''); i++) await trainee.page.keyboard.press(']');
   await expect(trainee.page.getByTestId('segment-panel')).toContainText('Money worries');
   await trainee.page.getByTestId('segment-panel').getByRole('button', { name: 'Remove' }).click();
   await selectWords(trainee.page, B);
