@@ -148,6 +148,12 @@ describe.each(dbKinds())('supervision of trainees at the wire on %s', (db) => {
       expect((await lead.call('POST', `/api/studies/${s.studyId}/assignments`, { textId: assigned, userId: s.users.coder.id })).status).toBe(201);
       expect((await lead.call('POST', `/api/studies/${s.studyId}/assignments`, { textId: assigned, userId: s.users.observer.id })).status).toBe(400);
       expect((await coder.call('POST', `/api/studies/${s.studyId}/assignments`, { textId: unassigned, userId: s.users.trainee.id })).status).toBe(403);
+
+      // Everything above is scriptable and described (OpenAPI 3.1).
+      const doc = (await lead.call<{ paths: Record<string, object> }>('GET', '/api/openapi.json')).body;
+      for (const path of ['/api/studies/{studyId}/assignments', '/api/studies/{studyId}/assignments/{textId}/{userId}/review', '/api/studies/{studyId}/assignments/{textId}/{userId}/share', '/api/texts/{textId}/reference', '/api/texts/{textId}/comparison', '/api/studies/{studyId}/supervision/progress']) {
+        expect(doc.paths, path).toHaveProperty([path]);
+      }
     } finally {
       for (const w of writers) w.destroy();
     }
