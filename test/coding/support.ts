@@ -4,6 +4,7 @@
  * Names, places and words are made up.
  */
 import { addTextFromTranscript, transcriptFromPlainText } from '../../apps/server/src/admin/index.js';
+import { assignText } from '../../apps/server/src/supervision/records.js';
 import { type Db, asc, eq, snapshots, updates } from '@gloss/db';
 import { addCode, createCodebookDoc } from '@gloss/model';
 import * as Y from 'yjs';
@@ -46,6 +47,8 @@ export async function seedCoding(db: Db): Promise<CodingSeed> {
     place: addCode(cb, { label: 'The site', briefDefinition: 'The allotment as a place.' }, by),
   };
   await appendUpdate(db, base.codebookRoom, cb);
+  // A trainee reads only texts assigned to them (issue 9): the lead assigns them this one.
+  await assignText(db, { studyId: base.studyId, textId: text.id, userId: base.users.trainee.id, assignedBy: base.users.lead.id });
   return { ...base, codingTextId: text.id, codingTextRoom: text.room, codes };
 }
 

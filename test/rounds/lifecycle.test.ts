@@ -165,8 +165,9 @@ describe.each(dbKinds())('calibration round lifecycle on %s', (kind) => {
     const coderLayer = layerOf(leadRound, s.users.coder.id).room;
     const consensus = layerOf(leadRound, null).room;
     await check([
-      { action: 'open the coder’s round layer', expect: { outsider: 403 }, others: 101, run: (w) => open(w, coderLayer) },
-      { action: 'open the consensus layer', expect: { outsider: 403 }, others: 101, run: (w) => open(w, consensus) },
+      // A trainee reads others' layers only when a supervisor shares one with them (issue 9), reveal or not.
+      { action: 'open the coder’s round layer', expect: { outsider: 403, trainee: 403 }, others: 101, run: (w) => open(w, coderLayer) },
+      { action: 'open the consensus layer', expect: { outsider: 403, trainee: 403 }, others: 101, run: (w) => open(w, consensus) },
       { action: 'round agreement', expect: { owner: 200, lead: 200, coder: 200, trainee: 200, observer: 200, outsider: 404 }, others: 403, run: (w) => status(as[w].call('GET', `/api/rounds/${roundId}/agreement`)) },
       { action: 'mark done', expect: { coder: 409, trainee: 409, outsider: 404 }, others: 403, run: (w) => status(as[w].call('POST', `/api/rounds/${roundId}/texts/${s.codingTextId}/done`)) },
       { action: 'report reading', expect: { coder: 409, trainee: 409, outsider: 404 }, others: 403, run: (w) => status(as[w].call('PUT', `/api/rounds/${roundId}/texts/${s.codingTextId}/read`, { words: 1 })) },
@@ -257,7 +258,8 @@ describe.each(dbKinds())('calibration round lifecycle on %s', (kind) => {
     // The first round's layers are closed to the new round's participants while they code independently.
     const firstCoderLayer = layerOf(owner, s.users.coder.id).room;
     expect(await open('coder2', firstCoderLayer)).toBe(403);
-    expect(await open('trainee', firstCoderLayer)).toBe(101);
+    expect(await open('observer', firstCoderLayer)).toBe(101);
+    expect(await open('trainee', firstCoderLayer)).toBe(403); // others' layers only when shared (issue 9)
     const list = (await as.observer.call<RoundOut[]>('GET', `/api/studies/${s.studyId}/rounds`)).body;
     expect(list.map((r) => [r.number, r.phase])).toEqual([
       [1, 'closed'],

@@ -8,6 +8,7 @@ import { Studies } from './screens/studies/Studies.js';
 import { StudyScreen } from './screens/study/StudyScreen.js';
 import { Members } from './screens/members/Members.js';
 import { CodingScreen } from './screens/coding/CodingScreen.js';
+import { SupervisionScreen } from './screens/supervision/SupervisionScreen.js';
 import { CodebookScreen } from './screens/codebook/CodebookScreen.js';
 import { MemosScreen } from './screens/memos/MemosScreen.js';
 import { ReviewScreen } from './screens/review/ReviewScreen.js';
@@ -43,6 +44,7 @@ function StudyArea(props: { studyId: string; me: Me }) {
       <Match when={route().name === 'analysis'}><AnalysisScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'memos'}><MemosScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
       <Match when={route().name === 'review'}><ReviewScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
+      <Match when={route().name === 'supervision'}><SupervisionScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
       <Match when={route().name === 'settings'}><StudySettings studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'upload'}><Upload studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'cases'}><CasesScreen studyId={props.studyId} scope={scope} /></Match>

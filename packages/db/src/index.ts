@@ -2,6 +2,7 @@ export * from './schema.js';
 export * from './projection-schema.js';
 export * from './comments-schema.js';
 export * from './deid-schema.js';
+export * from './supervision-schema.js';
 export { bytea, toUint8Array } from './bytea.js';
 export { DatabaseError } from './errors.js';
 export { openDatabase, migrationsFolder, rowsOf } from './open.js';

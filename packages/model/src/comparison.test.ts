@@ -84,6 +84,20 @@ describe('compareLayers', () => {
     expect(c.extra.map((e) => e.layer[0]!.id)).toEqual(['t3']);
   });
 
+  it('nested both ways: a same-code layer segment inside the reference is a boundary question; a reference segment inside another code is other code', () => {
+    // Worked by hand: "the hall felt warm on winter evenings" against "felt warm" — the start lies two
+    // words in ("the hall"), the end three words short ("on winter evenings").
+    const reference = [seg('r1', 'warmth', 'the hall felt warm on winter evenings'), seg('r2', 'season', 'winter')];
+    const layer = [seg('t1', 'warmth', 'felt warm'), seg('t2', 'place', 'on winter evenings')];
+    const c = compareLayers(TEXT, layer, reference, 2);
+    expect(c.otherBoundary.map((e) => [e.reference!.id, e.startShiftWords, e.endShiftWords])).toEqual([['r1', 2, 3]]);
+    expect(c.otherCode.map((e) => [e.reference!.id, e.codeIds])).toEqual([['r2', ['season', 'place']]]);
+    // t2 is already listed under other code (for r2), so it is not extra too; nothing is missed.
+    expect([c.extra, c.missed]).toEqual([[], []]);
+    // A tolerance of three words takes the nested segment as the match.
+    expect(compareLayers(TEXT, layer, reference, 3).counts.warmth).toMatchObject({ matched: 1, otherBoundary: 0 });
+  });
+
   it('leaves collapsed segments out and refuses places outside the text', () => {
     const point = { id: 'p', codeId: 'warmth', start: 5, end: 5 };
     expect(compareLayers(TEXT, [point], [point], 0)).toMatchObject({ missed: [], extra: [], otherCode: [], otherBoundary: [] });

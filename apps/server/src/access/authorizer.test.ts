@@ -127,7 +127,7 @@ describe('room authorizer', () => {
     let now = Date.UTC(2031, 0, 1);
     const clocked = createSessionService(database.db, 60_000, () => now);
     const short = createRoomAuthorizer({ db: database.db, sessions: clocked, publicUrl: undefined, now: () => now });
-    const { token } = await clocked.create(seed.users.trainee.id);
+    const { token } = await clocked.create(seed.users.coder.id);
     const g = await short.authorize(req({ origin: `http://${HOST}`, cookie: `gloss_session=${token}` }), seed.textRoom);
     expect(g.sessionExpiresAt.getTime()).toBe(now + 60_000);
     now += 60_000;

@@ -32,6 +32,8 @@ export const ACTIONS = [
   'text.delete', // remove a text and every row of it
   'deid.manage', // find identifiers, apply pseudonyms, purge the originals
   'deid.key', // read, export and delete the pseudonym key
+  'text.readUnassigned', // read texts nobody assigned to you (trainees read only their assigned texts)
+  'supervision.manage', // assign texts, choose references, review trainees' layers, share comparisons
 ] as const;
 export type Action = (typeof ACTIONS)[number];
 
@@ -47,7 +49,7 @@ const TABLE: Record<Action, Record<Role, boolean>> = {
   'text.correct':       { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'text.import':        { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'layer.writeOwn':     { owner: o, lead: o, coder: o, trainee: o, observer: _ },
-  'layer.readOthers':   { owner: o, lead: o, coder: o, trainee: o, observer: o },
+  'layer.readOthers':   { owner: o, lead: o, coder: o, trainee: _, observer: o },
   'codebook.write':     { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'codebook.propose':   { owner: o, lead: o, coder: o, trainee: o, observer: _ },
   'memos.write':        { owner: o, lead: o, coder: o, trainee: o, observer: _ },
@@ -64,6 +66,8 @@ const TABLE: Record<Action, Record<Role, boolean>> = {
   'text.delete':        { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'deid.manage':        { owner: o, lead: o, coder: _, trainee: _, observer: _ },
   'deid.key':           { owner: o, lead: _, coder: _, trainee: _, observer: _ },
+  'text.readUnassigned': { owner: o, lead: o, coder: o, trainee: _, observer: o },
+  'supervision.manage': { owner: o, lead: o, coder: _, trainee: _, observer: _ },
 };
 
 export function can(role: Role, action: Action): boolean {
@@ -123,22 +127,47 @@ export interface DocumentAccess extends RoomAccess {
 }
 
 export interface AccessDoc {
+  /** The document's room; needed to match a layer shared with a trainee. */
+  id?: string;
   kind: 'text' | 'layer' | 'codebook' | 'memos';
   coderId: string | null;
   roundId?: string | null;
 }
 
+/**
+ * What supervision says about the reader and the document's text (issue 9), from `supervisionFor`
+ * (access/supervision.ts). Study-wide documents (codebook, memos) ignore it.
+ */
+export interface DocSupervision {
+  /** The text is assigned to the reader, or is in a round the reader takes part in. */
+  assigned: boolean;
+  /** Layer rooms a supervisor shared with the reader (a text's reference, with the comparison shared). */
+  shared: ReadonlySet<string>;
+}
+
+/** For study-wide documents and for callers deciding about roles that supervision does not narrow. */
+export const NO_SUPERVISION: DocSupervision = { assigned: false, shared: new Set() };
+
 const independentFor = (round: RoundFacts | null, userId: string) => round !== null && round.phase === 'independent' && round.participants.has(userId);
 
+export const NOT_ASSIGNED = 'This text is not assigned to you.';
+
 /**
- * The one decision about a document with rounds taken into account; the sync upgrade and every route
- * that reads layers ask it. `rounds` comes from `roundsForDocument`.
+ * The one decision about a document with rounds and supervision taken into account; the sync upgrade
+ * and every route that reads texts or layers ask it. `rounds` comes from `roundsForDocument`,
+ * `supervision` from `supervisionFor`. A trainee reads only texts assigned to them (or in a round they
+ * take part in), and of others' layers only one a supervisor shared.
  */
-export function documentAccess(role: Role, doc: AccessDoc, userId: string, rounds: DocRounds): DocumentAccess {
+export function documentAccess(role: Role, doc: AccessDoc, userId: string, rounds: DocRounds, supervision: DocSupervision): DocumentAccess {
   const { layerRound, openRound } = rounds;
   const hidePointing = independentFor(openRound, userId);
-  if (doc.kind !== 'layer') return { ...roomAccess(role, doc, userId), hidePointing };
   const no = (reason: string): DocumentAccess => ({ read: false, write: false, hidePointing, reason });
+  const textBound = doc.kind === 'text' || doc.kind === 'layer';
+  if (textBound && !can(role, 'text.readUnassigned') && !supervision.assigned) return no(NOT_ASSIGNED);
+  if (doc.kind !== 'layer') return { ...roomAccess(role, doc, userId), hidePointing };
+  // A layer a supervisor shared with this reader (a text's reference): read only, outside the independent phase.
+  const shared = doc.id !== undefined && doc.coderId !== userId && supervision.shared.has(doc.id) && !hidePointing && !(layerRound && layerRound.phase === 'independent');
+  if (shared) return { read: true, write: false, hidePointing };
   if (doc.roundId && !layerRound) return no('This layer’s round no longer exists.');
   if (doc.coderId === null) {
     // A round's consensus layer: empty until the reveal, adjudicated while revealed, kept after close.

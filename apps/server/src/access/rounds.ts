@@ -7,6 +7,7 @@ import { type Db, roundParticipants, roundTexts, rounds, type RoundPhase } from 
 import { and, eq, inArray, ne } from 'drizzle-orm';
 import type { DocKind, Role } from '../sync/contracts.js';
 import { documentAccess, type DocumentAccess } from './policy.js';
+import { supervisionFor } from './supervision.js';
 
 export interface RoundFacts {
   id: string;
@@ -48,14 +49,15 @@ export async function roundsForDocument(db: Db, doc: { textId: string | null; ro
   return { layerRound, openRound };
 }
 
-/** The access decision for one document row, rounds included (policy.ts `documentAccess`). */
+/** The access decision for one document row, rounds and supervision included (policy.ts `documentAccess`). */
 export async function decideDocument(
   db: Db,
-  doc: { kind: DocKind; coderId: string | null; textId: string | null; roundId: string | null },
+  doc: { id: string; kind: DocKind; coderId: string | null; textId: string | null; roundId: string | null },
   role: Role,
   userId: string,
 ): Promise<DocumentAccess> {
-  return documentAccess(role, doc, userId, await roundsForDocument(db, doc));
+  const [rounds, supervision] = await Promise.all([roundsForDocument(db, doc), supervisionFor(db, doc.textId, userId)]);
+  return documentAccess(role, doc, userId, rounds, supervision);
 }
 
 /** Every round of a study (for deciding about many layers at once): by id, and the open one per text. */

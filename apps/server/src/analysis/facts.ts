@@ -18,6 +18,7 @@ import {
 import { and, asc, eq, inArray } from 'drizzle-orm';
 import { documentAccess } from '../access/policy.js';
 import { studyRounds } from '../access/rounds.js';
+import { studySupervision } from '../access/supervision.js';
 import type { Role } from '../sync/contracts.js';
 import type { CaseFact, SegmentFact } from './tables.js';
 
@@ -53,8 +54,9 @@ export async function readableLayers(db: Db, studyId: string, role: Role, me: st
   // Rounds narrow who reads which layer (an independent phase hides others' coding, and a consensus
   // layer opens at the reveal): the one rule in access/.
   const { byId, openByText } = await studyRounds(db, studyId);
+  const supervision = await studySupervision(db, studyId, me);
   const readable = rows.filter(
-    (r) => documentAccess(role, { kind: 'layer', coderId: r.coderId, roundId: r.roundId }, me, { openRound: openByText.get(r.textId ?? '') ?? null, layerRound: r.roundId ? (byId.get(r.roundId) ?? null) : null }).read,
+    (r) => documentAccess(role, { id: r.id, kind: 'layer', coderId: r.coderId, roundId: r.roundId }, me, { openRound: openByText.get(r.textId ?? '') ?? null, layerRound: r.roundId ? (byId.get(r.roundId) ?? null) : null }, supervision.of(r.textId)).read,
   );
   const roundIds = [...new Set(readable.map((r) => r.roundId).filter((x): x is string => x !== null))];
   const named = roundIds.length ? await db.select({ id: rounds.id, number: rounds.number, name: rounds.name, phase: rounds.phase }).from(rounds).where(inArray(rounds.id, roundIds)) : [];

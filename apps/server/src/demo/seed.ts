@@ -15,6 +15,7 @@ import * as Y from 'yjs';
 import { loadDemo } from '../../../../demo/load.js';
 import { addMember, addTextFromTranscript, createStudy, createUser, ensureLayer, findUserByEmail } from '../admin/index.js';
 import type { Role } from '../sync/contracts.js';
+import { assignText, setReference } from '../supervision/records.js';
 
 interface DemoAccount { email: string; password: string; role: Role; name: string }
 interface DemoCode {
@@ -41,6 +42,8 @@ export interface SeedResult {
 
 /** The texts that get two coders' layers at seed time (first and last interview). */
 const LAYERED_TEXTS = new Set(['p01-beacon-projection.txt', 'p04-ferrowgate-chair.txt']);
+/** The texts assigned to the demo's trainee; the first coder's layer is each one's reference. */
+const TRAINEE_TEXTS = new Set(['p01-beacon-projection.txt', 'p04-ferrowgate-chair.txt']);
 
 async function hasAnyStudy(db: Db): Promise<boolean> {
   const rows = await db.select({ id: studies.id }).from(studies).limit(1);
@@ -166,6 +169,7 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
   }
   await putFirstState(db, created.memosRoom, memoDoc, lead.by);
 
+  const references = new Map<string, string>();
   // Two coders' layers on two texts: both code the examples; the second coder also applies codes to
   // their near-misses, so the demo shows disagreement and (on P04) the exclusive-set flag.
   for (const [file, doc] of textDocs) {
@@ -183,7 +187,17 @@ export async function seedDemo(db: Db, opts: { force?: boolean; dir?: string } =
       }
       const layerId = await ensureLayer(db, created.id, textIds.get(file)!, coderId);
       await putFirstState(db, layerId, layer, coderId);
+      if (TRAINEE_TEXTS.has(file) && i === 0) references.set(file, layerId);
     }
+  }
+  // Supervision: the trainee practises on two interviews, each compared with the first coder's layer.
+  const trainee = accounts.find((a) => a.role === 'trainee');
+  for (const file of TRAINEE_TEXTS) {
+    const practice = textIds.get(file);
+    if (!trainee || !practice) continue;
+    await assignText(db, { studyId: created.id, textId: practice, userId: userIds.get(trainee.email)!, assignedBy: lead.by });
+    const reference = references.get(file);
+    if (reference) await setReference(db, practice, reference, lead.by);
   }
   return { seeded: true, studyId: created.id, accounts: listed };
 }

@@ -28,6 +28,7 @@ import { analysisRoutes } from './analysis.js';
 import { studyEventRoutes } from './study-events.js';
 import { roundRoutes, studyRoundRoutes } from './rounds.js';
 import { deidRoutes } from './deid.js';
+import { studySupervisionRoutes, textReferenceRoutes } from './supervision.js';
 
 export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => logFor(deps).error({ err }, 'request failed')) {
   const app = new Hono<AppEnv>();
@@ -58,6 +59,8 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => l
   api.route('/studies/:studyId/agreement', agreementRoutes(deps));
   api.route('/texts', segmentRoutes(deps));
   api.route('/texts', comparisonRoutes(deps));
+  api.route('/texts', textReferenceRoutes(deps));
+  api.route('/studies/:studyId', studySupervisionRoutes(deps));
   api.route('/', commentRoutes(deps));
   api.route('/documents', versionRoutes(deps));
   api.route('/studies/:studyId/rounds', studyRoundRoutes(deps));

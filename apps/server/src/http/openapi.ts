@@ -10,6 +10,7 @@ import { codingPaths } from './openapi-coding.js';
 import { exchangePaths } from './openapi-exchange.js';
 import { peoplePaths } from './openapi-people.js';
 import { roundPaths, roundSchemas } from './openapi-rounds.js';
+import { supervisionPaths } from './openapi-supervision.js';
 
 const components = {
   AddMemberBody: S.AddMemberBody,
@@ -191,6 +192,7 @@ export function buildOpenApi() {
       ...exchangePaths,
       ...peoplePaths,
       ...roundPaths,
+      ...supervisionPaths,
     },
   };
 }

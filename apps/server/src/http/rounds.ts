@@ -12,6 +12,7 @@ import { Hono, type Context } from 'hono';
 import * as Y from 'yjs';
 import { can } from '../access/policy.js';
 import { roleIn } from '../access/membership.js';
+import { supervisionFor } from '../access/supervision.js';
 import { openRoundOfText, type RoundFacts } from '../access/rounds.js';
 import { HttpError, forbidden, notFound } from '../errors.js';
 import { recordAudit } from '../admin/audit.js';
@@ -90,6 +91,8 @@ export async function roundRole(deps: AppDeps, c: Context<AppEnv>, action?: 'rou
   if (action && !can(role, action)) throw forbidden(action === 'round.manage' ? 'Only the study’s owner and leads run rounds.' : undefined);
   const members = (await roundMembers(deps.db, [round.id])).get(round.id)!;
   const facts: RoundFacts = { id: round.id, studyId: round.studyId, phase: round.phase, participants: new Set(members.participants.map((p) => p.id)) };
+  // A trainee sees only rounds they take part in: a round names its texts, which are not assigned to them otherwise.
+  if (!can(role, 'text.readUnassigned') && !facts.participants.has(me)) throw notFound('Round');
   return { round, role, me, members, facts };
 }
 
@@ -134,8 +137,11 @@ export function studyRoundRoutes(deps: AppDeps) {
   app.get('/', async (c) => {
     const { studyId, role } = await studyRole(deps, c, 'round.read');
     const me = c.get('session').user.id;
-    const rows = await roundsOfStudy(deps.db, studyId);
-    const members = await roundMembers(deps.db, rows.map((r) => r.id));
+    const all = await roundsOfStudy(deps.db, studyId);
+    const allMembers = await roundMembers(deps.db, all.map((r) => r.id));
+    // A trainee lists only the rounds they take part in (their texts are assigned to them by the round).
+    const rows = can(role, 'text.readUnassigned') ? all : all.filter((r) => allMembers.get(r.id)!.participants.some((p) => p.id === me));
+    const members = allMembers;
     const names = await userNames(deps, rows.map((r) => r.createdBy));
     const mine = new Map<string, string[]>();
     for (const r of rows) mine.set(r.id, (await doneMarks(deps.db, r.id)).filter((d) => d.userId === me).map((d) => d.textId));
@@ -165,7 +171,7 @@ export function roundRoutes(deps: AppDeps) {
       const room = textDocs.find((d) => d.textId === t.id && !layers.some((l) => l.id === d.id));
       // The consensus room's id is named to all (opening it is decided at the upgrade, like any room).
       const consensusRoom = layers.find((l) => l.textId === t.id && l.coderId === null)?.id ?? null;
-      texts.push({ ...t, room: room?.id ?? '', consensusRoom, layers: layerEntries(docs, role, me, openRound, () => facts) });
+      texts.push({ ...t, room: room?.id ?? '', consensusRoom, layers: layerEntries(docs, role, me, openRound, () => facts, await supervisionFor(deps.db, t.id, me)) });
     }
     const done = (await doneMarks(deps.db, round.id)).filter((d) => d.userId === me).map((d) => d.textId);
     const creator = round.createdBy ? (names.get(round.createdBy) ?? null) : null;

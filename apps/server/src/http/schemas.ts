@@ -164,3 +164,16 @@ export const RoundProgress = z.object({
 });
 export const DoneBody = z.object({ done: z.boolean() });
 export const ReadBody = z.strictObject({ words: z.number().int().min(0).max(100_000_000).describe('words of the text shown on screen so far') });
+
+// Supervision (issue 9)
+export const AssignBody = z.object({ textId: z.string().uuid(), userId: z.string().uuid() });
+export const ReviewBody = z.object({
+  state: z.enum(['assigned', 'returned', 'accepted']).describe('returned: with feedback, look again; accepted: done; assigned: back to coding'),
+  note: z.string().max(5000).default('').describe('what to look at again (with a return), or a closing word'),
+});
+export const ShareBody = z.object({ shared: z.boolean().describe('let the assignee read the text’s reference layer and compare against it') });
+export const ReferenceBody = z.object({ layer: z.string().uuid().nullable().describe('the reference layer room, or null to clear') });
+export const SupervisionSettingsBody = z.object({
+  toleranceWords: z.number().int().min(0).max(1000),
+  driftThreshold: z.number().min(0).max(2).describe('flag drift when agreement falls by more than this from one round to the next'),
+});

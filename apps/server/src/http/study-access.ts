@@ -2,7 +2,8 @@
 import { texts } from '@gloss/db';
 import { eq } from 'drizzle-orm';
 import type { Context } from 'hono';
-import { can, type Action } from '../access/policy.js';
+import { can, documentAccess, type Action, type DocSupervision } from '../access/policy.js';
+import { supervisionFor } from '../access/supervision.js';
 import { roleIn } from '../access/membership.js';
 import { forbidden, notFound } from '../errors.js';
 import type { Role } from '../sync/contracts.js';
@@ -22,15 +23,20 @@ export async function studyRole(deps: AppDeps, c: Context<AppEnv>, action?: Acti
 }
 
 /**
- * Resolves `:textId` and the caller's role in its study; an unknown text and a non-member both get
- * 404, so text ids are not probed either.
+ * Resolves `:textId` and the caller's role in its study; an unknown text, a non-member and a trainee
+ * the text is not assigned to all get 404, so text ids are not probed either.
  */
-export async function textRole(deps: AppDeps, c: Context<AppEnv>): Promise<{ text: typeof texts.$inferSelect; me: string; role: Role }> {
-  const textId = idParam(c, 'textId', 'Text');
+export async function textRole(deps: AppDeps, c: Context<AppEnv>): Promise<{ text: typeof texts.$inferSelect; me: string; role: Role; supervision: DocSupervision }> {
+  return textRoleOf(deps, idParam(c, 'textId', 'Text'), c.get('session').user.id);
+}
+
+export async function textRoleOf(deps: AppDeps, textId: string, me: string): Promise<{ text: typeof texts.$inferSelect; me: string; role: Role; supervision: DocSupervision }> {
   const [text] = await deps.db.select().from(texts).where(eq(texts.id, textId));
   if (!text) throw notFound('Text');
-  const me = c.get('session').user.id;
   const role = await roleIn(deps.db, text.studyId, me);
   if (!role) throw notFound('Text');
-  return { text, me, role };
+  const supervision = await supervisionFor(deps.db, text.id, me);
+  // The one rule (policy.ts): a trainee reads only their assigned texts; rounds do not hide a text itself.
+  if (!documentAccess(role, { kind: 'text', coderId: null }, me, { openRound: null, layerRound: null }, supervision).read) throw notFound('Text');
+  return { text, me, role, supervision };
 }

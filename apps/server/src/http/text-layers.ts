@@ -6,6 +6,7 @@
 import { type Db, documents } from '@gloss/db';
 import { and, eq, isNull, or } from 'drizzle-orm';
 import { documentAccess } from '../access/policy.js';
+import { supervisionFor } from '../access/supervision.js';
 import { openRoundOfText, type RoundFacts } from '../access/rounds.js';
 import { notFound } from '../errors.js';
 import type { Role } from '../sync/contracts.js';
@@ -28,8 +29,11 @@ export async function textDocuments(db: Db, textId: string, role: Role, userId: 
     .where(and(eq(documents.textId, textId), openRound ? or(isNull(documents.roundId), eq(documents.roundId, openRound.id)) : isNull(documents.roundId)));
   const text = docs.find((d) => d.kind === 'text');
   if (!text) throw notFound('Text document');
+  const supervision = await supervisionFor(db, textId, userId);
+  // A text the person may not read (a trainee's unassigned text) shows them no layer at all.
+  if (!documentAccess(role, text, userId, { openRound, layerRound: null }, supervision).read) return { textDocId: text.id, layers: [], openRound };
   const layers: VisibleLayer[] = docs
-    .filter((d) => d.kind === 'layer' && documentAccess(role, d, userId, { openRound, layerRound: d.roundId ? openRound : null }).read)
+    .filter((d) => d.kind === 'layer' && documentAccess(role, d, userId, { openRound, layerRound: d.roundId ? openRound : null }, supervision).read)
     .map((d) => ({ layerDocId: d.id, coderId: d.coderId, roundId: d.roundId }));
   return { textDocId: text.id, layers, openRound };
 }

@@ -2,7 +2,8 @@
 import { documents, rounds, texts, users } from '@gloss/db';
 import { and, asc, eq, isNull, or } from 'drizzle-orm';
 import { Hono } from 'hono';
-import { can, roomAccess } from '../access/policy.js';
+import { can, documentAccess, roomAccess } from '../access/policy.js';
+import { studySupervision } from '../access/supervision.js';
 import { openRoundOfText } from '../access/rounds.js';
 import { layerEntries } from '../rounds/layer-entries.js';
 import { addTextFromTranscript, ensureLayer } from '../admin/texts.js';
@@ -32,13 +33,18 @@ export function studyTextRoutes(deps: AppDeps) {
   app.use('*', requireSession(deps));
 
   app.get('/', async (c) => {
-    const { studyId } = await studyRole(deps, c, 'text.read');
-    const rows = await deps.db
+    const { studyId, role } = await studyRole(deps, c, 'text.read');
+    const me = c.get('session').user.id;
+    const supervision = await studySupervision(deps.db, studyId, me);
+    const all = await deps.db
       .select({ text: texts, room: documents.id })
       .from(texts)
       .innerJoin(documents, and(eq(documents.textId, texts.id), eq(documents.kind, 'text')))
       .where(eq(texts.studyId, studyId))
       .orderBy(asc(texts.createdAt), asc(texts.title));
+    // A trainee lists only the texts assigned to them (policy.ts decides, as for the rooms).
+    const none = { openRound: null, layerRound: null };
+    const rows = all.filter(({ text }) => documentAccess(role, { kind: 'text', coderId: null }, me, none, supervision.of(text.id)).read);
     return c.json(rows.map(({ text, room }) => textSummary(text, room)));
   });
 
@@ -72,7 +78,7 @@ export function textRoutes(deps: AppDeps) {
   });
 
   app.get('/:textId', async (c) => {
-    const { text, me, role } = await textRole(deps, c);
+    const { text, me, role, supervision } = await textRole(deps, c);
     const openRound = await openRoundOfText(deps.db, text.id);
     // While coding a text independently in a round, a participant codes in their round layer only.
     const codesInRound = openRound !== null && openRound.phase === 'independent' && openRound.participants.has(me);
@@ -88,7 +94,7 @@ export function textRoutes(deps: AppDeps) {
     const textDoc = docs.find((d) => d.kind === 'text');
     if (!textDoc) throw notFound('Text document');
     const layerDocs = docs.filter((d) => d.kind === 'layer' && !(codesInRound && d.roundId === null && d.coderId === me));
-    const layers = layerEntries(layerDocs, role, me, openRound, (id) => (id === openRound?.id ? openRound : null));
+    const layers = layerEntries(layerDocs, role, me, openRound, (id) => (id === openRound?.id ? openRound : null), supervision);
     let round = null;
     if (openRound) {
       const [r] = await deps.db.select({ name: rounds.name, number: rounds.number }).from(rounds).where(eq(rounds.id, openRound.id));

@@ -2,7 +2,7 @@
  * Layer entries as the API lists them (GET /api/texts/:id, GET /api/rounds/:id): each readable layer
  * with its room, whose it is, its round (or null) and its kind (coder or consensus).
  */
-import { documentAccess } from '../access/policy.js';
+import { documentAccess, type DocSupervision } from '../access/policy.js';
 import type { DocRounds, RoundFacts } from '../access/rounds.js';
 import type { Role } from '../sync/contracts.js';
 
@@ -35,11 +35,12 @@ export function layerEntries(
   userId: string,
   openRound: RoundFacts | null,
   roundOf: (roundId: string) => RoundFacts | null,
+  supervision: DocSupervision,
 ): LayerEntry[] {
   const out: LayerEntry[] = [];
   for (const d of docs) {
     const rounds: DocRounds = { openRound, layerRound: d.roundId ? roundOf(d.roundId) : null };
-    const access = documentAccess(role, { kind: 'layer', coderId: d.coderId, roundId: d.roundId }, userId, rounds);
+    const access = documentAccess(role, { id: d.id, kind: 'layer', coderId: d.coderId, roundId: d.roundId }, userId, rounds, supervision);
     if (!access.read) continue;
     out.push({
       room: d.id,

@@ -10,6 +10,7 @@ export type Route =
   | { name: 'memos'; studyId: string }
   | { name: 'members'; studyId: string }
   | { name: 'review'; studyId: string }
+  | { name: 'supervision'; studyId: string }
   | { name: 'agreement'; studyId: string }
   | { name: 'rounds'; studyId: string }
   | { name: 'round'; studyId: string; roundId: string }
@@ -28,7 +29,7 @@ export type Route =
   | { name: 'reset'; token: string };
 
 /** Study screens named by one path word after the study id. */
-const STUDY_PAGES = ['memos', 'members', 'review', 'settings', 'upload', 'cases', 'versions', 'audit', 'deid'] as const;
+const STUDY_PAGES = ['memos', 'members', 'review', 'supervision', 'settings', 'upload', 'cases', 'versions', 'audit', 'deid'] as const;
 
 export function parseRoute(hash: string): Route {
   const p = hash.replace(/^#\/?/, '').split('/').filter(Boolean).map(decodeURIComponent);
@@ -75,7 +76,7 @@ export function href(r: Route): string {
     case 'round-agreement': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}/agreement`;
     case 'round-report': return `#/study/${e(r.studyId)}/round/${e(r.roundId)}/report`;
     case 'analysis': return `#/study/${e(r.studyId)}/analysis`;
-    case 'memos': case 'members': case 'review': case 'settings': case 'upload': case 'cases': case 'versions': case 'audit': case 'deid':
+    case 'memos': case 'members': case 'review': case 'supervision': case 'settings': case 'upload': case 'cases': case 'versions': case 'audit': case 'deid':
       return `#/study/${e(r.studyId)}/${r.name}`;
     case 'account': return '#/account';
     case 'invite': return `#/invite/${e(r.token)}`;

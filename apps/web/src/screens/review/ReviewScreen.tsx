@@ -14,6 +14,7 @@ import type { OpenDoc } from '../../sync/open-doc.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
 import { reviewApi, watchComments, type Category, type Comparison, type ComparisonEntry, type Thread } from './review-api.js';
+import { SideBySide, jump, placeId } from './SideBySide.js';
 
 const CATEGORIES: Array<{ key: Category; title: string }> = [
   { key: 'missed', title: 'Missed' },
@@ -125,13 +126,21 @@ function ThreadView(props: { thread: Thread; studyId: string; meId: string; name
   );
 }
 
-function ComparePanel(props: { studyId: string; label: (id: string) => string; nameOf: (id: string) => string; changes: () => number; meId: string }) {
+/** A comparison to open at once (the supervision screen's review of one assignment). */
+export interface ComparePreset {
+  textId: string;
+  layer: string;
+  reference: string;
+  tolerance: number;
+}
+
+export function ComparePanel(props: { studyId: string; label: (id: string) => string; nameOf: (id: string) => string; changes: () => number; meId: string; preset?: ComparePreset }) {
   const [texts] = createResource(() => props.studyId, (id) => api.texts(id));
-  const [textId, setTextId] = createSignal('');
+  const [textId, setTextId] = createSignal(props.preset?.textId ?? '');
   const [detail] = createResource(textId, (id) => (id ? api.text(id) : undefined));
-  const [layer, setLayer] = createSignal('');
-  const [reference, setReference] = createSignal('');
-  const [tolerance, setTolerance] = createSignal(1);
+  const [layer, setLayer] = createSignal(props.preset?.layer ?? '');
+  const [reference, setReference] = createSignal(props.preset?.reference ?? '');
+  const [tolerance, setTolerance] = createSignal(props.preset?.tolerance ?? 1);
   const [result, setResult] = createSignal<Comparison | null>(null);
   const [message, setMessage] = createSignal('');
   const [threads, { refetch: refetchThreads }] = createResource(
@@ -155,6 +164,7 @@ function ComparePanel(props: { studyId: string; label: (id: string) => string; n
       setMessage(`Could not compare: ${errorMessage(err)}`);
     }
   };
+  if (props.preset) void compare();
 
   return (
     <section aria-labelledby="compare-h" class="compare">
@@ -169,17 +179,17 @@ function ComparePanel(props: { studyId: string; label: (id: string) => string; n
         <label for="review-text">Text</label>
         <select id="review-text" value={textId()} onChange={(e) => { setTextId(e.currentTarget.value); setLayer(''); setReference(''); setResult(null); }}>
             <option value="">Choose a text</option>
-            <For each={texts()}>{(t) => <option value={t.id}>{t.title}</option>}</For>
+            <For each={texts()}>{(t) => <option value={t.id} selected={t.id === textId()}>{t.title}</option>}</For>
         </select>
         <label for="review-layer">Layer to review</label>
         <select id="review-layer" value={layer()} onChange={(e) => setLayer(e.currentTarget.value)} disabled={!detail()}>
             <option value="">Choose a layer</option>
-            <For each={detail()?.layers}>{(l) => <option value={l.room}>{layerName(l.room)}</option>}</For>
+            <For each={detail()?.layers}>{(l) => <option value={l.room} selected={l.room === layer()}>{layerName(l.room)}</option>}</For>
         </select>
         <label for="review-reference">Reference</label>
         <select id="review-reference" value={reference()} onChange={(e) => setReference(e.currentTarget.value)} disabled={!detail()}>
             <option value="">Choose the reference</option>
-            <For each={detail()?.layers}>{(l) => <option value={l.room}>{layerName(l.room)}</option>}</For>
+            <For each={detail()?.layers}>{(l) => <option value={l.room} selected={l.room === reference()}>{layerName(l.room)}</option>}</For>
         </select>
         <label for="review-tolerance">Boundary tolerance (words)</label>
         <input id="review-tolerance" type="number" min="0" max="50" value={tolerance()} onInput={(e) => setTolerance(Math.max(0, Math.floor(Number(e.currentTarget.value) || 0)))} />
@@ -211,14 +221,16 @@ function ComparePanel(props: { studyId: string; label: (id: string) => string; n
                 </For>
               </tbody>
             </table>
+            <SideBySide result={r()} layerName={layerName(r().layer.room)} referenceName={layerName(r().reference.room)} label={props.label} />
             <For each={CATEGORIES}>
               {(c) => (
                 <section class="compare-list" aria-label={c.title}>
                   <h3>{c.title} <span class="count">{r()[c.key].length}</span></h3>
                   <ul>
                     <For each={r()[c.key]} fallback={<li class="muted">None.</li>}>
-                      {(entry) => (
+                      {(entry, i) => (
                         <PlaceView
+                          id={placeId(c.key, i())}
                           entry={entry}
                           category={c.key}
                           textId={textId()}
@@ -244,6 +256,7 @@ function ComparePanel(props: { studyId: string; label: (id: string) => string; n
 
 /** One place the comparison found: its words, the codes on both sides, and its comment thread. */
 function PlaceView(props: {
+  id: string;
   entry: ComparisonEntry;
   category: Category;
   textId: string;
@@ -285,9 +298,12 @@ function PlaceView(props: {
     }
   };
   return (
-    <li class="place" data-category={props.category}>
+    <li class="place" data-category={props.category} id={props.id}>
       <blockquote>{props.entry.quote}</blockquote>
-      <p>{describe()} <a href={href({ name: 'coding', studyId: props.studyId, textId: props.textId })}>Open the text</a></p>
+      <p>
+        {describe()} <a href={href({ name: 'coding', studyId: props.studyId, textId: props.textId })}>Open the text</a>{' · '}
+        <a href={`#sbs-${props.id}`} onClick={(e) => { e.preventDefault(); jump(`sbs-${props.id}`); }}>Side by side</a>
+      </p>
       <Show when={thread()}>
         {(t) => (
           <ol class="comments">

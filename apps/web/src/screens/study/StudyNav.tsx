@@ -3,7 +3,7 @@ import { href } from '../../ui/router.js';
 import type { StudyScope } from './study-context.js';
 import { RetentionNote } from './RetentionNote.js';
 
-export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'review' | 'coding' | 'rounds' | 'agreement' | 'analysis' | 'cases' | 'upload' | 'versions' | 'audit' | 'deid' | 'settings';
+export type StudyTab = 'study' | 'codebook' | 'memos' | 'members' | 'review' | 'supervision' | 'coding' | 'rounds' | 'agreement' | 'analysis' | 'cases' | 'upload' | 'versions' | 'audit' | 'deid' | 'settings';
 
 /** What the signed-in person may do in the study, as the server listed it (the server still decides). */
 export function allowed(scope: StudyScope, action: string): boolean {
@@ -17,6 +17,7 @@ const TABS: Array<{ name: Exclude<StudyTab, 'coding' | 'upload'>; label: string;
   { name: 'codebook', label: 'Codebook' },
   { name: 'memos', label: 'Memos' },
   { name: 'review', label: 'Review' },
+  { name: 'supervision', label: 'Supervision' },
   { name: 'members', label: 'Members' },
   { name: 'rounds', label: 'Rounds' },
   // the server serves study-wide figures to owners, leads and observers only
