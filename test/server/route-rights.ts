@@ -80,4 +80,25 @@ export const ROUTE_RIGHTS: Record<string, Rights> = {
   'GET /api/rounds/:roundId/report': members,
   'PUT /api/rounds/:roundId/texts/:textId/read': members, // a participant reports their own words read
   'GET /api/studies/:studyId/events': members, // live study changes (texts added, an import)
+  // Deletion and de-identification (issue 12).
+  'DELETE /api/studies/:studyId': ['owner'],
+  'DELETE /api/texts/:textId': managers,
+  'POST /api/studies/:studyId/deid/candidates': managers,
+  'POST /api/studies/:studyId/deid/apply': managers,
+  'POST /api/studies/:studyId/deid/purge': managers,
+  'GET /api/studies/:studyId/deid/scan': managers,
+  'GET /api/studies/:studyId/pseudonyms': ['owner'], // the key: owner only
+  'POST /api/studies/:studyId/pseudonyms/export': ['owner'],
+  'DELETE /api/studies/:studyId/pseudonyms': ['owner'],
+  // Supervision (issue 9): supervisors manage; anyone sees their own assignments and a text's reference id.
+  'GET /api/studies/:studyId/assignments': members,
+  'POST /api/studies/:studyId/assignments': managers,
+  'DELETE /api/studies/:studyId/assignments/:textId/:userId': managers,
+  'POST /api/studies/:studyId/assignments/:textId/:userId/review': managers,
+  'POST /api/studies/:studyId/assignments/:textId/:userId/share': managers,
+  'GET /api/studies/:studyId/supervision/settings': members,
+  'PUT /api/studies/:studyId/supervision/settings': managers,
+  'GET /api/studies/:studyId/supervision/progress': managers,
+  'GET /api/texts/:textId/reference': members,
+  'PUT /api/texts/:textId/reference': managers,
 };
