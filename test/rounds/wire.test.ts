@@ -290,8 +290,9 @@ describe(`independent coding at the wire (${twoNodes ? 'two nodes, PostgreSQL an
       '/api/rounds/{roundId}/report': ['', '?format=md', '?format=csv'],
       '/api/studies/{studyId}/audit': ['?limit=500'],
     };
-    // Not called here: the live comment events are read above; a token route needs a link's secret.
-    const elsewhere = ['/api/studies/{studyId}/comments/events', '/api/invitations/{token}', '/api/password-resets/{token}'];
+    // Not called here: the live comment events are read above; the study's live events are an open
+    // stream that names texts added and nothing of anyone's coding; a token route needs a link's secret.
+    const elsewhere = ['/api/studies/{studyId}/comments/events', '/api/studies/{studyId}/events', '/api/invitations/{token}', '/api/password-resets/{token}'];
     const markers = othersOf(who);
     const own = segIds[who]!;
     let calls = 0;

@@ -8,7 +8,7 @@
 import {
   auditLog, documents, eq, projectedAttributes, projectedCaseTexts, projectedCaseValues, projectedCases,
   projectedCodes, projectedMemos, projectedSegments, pseudonymKeyExports, pseudonyms, retiredDocuments, roundDone, roundParticipants,
-  roundTexts, rounds, segmentComments, snapshots, updates, versions, type Db,
+  roundReading, roundTexts, rounds, segmentComments, snapshots, supervisionSettings, textAssignments, textReferences, updates, versions, type Db,
 } from '@gloss/db';
 import WebSocket from 'ws';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -42,6 +42,10 @@ async function fillEveryTable(db: Db, seed: BasicSeed): Promise<string[]> {
   await db.insert(roundTexts).values({ roundId: round!.id, textId });
   await db.insert(roundParticipants).values({ roundId: round!.id, userId: users.coder.id });
   await db.insert(roundDone).values({ roundId: round!.id, textId, userId: users.coder.id });
+  await db.insert(roundReading).values({ roundId: round!.id, textId, userId: users.coder.id, wordsRead: 12 });
+  await db.insert(textAssignments).values({ studyId, textId, userId: users.coder.id, assignedBy: users.lead.id });
+  await db.insert(textReferences).values({ textId, layerDocId: layer!.id, chosenBy: users.lead.id });
+  await db.insert(supervisionSettings).values({ studyId });
   await db.insert(updates).values({ docId: layer!.id, data: new Uint8Array([0, 0]), bytes: 2 });
   await db.insert(snapshots).values({ docId: textRoom, seq: 0, data: new Uint8Array([0, 0]), bytes: 2 });
   await db.insert(versions).values({ docId: textRoom, name: 'as imported', snapshot: new Uint8Array([0, 0]) });
