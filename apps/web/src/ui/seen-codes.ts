@@ -32,10 +32,14 @@ export function useSeenCodes(studyId: string, userId: string) {
   return {
     /** When the person last opened the code (0: never). */
     seenAt: (codeId: string) => seen()[codeId] ?? 0,
+    // Called from effects: the updater form reads the map without tracking it (reading `seen()` here
+    // made the calling effect depend on the signal it sets, a loop without end).
     markSeen(codeId: string, at = Date.now()) {
-      const next = { ...seen(), [codeId]: at };
-      setSeen(next);
-      write(key, next);
+      setSeen((prev) => {
+        const next = { ...prev, [codeId]: at };
+        write(key, next);
+        return next;
+      });
     },
   };
 }
