@@ -43,12 +43,16 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
   const [kind, setKind] = createSignal<'' | 'memo' | 'jotting'>('');
   const [open, setOpen] = createSignal<string | null>(null);
   const { message, attempt } = createAttempt();
+  // one rule for writing memos, replies included (the coding view's role table; the server enforces it)
   const mayReply = () => decide(props.scope.study()?.role, 'reply', { permissions: props.scope.study()?.permissions });
   const shown = createMemo(() => {
     all();
     const filter = kind() ? { kind: kind() as 'memo' | 'jotting' } : {};
     return query().trim() ? searchMemos(doc, query(), filter).map((h) => h.memo) : listMemos(doc, filter).reverse();
   });
+  // the list is keyed by id, so a change elsewhere in the memos does not rebuild an item (and lose a reply being typed)
+  const shownIds = createMemo(() => shown().map((m) => m.id), [], { equals: (a, b) => a.length === b.length && a.every((x, i) => x === b[i]) });
+  const byId = createMemo(() => new Map(shown().map((m) => [m.id, m])));
   const where = (a: MemoAttachment) => {
     switch (a.kind) {
       case 'study': return 'the study';
@@ -83,38 +87,43 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
         </div>
         <Show when={message()}><p class="error" role="alert">{message()}</p></Show>
         <ul class="memo-list">
-          <For each={shown()} fallback={<li class="muted">No memos match.</li>}>
-            {(m) => (
-              <li class="memo" data-kind={m.kind}>
+          <For each={shownIds()} fallback={<li class="muted">No memos match.</li>}>
+            {(id) => {
+              // the last known view stays while an item being removed is torn down
+              let last: MemoView;
+              const m = () => (last = byId().get(id) ?? last);
+              return (
+              <li class="memo" data-kind={m().kind}>
                 <div class="memo-head">
-                  <span class="tag">{m.replyTo ? 'reply' : m.kind}</span> <strong>{m.replyTo ? '(a reply; the memo it answered was deleted)' : m.title || '(untitled)'}</strong>
-                  <span class="muted"> — {nameOf(m.author)}, on {where(m.attachedTo)}, {new Date(m.createdAt).toLocaleDateString()}</span>
+                  <span class="tag">{m().replyTo ? 'reply' : m().kind}</span> <strong>{m().replyTo ? '(a reply; the memo it answered was deleted)' : m().title || '(untitled)'}</strong>
+                  <span class="muted"> — {nameOf(m().author)}, on {where(m().attachedTo)}, {new Date(m().createdAt).toLocaleDateString()}</span>
                 </div>
-                <Show when={open() === m.id} fallback={<p class="memo-body">{m.body.slice(0, 280)}{m.body.length > 280 ? '…' : ''}</p>}>
-                  <MemoBody memo={m} doc={doc} mine={m.author === props.me.id} />
+                <Show when={open() === m().id} fallback={<p class="memo-body">{m().body.slice(0, 280)}{m().body.length > 280 ? '…' : ''}</p>}>
+                  <MemoBody memo={m()} doc={doc} mine={m().author === props.me.id} />
                 </Show>
                 <div class="row">
-                  <Show when={m.attachedTo.kind === 'segment' || m.attachedTo.kind === 'text' ? m.attachedTo : undefined}>
+                  <Show when={m().attachedTo.kind === 'segment' || m().attachedTo.kind === 'text' ? m().attachedTo : undefined}>
                     {(a) => <a class="button-link" href={href({ name: 'coding', studyId: props.studyId, textId: (a() as { textId: string }).textId, ...('segmentId' in a() ? { segmentId: (a() as { segmentId: string }).segmentId } : {}) })}>Go to the passage</a>}
                   </Show>
-                  <button type="button" class="quiet" onClick={() => setOpen(open() === m.id ? null : m.id)} aria-expanded={open() === m.id}>{open() === m.id ? 'Close' : m.author === props.me.id ? 'Open and edit' : 'Read'}</button>
-                  <Show when={m.author === props.me.id && m.kind === 'jotting'}>
-                    <button type="button" class="quiet" onClick={() => attempt(() => promoteJotting(doc, m.id))}>Promote to memo</button>
+                  <button type="button" class="quiet" onClick={() => setOpen(open() === m().id ? null : m().id)} aria-expanded={open() === m().id}>{open() === m().id ? 'Close' : m().author === props.me.id ? 'Open and edit' : 'Read'}</button>
+                  <Show when={m().author === props.me.id && m().kind === 'jotting'}>
+                    <button type="button" class="quiet" onClick={() => attempt(() => promoteJotting(doc, m().id))}>Promote to memo</button>
                   </Show>
-                  <Show when={m.author === props.me.id}>
-                    <button type="button" class="danger" onClick={() => confirm('Delete this memo?') && attempt(() => removeMemo(doc, m.id))}>Delete</button>
+                  <Show when={m().author === props.me.id}>
+                    <button type="button" class="danger" onClick={() => confirm('Delete this memo?') && attempt(() => removeMemo(doc, m().id))}>Delete</button>
                   </Show>
                 </div>
-                <Show when={!m.replyTo}>
-                  <Thread memo={m} mm={props.mm} me={props.me} nameOf={nameOf} version={all} mayReply={mayReply().allowed} />
+                <Show when={!m().replyTo}>
+                  <Thread memo={m()} mm={props.mm} me={props.me} nameOf={nameOf} version={all} mayReply={mayReply().allowed} />
                 </Show>
               </li>
-            )}
+            ); }}
           </For>
         </ul>
       </section>
       <section aria-labelledby="new-memo-h" class="new-memo">
         <h2 id="new-memo-h">New memo</h2>
+        <Show when={mayReply().allowed} fallback={<p class="muted" data-testid="memos-read-only">You can read the memos and their replies here; your role does not write memos.</p>}>
         <form onSubmit={(e) => {
           e.preventDefault();
           attempt(() => {
@@ -134,6 +143,7 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
           <label>Memo <textarea rows="6" value={body()} onInput={(e) => setBody(e.currentTarget.value)} /></label>
           <button type="submit">Keep memo</button>
         </form>
+        </Show>
       </section>
     </div>
   );
@@ -184,7 +194,7 @@ function Thread(props: { memo: MemoView; mm: OpenDoc; me: Me; nameOf: (id: strin
   };
 
   return (
-    <div class="thread">
+    <div class="memo-thread">
       <Show when={replies().length > 0}>
         <ul class="replies" aria-label={`Replies to this ${what}`}>
           <For each={replies()}>
