@@ -6,7 +6,7 @@
  * memo is refused (a permission-denied message in words) and never stored (read back from the database).
  */
 import { type Db, asc, eq, snapshots, updates } from '@gloss/db';
-import { acceptProposal, addMemo, addSegment, getCodes, getMemoBody, listMemos, listProposals, proposeCode, removeMemo } from '@gloss/model';
+import { acceptProposal, addMemo, addReply, addSegment, getCodes, getMemoBody, listMemos, listProposals, listReplies, proposeCode, removeMemo } from '@gloss/model';
 import * as decoding from 'lib0/decoding';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
@@ -101,17 +101,22 @@ describe.each(dbKinds())('code proposals and memo ownership on %s', (db) => {
     const leadMemos = client(lead.cookie, s.memosRoom);
     await until(() => leadMemos.provider.synced, 'lead memos synced');
     const leadMemo = addMemo(leadMemos.doc, { author: s.users.lead.id, title: 'Plot rules', body: 'The committee decides.', attachedTo: { kind: 'study' } });
+    const leadReply = addReply(leadMemos.doc, leadMemo, { author: s.users.lead.id, body: 'It meets on Tuesdays.' });
 
     const attempts: Array<[string, (d: Y.Doc) => void]> = [
       ['edit', (d) => getMemoBody(d, leadMemo).insert(0, 'Nobody knows. ')],
       ['delete', (d) => removeMemo(d, leadMemo)],
       ['forge', (d) => addMemo(d, { author: s.users.lead.id, title: 'Signed by the lead', body: 'forged', attachedTo: { kind: 'study' } })],
+      // replies (issue 15 item 4) are entries of their writer's own: the same rule covers them
+      ['edit a reply', (d) => getMemoBody(d, leadReply).insert(0, 'Never. ')],
+      ['delete a reply', (d) => removeMemo(d, leadReply)],
+      ['forge a reply', (d) => addReply(d, leadMemo, { author: s.users.lead.id, body: 'forged reply' })],
     ];
     for (const [what, attempt] of attempts) {
       // A fresh client each time: a refused change stays in the sender's copy, and later changes build on it.
       const c = client(coder.cookie, s.memosRoom);
       const denied = refusals(c);
-      await until(() => c.provider.synced && listMemos(c.doc).some((m) => m.id === leadMemo), `coder memos synced (${what})`);
+      await until(() => c.provider.synced && listReplies(c.doc, leadMemo).some((m) => m.id === leadReply), `coder memos synced (${what})`);
       attempt(c.doc);
       await until(() => denied.length > 0, `the ${what} is refused`);
       expect(denied[0], what).toMatch(/your own memos|your own name/);
@@ -129,7 +134,10 @@ describe.each(dbKinds())('code proposals and memo ownership on %s', (db) => {
     const own = client(coder.cookie, s.memosRoom);
     await until(() => own.provider.synced, 'own memos synced');
     const ownMemo = addMemo(own.doc, { author: s.users.coder.id, title: 'Mine', body: 'Spades travel.', attachedTo: { kind: 'study' } });
+    const ownReply = addReply(own.doc, leadMemo, { author: s.users.coder.id, body: 'Spades on Tuesdays, then.' });
     await until(() => listMemos(leadMemos.doc).some((m) => m.id === ownMemo), "the lead sees the coder's own memo");
+    await until(() => listReplies(leadMemos.doc, leadMemo).some((m) => m.id === ownReply), "the lead sees the coder's own reply under the memo");
+    expect(listReplies(leadMemos.doc, leadMemo).map((r) => r.body)).toEqual(['It meets on Tuesdays.', 'Spades on Tuesdays, then.']);
     expect(listMemos(leadMemos.doc).find((m) => m.id === leadMemo)?.body).toBe('The committee decides.');
     expect(listMemos(leadMemos.doc).some((m) => m.title === 'Signed by the lead')).toBe(false);
 
@@ -141,6 +149,7 @@ describe.each(dbKinds())('code proposals and memo ownership on %s', (db) => {
     expect(stored.find((m) => m.id === leadMemo)?.body).toBe('The committee decides.');
     expect(stored.some((m) => m.title === 'Signed by the lead')).toBe(false);
     expect(stored.some((m) => m.id === ownMemo)).toBe(true);
+    expect(listReplies(memos, leadMemo).map((r) => [r.author, r.body])).toEqual([[s.users.lead.id, 'It meets on Tuesdays.'], [s.users.coder.id, 'Spades on Tuesdays, then.']]);
     const codebook = await server.withDb((d) => storedDoc(d, s.codebookRoom));
     expect(codebook.getMap('codes').has('k-sneaked')).toBe(false);
   }, 120_000);

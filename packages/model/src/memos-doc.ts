@@ -25,6 +25,8 @@ export interface MemoView {
   attachedTo: MemoAttachment;
   createdAt: number;
   updatedAt: number;
+  /** Set on a reply: the memo or jotting it answers. A reply is an entry of its writer's own (the server's rule is per entry). */
+  replyTo?: string;
 }
 
 export interface NewMemo {
@@ -109,9 +111,46 @@ export function removeMemo(doc: Y.Doc, id: string): void {
   memos(doc).delete(id);
 }
 
+/**
+ * Reply to a memo or jotting: a new entry of `author`'s own, with the memo's attachment (so a reply is
+ * found with its passage) and `replyTo` naming the memo. Replies answer memos, not other replies.
+ */
+export function addReply(doc: Y.Doc, memoId: string, input: { author: string; body: string }, clock: Clock = systemClock): string {
+  const parent = requireMemo(doc, memoId);
+  if (parent.get('replyTo') !== undefined) throw new InvalidArgumentError('reply to the memo itself, not to a reply');
+  if (typeof input.body !== 'string' || input.body.trim() === '') throw new InvalidArgumentError('a reply needs some words');
+  if (typeof input.author !== 'string' || input.author === '') throw new InvalidArgumentError('a reply needs an author');
+  const id = newId('m');
+  const now = clock();
+  doc.transact(() => {
+    const m = new Y.Map<unknown>();
+    m.set('kind', 'memo');
+    m.set('author', input.author);
+    m.set('title', '');
+    m.set('body', new Y.Text(input.body));
+    m.set('attachedTo', { ...(parent.get('attachedTo') as MemoAttachment) });
+    m.set('replyTo', memoId);
+    m.set('createdAt', now);
+    m.set('updatedAt', now);
+    memos(doc).set(id, m);
+  });
+  return id;
+}
+
+/** The replies to a memo, oldest first. */
+export function listReplies(doc: Y.Doc, memoId: string): MemoView[] {
+  const out: MemoView[] = [];
+  memos(doc).forEach((m, id) => {
+    if (m instanceof Y.Map && m.get('replyTo') === memoId) out.push(readMemo(id, m));
+  });
+  return out.sort((x, y) => x.createdAt - y.createdAt || (x.id < y.id ? -1 : 1));
+}
+
 function readMemo(id: string, m: Y.Map<unknown>): MemoView {
   const body = m.get('body');
+  const replyTo = m.get('replyTo');
   return {
+    ...(typeof replyTo === 'string' ? { replyTo } : {}),
     id,
     kind: m.get('kind') === 'jotting' ? 'jotting' : 'memo',
     author: String(m.get('author') ?? ''),
@@ -134,6 +173,8 @@ export interface MemoFilter {
   textId?: string;
   codeId?: string;
   segmentId?: string;
+  /** Replies are listed under their memo (listReplies), not as memos of their own, unless this is true (or their memo is gone). */
+  replies?: boolean;
 }
 
 export function listMemos(doc: Y.Doc, filter: MemoFilter = {}): MemoView[] {
@@ -141,6 +182,8 @@ export function listMemos(doc: Y.Doc, filter: MemoFilter = {}): MemoView[] {
   memos(doc).forEach((m, id) => {
     if (!(m instanceof Y.Map)) return;
     const v = readMemo(id, m);
+    // a reply whose memo was deleted is listed on its own, so its words stay findable
+    if (v.replyTo !== undefined && filter.replies !== true && memos(doc).has(v.replyTo)) return;
     const a = v.attachedTo as Partial<{ kind: string; textId: string; codeId: string; segmentId: string }>;
     if (filter.kind !== undefined && v.kind !== filter.kind) return;
     if (filter.author !== undefined && v.author !== filter.author) return;

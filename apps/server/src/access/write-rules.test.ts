@@ -1,4 +1,4 @@
-import { acceptProposal, addCode, addMemo, createCodebookDoc, createMemosDoc, getMemoBody, proposeCode, removeMemo, updateMemo } from '@gloss/model';
+import { acceptProposal, addCode, addMemo, addReply, createCodebookDoc, createMemosDoc, getMemoBody, proposeCode, removeMemo, updateMemo } from '@gloss/model';
 import { describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
 import { WRITE_REFUSED, checkWrite } from './write-rules.js';
@@ -49,6 +49,36 @@ describe('own-memos', () => {
     Y.applyUpdate(landed, Y.encodeStateAsUpdate(memos));
     Y.applyUpdate(landed, Y.encodeStateAsUpdate(replica, sv0));
     expect(checkWrite('own-memos', landed, second, 'ana')).toBeNull();
+  });
+});
+
+describe('own-memos: replies', () => {
+  const memos = createMemosDoc();
+  const jotting = addMemo(memos, { kind: 'jotting', author: 'ana', body: 'ask about the ferry timetable', attachedTo: { kind: 'segment', textId: 't1', segmentId: 's1' } });
+  const bens = addReply(memos, jotting, { author: 'ben', body: 'P04 says it changed in spring.' });
+
+  it('accepts a reply of one’s own to someone else’s jotting, and its writer’s edit and deletion of it', () => {
+    expect(check('own-memos', memos, 'lead', (d) => addReply(d, jotting, { author: 'lead', body: 'Ask P07 as well.' }))).toBeNull();
+    expect(check('own-memos', memos, 'ben', (d) => getMemoBody(d, bens).insert(0, 'Correction: '))).toBeNull();
+    expect(check('own-memos', memos, 'ben', (d) => removeMemo(d, bens))).toBeNull();
+  });
+
+  it('refuses a reply in another’s name, an edit or deletion of another’s reply, and a reply to nothing or to a reply', () => {
+    expect(check('own-memos', memos, 'lead', (d) => addReply(d, jotting, { author: 'ben', body: 'forged agreement' }))).toBe(WRITE_REFUSED.forged);
+    expect(check('own-memos', memos, 'lead', (d) => getMemoBody(d, bens).insert(0, 'Not so: '))).toBe(WRITE_REFUSED.othersMemo);
+    expect(check('own-memos', memos, 'ana', (d) => removeMemo(d, bens))).toBe(WRITE_REFUSED.othersMemo); // not even the jotting's writer
+    expect(check('own-memos', memos, 'ana', (d) => (d.getMap('memos').get(bens) as Y.Map<unknown>).set('replyTo', 'm-x'))).toBe(WRITE_REFUSED.othersMemo);
+    // built by hand: the model itself refuses these, a crafted client need not
+    const raw = (to: string) => (d: Y.Doc) => {
+      const m = new Y.Map<unknown>();
+      m.set('author', 'lead');
+      m.set('replyTo', to);
+      m.set('body', new Y.Text('x'));
+      d.getMap('memos').set('m-crafted', m);
+    };
+    expect(check('own-memos', memos, 'lead', raw('m-missing'))).toBe(WRITE_REFUSED.replyNowhere);
+    expect(check('own-memos', memos, 'lead', raw(bens))).toBe(WRITE_REFUSED.replyNowhere);
+    expect(check('own-memos', memos, 'lead', raw(jotting))).toBeNull();
   });
 });
 

@@ -6,7 +6,8 @@
  * How: the update is applied to a scratch copy of the document (the room's state plus updates still in
  * flight); the transaction's `changed` types are walked up to their root and top-level key, so we know
  * exactly which memos / proposals the update touches (an insertion into a memo's body, a field set, a
- * deletion); each touched entry is then compared with what it was before. The copy is then thrown away:
+ * deletion); each touched entry is then compared with what it was before. A reply to a memo is an entry
+ * of the replier's own (with `replyTo`), so the same rule keeps anyone from editing or forging it. The copy is then thrown away:
  * the room applies the real update only after it is stored. An update that cannot be applied in full
  * (it depends on changes the server does not have) is refused too: it could not be checked.
  */
@@ -19,6 +20,7 @@ export const WRITE_REFUSED = {
   othersMemo: "You can only write your own memos: this change touched someone else's memo.",
   forged: 'A memo must carry your own name as its author.',
   memosOnly: 'The memos document holds only memos.',
+  replyNowhere: 'A reply must answer a memo or jotting that exists (not another reply).',
   proposalsOnly: 'You may only propose codes: ask the lead to change the codebook.',
   proposalNotNew: 'A proposal cannot be changed once made; the lead decides it.',
   proposalForged: 'A proposal must be yours and pending.',
@@ -80,6 +82,12 @@ export function checkWrite(rule: WriteRule, scratch: Y.Doc, update: Uint8Array, 
       if (rule === 'own-memos') {
         if (before.has(key) && before.get(key) !== userId) return WRITE_REFUSED.othersMemo;
         if (after !== undefined && authorOf(after) !== userId) return WRITE_REFUSED.forged;
+        // a new reply (an entry of one's own with replyTo) must answer a memo that is there, not a reply
+        if (!before.has(key) && after instanceof Y.Map && after.get('replyTo') !== undefined) {
+          const to = after.get('replyTo');
+          const parent = typeof to === 'string' && to !== key ? entries.get(to) : undefined;
+          if (!(parent instanceof Y.Map) || parent.get('replyTo') !== undefined) return WRITE_REFUSED.replyNowhere;
+        }
       } else {
         if (before.has(key)) return WRITE_REFUSED.proposalNotNew;
         if (!(after instanceof Y.Map) || after.get('author') !== userId || after.get('status') !== 'pending') return WRITE_REFUSED.proposalForged;

@@ -13,6 +13,7 @@ import {
   listChanges,
   listExclusiveSets,
   listMemos,
+  listReplies,
   listSegments,
   listThemes,
   readText,
@@ -81,7 +82,11 @@ export function codebookFrame(cb: Y.Doc): Pick<StudyFrame, 'codes' | 'groups' | 
 }
 
 export function memoList(memos: Y.Doc): ExMemo[] {
-  return listMemos(memos).map((m) => ({ ...m, attachedTo: m.attachedTo }));
+  return listMemos(memos).map(({ replyTo: _, ...m }) => ({
+    ...m,
+    attachedTo: m.attachedTo,
+    replies: listReplies(memos, m.id).map((r) => ({ id: r.id, author: r.author, body: r.body, createdAt: r.createdAt })),
+  }));
 }
 
 export function textData(textId: string, title: string, textDoc: Y.Doc, layers: Array<{ coderId: string; doc: Y.Doc; round?: number }>): TextWithSegments {

@@ -93,4 +93,21 @@ describe('memos Markdown', () => {
     expect(md).toContain('- About: a segment of text “Interview P01, quay”: “🐟🐟”');
     expect(md).toContain('Dawn recurs.\nAsk about winter.');
   });
+
+  it('lists replies under their memo, oldest first, a reply of several lines kept inside its list item', () => {
+    const s = sampleStudy();
+    const jot = s.memos.find((m) => m.kind === 'jotting')!;
+    const at = jot.createdAt;
+    jot.replies = [
+      { id: 'r2', author: 'u-ada', body: 'Drawn, I think.\nAsk P01.', createdAt: at + 3 },
+      { id: 'r1', author: 'u-bo', body: 'Or a sticker?', createdAt: at + 2 },
+    ];
+    const md = memosMarkdown(s, { textTitles: new Map(s.texts.map((t) => [t.id, t.title])) });
+    const section = md.slice(md.indexOf('## Jottings'));
+    // common practice (CommonMark 0.31 §5.2): a list item's continuation lines are indented to its content
+    expect(section).toContain(`#### Replies (2)\n\n- Bo Lindqvist-Marr, ${new Date(at + 2).toISOString()}: Or a sticker?\n- `);
+    expect(section).toContain(': Drawn, I think.\n  Ask P01.');
+    expect(section.indexOf('fish emoji')).toBeLessThan(section.indexOf('#### Replies'));
+    expect(md.slice(0, md.indexOf('## Jottings'))).not.toContain('#### Replies'); // memos without replies have no thread heading
+  });
 });

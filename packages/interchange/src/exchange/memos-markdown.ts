@@ -1,6 +1,7 @@
 /**
  * Memos and jottings as Markdown: memos first, then jottings, each with its author, dates and what it
- * is attached to (named: the text's title, the code's path, the segment's quoted words).
+ * is attached to (named: the text's title, the code's path, the segment's quoted words), and its replies
+ * under it as a list (who, when, what).
  */
 import { codePaths, type ExMemo, type ExSegment, type StudyFrame } from './study-data.js';
 
@@ -36,6 +37,13 @@ export function memosMarkdown(frame: Pick<StudyFrame, 'title' | 'memos' | 'codes
       lines.push(`### ${m.title.trim() || (kind === 'memo' ? 'Untitled memo' : 'Jotting')}`, '');
       lines.push(`- By: ${who(m.author)}`, `- Written: ${new Date(m.createdAt).toISOString()}`, `- Last changed: ${new Date(m.updatedAt).toISOString()}`, `- About: ${about(m)}`, '');
       lines.push(m.body.trim() || '_(empty)_', '');
+      const replies = [...(m.replies ?? [])].sort((a, b) => a.createdAt - b.createdAt || (a.id < b.id ? -1 : 1));
+      if (replies.length > 0) {
+        lines.push(`#### Replies (${replies.length})`, '');
+        // each reply a list item; its further lines indented to stay inside the item (CommonMark §5.2)
+        for (const r of replies) lines.push(`- ${who(r.author)}, ${new Date(r.createdAt).toISOString()}: ${r.body.trim().replace(/\n/g, '\n  ') || '_(empty)_'}`);
+        lines.push('');
+      }
     }
   }
   return lines.join('\n');

@@ -119,6 +119,15 @@ export interface ExMemo {
   attachedTo: ExAttachment;
   createdAt: number;
   updatedAt: number;
+  /** The thread under it, oldest first (the memos Markdown lists them; REFI-QDA notes have no threads). */
+  replies?: ExReply[];
+}
+
+export interface ExReply {
+  id: string;
+  author: string;
+  body: string;
+  createdAt: number;
 }
 
 /** Everything but the texts and their segments (those may be streamed text by text). */

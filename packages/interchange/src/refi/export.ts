@@ -34,6 +34,7 @@ export function exportLosses(format: 'qdc' | 'qdpx'): string[] {
     'Segments whose words were all deleted (orphaned) are left out: a selection needs words.',
     'Case kinds and the choices of a choice attribute are packed into descriptions; a choice attribute becomes a text variable.',
     'Jottings become notes marked as jottings in their description; segment notes become selection descriptions.',
+    'Replies to memos and jottings are not exported (a note has no thread): the memos Markdown export lists them under their memo.',
     'Users are written with their name and email: the file is personal data.',
   ];
 }

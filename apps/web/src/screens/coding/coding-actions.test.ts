@@ -10,6 +10,8 @@ describe('coding actions: one table of who may do what, and the words', () => {
     expect(decide('observer', 'code')).toEqual({ allowed: false, message: 'Not saved: observers cannot code passages.' });
     expect(decide('observer', 'new-code')).toEqual({ allowed: false, message: 'Not saved: observers cannot create codes.' });
     expect(decide('observer', 'in-vivo')).toEqual({ allowed: false, message: 'Not saved: observers cannot create in vivo codes.' });
+    expect(decide('observer', 'reply')).toEqual({ allowed: false, message: 'Not saved: observers cannot reply to memos.' });
+    for (const role of ['coder', 'trainee', 'lead', 'owner'] as const) expect(decide(role, 'reply').allowed).toBe(true);
   });
 
   it('lets coders and trainees code and propose codes, but not write the codebook or correct the text', () => {

@@ -8,7 +8,7 @@ import type { Role } from '../../api/types.js';
 
 export type CodingAction =
   | 'code' | 'recode' | 'resize' | 'remove' | 'note' | 'recheck' | 'undo' | 'redo'
-  | 'in-vivo' | 'new-code' | 'jot' | 'correct' | 'example';
+  | 'in-vivo' | 'new-code' | 'jot' | 'reply' | 'correct' | 'example';
 
 /** The server permission each action needs (names as in the server's role table). */
 type Permission = 'layer.writeOwn' | 'codebook.write' | 'codebook.propose' | 'memos.write' | 'text.correct';
@@ -34,6 +34,7 @@ export const ACTION_RULES: Record<CodingAction, Rule> = {
   'in-vivo': { needs: 'codebook.propose', direct: 'codebook.write', what: 'create in vivo codes' },
   'new-code': { needs: 'codebook.propose', direct: 'codebook.write', what: 'create codes' },
   jot: { needs: 'memos.write', what: 'add jottings' },
+  reply: { needs: 'memos.write', what: 'reply to memos' },
   correct: { needs: 'text.correct', what: 'correct the transcript' },
   example: { needs: 'codebook.write', what: 'add examples to the codebook' },
 };

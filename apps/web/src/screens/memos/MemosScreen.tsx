@@ -1,9 +1,15 @@
-/** Memos and jottings of the study: search, filter, write, edit one's own, promote a jotting to a memo. */
+/**
+ * Memos and jottings of the study: search, filter, write, edit one's own, promote a jotting to a memo,
+ * and reply: each memo's replies show as a thread under it (a reply is an entry of its writer's own).
+ */
 import { For, Show, createMemo, createResource, createSignal, onCleanup, onMount } from 'solid-js';
+import * as Y from 'yjs';
 import {
-  addMemo, getCodes, getMemoBody, listMemos, promoteJotting, removeMemo, searchMemos,
+  addMemo, addReply, getCodes, getMemoBody, listMemos, listReplies, MEMOS_ROOT, promoteJotting, removeMemo, searchMemos,
   type MemoAttachment, type MemoView,
 } from '@gloss/model';
+import { errorMessage } from '../../api/errors.js';
+import { decide, refusedMessage, savedMessage } from '../coding/coding-actions.js';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
@@ -37,11 +43,16 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
   const [kind, setKind] = createSignal<'' | 'memo' | 'jotting'>('');
   const [open, setOpen] = createSignal<string | null>(null);
   const { message, attempt } = createAttempt();
+  // one rule for writing memos, replies included (the coding view's role table; the server enforces it)
+  const mayReply = () => decide(props.scope.study()?.role, 'reply', { permissions: props.scope.study()?.permissions });
   const shown = createMemo(() => {
     all();
     const filter = kind() ? { kind: kind() as 'memo' | 'jotting' } : {};
     return query().trim() ? searchMemos(doc, query(), filter).map((h) => h.memo) : listMemos(doc, filter).reverse();
   });
+  // the list is keyed by id, so a change elsewhere in the memos does not rebuild an item (and lose a reply being typed)
+  const shownIds = createMemo(() => shown().map((m) => m.id), [], { equals: (a, b) => a.length === b.length && a.every((x, i) => x === b[i]) });
+  const byId = createMemo(() => new Map(shown().map((m) => [m.id, m])));
   const where = (a: MemoAttachment) => {
     switch (a.kind) {
       case 'study': return 'the study';
@@ -76,35 +87,43 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
         </div>
         <Show when={message()}><p class="error" role="alert">{message()}</p></Show>
         <ul class="memo-list">
-          <For each={shown()} fallback={<li class="muted">No memos match.</li>}>
-            {(m) => (
-              <li class="memo" data-kind={m.kind}>
+          <For each={shownIds()} fallback={<li class="muted">No memos match.</li>}>
+            {(id) => {
+              // the last known view stays while an item being removed is torn down
+              let last: MemoView;
+              const m = () => (last = byId().get(id) ?? last);
+              return (
+              <li class="memo" data-kind={m().kind}>
                 <div class="memo-head">
-                  <span class="tag">{m.kind}</span> <strong>{m.title || '(untitled)'}</strong>
-                  <span class="muted"> — {nameOf(m.author)}, on {where(m.attachedTo)}, {new Date(m.createdAt).toLocaleDateString()}</span>
+                  <span class="tag">{m().replyTo ? 'reply' : m().kind}</span> <strong>{m().replyTo ? '(a reply; the memo it answered was deleted)' : m().title || '(untitled)'}</strong>
+                  <span class="muted"> — {nameOf(m().author)}, on {where(m().attachedTo)}, {new Date(m().createdAt).toLocaleDateString()}</span>
                 </div>
-                <Show when={open() === m.id} fallback={<p class="memo-body">{m.body.slice(0, 280)}{m.body.length > 280 ? '…' : ''}</p>}>
-                  <MemoBody memo={m} doc={doc} mine={m.author === props.me.id} />
+                <Show when={open() === m().id} fallback={<p class="memo-body">{m().body.slice(0, 280)}{m().body.length > 280 ? '…' : ''}</p>}>
+                  <MemoBody memo={m()} doc={doc} mine={m().author === props.me.id} />
                 </Show>
                 <div class="row">
-                  <Show when={m.attachedTo.kind === 'segment' || m.attachedTo.kind === 'text' ? m.attachedTo : undefined}>
+                  <Show when={m().attachedTo.kind === 'segment' || m().attachedTo.kind === 'text' ? m().attachedTo : undefined}>
                     {(a) => <a class="button-link" href={href({ name: 'coding', studyId: props.studyId, textId: (a() as { textId: string }).textId, ...('segmentId' in a() ? { segmentId: (a() as { segmentId: string }).segmentId } : {}) })}>Go to the passage</a>}
                   </Show>
-                  <button type="button" class="quiet" onClick={() => setOpen(open() === m.id ? null : m.id)} aria-expanded={open() === m.id}>{open() === m.id ? 'Close' : m.author === props.me.id ? 'Open and edit' : 'Read'}</button>
-                  <Show when={m.author === props.me.id && m.kind === 'jotting'}>
-                    <button type="button" class="quiet" onClick={() => attempt(() => promoteJotting(doc, m.id))}>Promote to memo</button>
+                  <button type="button" class="quiet" onClick={() => setOpen(open() === m().id ? null : m().id)} aria-expanded={open() === m().id}>{open() === m().id ? 'Close' : m().author === props.me.id ? 'Open and edit' : 'Read'}</button>
+                  <Show when={m().author === props.me.id && m().kind === 'jotting'}>
+                    <button type="button" class="quiet" onClick={() => attempt(() => promoteJotting(doc, m().id))}>Promote to memo</button>
                   </Show>
-                  <Show when={m.author === props.me.id}>
-                    <button type="button" class="danger" onClick={() => confirm('Delete this memo?') && attempt(() => removeMemo(doc, m.id))}>Delete</button>
+                  <Show when={m().author === props.me.id}>
+                    <button type="button" class="danger" onClick={() => confirm('Delete this memo?') && attempt(() => removeMemo(doc, m().id))}>Delete</button>
                   </Show>
                 </div>
+                <Show when={!m().replyTo}>
+                  <Thread memo={m()} mm={props.mm} me={props.me} nameOf={nameOf} version={all} mayReply={mayReply().allowed} />
+                </Show>
               </li>
-            )}
+            ); }}
           </For>
         </ul>
       </section>
       <section aria-labelledby="new-memo-h" class="new-memo">
         <h2 id="new-memo-h">New memo</h2>
+        <Show when={mayReply().allowed} fallback={<p class="muted" data-testid="memos-read-only">You can read the memos and their replies here; your role does not write memos.</p>}>
         <form onSubmit={(e) => {
           e.preventDefault();
           attempt(() => {
@@ -124,6 +143,7 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
           <label>Memo <textarea rows="6" value={body()} onInput={(e) => setBody(e.currentTarget.value)} /></label>
           <button type="submit">Keep memo</button>
         </form>
+        </Show>
       </section>
     </div>
   );
@@ -133,4 +153,78 @@ function MemoBody(props: { memo: MemoView; doc: OpenDoc['doc']; mine: boolean })
   let el!: HTMLTextAreaElement;
   onMount(() => onCleanup(bindField(el, getMemoBody(props.doc, props.memo.id), { readOnly: !props.mine })));
   return <label>Body <textarea ref={el} rows="8" class="memo-editor" /></label>;
+}
+
+/**
+ * The replies under one memo, and a Reply form for those who may write memos. What it says comes
+ * from the server's answer: "Saved." once the server kept the reply, its refusal in words otherwise
+ * (the reply is then taken back here), as in the coding view.
+ */
+function Thread(props: { memo: MemoView; mm: OpenDoc; me: Me; nameOf: (id: string) => string; version: () => unknown; mayReply: boolean }) {
+  const doc = props.mm.doc;
+  const replies = createMemo(() => {
+    props.version();
+    return listReplies(doc, props.memo.id);
+  });
+  const [draft, setDraft] = createSignal<string | null>(null);
+  const [said, setSaid] = createSignal('');
+  let input: HTMLTextAreaElement | undefined;
+  const what = props.memo.kind === 'jotting' ? 'jotting' : 'memo';
+
+  const send = async () => {
+    const body = draft() ?? '';
+    // only this change is taken back if the server refuses it
+    const takeBack = new Y.UndoManager([doc.getMap(MEMOS_ROOT)], { trackedOrigins: new Set([null]), captureTimeout: 0 });
+    try {
+      addReply(doc, props.memo.id, { author: props.me.id, body });
+    } catch (err) {
+      takeBack.destroy();
+      setSaid(`Not done: ${errorMessage(err)}`);
+      return;
+    }
+    takeBack.trackedOrigins.delete(null);
+    setDraft(null);
+    setSaid('Reply added. Sending…');
+    const answer = await props.mm.confirm();
+    if (answer.outcome === 'refused') {
+      takeBack.undo();
+      setSaid(refusedMessage(answer.reason));
+    } else setSaid(savedMessage('Reply added.', answer.outcome));
+    takeBack.destroy();
+  };
+
+  return (
+    <div class="memo-thread">
+      <Show when={replies().length > 0}>
+        <ul class="replies" aria-label={`Replies to this ${what}`}>
+          <For each={replies()}>
+            {(r) => (
+              <li class="reply" data-testid="memo-reply">
+                <span class="muted">{props.nameOf(r.author)}, {new Date(r.createdAt).toLocaleString()}:</span>
+                <p class="memo-body">{r.body}</p>
+                <Show when={r.author === props.me.id}>
+                  <button type="button" class="quiet" onClick={() => {
+                    if (!confirm('Delete your reply?')) return;
+                    try { removeMemo(doc, r.id); setSaid('Reply deleted.'); } catch (err) { setSaid(`Not done: ${errorMessage(err)}`); }
+                  }}>Delete reply</button>
+                </Show>
+              </li>
+            )}
+          </For>
+        </ul>
+      </Show>
+      <Show when={props.mayReply}>
+        <Show when={draft() !== null} fallback={
+          <button type="button" class="quiet" onClick={() => { setDraft(''); setSaid(''); queueMicrotask(() => input?.focus()); }}>Reply</button>
+        }>
+          <form class="inline-form" aria-label={`Reply to this ${what}`} onSubmit={(e) => { e.preventDefault(); void send(); }}>
+            <label>Your reply <textarea ref={input} rows="2" value={draft()!} onInput={(e) => setDraft(e.currentTarget.value)} required /></label>
+            <button type="submit">Send reply</button>
+            <button type="button" class="quiet" onClick={() => setDraft(null)}>Cancel</button>
+          </form>
+        </Show>
+      </Show>
+      <Show when={said()}><p class="progress" role="status" data-testid="reply-message">{said()}</p></Show>
+    </div>
+  );
 }
