@@ -1,7 +1,7 @@
 /** Top level: session gate, the study scope shared by a study's screens, and the route switch. */
 import { Match, Show, Switch, createMemo, createResource, onMount } from 'solid-js';
 import { loadSession, me, signOut } from './ui/session.js';
-import { go, href, route } from './ui/router.js';
+import { go, href, lastWhile, route } from './ui/router.js';
 import { StatusBar } from './ui/StatusBar.js';
 import { SignIn } from './screens/signin/SignIn.js';
 import { Studies } from './screens/studies/Studies.js';
@@ -52,7 +52,7 @@ function StudyArea(props: { studyId: string; me: Me }) {
       <Match when={route().name === 'audit'}><AuditScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'deid'}><DeidScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={(() => { const r = route(); return r.name === 'coding' ? r.textId : undefined; })()}>
-        {(textId) => <CodingScreen studyId={props.studyId} textId={textId()} scope={scope} me={props.me} segmentId={(() => { const r = route(); return r.name === 'coding' ? r.segmentId : undefined; })()} />}
+        {(textId) => { const id = lastWhile('coding', textId(), (r) => r.textId); return <CodingScreen studyId={props.studyId} textId={id()} scope={scope} me={props.me} segmentId={(() => { const r = route(); return r.name === 'coding' ? r.segmentId : undefined; })()} />; }}
       </Match>
       <Match when={route().name === 'agreement'}><StudyAgreementScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'rounds'}><RoundsScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>
@@ -60,7 +60,7 @@ function StudyArea(props: { studyId: string; me: Me }) {
         {(roundId) => <RoundScreen studyId={props.studyId} roundId={roundId()} scope={scope} me={props.me} />}
       </Match>
       <Match when={(() => { const r = route(); return r.name === 'round-text' ? r : undefined; })()}>
-        {(r) => <RoundText studyId={props.studyId} roundId={r().roundId} textId={r().textId} at={r().at} scope={scope} me={props.me} />}
+        {(first) => { const r = lastWhile('round-text', first(), (x) => x); return <RoundText studyId={props.studyId} roundId={r().roundId} textId={r().textId} at={r().at} scope={scope} me={props.me} />; }}
       </Match>
       <Match when={(() => { const r = route(); return r.name === 'round-agreement' ? r.roundId : undefined; })()}>
         {(roundId) => <RoundAgreement studyId={props.studyId} roundId={roundId()} scope={scope} />}

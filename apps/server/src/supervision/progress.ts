@@ -8,21 +8,16 @@
  * coefficient is computed, only the counts.
  */
 import { type Db, documents, memberships, studies, textReferences } from '@gloss/db';
-import { compareLayers, listSegments, readText, readTurns, resolveSegments } from '@gloss/model';
+import { compareLayers, type Comparison, listSegments, readText, readTurns, resolveSegments } from '@gloss/model';
 import { and, eq, inArray } from 'drizzle-orm';
 import { computeAgreement } from '../agreement/compute.js';
 import type { Statistic } from '../agreement/statistics.js';
 import type { UnitKind } from '../agreement/units.js';
 import { withDocs, type DocLoader } from '../projection/load-doc.js';
 import { roundLayers, roundMembers, roundsOfStudy } from '../rounds/records.js';
+import { isDrift, pointValue, sumCounts, type CategoryCounts } from './progress-point.js';
 
-export interface CategoryCounts {
-  matched: number;
-  missed: number;
-  extra: number;
-  otherCode: number;
-  otherBoundary: number;
-}
+export type { CategoryCounts } from './progress-point.js';
 
 export interface ProgressPoint {
   roundId: string;
@@ -47,8 +42,6 @@ export interface TraineeProgress {
 
 export const PROGRESS_SOURCES =
   'Agreement: the round’s statistic between the trainee’s round layers and the reference (see the agreement report for each statistic’s source). Categories: common practice in supervised coding review (definitions with the comparison). Drift threshold: the supervisor’s own choice.';
-
-const zero = (): CategoryCounts => ({ matched: 0, missed: 0, extra: 0, otherCode: 0, otherBoundary: 0 });
 
 export async function traineeProgress(db: Db, store: DocLoader, studyId: string, opts: { toleranceWords: number; driftThreshold: number }): Promise<{ mode: string; trainees: TraineeProgress[] }> {
   const [study] = await db.select({ mode: studies.mode }).from(studies).where(eq(studies.id, studyId));
@@ -82,7 +75,7 @@ export async function traineeProgress(db: Db, store: DocLoader, studyId: string,
         const textDocId = textDocs.find((d) => d.textId === t.id)?.id;
         return mine && ref && textDocId ? [{ text: t, mine: mine.id, ref, textDocId }] : [];
       });
-      const counts = zero();
+      const comparisons: Comparison[] = [];
       for (const pair of pairs) {
         await withDocs(store, [pair.textDocId, pair.mine, pair.ref], ([textDoc, mine, ref]) => {
           const turns = readTurns(textDoc!);
@@ -90,15 +83,11 @@ export async function traineeProgress(db: Db, store: DocLoader, studyId: string,
             resolveSegments(textDoc!, listSegments(d!), turns)
               .filter((s) => !s.unresolved)
               .map((s) => ({ id: s.id, codeId: s.codeId, start: s.start, end: s.end }));
-          const cmp = compareLayers(readText(textDoc!), placed(mine), placed(ref), opts.toleranceWords);
-          for (const c of Object.values(cmp.counts)) for (const k of Object.keys(counts) as Array<keyof CategoryCounts>) counts[k] += c[k];
+          comparisons.push(compareLayers(readText(textDoc!), placed(mine), placed(ref), opts.toleranceWords));
         });
       }
-      let value: number | null = null;
-      let note: string | undefined;
-      if (pairs.length === 0) note = 'No reference on this round’s texts (choose one, or adjudicate the consensus layer).';
-      else if (reflexive) note = 'Reflexive study: no coefficient, only the counts.';
-      else {
+      const counts = sumCounts(comparisons);
+      const { value, note } = await pointValue({ reflexive, texts: pairs.length, compute: async () => {
         // The reference takes part as a second coder under the study's id: a uuid (the coder lookup
         // queries a uuid column) that names no person, the same on every text of the round.
         const refCoder = studyId;
@@ -116,12 +105,10 @@ export async function traineeProgress(db: Db, store: DocLoader, studyId: string,
           statistic: round.statistic as Statistic,
         }).catch((err: unknown) => ({ body: { pooled: { value: null, reason: err instanceof Error ? err.message : String(err) } } as Record<string, unknown> }));
         const pooled = body.pooled as { value: number | null; reason?: string } | undefined;
-        value = pooled?.value ?? null;
-        if (value === null) note = pooled?.reason ?? 'The statistic could not be computed.';
-      }
+        return { value: pooled?.value ?? null, reason: pooled?.reason };
+      } });
       const entry = out.get(p.id) ?? { userId: p.id, name: p.name, points: [] };
-      const previous = [...entry.points].reverse().find((x) => x.value !== null);
-      const drift = value !== null && previous?.value != null && previous.value - value > opts.driftThreshold;
+      const drift = isDrift(entry.points, value, opts.driftThreshold);
       entry.points.push({
         roundId: round.id,
         roundNumber: round.number,

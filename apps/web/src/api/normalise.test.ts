@@ -22,6 +22,10 @@ describe('normalise', () => {
   it('reads a text with its layers, and members', () => {
     const t = toTextDetail({ id: 't1', title: 'P01', room: 'r', layers: [{ room: 'l1', coderId: 'u1', name: 'Ann', mine: true, canWrite: true }] }, 't1');
     expect(t.layers).toEqual([{ room: 'l1', coderId: 'u1', name: 'Ann', mine: true, canWrite: true }]);
+    // The open round the text is in, as the reader stands in it (GET /api/texts/:id, issue 8).
+    const inRound = toTextDetail({ id: 't1', title: 'P01', room: 'r', layers: [], round: { id: 'r1', name: 'R', number: 1, phase: 'independent', participant: true } }, 't1');
+    expect(inRound.round).toEqual({ id: 'r1', phase: 'independent', participant: true });
+    expect(toTextDetail({ id: 't1', title: 'P01', room: 'r', layers: [], round: null }, 't1').round).toBeUndefined();
     expect(toMember({ userId: 'u1', name: 'Ann', email: 'a@example.org', role: 'coder' })).toEqual({ userId: 'u1', name: 'Ann', email: 'a@example.org', role: 'coder' });
   });
 });

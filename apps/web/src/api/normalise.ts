@@ -80,7 +80,9 @@ export function toLayer(v: unknown): LayerInfo {
 export function toTextDetail(v: unknown, id: string): TextDetail {
   const j = obj(obj(v).text ?? v);
   const layers = Array.isArray(j.layers) ? j.layers.map(toLayer) : Array.isArray(obj(v).layers) ? (obj(v).layers as unknown[]).map(toLayer) : [];
-  return { id: str(j.id) ?? id, title: str(j.title) ?? '', room: need(j.room ?? obj(v).room, 'text room'), layers };
+  const r = j.round && typeof j.round === 'object' ? obj(j.round) : undefined;
+  const round = r && str(r.id) ? { id: str(r.id)!, phase: str(r.phase) ?? '', participant: r.participant === true } : undefined;
+  return { id: str(j.id) ?? id, title: str(j.title) ?? '', room: need(j.room ?? obj(v).room, 'text room'), layers, ...(round ? { round } : {}) };
 }
 
 export function toList<T>(v: unknown, each: (x: unknown) => T, key: string): T[] {

@@ -60,4 +60,6 @@ export interface TextDetail {
   title: string;
   room: string;
   layers: LayerInfo[];
+  /** The open calibration round the text is in, as the reader stands in it (absent: none). */
+  round?: { id: string; phase: string; participant: boolean } | undefined;
 }

@@ -1,5 +1,5 @@
 /** A small hash router: routes are plain data parsed from location.hash, so links work without a server rewrite. */
-import { createSignal } from 'solid-js';
+import { createMemo, createSignal, type Accessor } from 'solid-js';
 
 export type Route =
   | { name: 'signin' }
@@ -89,4 +89,17 @@ window.addEventListener('hashchange', () => setRoute(parseRoute(location.hash)))
 export { route };
 export function go(r: Route): void {
   location.hash = href(r);
+}
+
+/**
+ * The current route of one kind, mapped, keeping its last value once the route has left that kind. A
+ * screen under a `<Match>` reads this instead of the Match's accessor: when the route changes, the
+ * screen's own computations may run once more before the Match disposes them, and reading a Match
+ * accessor then throws ("Stale read from <Match>"), which stops the route change from rendering.
+ */
+export function lastWhile<K extends Route['name'], T>(name: K, first: T, pick: (r: Extract<Route, { name: K }>) => T): Accessor<T> {
+  return createMemo<T>((prev) => {
+    const r = route();
+    return r.name === name ? pick(r as Extract<Route, { name: K }>) : prev;
+  }, first);
 }

@@ -8,6 +8,7 @@ import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
 import { api } from '../../api/client.js';
 import { Loading } from '../../ui/Loading.js';
+import { href } from '../../ui/router.js';
 import { openDoc, type OpenDoc } from '../../sync/open-doc.js';
 import { CodingView } from './CodingView.js';
 import type { LayerHandle } from './coding-state.js';
@@ -24,6 +25,12 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
   createEffect(() => {
     const d = detail();
     if (!d) return;
+    // A participant coding this text independently in a round codes in the round's layer, which only the
+    // round's text screen opens (with the "done" mark): there is no layer for them here, so go there.
+    if (!props.layers && d.round?.participant && d.round.phase === 'independent') {
+      location.replace(href({ name: 'round-text', studyId: props.studyId, roundId: d.round.id, textId: props.textId }));
+      return;
+    }
     untrack(() => {
       const text = openDoc(d.room, { label: `“${d.title || 'this text'}”`, gc: false });
       const layers = d.layers.filter(props.layers ?? ((l) => !l.round)).map((l) => {

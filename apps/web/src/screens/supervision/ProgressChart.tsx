@@ -43,7 +43,10 @@ export function ProgressChart(props: { progress: Progress }) {
         Plot.dot(dots, { x: 'round', y: 'value', fill: 'trainee', r: 5, symbol: (d: Dot) => (d.drift ? 'triangle' : 'circle'), title: (d: Dot) => `${d.trainee}, ${d.round}: ${d.value.toFixed(3)}${d.drift ? ' (drift)' : ''}` }),
       ],
     });
+    // With a legend Plot wraps the svg in a figure: the figure is the one image, so it carries the name.
     chart.setAttribute('role', 'img');
+    chart.setAttribute('aria-label', 'Agreement with the reference per round');
+    chart.setAttribute('aria-description', `${dots.length} values; the table that follows lists them.`);
     chart.querySelectorAll('[aria-label], [aria-description]').forEach((el) => {
       if (el === chart) return;
       el.removeAttribute('aria-label');
