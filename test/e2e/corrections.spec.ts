@@ -31,7 +31,10 @@ test('corrections before, inside and at the edges keep quotes right', async ({ b
   await openText(coder, TEXT);
   await openText(lead, TEXT);
   const existing = await coder.page.locator('.layers').textContent();
-  test.skip(!/\(you\) \(0 segments\)/.test(existing ?? ''), 'this text already has segments of this coder (fresh server expected)');
+  // Specs before this one share the server and may have coded this text as this coder: count them, so the
+  // walk below steps through every segment and the three made here are found among them.
+  const before = Number(/\(you\) \((\d+) segments?\)/.exec(existing ?? '')?.[1]);
+  expect(Number.isInteger(before), `the coder's own layer is listed with its count: ${existing}`).toBe(true);
 
   await selectWords(coder.page, 'a projector on a stack of hymn books');
   await applyCode(coder.page, 'Makeshift kit');
@@ -47,7 +50,7 @@ test('corrections before, inside and at the edges keep quotes right', async ({ b
   await correct(lead, 'from a church', 'from church');                 // deleted inside the second
   await correct(lead, 'extension leads across', 'extension leads, across'); // typed at the end edge of the third
 
-  await expect.poll(() => quotes(coder, 3)).toEqual(['a projector on a stack of prayer books', 'extension leads', 'mixing desk from church']);
+  await expect.poll(() => quotes(coder, before + 3)).toEqual(expect.arrayContaining(['a projector on a stack of prayer books', 'extension leads', 'mixing desk from church']));
   // and the lead's text really changed
   await expect(coder.page.getByTestId('transcript')).toContainText('a second-hand mixing desk from church');
   await Promise.all([lead, coder].map((p) => p.context.close()));

@@ -10,18 +10,21 @@ const msg = (p: Person) => p.page.getByTestId('coding-message');
 const tool = (p: Person, name: string) => p.page.getByRole('toolbar', { name: 'Coding tools' }).getByRole('button', { name, exact: true });
 const chips = (p: Person) => p.page.locator('.transcript .turn-codes .code-chip');
 
-// one phrase per role, so the roles' segments and in vivo codes do not meet
+// one phrase per role, so the roles' segments and in vivo codes do not meet; none of them is a phrase
+// corrections.spec rewrites, and the file runs after supervision.spec (whose reference is the lead's P03 layer)
 const PHRASES: Record<string, { code: string; inVivo: string; jot: string }> = {
-  owner: { code: 'a projector on a stack of hymn books', inVivo: 'speakers from someone', jot: 'the industrial estate' },
-  lead: { code: 'Everything that plugs in', inVivo: 'a mixing desk from a church', jot: 'three weekends' },
+  owner: { code: 'the Tuesday yoga', inVivo: 'speakers from someone', jot: 'the industrial estate' },
+  lead: { code: 'Everything that plugs in', inVivo: 'sorting it ever since', jot: 'three weekends' },
   coder: { code: 'Twice a month', inVivo: 'the summer outdoor one', jot: 'It\'s satisfying' },
-  trainee: { code: 'the generator tripped', inVivo: 'a torch in my teeth', jot: 'a sing-song' },
+  trainee: { code: 'the hall committee rings', inVivo: 'the licence person', jot: 'the toddlers in this morning' },
 };
+// A trainee reads only the texts assigned to them (issue 9); the demo assigns them P01 and P04.
+const TEXT_OF: Record<string, string> = { trainee: 'P04 — chair and treasurer, Ferrowgate Film Club' };
 
 for (const role of ['owner', 'lead', 'coder', 'trainee'] as const) {
   test(`${role}: every control's message says what the server did`, async ({ browser, baseURL }) => {
     const p = await signIn(browser, account(role), baseURL!);
-    await openText(p, TEXT);
+    await openText(p, TEXT_OF[role] ?? TEXT);
     const writesCodebook = role === 'owner' || role === 'lead';
     const ph = PHRASES[role]!;
 
