@@ -148,7 +148,7 @@ export function updateStoreAcceptance(name: string, open: () => Promise<StoreUnd
       while (!done && t.fold) {
         await Promise.all([t.fold(docId), ...(t.peer ? [t.fold(docId, 'peer')] : [])]);
         folds++;
-        // A fold that settles in microtasks alone (the memory store) would starve the appends' timers,
+        // A fold that settles in microtasks alone (PGlite runs in this process) would starve the appends' timers,
         // and the test's own timeout, for ever: give the event loop a turn each time round.
         await new Promise((resolve) => setImmediate(resolve));
       }
