@@ -3,7 +3,7 @@
 // coding; the lead's progress board shows progress only (words read, words coded, segments, done); the lead reveals; the team walks through the
 // differences with the coders' views following the lead's place; the lead revises a definition live
 // (the coders see it change); the lead adjudicates a consensus segment with a reason; the report is
-// downloaded as Markdown and CSV and its content checked. Expectations are the project's own (issue 8);
+// downloaded as Markdown and CSV and its content checked; the lead closes the round. Expectations are the project's own (issue 8);
 // the report's sources are the three methods papers the issue names.
 import { readFileSync } from 'node:fs';
 import { test, expect, account, signIn, selectWords, applyCode, shot, type Person } from './fixtures.js';
@@ -201,5 +201,13 @@ test('a calibration session: independent coding, progress, reveal, follow-mode w
   await coders[0]!.page.getByRole('link', { name: 'Round report' }).click();
   await expect(coders[0]!.page.getByTestId('round-report')).toContainText(REASON);
   await shot(coders[0]!.page, 'round-10-coder-report');
+
+  // 10. The lead closes the round, as a session ends: its consensus and figures become its record, and
+  // the text is free for the next round (a text is in one open round at a time; later specs start one on it).
+  await openRound(lead);
+  await lead.page.getByRole('button', { name: 'Close the round…' }).click();
+  await lead.page.getByRole('group', { name: 'Confirm closing the round' }).getByRole('button', { name: 'Close now' }).click();
+  await expect(lead.page.getByTestId('round-phase')).toHaveAttribute('data-phase', 'closed');
+  await expect(lead.page.getByTestId('consensus')).toContainText(`Workload — ${REASON}`); // kept after closing
   await Promise.all([lead, ...coders].map((p) => p.context.close()));
 });
