@@ -208,6 +208,7 @@ test('a calibration session: independent coding, progress, reveal, follow-mode w
   await lead.page.getByRole('button', { name: 'Close the round…' }).click();
   await lead.page.getByRole('group', { name: 'Confirm closing the round' }).getByRole('button', { name: 'Close now' }).click();
   await expect(lead.page.getByTestId('round-phase')).toHaveAttribute('data-phase', 'closed');
-  await expect(lead.page.getByTestId('consensus')).toContainText(`Workload — ${REASON}`); // kept after closing
+  await lead.page.getByRole('link', { name: 'Round report' }).click(); // the record after closing
+  await expect(lead.page.getByTestId('round-report')).toContainText(REASON);
   await Promise.all([lead, ...coders].map((p) => p.context.close()));
 });
