@@ -13,7 +13,6 @@ import { documents, segmentComments, texts, users, type SegmentCommentRow } from
 import { listSegments, readTurns, resolveSegments } from '@gloss/model';
 import { and, asc, eq, inArray, isNull, or } from 'drizzle-orm';
 import { Hono, type Context } from 'hono';
-import { streamSSE } from 'hono/streaming';
 import { z } from 'zod';
 import { can, roleIn } from '../access/index.js';
 import type { CommentEvent } from '../comments/events.js';
@@ -22,6 +21,7 @@ import { loadDoc, withDocs } from '../projection/load-doc.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
 import { requireStore } from './segments.js';
+import { streamStudyChannel } from './study-channel-stream.js';
 import { studyRole, textRole } from './study-access.js';
 import { comparedAs, textDocuments } from './text-layers.js';
 import { idParam, readJson } from './validate.js';
@@ -234,33 +234,13 @@ export function commentRoutes(deps: AppDeps) {
     const me = c.get('session').user.id;
     const events = deps.commentEvents;
     if (!events) throw new HttpError(503, 'internal', 'Live comment events are not available on this server.');
-    return streamSSE(c, async (stream) => {
-      const queue: CommentEvent[] = [];
-      let wake: (() => void) | undefined;
-      const stop = await events.listen(studyId, (e) => {
-        queue.push(e);
-        wake?.();
-      });
-      stream.onAbort(() => wake?.());
-      try {
-        await stream.writeSSE({ event: 'ready', data: '{}' });
-        while (!stream.aborted) {
-          const e = queue.shift();
-          if (!e) {
-            await new Promise<void>((r) => (wake = r));
-            wake = undefined;
-            continue;
-          }
-          // Rights now, not at connect time: a role or a round may have changed since.
-          const role = await roleIn(deps.db, studyId, me);
-          if (!role) break;
-          const layers = await readableLayers(deps, e.textId, role, me);
-          if (!layers.has(e.layerDocId)) continue;
-          await stream.writeSSE({ event: 'comment', data: JSON.stringify({ action: e.action, textId: e.textId, threadId: e.threadId, commentId: e.commentId }) });
-        }
-      } finally {
-        await stop();
-      }
+    return streamStudyChannel(c, events, studyId, async (e) => {
+      // Rights now, not at connect time: a role or a round may have changed since.
+      const role = await roleIn(deps.db, studyId, me);
+      if (!role) return 'end';
+      const layers = await readableLayers(deps, e.textId, role, me);
+      if (!layers.has(e.layerDocId)) return undefined;
+      return { event: 'comment', data: JSON.stringify({ action: e.action, textId: e.textId, threadId: e.threadId, commentId: e.commentId }) };
     });
   });
 

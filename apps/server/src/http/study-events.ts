@@ -5,12 +5,11 @@
  * through the routes, which apply the reader's rights. `ready` first, then `study` events.
  */
 import { Hono } from 'hono';
-import { streamSSE } from 'hono/streaming';
 import { roleIn } from '../access/membership.js';
-import type { StudyEvent } from '../exchange/study-events.js';
 import { HttpError } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
+import { streamStudyChannel } from './study-channel-stream.js';
 import { studyRole } from './study-access.js';
 
 export function studyEventRoutes(deps: AppDeps) {
@@ -21,31 +20,10 @@ export function studyEventRoutes(deps: AppDeps) {
     const me = c.get('session').user.id;
     const events = deps.studyEvents;
     if (!events) throw new HttpError(503, 'internal', 'Live study events are not available on this server.');
-    return streamSSE(c, async (stream) => {
-      const queue: StudyEvent[] = [];
-      let wake: (() => void) | undefined;
-      const stop = await events.listen(studyId, (e) => {
-        queue.push(e);
-        wake?.();
-      });
-      stream.onAbort(() => wake?.());
-      try {
-        await stream.writeSSE({ event: 'ready', data: '{}' });
-        while (!stream.aborted) {
-          const e = queue.shift();
-          if (!e) {
-            await new Promise<void>((r) => (wake = r));
-            wake = undefined;
-            continue;
-          }
-          // Membership now, not at connect time: someone removed since hears nothing more.
-          if (!(await roleIn(deps.db, studyId, me))) break;
-          await stream.writeSSE({ event: 'study', data: JSON.stringify({ action: e.action, textIds: e.textIds }) });
-        }
-      } finally {
-        await stop();
-      }
-    });
+    return streamStudyChannel(c, events, studyId, async (e) =>
+      // Membership now, not at connect time: someone removed since hears nothing more.
+      (await roleIn(deps.db, studyId, me)) ? { event: 'study', data: JSON.stringify({ action: e.action, textIds: e.textIds }) } : 'end',
+    );
   });
   return app;
 }

@@ -3,29 +3,23 @@
  * the statistic's band thresholds as dashed rules. Drawn with Observable Plot (SVG, npm
  * `@observablehq/plot`); the table beside it carries the same figures for screen readers, so the SVG is
  * one labelled image. Colours: Okabe & Ito (2008) blue and vermillion; weak rows are also triangles, so
- * colour is never the only cue. Plot is loaded only when a chart is first drawn (its own chunk), so the
- * coding view does not pay for it.
+ * colour is never the only cue. Drawn by ui/PlotChart.
  */
-import { Show, createEffect, createResource, onCleanup } from 'solid-js';
+import { PlotChart, type Plot } from '../../ui/PlotChart.js';
 import { formatValue, thresholds, type Row } from './agreement-view.js';
 
 const OK = '#0072B2';
 const WEAK = '#D55E00';
 
 export function AgreementChart(props: { rows: Row[]; statistic: string; axis: string; label: string }) {
-  let host!: HTMLDivElement;
-  const [plot] = createResource(() => import('@observablehq/plot'));
-  createEffect(() => {
-    const Plot = plot();
-    if (!Plot) return;
-    const rows = props.rows.filter((r) => r.result.value !== null);
+  const shown = () => props.rows.filter((r) => r.result.value !== null);
+  const draw = (Plot: Plot) => {
+    const rows = shown();
     const lo = Math.min(0, ...rows.map((r) => r.result.ci?.[0] ?? r.result.value!));
-    const chart = Plot.plot({
+    return Plot.plot({
       width: 640,
       height: Math.max(80, 34 * rows.length + 50),
       marginLeft: 260,
-      ariaLabel: props.label,
-      ariaDescription: `${rows.length} values; the table that follows lists them.`,
       style: { background: 'transparent', fontSize: '13px', color: '#1f2933' },
       x: { domain: [lo, 1], label: `${props.axis} →`, grid: false },
       y: { domain: rows.map((r) => r.label), label: null, tickFormat: (d: string) => (d.length > 34 ? d.slice(0, 33) + '…' : d) },
@@ -50,19 +44,6 @@ export function AgreementChart(props: { rows: Row[]; statistic: string; axis: st
         }),
       ],
     });
-    // one labelled image: Plot labels its inner groups too, which ARIA forbids on elements without a role
-    chart.setAttribute('role', 'img');
-    chart.querySelectorAll('[aria-label], [aria-description]').forEach((el) => {
-      el.removeAttribute('aria-label');
-      el.removeAttribute('aria-description');
-    });
-    host.replaceChildren(chart);
-    onCleanup(() => chart.remove());
-  });
-  return (
-    <>
-      <Show when={plot.error}><p class="error" role="alert">The chart could not be drawn: {String(plot.error)}. The table below has the same figures.</p></Show>
-      <div class="chart" ref={host} data-testid="agreement-chart" />
-    </>
-  );
+  };
+  return <PlotChart draw={draw} label={props.label} description={`${shown().length} values; the table that follows lists them.`} testId="agreement-chart" />;
 }

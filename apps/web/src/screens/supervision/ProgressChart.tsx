@@ -4,7 +4,7 @@
  * triangle as well as colour. The table beside it carries the same figures for screen readers, so the
  * SVG is one labelled image. Colours: Okabe & Ito (2008).
  */
-import { Show, createEffect, createResource, onCleanup } from 'solid-js';
+import { PlotChart, type Plot } from '../../ui/PlotChart.js';
 import type { Progress } from './supervision-api.js';
 
 const PALETTE = ['#0072B2', '#009E73', '#CC79A7', '#E69F00', '#56B4E9', '#D55E00'];
@@ -18,21 +18,16 @@ interface Dot {
 }
 
 export function ProgressChart(props: { progress: Progress }) {
-  let host!: HTMLDivElement;
-  const [plot] = createResource(() => import('@observablehq/plot'));
-  createEffect(() => {
-    const Plot = plot();
-    if (!Plot) return;
+  const valueCount = () => props.progress.trainees.reduce((n, t) => n + t.points.filter((p) => p.value !== null).length, 0);
+  const draw = (Plot: Plot) => {
     const dots: Dot[] = props.progress.trainees.flatMap((t) =>
       t.points.filter((p) => p.value !== null).map((p) => ({ trainee: t.name, round: `Round ${p.roundNumber}`, roundNumber: p.roundNumber, value: p.value!, drift: p.drift })),
     );
     const rounds = [...new Set(dots.sort((a, b) => a.roundNumber - b.roundNumber).map((d) => d.round))];
-    const chart = Plot.plot({
+    return Plot.plot({
       width: 640,
       height: 260,
       marginLeft: 50,
-      ariaLabel: 'Agreement with the reference per round',
-      ariaDescription: `${dots.length} values; the table that follows lists them.`,
       style: { background: 'transparent', fontSize: '13px', color: '#1f2933' },
       x: { domain: rounds, label: 'round', type: 'point', padding: 0.5 },
       y: { domain: [Math.min(0, ...dots.map((d) => d.value)), 1], label: '↑ agreement with the reference', grid: true },
@@ -43,22 +38,6 @@ export function ProgressChart(props: { progress: Progress }) {
         Plot.dot(dots, { x: 'round', y: 'value', fill: 'trainee', r: 5, symbol: (d: Dot) => (d.drift ? 'triangle' : 'circle'), title: (d: Dot) => `${d.trainee}, ${d.round}: ${d.value.toFixed(3)}${d.drift ? ' (drift)' : ''}` }),
       ],
     });
-    // With a legend Plot wraps the svg in a figure: the figure is the one image, so it carries the name.
-    chart.setAttribute('role', 'img');
-    chart.setAttribute('aria-label', 'Agreement with the reference per round');
-    chart.setAttribute('aria-description', `${dots.length} values; the table that follows lists them.`);
-    chart.querySelectorAll('[aria-label], [aria-description]').forEach((el) => {
-      if (el === chart) return;
-      el.removeAttribute('aria-label');
-      el.removeAttribute('aria-description');
-    });
-    host.replaceChildren(chart);
-    onCleanup(() => chart.remove());
-  });
-  return (
-    <>
-      <Show when={plot.error}><p class="error" role="alert">The chart could not be drawn: {String(plot.error)}. The table below has the same figures.</p></Show>
-      <div class="chart" ref={host} data-testid="progress-chart" />
-    </>
-  );
+  };
+  return <PlotChart draw={draw} label="Agreement with the reference per round" description={`${valueCount()} values; the table that follows lists them.`} testId="progress-chart" />;
 }
