@@ -14,8 +14,8 @@ export function PlotChart(props: {
   label: string;
   description?: string;
   testId: string;
-  /** `figure` when the chart stands alone with a caption of its own; `div` beside a table. */
-  as?: 'div' | 'figure';
+  /** Given, the chart is a figure named by this caption (the image inside names the figures too). */
+  caption?: string;
 }): JSX.Element {
   let host!: HTMLElement;
   const [plot] = createResource(() => import('@observablehq/plot'));
@@ -38,8 +38,8 @@ export function PlotChart(props: {
   return (
     <>
       <Show when={plot.error}><p class="error" role="alert">The chart could not be drawn: {String(plot.error)}. The table below has the same figures.</p></Show>
-      <Show when={props.as === 'figure'} fallback={<div class="chart" ref={(el) => (host = el)} data-testid={props.testId} />}>
-        <figure class="chart" aria-label={props.label} ref={(el) => (host = el)} data-testid={props.testId} />
+      <Show when={props.caption !== undefined} fallback={<div class="chart" ref={(el) => (host = el)} data-testid={props.testId} />}>
+        <figure class="chart" aria-label={props.caption} ref={(el) => (host = el)} data-testid={props.testId} />
       </Show>
     </>
   );

@@ -19,5 +19,7 @@ export function FrequencyChart(props: { labels: string[]; values: number[]; colo
       marks: [Plot.barX(rows, { x: 'value', y: 'key', fill: (r: { colour: string }) => r.colour, title: (r: { label: string; value: number }) => `${r.label}: ${r.value}` }), Plot.ruleX([0])],
     });
   };
-  return <PlotChart as="figure" draw={draw} label={props.caption} description={props.labels.map((l, i) => `${l} ${props.values[i] ?? 0}`).join(', ')} testId="frequency-chart" />;
+  // The image's name carries the figures themselves (a short list: one bar per code).
+  const label = () => `${props.caption}: ${props.labels.map((l, i) => `${l} ${props.values[i] ?? 0}`).join(', ')}`;
+  return <PlotChart caption={props.caption} draw={draw} label={label()} testId="frequency-chart" />;
 }
