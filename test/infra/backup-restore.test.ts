@@ -98,12 +98,12 @@ describe.runIf(Boolean(process.env.DATABASE_URL))('backup and restore with pg_du
       }
       // The log's sequence came along: a new update lands after every restored row.
       const sql = postgres(target.url, { max: 1, onnotice: () => undefined });
-      const [{ max }] = await sql<{ max: string | null }[]>`select max(seq)::text as max from updates`;
+      const [row] = await sql<{ max: string | null }[]>`select max(seq)::text as max from updates`;
       await sql.end({ timeout: 5 });
       const edit = new Y.Doc();
       edit.getMap('memos').set('after-restore', 'written to the restored database');
       const seq = await fromRestored.append(docs[0]!.id, Y.encodeStateAsUpdate(edit), null);
-      expect(seq).toBeGreaterThan(Number(max ?? 0));
+      expect(seq).toBeGreaterThan(Number(row?.max ?? 0));
     } finally {
       await fromSource.close();
       await fromRestored.close();
