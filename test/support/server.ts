@@ -31,6 +31,11 @@ export interface SpawnOptions<T> {
    * stays owned by the first server (stop() of this one leaves it in place).
    */
   sameDatabaseAs?: SpawnedServer<unknown>;
+  /**
+   * A PostgreSQL database made elsewhere (a private cluster in a fault test): used as it is and left
+   * in place by stop().
+   */
+  databaseUrl?: string;
   /** How long to wait for the listening line (default 60 s: a cold tsx start on a busy 2-core box). */
   startTimeoutMs?: number;
 }
@@ -60,6 +65,10 @@ export async function spawnServer<T = undefined>(options: SpawnOptions<T>): Prom
   if (options.sameDatabaseAs) {
     if (options.db !== 'postgres') throw new Error('spawnServer: only PostgreSQL can be shared by several nodes');
     env = { ...options.sameDatabaseAs.dbEnv };
+    cleanup = async () => undefined;
+  } else if (options.databaseUrl) {
+    if (options.db !== 'postgres') throw new Error('spawnServer: databaseUrl needs db: postgres');
+    env = { DATABASE_URL: options.databaseUrl };
     cleanup = async () => undefined;
   } else if (options.db === 'pglite') {
     const folder = await freshPgliteDir();
