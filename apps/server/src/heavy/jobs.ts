@@ -50,7 +50,7 @@ export function parseRefi({ format, bytes, options }: RefiJob, onProgress?: Prog
     try {
       xml = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
     } catch {
-      throw new ExchangeError('bad-encoding', 'the codebook file is not UTF-8 text');
+      throw new ExchangeError('bad_encoding', 'the codebook file is not UTF-8 text');
     }
     return importQdc(xml);
   }

@@ -58,7 +58,7 @@ describe('heavy-work pool', () => {
     expect(transcript.turns.map((t) => t.speaker)).toEqual(['ANA', 'BEN']);
     expect(seen.at(-1)).toBe(1); // the importer's last word: done (options.ts)
     await expect(pool.run('transcript', { upload: { filename: 'a.docx', bytes: new Uint8Array([1, 2, 3]) }, options: {} })).rejects.toSatisfy(
-      (err) => err instanceof ImportError && err.code === 'not-zip',
+      (err) => err instanceof ImportError && err.code === 'not_zip',
     );
   }, 60_000);
 

@@ -28,7 +28,7 @@ import { logFor } from './log.js';
 import { heavyOf, heavyRoute } from './heavy-route.js';
 
 export function exchangeBody(err: ExchangeError) {
-  return errorBody(err.code.replace(/-/g, '_'), err.message);
+  return errorBody(err.code, err.message);
 }
 
 async function readFileBody(c: Context<AppEnv>): Promise<Uint8Array> {
@@ -106,7 +106,7 @@ export function exchangeRoutes(deps: AppDeps) {
     try {
       report = await runImport(deps.db, requireStore(deps), target, format, bytes, c.get('session').user.id, { endPosition: endParam(c), maxBytes: deps.config.maxBodyBytes, heavy: heavyOf(deps) });
     } catch (err) {
-      if (err instanceof ExchangeError) return c.json(exchangeBody(err), err.code === 'too-large' ? 413 : 422);
+      if (err instanceof ExchangeError) return c.json(exchangeBody(err), err.code === 'too_large' ? 413 : 422);
       throw err;
     }
     await publishImport(deps, report);

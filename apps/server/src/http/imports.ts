@@ -53,7 +53,7 @@ export function importRoutes(deps: AppDeps) {
       const transcript = await read(upload);
       return c.json(previewOf(upload, transcript));
     } catch (err) {
-      if (err instanceof ImportError) return c.json(importErrorBody(err), err.code === 'too-large' ? 413 : 422);
+      if (err instanceof ImportError) return c.json(importErrorBody(err), err.code === 'too_large' ? 413 : 422);
       throw err;
     }
   });
@@ -75,7 +75,7 @@ export function importRoutes(deps: AppDeps) {
       try {
         return c.json(await run(), 201);
       } catch (err) {
-        if (err instanceof ImportError) return c.json(importErrorBody(err), err.code === 'too-large' ? 413 : 422);
+        if (err instanceof ImportError) return c.json(importErrorBody(err), err.code === 'too_large' ? 413 : 422);
         throw err;
       }
     }
@@ -141,7 +141,7 @@ export function previewOf(upload: Upload, transcript: Transcript) {
 }
 
 function importErrorBody(err: ImportError) {
-  return errorBody(err.code.replace(/-/g, '_'), err.message, { format: err.format, line: err.line, column: err.column ?? null });
+  return errorBody(err.code, err.message, { format: err.format, line: err.line, column: err.column ?? null });
 }
 
 const SHORT_NAME: Record<string, string> = { text: 'txt', webvtt: 'vtt', srt: 'srt', docx: 'docx' };
