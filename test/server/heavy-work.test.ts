@@ -54,8 +54,8 @@ describe('heavy work off the event loop', () => {
   let server: SpawnedServer<BasicSeed>;
   beforeAll(async () => {
     // Two heavy requests a minute per person, so the limit is reached within the test.
-    server = await spawnServer({ db: 'pglite', seed: seedLargeStudy, env: { HEAVY_PER_MINUTE: '2', HEAVY_THREADS: '1' } });
-  }, 180_000);
+    server = await spawnServer({ db: 'pglite', seed: seedLargeStudy, env: { HEAVY_PER_MINUTE: '2', HEAVY_THREADS: '1' }, startTimeoutMs: 180_000 });
+  }, 360_000);
   afterAll(async () => server?.stop());
 
   it('answers another person’s sync while a 10,000-replicate bootstrap runs, and the report arrives', async () => {

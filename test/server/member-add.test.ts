@@ -16,8 +16,8 @@ type Invited = { invited: boolean; id: string; email: string; role: string; expi
 describe('adding a member by email', () => {
   let server: SpawnedServer<BasicSeed>;
   beforeAll(async () => {
-    server = await spawnServer({ db: 'pglite', seed: seedBasic });
-  }, 120_000);
+    server = await spawnServer({ db: 'pglite', seed: seedBasic, startTimeoutMs: 180_000 });
+  }, 240_000);
   afterAll(async () => server?.stop());
 
   it('answers an account holder and an unknown address alike, and the link works for both', async () => {

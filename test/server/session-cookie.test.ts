@@ -13,8 +13,8 @@ const PUBLIC = 'https://gloss.example.test';
 describe('session cookie behind https', () => {
   let server: SpawnedServer<BasicSeed>;
   beforeAll(async () => {
-    server = await spawnServer({ db: 'pglite', seed: seedBasic, env: { PUBLIC_URL: PUBLIC } });
-  }, 120_000);
+    server = await spawnServer({ db: 'pglite', seed: seedBasic, env: { PUBLIC_URL: PUBLIC }, startTimeoutMs: 180_000 });
+  }, 240_000);
   afterAll(async () => server?.stop());
 
   it('is Secure, HttpOnly, SameSite=Lax on sign-in, and cleared the same way on sign-out', async () => {
