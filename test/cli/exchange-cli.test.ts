@@ -109,7 +109,7 @@ describe('gloss import and export', () => {
     writeFileSync(file, zipSync({ 'project.qde': strToU8('<Project xmlns="urn:QDA-XML:project:1.0" name="x"/>'), '../../outside.txt': strToU8('x') }));
     const r = await gloss(['import', '--new-study', 'Evil', '--owner', 'wren@example.org', '--format', 'qdpx', file], env);
     expect(r.code).toBe(2);
-    expect(JSON.parse(r.stdout.toString())).toMatchObject({ error: { code: 'unsafe-path' } });
+    expect(JSON.parse(r.stdout.toString())).toMatchObject({ error: { code: 'unsafe_path' } });
     const database = await openDatabase({ dataDir: folder.dir });
     try {
       const rows = await database.db.execute(sql`select title from studies`);

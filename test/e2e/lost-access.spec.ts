@@ -29,7 +29,9 @@ test('a coder removed from the study is told so, and the page stops reconnecting
     const bad = result.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`);
     expect(bad).toEqual([]);
   } finally {
-    await api.post(`/api/studies/${studyId}/members`, { headers, data: { email: who.email, role: 'coder' } });
+    // Adding by email answers with a link to join (it never says whether the account exists); the coder follows it.
+    const link = (await (await api.post(`/api/studies/${studyId}/members`, { headers, data: { email: who.email, role: 'coder' } })).json()) as { token: string };
+    await coder.context.request.post(`/api/invitations/${link.token}/accept`, { headers, data: { password: who.password } });
     await Promise.all([lead, coder].map((p) => p.context.close()));
   }
 });

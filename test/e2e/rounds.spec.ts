@@ -41,11 +41,18 @@ test('a calibration session: independent coding, progress, reveal, follow-mode w
 
   // 1. The lead adds a third coder (an account on the server, not yet in the study).
   await openStudyTab(lead, 'Members');
-  await lead.page.getByText('Add someone who already has an account on this server').click();
+  await lead.page.getByText("Add by email (a member's role changes; anyone else gets a link to join)").click();
   const add = lead.page.getByRole('form', { name: 'Add a member' });
   await add.getByLabel('Email').fill(EXTRA.email);
   await add.getByLabel('Role').selectOption('coder');
   await add.getByRole('button', { name: 'Add member' }).click();
+  // The server never says whether the email has an account: the lead gets a link to join, which the coder follows with their password.
+  const link = await lead.page.getByRole('group', { name: `Link to join for ${EXTRA.email}` }).getByTestId('link').inputValue();
+  const token = link.split('/invite/')[1]!;
+  const extra = await browser.newContext({ baseURL });
+  expect((await extra.request.post(`/api/invitations/${token}/accept`, { headers: { origin: baseURL! }, data: { password: EXTRA.password } })).status()).toBe(200);
+  await extra.close();
+  await lead.page.reload();
   await expect(lead.page.getByRole('table').first()).toContainText(EXTRA.name);
 
   // 2. The lead starts the round: one text, three coders, speaker turns, Krippendorff's alpha.

@@ -1,4 +1,5 @@
 /** Server configuration from the environment, checked once at start. */
+import { availableParallelism } from 'node:os';
 import { resolve } from 'node:path';
 import { ConfigError } from './errors.js';
 
@@ -35,6 +36,17 @@ export interface ServerConfig {
   pingIntervalMs: number;
   /** Open sync connections are all re-checked this often (0: only on changes and session expiry). */
   accessRecheckMs: number;
+  /** Worker threads for heavy work (agreement with bootstrap, file reading, project exports). */
+  heavyThreads: number;
+  /** A heavy job running longer is stopped. */
+  heavyTimeoutMs: number;
+  /** Heap ceiling of each heavy-work thread, MiB. */
+  heavyMemoryMb: number;
+  /** Heavy jobs waiting for a thread before new ones are refused (503). */
+  heavyQueue: number;
+  /** Heavy requests one person may start per minute (sliding), and run at once; more get a 429. */
+  heavyPerMinute: number;
+  heavyAtOnce: number;
 }
 
 const LOG_LEVELS: LogLevel[] = ['debug', 'info', 'warn', 'error', 'silent'];
@@ -105,5 +117,12 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
     trustProxy: trustProxy(env.TRUST_PROXY),
     pingIntervalMs: int(env, 'PING_INTERVAL_MS', 30_000, 100),
     accessRecheckMs: int(env, 'ACCESS_RECHECK_SECONDS', 60, 0) * 1000,
+    // One core stays with the event loop (sync, requests); at most four threads, whatever the machine.
+    heavyThreads: int(env, 'HEAVY_THREADS', Math.max(1, Math.min(4, availableParallelism() - 1)), 1, 64),
+    heavyTimeoutMs: int(env, 'HEAVY_TIMEOUT_SECONDS', 120, 1) * 1000,
+    heavyMemoryMb: int(env, 'HEAVY_MEMORY_MB', 512, 64),
+    heavyQueue: int(env, 'HEAVY_QUEUE', 64, 1),
+    heavyPerMinute: int(env, 'HEAVY_PER_MINUTE', 120, 1),
+    heavyAtOnce: int(env, 'HEAVY_AT_ONCE', 2, 1),
   };
 }

@@ -1,5 +1,6 @@
 /**
- * `tsx apps/server/src/main.ts`: start from the environment. Prints one JSON line
+ * `node --import tsx apps/server/src/main.ts` (or `pnpm gloss serve`): start from the environment. Not the
+ * `tsx` command: it re-sends a signal after 30 ms and then kills, cutting a graceful shutdown short. Prints one JSON line
  * `{"event":"listening","url":…,"port":…,"db":…}` on stdout (scripts and tests parse it), then the
  * URL for people. SIGINT/SIGTERM close gracefully; a second signal exits at once.
  */

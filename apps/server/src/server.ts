@@ -24,6 +24,8 @@ import { createStudyEvents } from './exchange/study-events.js';
 import type { Relay } from './sync/contracts.js';
 import type { DocWriter } from './rounds/doc-change.js';
 import { createReadiness } from './readiness.js';
+import { createHeavyPool } from './heavy/pool.js';
+import { createHeavyLimits } from './heavy/limits.js';
 
 export interface RunningServer {
   url: string;
@@ -76,6 +78,10 @@ export async function startServer(
     await liveAccess.start();
     cleanups.push(() => liveAccess.close());
 
+    // Reports with bootstrap, file reading and project exports run in worker threads (heavy/).
+    const heavy = createHeavyPool({ threads: config.heavyThreads, timeoutMs: config.heavyTimeoutMs, memoryMb: config.heavyMemoryMb, maxQueue: config.heavyQueue, logger });
+    cleanups.push(() => heavy.close());
+
     const readiness = createReadiness();
     const syncAttached = readiness.wait('sync starting');
     const prepared = options.prepare ? readiness.wait(options.prepare.what) : () => undefined;
@@ -104,7 +110,9 @@ export async function startServer(
         commentEvents: createCommentEvents(relay, (err) => logger.warn({ err }, 'unreadable comment event from the relay')),
         logger,
         studyEvents: createStudyEvents(relay, (err) => logger.warn({ err }, 'unreadable study event from the relay')),
-        health: () => ({ sync: syncStats() }),
+        health: () => ({ sync: syncStats(), heavy: heavy.stats() }),
+        heavy,
+        heavyLimits: createHeavyLimits({ perMinute: config.heavyPerMinute, atOnce: config.heavyAtOnce }),
         readiness,
         firstRun,
       },

@@ -11,7 +11,7 @@ export function clip(s: string): string {
 export function requireCueOrder(format: ImportFormat, lineNo: number, shown: string, startMs: number, endMs: number): void {
   if (endMs >= startMs) return;
   throw new ImportError({
-    code: 'timing-order',
+    code: 'timing_order',
     format,
     line: lineNo,
     message: `cue timing '${clip(shown)}' ends before it starts (${formatMs(endMs)} < ${formatMs(startMs)})`,

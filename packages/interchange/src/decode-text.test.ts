@@ -58,7 +58,7 @@ describe('decodeText', () => {
       }
       throw new Error('expected an error');
     })();
-    expect([e.code, e.format, e.line, e.column]).toEqual(['bad-encoding', 'srt', 2, 5]);
+    expect([e.code, e.format, e.line, e.column]).toEqual(['bad_encoding', 'srt', 2, 5]);
     expect(e.message).toMatch(/^line 2, column 5: byte 0xff is not valid UTF-8/);
   });
 

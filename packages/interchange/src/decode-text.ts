@@ -15,7 +15,7 @@ export function decodeText(bytes: Uint8Array, format: ImportFormat, encoding = '
     if (bad >= 0) {
       const { line, column } = locateByte(bytes, bad);
       throw new ImportError({
-        code: 'bad-encoding',
+        code: 'bad_encoding',
         format,
         line,
         column,
@@ -28,7 +28,7 @@ export function decodeText(bytes: Uint8Array, format: ImportFormat, encoding = '
     try {
       decoder = new TextDecoder(encoding);
     } catch (cause) {
-      throw new ImportError({ code: 'bad-encoding', format, message: `unknown text encoding '${encoding}'`, cause });
+      throw new ImportError({ code: 'bad_encoding', format, message: `unknown text encoding '${encoding}'`, cause });
     }
     text = decoder.decode(bytes);
   }
@@ -36,7 +36,7 @@ export function decodeText(bytes: Uint8Array, format: ImportFormat, encoding = '
   const nul = text.indexOf('\0');
   if (nul >= 0) {
     const { line, column } = locateChar(text, nul);
-    throw new ImportError({ code: 'bad-encoding', format, line, column, message: 'contains a NUL character: this looks like a binary file, not text' });
+    throw new ImportError({ code: 'bad_encoding', format, line, column, message: 'contains a NUL character: this looks like a binary file, not text' });
   }
   return text.replace(/\r\n?/g, '\n');
 }

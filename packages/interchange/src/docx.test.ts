@@ -74,7 +74,7 @@ describe('DOCX: a real package built in the test', () => {
   it('error locations are paragraph numbers', async () => {
     const body = para(run('I: fine')) + para() + para(run('P1: [00:99] bad'));
     const e = await importError(docx(body));
-    expect([e.code, e.line, e.format]).toEqual(['bad-timestamp', 3, 'docx']);
+    expect([e.code, e.line, e.format]).toEqual(['bad_timestamp', 3, 'docx']);
     expect(e.message).toMatch(/^paragraph 3, column 5: /);
   });
 
@@ -89,25 +89,25 @@ describe('DOCX: a real package built in the test', () => {
 describe('DOCX: broken files', () => {
   it('a file that is not a ZIP', async () => {
     const e = await importError(new TextEncoder().encode('I: this is plain text renamed to .docx'));
-    expect([e.code, e.format, e.line]).toEqual(['not-zip', 'docx', null]);
+    expect([e.code, e.format, e.line]).toEqual(['not_zip', 'docx', null]);
   });
 
   it('a ZIP without the main document', async () => {
     const bytes = zipSync({ '[Content_Types].xml': strToU8(CONTENT_TYPES), '_rels/.rels': strToU8(RELS), 'notes.txt': strToU8('hi') });
     const e = await importError(bytes);
-    expect(e.code).toBe('no-document');
+    expect(e.code).toBe('no_document');
     expect(e.message).toContain('word/document.xml');
   });
 
   it('a truncated ZIP', async () => {
     const whole = docx(para(run('I: hello there, this will be cut')));
     const e = await importError(whole.subarray(0, Math.floor(whole.length / 2)));
-    expect(e.code).toBe('not-zip');
+    expect(e.code).toBe('not_zip');
   });
 
   it('a main document that is not well-formed XML', async () => {
     const bytes = docx('', { 'word/document.xml': strToU8(`<w:document xmlns:w="${W}"><w:body><w:p><w:r><w:t>oops</w:body>`) });
-    expect((await importError(bytes)).code).toBe('bad-docx');
+    expect((await importError(bytes)).code).toBe('bad_docx');
   });
 
   it('a document with no text', async () => {
@@ -117,6 +117,6 @@ describe('DOCX: broken files', () => {
   it('an archive that would unpack far beyond the size limit', async () => {
     const big = zipSync({ 'word/document.xml': new Uint8Array(2_000_000) }, { level: 9 });
     const e = await refusalOf(importDocx(big, { maxBytes: 20_000 }));
-    expect(e.code).toBe('too-large');
+    expect(e.code).toBe('too_large');
   });
 });

@@ -44,7 +44,7 @@ export async function importDocx(bytes: Uint8Array, opts: ImportOptions = {}): P
 /** Fails early, with a clear message, on a file that is not a ZIP or has no main document. */
 function checkPackage(bytes: Uint8Array, maxUnpacked: number): void {
   if (!(bytes[0] === 0x50 && bytes[1] === 0x4b && (bytes[2] === 3 || bytes[2] === 5))) {
-    throw new ImportError({ code: 'not-zip', format: 'docx', message: 'not a .docx file: a .docx is a ZIP archive, and this file is not one' });
+    throw new ImportError({ code: 'not_zip', format: 'docx', message: 'not a .docx file: a .docx is a ZIP archive, and this file is not one' });
   }
   const names: string[] = [];
   let unpacked = 0;
@@ -58,15 +58,15 @@ function checkPackage(bytes: Uint8Array, maxUnpacked: number): void {
       },
     });
   } catch (cause) {
-    throw new ImportError({ code: 'not-zip', format: 'docx', message: `the ZIP archive is damaged (${(cause as Error).message})`, cause });
+    throw new ImportError({ code: 'not_zip', format: 'docx', message: `the ZIP archive is damaged (${(cause as Error).message})`, cause });
   }
   if (unpacked > maxUnpacked) {
-    throw new ImportError({ code: 'too-large', format: 'docx', message: `the document unpacks to ${unpacked} bytes, over the limit of ${maxUnpacked}` });
+    throw new ImportError({ code: 'too_large', format: 'docx', message: `the document unpacks to ${unpacked} bytes, over the limit of ${maxUnpacked}` });
   }
   const main = mainDocumentPath(entries['_rels/.rels']);
   if (!names.includes(main)) {
     throw new ImportError({
-      code: 'no-document',
+      code: 'no_document',
       format: 'docx',
       message: `the archive has no word-processing document ('${main}' is missing); is it a .docx saved by a word processor?`,
     });
@@ -106,9 +106,9 @@ async function readParagraphs(bytes: Uint8Array): Promise<string[]> {
       },
     );
   } catch (cause) {
-    throw new ImportError({ code: 'bad-docx', format: 'docx', message: `the document could not be read (${(cause as Error).message})`, cause });
+    throw new ImportError({ code: 'bad_docx', format: 'docx', message: `the document could not be read (${(cause as Error).message})`, cause });
   }
-  if (doc === null) throw new ImportError({ code: 'bad-docx', format: 'docx', message: 'the document could not be read' });
+  if (doc === null) throw new ImportError({ code: 'bad_docx', format: 'docx', message: 'the document could not be read' });
   const out: string[] = [];
   collectParagraphs(doc, out);
   return out;

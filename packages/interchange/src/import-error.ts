@@ -2,19 +2,19 @@
 export type ImportFormat = 'text' | 'webvtt' | 'srt' | 'docx' | 'unknown';
 
 export type ImportErrorCode =
-  | 'too-large' // input bigger than the configured limit
-  | 'unsupported-format' // no importer for this file
-  | 'bad-encoding' // not valid text in the expected encoding
+  | 'too_large' // input bigger than the configured limit
+  | 'unsupported_format' // no importer for this file
+  | 'bad_encoding' // not valid text in the expected encoding
   | 'empty' // no words at all
-  | 'bad-header' // WebVTT file without the WEBVTT signature line
-  | 'bad-timing' // a cue timing line that cannot be read
-  | 'timing-order' // a cue that ends before it starts
-  | 'missing-timing' // a cue block without a timing line
-  | 'bad-cue-text' // cue text that cannot be read without losing words
-  | 'bad-timestamp' // a transcript timestamp out of range, such as [12:75]
-  | 'not-zip' // a .docx that is not a ZIP archive
-  | 'no-document' // a ZIP without a word-processing main document
-  | 'bad-docx'; // the main document could not be read
+  | 'bad_header' // WebVTT file without the WEBVTT signature line
+  | 'bad_timing' // a cue timing line that cannot be read
+  | 'timing_order' // a cue that ends before it starts
+  | 'missing_timing' // a cue block without a timing line
+  | 'bad_cue_text' // cue text that cannot be read without losing words
+  | 'bad_timestamp' // a transcript timestamp out of range, such as [12:75]
+  | 'not_zip' // a .docx that is not a ZIP archive
+  | 'no_document' // a ZIP without a word-processing main document
+  | 'bad_docx'; // the main document could not be read
 
 /**
  * Why an import failed and where. `line` is 1-based (for DOCX: the paragraph number), or null when

@@ -58,33 +58,33 @@ describe('importTranscript: choosing the importer', () => {
 
   it('the extension wins over the content, so a mislabelled file gets the named format’s error', async () => {
     const e = await refusalOf(importTranscript({ filename: 'notes.vtt', bytes: enc('I: hello') }));
-    expect([e.code, e.line]).toEqual(['bad-header', 1]);
+    expect([e.code, e.line]).toEqual(['bad_header', 1]);
   });
 });
 
 describe('importTranscript: refusals', () => {
   it.each(['interview.doc', 'interview.pdf', 'interview.rtf', 'interview.odt'])('%s: unsupported, saying what to do', async (filename) => {
     const e = await refusalOf(importTranscript({ filename, bytes: enc('whatever') }));
-    expect(e.code).toBe('unsupported-format');
+    expect(e.code).toBe('unsupported_format');
     expect(e.message).toMatch(/save|export/);
   });
 
   it('binary content of unknown kind', async () => {
     const e = await refusalOf(importTranscript({ filename: 'x.bin', bytes: new Uint8Array([0, 1, 2, 3, 4]) }));
-    expect(e.code).toBe('unsupported-format');
+    expect(e.code).toBe('unsupported_format');
     expect(e.message).toContain('.vtt');
   });
 
   it('files over the size limit, before reading them', async () => {
     const e = await refusalOf(importTranscript({ filename: 'big.txt', bytes: new Uint8Array(2048).fill(0x61) }, { maxBytes: 1024 }));
-    expect([e.code, e.line]).toEqual(['too-large', null]);
+    expect([e.code, e.line]).toEqual(['too_large', null]);
     expect(e.message).toBe('the file is 2.0 KiB, over the limit of 1.0 KiB');
-    expect(JSON.parse(JSON.stringify(e))).toEqual({ code: 'too-large', message: e.message, format: 'text', line: null, column: null });
+    expect(JSON.parse(JSON.stringify(e))).toEqual({ code: 'too_large', message: e.message, format: 'text', line: null, column: null });
   });
 
   it('never returns a partial transcript: a late error fails the whole import', async () => {
     const good = Array.from({ length: 200 }, (_, i) => `${i + 1}\n00:00:${String(i % 60).padStart(2, '0')},000 --> 00:00:${String(i % 60).padStart(2, '0')},500\nline ${i}\n`).join('\n');
     const e = await refusalOf(importTranscript({ filename: 'long.srt', bytes: enc(`${good}\n201\n00:00:09,000 --> 00:00:08,000\nlast\n`) }));
-    expect([e.code, e.line]).toEqual(['timing-order', 802]);
+    expect([e.code, e.line]).toEqual(['timing_order', 802]);
   });
 });

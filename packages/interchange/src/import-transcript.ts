@@ -53,7 +53,7 @@ export async function importTranscript(input: ImportInput, opts: ImportOptions =
   checkSize(input.bytes, format, opts.maxBytes);
   if (format === 'unknown') {
     throw new ImportError({
-      code: 'unsupported-format',
+      code: 'unsupported_format',
       format,
       message: `cannot import '${input.filename}': supported are ${SUPPORTED_EXTENSIONS.join(', ')}`,
     });
@@ -66,7 +66,7 @@ export async function importTranscript(input: ImportInput, opts: ImportOptions =
 export function detectFormat(input: ImportInput): ImportFormat {
   const ext = /\.([^./\\]+)$/.exec(input.filename)?.[1]?.toLowerCase();
   if (ext !== undefined && REFUSED[ext]) {
-    throw new ImportError({ code: 'unsupported-format', format: 'unknown', message: `'${input.filename}' is ${REFUSED[ext]}` });
+    throw new ImportError({ code: 'unsupported_format', format: 'unknown', message: `'${input.filename}' is ${REFUSED[ext]}` });
   }
   const byExt = ext === undefined ? undefined : BY_EXTENSION[ext];
   if (byExt) return byExt;

@@ -5,7 +5,7 @@ import { DEFAULT_MAX_BYTES } from './options.js';
 export function checkSize(bytes: Uint8Array, format: ImportFormat, maxBytes = DEFAULT_MAX_BYTES): void {
   if (bytes.byteLength > maxBytes) {
     throw new ImportError({
-      code: 'too-large',
+      code: 'too_large',
       format,
       message: `the file is ${formatBytes(bytes.byteLength)}, over the limit of ${formatBytes(maxBytes)}`,
     });

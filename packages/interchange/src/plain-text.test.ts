@@ -59,7 +59,7 @@ describe('plain text: timestamp forms at the start of a turn', () => {
 
   it('a timestamp with minutes of 60 or more is refused at its line and column', () => {
     const e = errorOf(() => parsePlainText('I: fine\n\nP2:  [00:75] no'));
-    expect([e.code, e.line, e.column, e.format]).toEqual(['bad-timestamp', 3, 6, 'text']);
+    expect([e.code, e.line, e.column, e.format]).toEqual(['bad_timestamp', 3, 6, 'text']);
     expect(e.message).toBe("line 3, column 6: timestamp '[00:75]' has minutes or seconds of 60 or more");
   });
 
@@ -169,9 +169,9 @@ describe('plain text: lines, paragraphs and encodings', () => {
   it('refuses non-UTF-8 bytes with line and column, and binary files', async () => {
     const bad = new Uint8Array([...new TextEncoder().encode('I: ok\nP1: na'), 0xef, 0x76, 0x65]);
     const e = await refusalOf(importPlainText(bad));
-    expect([e.code, e.line, e.column]).toEqual(['bad-encoding', 2, 7]);
+    expect([e.code, e.line, e.column]).toEqual(['bad_encoding', 2, 7]);
     const bin = await refusalOf(importPlainText(new Uint8Array([0x49, 0x3a, 0x00, 0x01])));
-    expect(bin.code).toBe('bad-encoding');
+    expect(bin.code).toBe('bad_encoding');
   });
 
   it('an empty or blank file holds no transcript', () => {

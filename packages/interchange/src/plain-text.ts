@@ -135,7 +135,7 @@ function candidateLabel(line: string): string | null {
 
 function badStamp(text: string, at: number, column: number, rules: LineRules): ImportError {
   return new ImportError({
-    code: 'bad-timestamp',
+    code: 'bad_timestamp',
     format: rules.format,
     line: at,
     column,

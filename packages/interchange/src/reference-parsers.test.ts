@@ -123,7 +123,7 @@ describe('WebVTT: files we refuse, the reference validator also flags on the sam
     const file = 'WEBVTT\n\n00:01.000 --> 00:02.000\nwhen x < 3 we stop\n';
     const ref = new WebVTTParser().parse(file, 'metadata');
     expect(JSON.stringify(ref.cues[0]!.tree)).not.toContain('we stop');
-    expect(errorOf(() => parseWebVtt(file)).code).toBe('bad-cue-text');
+    expect(errorOf(() => parseWebVtt(file)).code).toBe('bad_cue_text');
   });
 });
 

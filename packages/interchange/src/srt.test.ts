@@ -82,34 +82,34 @@ describe('SRT: cues', () => {
     const bytes = new Uint8Array([...new TextEncoder().encode('1\n00:00:01,000 --> 00:00:02,000\ncaf'), 0xe9, 0x0a]);
     expect((await importSrt(bytes, { encoding: 'windows-1252' })).turns[0]!.text).toBe('café');
     const e = await refusalOf(importSrt(bytes));
-    expect([e.code, e.line, e.column]).toEqual(['bad-encoding', 3, 4]);
+    expect([e.code, e.line, e.column]).toEqual(['bad_encoding', 3, 4]);
   });
 });
 
 describe('SRT: broken files', () => {
   it('an unreadable timing names its line', () => {
     const e = errorOf(() => parseSrt('1\n00:00:01,000 --> 00:00:02,000\nok\n\n2\n00:00:0x,000 --> 00:00:03,000\nbad\n'));
-    expect([e.code, e.line, e.format]).toEqual(['bad-timing', 6, 'srt']);
+    expect([e.code, e.line, e.format]).toEqual(['bad_timing', 6, 'srt']);
   });
 
   it('seconds of 60 are refused', () => {
-    expect(errorOf(() => parseSrt('1\n00:00:60,000 --> 00:01:03,000\nbad\n')).code).toBe('bad-timing');
+    expect(errorOf(() => parseSrt('1\n00:00:60,000 --> 00:01:03,000\nbad\n')).code).toBe('bad_timing');
   });
 
   it('a cue that ends before it starts is refused with its line', () => {
     const e = errorOf(() => parseSrt('1\n00:00:05,000 --> 00:00:04,999\nbackwards\n'));
-    expect([e.code, e.line]).toEqual(['timing-order', 2]);
+    expect([e.code, e.line]).toEqual(['timing_order', 2]);
     expect(e.message).toMatch(/^line 2: cue timing '00:00:05,000 --> 00:00:04,999' ends before it starts/);
   });
 
   it('a cue number without a timing line is refused', () => {
     const e = errorOf(() => parseSrt('1\n00:00:01,000 --> 00:00:02,000\nok\n\n2\nno timing here\n'));
-    expect([e.code, e.line]).toEqual(['missing-timing', 6]);
+    expect([e.code, e.line]).toEqual(['missing_timing', 6]);
   });
 
   it('text that is not a cue at all is refused at its first line', () => {
     const e = errorOf(() => parseSrt('Dear diary,\ntoday I...\n'));
-    expect([e.code, e.line]).toEqual(['missing-timing', 1]);
+    expect([e.code, e.line]).toEqual(['missing_timing', 1]);
   });
 
   it('an empty file holds no transcript', () => {

@@ -54,7 +54,7 @@ function* srtSteps(text: string, opts: ImportOptions): Steps<Transcript> {
     const timingLine = lines[timingAt];
     if (timingLine === undefined || !timingLine.includes('-->')) {
       throw new ImportError({
-        code: 'missing-timing',
+        code: 'missing_timing',
         format: 'srt',
         line: timingAt + 1,
         message:
@@ -81,7 +81,7 @@ function readTiming(line: string, lineNo: number): { startMs: number; endMs: num
   const endMs = toMs(5);
   if (startMs === null || endMs === null) {
     throw new ImportError({
-      code: 'bad-timing',
+      code: 'bad_timing',
       format: 'srt',
       line: lineNo,
       message: `cannot read cue timing '${clip(line.trim())}' (expected 'hh:mm:ss,mmm --> hh:mm:ss,mmm' with minutes and seconds below 60)`,

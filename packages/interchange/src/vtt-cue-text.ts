@@ -34,7 +34,7 @@ export function readCueText(text: string, locate: (offset: number) => { line: nu
     buf = '';
   };
   const fail = (offset: number, message: string): ImportError =>
-    new ImportError({ code: 'bad-cue-text', format: 'webvtt', ...locate(offset), message });
+    new ImportError({ code: 'bad_cue_text', format: 'webvtt', ...locate(offset), message });
 
   let i = 0;
   while (i < text.length) {

@@ -200,39 +200,39 @@ describe('WebVTT: own files, each form', () => {
 describe('WebVTT: broken files', () => {
   it('a missing signature is refused at line 1', () => {
     const e = errorOf(() => parseWebVtt('WEBVTX\n\n00:01.000 --> 00:02.000\nhi\n'));
-    expect([e.code, e.line, e.format]).toEqual(['bad-header', 1, 'webvtt']);
+    expect([e.code, e.line, e.format]).toEqual(['bad_header', 1, 'webvtt']);
     expect(e.message).toMatch(/^line 1: .*WEBVTT/);
   });
 
   it('"WEBVTTX" is not the signature either (it must be followed by a space, tab or line end)', () => {
-    expect(errorOf(() => parseWebVtt('WEBVTTX\n')).code).toBe('bad-header');
+    expect(errorOf(() => parseWebVtt('WEBVTTX\n')).code).toBe('bad_header');
   });
 
   it('an unreadable timing names its line and column', () => {
     const e = errorOf(() => parseWebVtt('WEBVTT\n\n1\n00:01.000 --> 00:02,500\nhi\n'));
-    expect([e.code, e.line, e.column]).toEqual(['bad-timing', 4, 15]);
+    expect([e.code, e.line, e.column]).toEqual(['bad_timing', 4, 15]);
     expect(e.message).toContain("'00:02,500' is not a timestamp");
   });
 
   it('a cue that ends before it starts is refused with its line', () => {
     const file = ['WEBVTT', '', '00:00.000 --> 00:00.800', 'ok', '', '00:01.000 --> 00:00.500', 'backwards'].join('\n');
     const e = errorOf(() => parseWebVtt(file));
-    expect([e.code, e.line]).toEqual(['timing-order', 6]);
+    expect([e.code, e.line]).toEqual(['timing_order', 6]);
     expect(e.message).toBe("line 6: cue timing '00:01.000 --> 00:00.500' ends before it starts (0:00:00.500 < 0:00:01.000)");
   });
 
   it('a text block with no timing line is refused instead of dropped', () => {
     const e = errorOf(() => parseWebVtt('WEBVTT\n\n00:01.000 --> 00:02.000\nhi\n\nlost words\nmore\n'));
-    expect([e.code, e.line]).toEqual(['missing-timing', 6]);
+    expect([e.code, e.line]).toEqual(['missing_timing', 6]);
   });
 
   it("a bare '<' that never closes would swallow words: refused with line and column", () => {
     const e = errorOf(() => parseWebVtt('WEBVTT\n\n00:01.000 --> 00:02.000\nfine\nwhen x < 3 we stop\n'));
-    expect([e.code, e.line, e.column]).toEqual(['bad-cue-text', 5, 8]);
+    expect([e.code, e.line, e.column]).toEqual(['bad_cue_text', 5, 8]);
   });
 
   it("'< b >' is not a tag: refused rather than read as one", () => {
-    expect(errorOf(() => parseWebVtt('WEBVTT\n\n00:01.000 --> 00:02.000\na < b > c\n')).code).toBe('bad-cue-text');
+    expect(errorOf(() => parseWebVtt('WEBVTT\n\n00:01.000 --> 00:02.000\na < b > c\n')).code).toBe('bad_cue_text');
   });
 
   it('a file with only a header holds no transcript', () => {
@@ -242,6 +242,6 @@ describe('WebVTT: broken files', () => {
   it('bytes that are not UTF-8 are refused with their place', async () => {
     const bytes = new Uint8Array([...enc('WEBVTT\n\n00:01.000 --> 00:02.000\ncaf'), 0xe9, ...enc('\n')]);
     const e = await refusalOf(importWebVtt(bytes));
-    expect([e.code, e.line, e.column]).toEqual(['bad-encoding', 4, 4]);
+    expect([e.code, e.line, e.column]).toEqual(['bad_encoding', 4, 4]);
   });
 });

@@ -51,7 +51,7 @@ function* webvttSteps(text: string, opts: ImportOptions): Steps<Transcript> {
   const lines = text.replace(/^\uFEFF/, '').replace(/\r\n?/g, '\n').replace(/\0/g, '\ufffd').split('\n');
   if (!SIGNATURE.test(lines[0]!)) {
     throw new ImportError({
-      code: 'bad-header',
+      code: 'bad_header',
       format: 'webvtt',
       line: 1,
       message: `a WebVTT file must begin with 'WEBVTT', found '${clip(lines[0]!)}'`,
@@ -84,7 +84,7 @@ function* webvttSteps(text: string, opts: ImportOptions): Steps<Transcript> {
       timingAt = pos + 1;
       if (timingAt >= lines.length || !lines[timingAt]!.includes('-->')) {
         throw new ImportError({
-          code: 'missing-timing',
+          code: 'missing_timing',
           format: 'webvtt',
           line: pos + 1,
           message: `text block '${clip(first)}' has no cue timing line ('00:01.000 --> 00:04.000') after it`,
@@ -125,7 +125,7 @@ function readTiming(line: string, lineNo: number): { startMs: number; endMs: num
   if (!m || startMs === null || endMs === null) {
     const bad = m ? (startMs === null ? m[1]! : m[2]!) : null;
     throw new ImportError({
-      code: 'bad-timing',
+      code: 'bad_timing',
       format: 'webvtt',
       line: lineNo,
       ...(bad === null ? {} : { column: line.indexOf(bad) + 1 }),

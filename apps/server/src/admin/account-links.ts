@@ -6,7 +6,7 @@
 import { type Db, type Role, accountLinks, studies } from '@gloss/db';
 import { and, asc, eq, gt, isNull } from 'drizzle-orm';
 import { generateSessionToken, looksLikeToken, sessionIdFromToken } from '../auth/tokens.js';
-import { HttpError, notFound } from '../errors.js';
+import { AdminError, missing } from './errors.js';
 import { recordAudit } from './audit.js';
 import { normaliseEmail } from './users.js';
 
@@ -24,7 +24,7 @@ async function insertLink(db: Db, values: Omit<typeof accountLinks.$inferInsert,
 
 export async function createInvitation(db: Db, input: { studyId: string; email: string; role: Role; createdBy: string; now?: Date }) {
   const email = normaliseEmail(input.email);
-  if (!/^[^\s@]+@[^\s@]+$/.test(email)) throw new HttpError(400, 'invalid_body', `Not an email address: "${input.email}".`);
+  if (!/^[^\s@]+@[^\s@]+$/.test(email)) throw new AdminError('invalid_input', `Not an email address: "${input.email}".`);
   const now = input.now ?? new Date();
   return db.transaction(async (tx) => {
     const t = tx as unknown as Db;
@@ -61,11 +61,11 @@ export async function createResetLink(db: Db, input: { userId: string; email: st
 /** The link behind a token, if it is still good: 404 unknown, 410 used or expired. */
 export async function findLink(db: Db, token: string, purpose: LinkPurpose, now = new Date()): Promise<AccountLink> {
   const what = purpose === 'invite' ? 'Invitation' : 'Password reset link';
-  if (!looksLikeToken(token)) throw notFound(what);
+  if (!looksLikeToken(token)) throw missing(what);
   const [row] = await db.select().from(accountLinks).where(and(eq(accountLinks.tokenHash, sessionIdFromToken(token)), eq(accountLinks.purpose, purpose)));
-  if (!row) throw notFound(what);
-  if (row.usedAt) throw new HttpError(410, 'link_used', `This ${what.toLowerCase()} has been used already; each link works once. Ask for a new one.`);
-  if (row.expiresAt.getTime() <= now.getTime()) throw new HttpError(410, 'link_expired', `This ${what.toLowerCase()} expired on ${row.expiresAt.toISOString()}. Ask for a new one.`);
+  if (!row) throw missing(what);
+  if (row.usedAt) throw new AdminError('link_used', `This ${what.toLowerCase()} has been used already; each link works once. Ask for a new one.`);
+  if (row.expiresAt.getTime() <= now.getTime()) throw new AdminError('link_expired', `This ${what.toLowerCase()} expired on ${row.expiresAt.toISOString()}. Ask for a new one.`);
   return row;
 }
 
@@ -79,7 +79,7 @@ export async function spendLink(db: Db, link: AccountLink, now = new Date()): Pr
     .set({ usedAt: now })
     .where(and(eq(accountLinks.id, link.id), isNull(accountLinks.usedAt), gt(accountLinks.expiresAt, now)))
     .returning({ id: accountLinks.id });
-  if (spent.length === 0) throw new HttpError(410, 'link_used', 'This link has just been used; each link works once. Ask for a new one.');
+  if (spent.length === 0) throw new AdminError('link_used', 'This link has just been used; each link works once. Ask for a new one.');
 }
 
 /** Invitations of a study not yet used (expired ones included, marked by their date). */
@@ -98,7 +98,7 @@ export async function revokeInvitation(db: Db, studyId: string, id: string, by: 
       .delete(accountLinks)
       .where(and(eq(accountLinks.id, id), eq(accountLinks.studyId, studyId), eq(accountLinks.purpose, 'invite'), isNull(accountLinks.usedAt)))
       .returning({ email: accountLinks.email });
-    if (gone.length === 0) throw notFound('Invitation');
+    if (gone.length === 0) throw missing('Invitation');
     await recordAudit(t, { userId: by, studyId, action: 'member.invite_revoke', target: id, detail: { email: gone[0]!.email } });
   });
 }

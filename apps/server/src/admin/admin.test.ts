@@ -2,7 +2,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { auditLog, documents, eq, memberships, type Database } from '@gloss/db';
 import { openTestDatabase } from '../../../../test/support/database.js';
-import { HttpError } from '../errors.js';
+import { AdminError } from './errors.js';
+import { ADMIN_STATUS } from '../http/errors.js';
 import { verifyPassword } from '../auth/passwords.js';
 import { addMember, createStudy, createUser, ensureLayer, findUserByEmail, removeMember } from './index.js';
 
@@ -11,8 +12,10 @@ const code = async (p: Promise<unknown>) => {
     await p;
     return 'ok';
   } catch (e) {
-    expect(e).toBeInstanceOf(HttpError);
-    return `${(e as HttpError).status} ${(e as HttpError).code}`;
+    // Admin throws its own typed error; the answer a client sees is the HTTP edge's mapping of it.
+    expect(e).toBeInstanceOf(AdminError);
+    const { status, code } = ADMIN_STATUS[(e as AdminError).code];
+    return `${status} ${code}`;
   }
 };
 

@@ -8,7 +8,7 @@
  */
 import { auditLog, documents, projectedCaseTexts, studies, texts, type Db } from '@gloss/db';
 import { and, count, eq, inArray } from 'drizzle-orm';
-import { notFound } from '../errors.js';
+import { missing } from './errors.js';
 import { recordAudit } from './audit.js';
 
 export interface Deleted {
@@ -21,7 +21,7 @@ export async function deleteStudy(db: Db, studyId: string, by: string | null): P
   return db.transaction(async (tx) => {
     const t = tx as unknown as Db;
     const [study] = await t.select({ id: studies.id }).from(studies).where(eq(studies.id, studyId));
-    if (!study) throw notFound('Study');
+    if (!study) throw missing('Study');
     const docs = await t.select({ id: documents.id }).from(documents).where(eq(documents.studyId, studyId));
     const [n] = await t.select({ n: count() }).from(texts).where(eq(texts.studyId, studyId));
     // Earlier audit entries may carry titles and settings: the study's record goes with it.
@@ -36,7 +36,7 @@ export async function deleteText(db: Db, textId: string, by: string | null): Pro
   return db.transaction(async (tx) => {
     const t = tx as unknown as Db;
     const [text] = await t.select({ studyId: texts.studyId }).from(texts).where(eq(texts.id, textId));
-    if (!text) throw notFound('Text');
+    if (!text) throw missing('Text');
     const docs = await t.select({ id: documents.id }).from(documents).where(eq(documents.textId, textId));
     // case_texts keeps the text id as a model id (text), without a foreign key.
     await t.delete(projectedCaseTexts).where(and(eq(projectedCaseTexts.studyId, text.studyId), eq(projectedCaseTexts.textId, textId)));

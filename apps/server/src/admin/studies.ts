@@ -1,7 +1,7 @@
 /** Studies and their members. A study is created with its owner and its codebook and memos documents. */
 import { type Db, type Role, type StudyMode, documents, memberships, studies } from '@gloss/db';
 import { and, eq } from 'drizzle-orm';
-import { HttpError, notFound } from '../errors.js';
+import { AdminError, missing } from './errors.js';
 import { recordAudit } from './audit.js';
 
 export interface NewStudy {
@@ -63,7 +63,7 @@ export async function addMember(db: Db, studyId: string, userId: string, role: R
     const t = tx as unknown as Db;
     const [existing] = await t.select().from(memberships).where(and(eq(memberships.studyId, studyId), eq(memberships.userId, userId)));
     if (existing?.role === 'owner' && role !== 'owner' && (await ownerCount(t, studyId)) <= 1) {
-      throw new HttpError(409, 'last_owner', 'A study keeps at least one owner.');
+      throw new AdminError('last_owner', 'A study keeps at least one owner.');
     }
     await t
       .insert(memberships)
@@ -84,9 +84,9 @@ export async function removeMember(db: Db, studyId: string, userId: string, by: 
   return db.transaction(async (tx) => {
     const t = tx as unknown as Db;
     const [existing] = await t.select().from(memberships).where(and(eq(memberships.studyId, studyId), eq(memberships.userId, userId)));
-    if (!existing) throw notFound('Member');
+    if (!existing) throw missing('Member');
     if (existing.role === 'owner' && (await ownerCount(t, studyId)) <= 1) {
-      throw new HttpError(409, 'last_owner', 'A study keeps at least one owner.');
+      throw new AdminError('last_owner', 'A study keeps at least one owner.');
     }
     await t.delete(memberships).where(and(eq(memberships.studyId, studyId), eq(memberships.userId, userId)));
     await recordAudit(t, { userId: by, studyId, action: 'member.remove', target: userId, detail: { role: existing.role } });

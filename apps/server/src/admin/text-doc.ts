@@ -5,7 +5,7 @@
 import { parsePlainText, ImportError } from '@gloss/interchange';
 import { createTextDoc, type Transcript } from '@gloss/model';
 import * as Y from 'yjs';
-import { HttpError } from '../errors.js';
+import { AdminError } from './errors.js';
 
 export function buildTextDocUpdate(transcript: Transcript): { update: Uint8Array; text: string } {
   const doc = createTextDoc(transcript);
@@ -21,7 +21,7 @@ export function transcriptFromPlainText(content: string, title?: string): Transc
   try {
     return parsePlainText(content, title === undefined ? {} : { title });
   } catch (err) {
-    if (err instanceof ImportError) throw new HttpError(400, 'invalid_body', `content: ${err.message}`, {}, { importCode: err.code, line: err.line });
+    if (err instanceof ImportError) throw new AdminError('invalid_input', `content: ${err.message}`, { importCode: err.code, line: err.line });
     throw err;
   }
 }

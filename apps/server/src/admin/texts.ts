@@ -2,7 +2,7 @@
 import { type Db, documents, texts, updates } from '@gloss/db';
 import type { Transcript } from '@gloss/model';
 import { and, eq, isNull } from 'drizzle-orm';
-import { HttpError } from '../errors.js';
+import { AdminError } from './errors.js';
 import { recordAudit } from './audit.js';
 import { buildTextDocUpdate, wordCount } from './text-doc.js';
 
@@ -19,7 +19,7 @@ export interface NewText {
  * log update (the store reads snapshots only above seq 0, and compaction folds the log later).
  */
 export async function addTextFromTranscript(db: Db, studyId: string, input: NewText) {
-  if (input.transcript.turns.length === 0) throw new HttpError(400, 'invalid_body', 'The transcript has no words.');
+  if (input.transcript.turns.length === 0) throw new AdminError('invalid_input', 'The transcript has no words.');
   const { update, text } = buildTextDocUpdate(input.transcript);
   return db.transaction(async (tx) => {
     const t = tx as unknown as Db;

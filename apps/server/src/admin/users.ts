@@ -2,7 +2,7 @@
 import { type Db, sessions, users } from '@gloss/db';
 import { and, eq, ne } from 'drizzle-orm';
 import { hashPassword, MAX_PASSWORD_LENGTH, MIN_PASSWORD_LENGTH } from '../auth/passwords.js';
-import { HttpError, conflict } from '../errors.js';
+import { AdminError } from './errors.js';
 
 export interface NewUser {
   email: string;
@@ -16,17 +16,17 @@ export function normaliseEmail(email: string): string {
 
 export async function createUser(db: Db, input: NewUser) {
   const email = normaliseEmail(input.email);
-  if (!/^[^\s@]+@[^\s@]+$/.test(email)) throw new HttpError(400, 'invalid_body', `Not an email address: "${input.email}".`);
+  if (!/^[^\s@]+@[^\s@]+$/.test(email)) throw new AdminError('invalid_input', `Not an email address: "${input.email}".`);
   checkPassword(input.password);
   const name = input.name.trim();
-  if (!name) throw new HttpError(400, 'invalid_body', 'A name is required.');
+  if (!name) throw new AdminError('invalid_input', 'A name is required.');
   const passwordHash = await hashPassword(input.password);
   const [row] = await db
     .insert(users)
     .values({ email, name, passwordHash })
     .onConflictDoNothing()
     .returning({ id: users.id, email: users.email, name: users.name, createdAt: users.createdAt });
-  if (!row) throw conflict(`An account with the email ${email} exists already.`);
+  if (!row) throw new AdminError('conflict', `An account with the email ${email} exists already.`);
   return row;
 }
 
@@ -37,7 +37,7 @@ export async function findUserByEmail(db: Db, email: string) {
 
 function checkPassword(password: string): void {
   if (password.length < MIN_PASSWORD_LENGTH || password.length > MAX_PASSWORD_LENGTH) {
-    throw new HttpError(400, 'invalid_body', `A password needs ${MIN_PASSWORD_LENGTH} to ${MAX_PASSWORD_LENGTH} characters.`);
+    throw new AdminError('invalid_input', `A password needs ${MIN_PASSWORD_LENGTH} to ${MAX_PASSWORD_LENGTH} characters.`);
   }
 }
 

@@ -14,7 +14,7 @@ import { withDocs, type DocLoader } from '../projection/load-doc.js';
 import { countedOn, decideCoders, type CoderChoice } from './coders.js';
 import type { TextInput } from './data.js';
 import { differences } from './differences.js';
-import { agreementReport } from './report.js';
+import { inlineHeavy, type HeavyWork } from '../heavy/pool.js';
 import type { Statistic } from './statistics.js';
 import { fixedUnits, type UnitKind } from './units.js';
 
@@ -36,8 +36,12 @@ export interface AgreementRequest {
 export const REFLEXIVE_NOTE =
   'This study is run in the reflexive mode: no agreement coefficient is computed. Units coded differently are listed side by side for discussion.';
 
-/** The report body (the study agreement's shape) and the coders counted. */
-export async function computeAgreement(db: Db, store: DocLoader, req: AgreementRequest): Promise<{ body: Record<string, unknown>; coderIds: string[] }> {
+/**
+ * The report body (the study agreement's shape) and the coders counted. The coefficients (and their
+ * bootstrap, up to 10,000 replicates) are computed by `heavy`: a worker thread in the server, so a long
+ * report never stalls sync; in place for the command line.
+ */
+export async function computeAgreement(db: Db, store: DocLoader, req: AgreementRequest, heavy: HeavyWork = inlineHeavy()): Promise<{ body: Record<string, unknown>; coderIds: string[] }> {
   const { texts: textRows, layers: layerDocs, codebookDocId: cbId } = req;
   const ids = [...textRows.map((t) => t.textDocId), ...layerDocs.map((d) => d.id), ...(cbId ? [cbId] : [])];
   let coderIds: string[] = [];
@@ -96,7 +100,7 @@ export async function computeAgreement(db: Db, store: DocLoader, req: AgreementR
     if (req.mode === 'reflexive') {
       return { ...head, coefficients: null, note: REFLEXIVE_NOTE, differences: differences(inputs, codes, coderIds) };
     }
-    const report = agreementReport({
+    const report = await heavy.run('agreement', {
       unit: req.unit,
       statistic: req.statistic,
       texts: inputs,

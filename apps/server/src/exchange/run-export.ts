@@ -9,14 +9,13 @@ import {
   codebookMarkdown,
   codebookQdc,
   memosMarkdown,
-  projectFile,
-  projectQdpx,
   segmentsCsv,
   type ExSegment,
   type StudyData,
   type TextWithSegments,
 } from '@gloss/interchange';
 import { recordAudit } from '../admin/audit.js';
+import { inlineHeavy, type HeavyWork } from '../heavy/pool.js';
 import { HttpError } from '../errors.js';
 import type { DocLoader } from '../projection/load-doc.js';
 import { loadStudy, type LoadOptions } from './load-study.js';
@@ -48,6 +47,8 @@ export interface ExportOptions extends LoadOptions {
   actorId: string | null;
   via: 'http' | 'cli';
   onProgress?: (fraction: number) => void;
+  /** Where the project archive is packed (a worker thread in the server); default in place. */
+  heavy?: HeavyWork;
 }
 
 function fileStem(title: string): string {
@@ -113,7 +114,7 @@ export async function runExport(db: Db, store: DocLoader, studyId: string, forma
       body = (async function* () {
         const all = await collect();
         const data: StudyData = { ...frame, texts: all.map((x) => x.text), segments: all.flatMap((x) => x.segments) };
-        yield projectQdpx(projectFile(data, studyId));
+        yield await (opts.heavy ?? inlineHeavy()).run('qdpx', { data, studyId });
       })();
       break;
     }

@@ -22,6 +22,7 @@ import { isUuid } from '../ids.js';
 import { HttpError, notFound } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
+import { heavyOf, heavyRoute } from './heavy-route.js';
 import { requireStore } from './segments.js';
 import { codebookDocId } from './text-layers.js';
 import { studyRole } from './study-access.js';
@@ -51,7 +52,7 @@ export function agreementRoutes(deps: AppDeps) {
   const app = new Hono<AppEnv>();
   app.use('*', requireSession(deps));
 
-  app.get('/', async (c) => {
+  app.get('/', heavyRoute(deps), async (c) => {
     const store = requireStore(deps);
     const { studyId } = await studyRole(deps, c, 'agreement.read');
     const parsed = AgreementQuery.safeParse(c.req.query());
@@ -101,7 +102,7 @@ export function agreementRoutes(deps: AppDeps) {
       statistic: q.statistic,
       codes: q.codes,
       bootstrap: q.bootstrap > 0 ? { replicates: q.bootstrap, seed: q.seed } : undefined,
-    });
+    }, heavyOf(deps));
 
     await recordAudit(deps.db, {
       userId: c.get('session').user.id,

@@ -11,6 +11,8 @@ import type { UpdateStore } from '../sync/contracts.js';
 import type { LiveAccess } from '../sync/live-access.js';
 import type { DocWriter } from '../rounds/doc-change.js';
 import type { Readiness } from '../readiness.js';
+import type { HeavyWork } from '../heavy/pool.js';
+import type { HeavyLimits } from '../heavy/limits.js';
 
 export interface AppDeps {
   db: Db;
@@ -41,6 +43,10 @@ export interface AppDeps {
   readiness?: Readiness;
   /** The first-run claim (set-up code); absent: this server cannot be set up from the browser. */
   firstRun?: FirstRun;
+  /** Worker threads for heavy work (heavy/pool.ts); absent: the jobs run in place (bare app tests). */
+  heavy?: HeavyWork;
+  /** Per-person limits on heavy routes (heavy/limits.ts); absent: none (bare app tests). */
+  heavyLimits?: HeavyLimits;
 }
 
 export interface AppEnv {

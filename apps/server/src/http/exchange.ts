@@ -25,9 +25,10 @@ import { requireSession } from './middleware.js';
 import { requireStore } from './segments.js';
 import { studyRole } from './study-access.js';
 import { logFor } from './log.js';
+import { heavyOf, heavyRoute } from './heavy-route.js';
 
 export function exchangeBody(err: ExchangeError) {
-  return errorBody(err.code.replace(/-/g, '_'), err.message);
+  return errorBody(err.code, err.message);
 }
 
 async function readFileBody(c: Context<AppEnv>): Promise<Uint8Array> {
@@ -61,7 +62,7 @@ export function exchangeRoutes(deps: AppDeps) {
   const app = new Hono<AppEnv>();
   app.use('*', requireSession(deps));
 
-  app.get('/:studyId/export', async (c) => {
+  app.get('/:studyId/export', heavyRoute(deps), async (c) => {
     const { studyId, role } = await studyRole(deps, c, 'export');
     const format = c.req.query('format');
     if (!isExportFormat(format)) throw new HttpError(400, 'bad_request', `format must be one of ${EXPORT_FORMATS.join(', ')}.`);
@@ -70,7 +71,7 @@ export function exchangeRoutes(deps: AppDeps) {
     const me = c.get('session').user.id;
     // A lead coding a round independently exports no one else's layer of the round's texts.
     const readable = new Set((await readableLayers(deps.db, studyId, role, me)).map((l) => l.id));
-    const result = await runExport(deps.db, requireStore(deps), studyId, format, { actorId: me, via: 'http', layers, canReadLayer: (id) => readable.has(id) });
+    const result = await runExport(deps.db, requireStore(deps), studyId, format, { actorId: me, via: 'http', layers, canReadLayer: (id) => readable.has(id), heavy: heavyOf(deps) });
     const iterator = result.body[Symbol.asyncIterator]();
     const stream = new ReadableStream<Uint8Array>({
       async pull(controller) {
@@ -103,9 +104,9 @@ export function exchangeRoutes(deps: AppDeps) {
     const bytes = await readFileBody(c);
     let report: ImportReport;
     try {
-      report = await runImport(deps.db, requireStore(deps), target, format, bytes, c.get('session').user.id, { endPosition: endParam(c), maxBytes: deps.config.maxBodyBytes });
+      report = await runImport(deps.db, requireStore(deps), target, format, bytes, c.get('session').user.id, { endPosition: endParam(c), maxBytes: deps.config.maxBodyBytes, heavy: heavyOf(deps) });
     } catch (err) {
-      if (err instanceof ExchangeError) return c.json(exchangeBody(err), err.code === 'too-large' ? 413 : 422);
+      if (err instanceof ExchangeError) return c.json(exchangeBody(err), err.code === 'too_large' ? 413 : 422);
       throw err;
     }
     await publishImport(deps, report);
@@ -113,12 +114,12 @@ export function exchangeRoutes(deps: AppDeps) {
     return c.json(out, 201);
   };
 
-  app.post('/import', async (c) => {
+  app.post('/import', heavyRoute(deps), async (c) => {
     const title = (c.req.query('title') ?? '').trim().slice(0, 300);
     return importInto(c, { newStudy: { title } });
   });
 
-  app.post('/:studyId/import', async (c) => {
+  app.post('/:studyId/import', heavyRoute(deps), async (c) => {
     const { studyId, role } = await studyRole(deps, c);
     if (!can(role, 'codebook.write') || !can(role, 'text.import')) throw forbidden('Only owners and leads may import into a study.');
     return importInto(c, { studyId });

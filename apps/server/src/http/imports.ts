@@ -8,18 +8,20 @@
  * `{"text":{id,title,room,…}}` or, if the import fails after the stream began, `{"error":{…}}`.
  * POST …/import/preview takes the same body and answers what the import would make, committing nothing.
  */
-import { ImportError, detectFormat, importTranscript } from '@gloss/interchange';
+import { ImportError, detectFormat } from '@gloss/interchange';
 import type { Transcript } from '@gloss/model';
 import type { Context } from 'hono';
 import { Hono } from 'hono';
 import { addTextFromTranscript } from '../admin/texts.js';
 import { HttpError } from '../errors.js';
+import { HeavyError } from '../heavy/errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { errorBody } from './errors.js';
 import { requireSession } from './middleware.js';
 import { studyRole } from './study-access.js';
 import { textSummary } from './texts.js';
 import { logFor } from './log.js';
+import { heavyOf, heavyRoute } from './heavy-route.js';
 
 interface Upload {
   filename: string;
@@ -33,30 +35,35 @@ export function importRoutes(deps: AppDeps) {
   app.use('*', requireSession(deps));
 
   // The same file read without committing: what the import would make (turns, speakers, times).
-  app.post('/preview', async (c) => {
+  // Files are read in a worker thread (heavy/jobs.ts): a large DOCX never stalls sync.
+  const read = (upload: Upload, onProgress?: (f: number) => void) =>
+    heavyOf(deps).run(
+      'transcript',
+      {
+        upload: { filename: upload.filename, bytes: upload.bytes, ...(upload.mediaType ? { mediaType: upload.mediaType } : {}) },
+        options: { maxBytes: deps.config.maxBodyBytes, ...(upload.title ? { title: upload.title } : {}) },
+      },
+      onProgress ? { onProgress } : {},
+    );
+
+  app.post('/preview', heavyRoute(deps), async (c) => {
     await studyRole(deps, c, 'text.import');
     const upload = await readUpload(c);
     try {
-      const transcript = await importTranscript(
-        { filename: upload.filename, bytes: upload.bytes, ...(upload.mediaType ? { mediaType: upload.mediaType } : {}) },
-        { maxBytes: deps.config.maxBodyBytes, ...(upload.title ? { title: upload.title } : {}) },
-      );
+      const transcript = await read(upload);
       return c.json(previewOf(upload, transcript));
     } catch (err) {
-      if (err instanceof ImportError) return c.json(importErrorBody(err), err.code === 'too-large' ? 413 : 422);
+      if (err instanceof ImportError) return c.json(importErrorBody(err), err.code === 'too_large' ? 413 : 422);
       throw err;
     }
   });
 
-  app.post('/', async (c) => {
+  app.post('/', heavyRoute(deps), async (c) => {
     const { studyId } = await studyRole(deps, c, 'text.import');
     const upload = await readUpload(c);
     const userId = c.get('session').user.id;
     const run = async (onProgress?: (f: number) => void) => {
-      const transcript = await importTranscript(
-        { filename: upload.filename, bytes: upload.bytes, ...(upload.mediaType ? { mediaType: upload.mediaType } : {}) },
-        { maxBytes: deps.config.maxBodyBytes, ...(onProgress ? { onProgress } : {}), ...(upload.title ? { title: upload.title } : {}) },
-      );
+      const transcript = await read(upload, onProgress);
       const title = (upload.title ?? transcript.title ?? upload.filename).trim().slice(0, 300) || upload.filename;
       const text = await addTextFromTranscript(deps.db, studyId, { title, transcript, sourceFormat: sourceFormat(upload), createdBy: userId });
       // open texts lists follow live; the text is stored whether or not the news goes out
@@ -68,7 +75,7 @@ export function importRoutes(deps: AppDeps) {
       try {
         return c.json(await run(), 201);
       } catch (err) {
-        if (err instanceof ImportError) return c.json(importErrorBody(err), err.code === 'too-large' ? 413 : 422);
+        if (err instanceof ImportError) return c.json(importErrorBody(err), err.code === 'too_large' ? 413 : 422);
         throw err;
       }
     }
@@ -87,6 +94,7 @@ export function importRoutes(deps: AppDeps) {
           line({ text });
         } catch (err) {
           if (err instanceof ImportError) line(importErrorBody(err));
+          else if (err instanceof HeavyError && err.code !== 'failed') line(errorBody(err.code, err.message));
           else {
             logFor(deps).error({ err }, 'text import failed');
             line(errorBody('internal', 'Something went wrong on the server; nothing was imported.'));
@@ -133,7 +141,7 @@ export function previewOf(upload: Upload, transcript: Transcript) {
 }
 
 function importErrorBody(err: ImportError) {
-  return errorBody(err.code.replace(/-/g, '_'), err.message, { format: err.format, line: err.line, column: err.column ?? null });
+  return errorBody(err.code, err.message, { format: err.format, line: err.line, column: err.column ?? null });
 }
 
 const SHORT_NAME: Record<string, string> = { text: 'txt', webvtt: 'vtt', srt: 'srt', docx: 'docx' };

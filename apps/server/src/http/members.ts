@@ -1,13 +1,18 @@
-/** /api/studies/:studyId/members — list (any member), add/change/remove (owner and lead; owners only by owners). */
+/**
+ * /api/studies/:studyId/members — list (any member), add/change/remove (owner and lead; owners only by owners).
+ * Adding by email never tells whether the email has an account on this server (issue 13): a current
+ * member's role changes (the list shows them anyway); anyone else gets an invitation link (202), the
+ * same answer and the same work whether or not an account exists — the link works for both.
+ */
 import { memberships, users } from '@gloss/db';
 import { and, asc, eq } from 'drizzle-orm';
 import { Hono } from 'hono';
 import { canAssignRole } from '../access/policy.js';
 import { roleIn } from '../access/membership.js';
 import { addMember, removeMember } from '../admin/studies.js';
-import { findUserByEmail } from '../admin/users.js';
-import { createResetLink } from '../admin/account-links.js';
-import { resetPath } from './invitations.js';
+import { normaliseEmail } from '../admin/users.js';
+import { createInvitation, createResetLink } from '../admin/account-links.js';
+import { invitePath, resetPath } from './invitations.js';
 import { forbidden, notFound } from '../errors.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
@@ -36,13 +41,15 @@ export function memberRoutes(deps: AppDeps) {
     const { studyId, role: actor } = await studyRole(deps, c, 'members.manage');
     const body = await readJson(c, AddMemberBody);
     if (!canAssignRole(actor, body.role)) throw forbidden('Only an owner may make someone an owner.');
-    const user = await findUserByEmail(deps.db, body.email);
-    if (!user) throw notFound(`An account with the email ${body.email}`);
-    const current = await roleIn(deps.db, studyId, user.id);
-    if (current && !canAssignRole(actor, current)) throw forbidden('Only an owner may change an owner’s role.');
-    await addMember(deps.db, studyId, user.id, body.role, c.get('session').user.id);
-    if (current) await deps.liveAccess.changed({ studyId, userId: user.id });
-    return c.json({ userId: user.id, name: user.name, email: user.email, role: body.role }, current ? 200 : 201);
+    const [member] = await list(studyId).then((all) => all.filter((m) => m.email === normaliseEmail(body.email)));
+    if (member) {
+      if (!canAssignRole(actor, member.role)) throw forbidden('Only an owner may change an owner’s role.');
+      await addMember(deps.db, studyId, member.userId, body.role, c.get('session').user.id);
+      await deps.liveAccess.changed({ studyId, userId: member.userId });
+      return c.json({ ...member, role: body.role }, 200);
+    }
+    const { token, link } = await createInvitation(deps.db, { studyId, email: body.email, role: body.role, createdBy: c.get('session').user.id });
+    return c.json({ invited: true, id: link.id, email: link.email, role: link.role, expiresAt: link.expiresAt.toISOString(), token, path: invitePath(token) }, 202);
   });
 
   app.patch('/:userId', async (c) => {

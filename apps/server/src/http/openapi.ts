@@ -139,11 +139,11 @@ export function buildOpenApi() {
       '/api/studies/{studyId}/members': {
         get: { summary: 'Members', security: secured, parameters: [idParam('studyId')], responses: { ...list('Member', 'Members'), ...errors(401, 404) } },
         post: {
-          summary: 'Add a member by email (or change the role of an existing one); owner and lead',
+          summary: 'Add someone by email; owner and lead. A current member: their role changes (200, the member). Anyone else: an invitation link to copy (202, as POST …/invitations answers plus invited:true), whether or not the email has an account here — the answer never tells',
           security: secured,
           parameters: [idParam('studyId')],
           requestBody: body('AddMemberBody'),
-          responses: { ...ok('Member', 'Role changed'), ...ok('Member', 'Added', '201'), ...errors(400, 401, 403, 404, 409) },
+          responses: { ...ok('Member', 'Role changed'), ...ok(null, 'Invited: {invited, id, email, role, expiresAt, token, path}', '202'), ...errors(400, 401, 403, 404, 409) },
         },
       },
       '/api/studies/{studyId}/members/{userId}': {

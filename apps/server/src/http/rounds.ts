@@ -27,6 +27,7 @@ import { advanceRound, checkNewRound, doneMarks, findRound, insertRound, roundLa
 import type { Role } from '../sync/contracts.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
+import { heavyOf, heavyRoute } from './heavy-route.js';
 import { DoneBody, NewRoundBody, ReadBody } from './schemas.js';
 import { requireStore } from './segments.js';
 import { studyRole } from './study-access.js';
@@ -245,7 +246,7 @@ export function roundRoutes(deps: AppDeps) {
     if (!can(role, 'agreement.read') && !participant) throw forbidden('A round’s agreement is shown to its participants, the study’s owner and leads, and observers.');
   };
 
-  app.get('/:roundId/agreement', async (c) => {
+  app.get('/:roundId/agreement', heavyRoute(deps), async (c) => {
     const store = requireStore(deps);
     const { round, role, me, members } = await roundRole(deps, c, 'round.read');
     mayCompare(round, role, members.participants.some((p) => p.id === me));
@@ -254,18 +255,19 @@ export function roundRoutes(deps: AppDeps) {
     const { body, coderIds } = await roundAgreement(deps.db, store, round, members, {
       codes: q.data.codes,
       ...(q.data.bootstrap > 0 ? { bootstrap: { replicates: q.data.bootstrap, seed: q.data.seed } } : {}),
+      heavy: heavyOf(deps),
     });
     await recordAudit(deps.db, { userId: me, studyId: round.studyId, action: 'agreement.view', target: round.id, detail: { round: round.number, coders: coderIds, unit: round.unit, statistic: round.statistic } });
     return c.json(body);
   });
 
-  app.get('/:roundId/report', async (c) => {
+  app.get('/:roundId/report', heavyRoute(deps), async (c) => {
     const store = requireStore(deps);
     const { round, role, me, members } = await roundRole(deps, c, 'round.read');
     mayCompare(round, role, members.participants.some((p) => p.id === me));
     const format = c.req.query('format') ?? 'json';
     if (format !== 'json' && format !== 'md' && format !== 'csv') throw new HttpError(400, 'bad_request', 'format: json, md or csv.');
-    const report = await roundReport(deps.db, store, round, members);
+    const report = await roundReport(deps.db, store, round, members, heavyOf(deps));
     await recordAudit(deps.db, { userId: me, studyId: round.studyId, action: 'round.report', target: round.id, detail: { format } });
     if (format === 'json') return c.json(report);
     const file = `round-${round.number}-report.${format}`;

@@ -9,6 +9,7 @@ import { getCodes, listChanges, listSegments, readTurns, resolveSegments } from 
 import { and, eq, inArray, lte } from 'drizzle-orm';
 import type * as Y from 'yjs';
 import { computeAgreement } from '../agreement/compute.js';
+import type { HeavyWork } from '../heavy/pool.js';
 import type { Statistic } from '../agreement/statistics.js';
 import type { UnitKind } from '../agreement/units.js';
 import { notFound } from '../errors.js';
@@ -19,6 +20,8 @@ import { INDEPENDENCE, REPORT_CAUTION, REPORT_SOURCES, unitDescription, type Coe
 export interface RoundAgreementOptions {
   codes?: string[] | undefined;
   bootstrap?: { replicates: number; seed: number; scheme?: 'texts' | 'units' } | undefined;
+  /** Where the coefficients are computed (a worker thread in the server); default in place. */
+  heavy?: HeavyWork | undefined;
 }
 
 /** The agreement report over exactly the round: its texts, its participants' round layers, its unit and statistic. */
@@ -41,17 +44,17 @@ export async function roundAgreement(db: Db, store: DocLoader, round: RoundRow, 
     statistic: round.statistic as Statistic,
     codes: opts.codes,
     bootstrap: opts.bootstrap,
-  });
+  }, opts.heavy);
   return { body: { ...body, round: { id: round.id, number: round.number, name: round.name, phase: round.phase } }, coderIds, study };
 }
 
 type Block = { value: number | null; ci?: [number, number] | null; band?: string; reason?: string };
 const coef = (b: Block | undefined): Coef => ({ value: b?.value ?? null, ...(b?.ci !== undefined ? { ci: b.ci } : {}), ...(b?.band ? { band: b.band } : {}), ...(b?.reason ? { reason: b.reason } : {}) });
 
-export async function roundReport(db: Db, store: DocLoader, round: RoundRow, members: RoundMembers): Promise<RoundReport> {
+export async function roundReport(db: Db, store: DocLoader, round: RoundRow, members: RoundMembers, heavy?: HeavyWork): Promise<RoundReport> {
   // Intervals: percentile bootstrap over units (Hayes & Krippendorff 2007 resample units), alpha only.
   const alpha = round.statistic === 'krippendorff-alpha' && round.unit !== 'span';
-  const { body, study } = await roundAgreement(db, store, round, members, alpha ? { bootstrap: { replicates: 1000, seed: 1, scheme: 'units' } } : {});
+  const { body, study } = await roundAgreement(db, store, round, members, { heavy, ...(alpha ? { bootstrap: { replicates: 1000, seed: 1, scheme: 'units' as const } } : {}) });
   const b = body as unknown as {
     coders: Array<{ id: string; name: string }>;
     codes: Array<{ id: string; label: string }>;

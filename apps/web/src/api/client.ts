@@ -42,8 +42,11 @@ export const api = {
   studies: async (): Promise<StudySummary[]> => n.toList(await call('GET', '/api/studies'), n.toStudySummary, 'studies'),
   study: async (id: string): Promise<Study> => n.toStudy(await call('GET', `/api/studies/${enc(id)}`)),
   members: async (id: string): Promise<Member[]> => n.toList(await call('GET', `/api/studies/${enc(id)}/members`), n.toMember, 'members'),
-  addMember: async (id: string, email: string, role: Role): Promise<void> =>
-    void (await call('POST', `/api/studies/${enc(id)}/members`, { email, role })),
+  /** A current member's role changes (null); anyone else gets an invitation link to copy (the server never says whether the email has an account). */
+  addMember: async (id: string, email: string, role: Role): Promise<{ path: string; expiresAt: string } | null> => {
+    const j = (await call('POST', `/api/studies/${enc(id)}/members`, { email, role })) as { invited?: boolean; path?: unknown; expiresAt?: unknown } | null;
+    return j?.invited && typeof j.path === 'string' && typeof j.expiresAt === 'string' ? { path: j.path, expiresAt: j.expiresAt } : null;
+  },
   setRole: async (id: string, userId: string, role: Role): Promise<void> =>
     void (await call('PATCH', `/api/studies/${enc(id)}/members/${enc(userId)}`, { role })),
   removeMember: async (id: string, userId: string): Promise<void> =>

@@ -1,16 +1,16 @@
 /** Why a REFI-QDA file (.qdc, .qdpx) was refused. The message names the place where it can. */
 export type ExchangeErrorCode =
-  | 'not-zip' // a .qdpx that is not a ZIP archive
-  | 'unsafe-path' // a ZIP entry naming a place outside the archive (../, absolute, drive letter)
-  | 'too-large' // the file, an entry or the unpacked total is over its limit
-  | 'no-project' // no project.qde in the archive
-  | 'bad-xml' // not well-formed XML, or a DOCTYPE (entities are refused)
-  | 'not-refi' // well-formed, but not a REFI-QDA codebook or project
-  | 'missing-source' // a text source whose file is not in the archive
-  | 'unsupported-source' // a source path outside the archive (relative://, absolute://)
-  | 'bad-encoding' // a source file that is not UTF-8
-  | 'bad-reference' // a GUID that names nothing, or a malformed GUID
-  | 'bad-position'; // a selection outside its text
+  | 'not_zip' // a .qdpx that is not a ZIP archive
+  | 'unsafe_path' // a ZIP entry naming a place outside the archive (../, absolute, drive letter)
+  | 'too_large' // the file, an entry or the unpacked total is over its limit
+  | 'no_project' // no project.qde in the archive
+  | 'bad_xml' // not well-formed XML, or a DOCTYPE (entities are refused)
+  | 'not_refi' // well-formed, but not a REFI-QDA codebook or project
+  | 'missing_source' // a text source whose file is not in the archive
+  | 'unsupported_source' // a source path outside the archive (relative://, absolute://)
+  | 'bad_encoding' // a source file that is not UTF-8
+  | 'bad_reference' // a GUID that names nothing, or a malformed GUID
+  | 'bad_position'; // a selection outside its text
 
 export class ExchangeError extends Error {
   override readonly name = 'ExchangeError';

@@ -41,9 +41,9 @@ const LISTS = new Set([
 function parseXml(xml: string, what: string): Node {
   // XML 1.0 §2.11: a literal CR (alone or before LF) reads as LF; escaped &#13; survives.
   const text = xml.replace(/^\uFEFF/, '').replace(/\r\n?/g, '\n');
-  if (/<!DOCTYPE/i.test(text)) throw new ExchangeError('bad-xml', `${what}: a DOCTYPE is not accepted (entity declarations can expand without bound)`);
+  if (/<!DOCTYPE/i.test(text)) throw new ExchangeError('bad_xml', `${what}: a DOCTYPE is not accepted (entity declarations can expand without bound)`);
   const ok = XMLValidator.validate(text);
-  if (ok !== true) throw new ExchangeError('bad-xml', `${what}: line ${ok.err.line}, column ${ok.err.col}: ${ok.err.msg}`);
+  if (ok !== true) throw new ExchangeError('bad_xml', `${what}: line ${ok.err.line}, column ${ok.err.col}: ${ok.err.msg}`);
   const parser = new XMLParser({
     ignoreAttributes: false,
     attributeNamePrefix: '@',
@@ -79,7 +79,7 @@ function textOf(n: unknown, name: string): string | undefined {
 function guidOf(n: Node, name: string, where: string): string {
   const raw = attr(n, name);
   const g = normaliseGuid(raw);
-  if (!g) throw new ExchangeError('bad-reference', `${where}: ${name} "${raw ?? ''}" is not a GUID`);
+  if (!g) throw new ExchangeError('bad_reference', `${where}: ${name} "${raw ?? ''}" is not a GUID`);
   return g;
 }
 
@@ -108,10 +108,10 @@ function readCodes(codesNode: Node | undefined, fromGloss: boolean): CodebookPar
   const walk = (list: Node[], parentId: string | null) => {
     for (const n of list) {
       const id = guidOf(n, 'guid', 'Code');
-      if (seen.has(id)) throw new ExchangeError('bad-reference', `Code "${attr(n, 'name') ?? id}": GUID ${id} is used twice`);
+      if (seen.has(id)) throw new ExchangeError('bad_reference', `Code "${attr(n, 'name') ?? id}": GUID ${id} is used twice`);
       seen.add(id);
       const name = (attr(n, 'name') ?? '').trim();
-      if (!name) throw new ExchangeError('not-refi', `Code ${id} has no name`);
+      if (!name) throw new ExchangeError('not_refi', `Code ${id} has no name`);
       const u = unpackCode(textOf(n, 'Description') ?? '');
       const type = CODE_TYPES.includes(u.meta.type as ExCodeType) ? (u.meta.type as ExCodeType) : 'data-driven';
       const status = CODE_STATUSES.includes(u.meta.status as ExCodeStatus) ? (u.meta.status as ExCodeStatus) : 'active';
@@ -148,7 +148,7 @@ function readSets(setsNode: Node | undefined, codeIds: Set<string>, sourceIds: S
     const id = guidOf(s, 'guid', 'Set');
     const { meta } = unpackMeta(textOf(s, 'Description'));
     const members = kids(s, 'MemberCode').map((m) => normaliseGuid(attr(m, 'targetGUID') ?? attr(m, 'guid')));
-    for (const m of members) if (!m || !codeIds.has(m)) throw new ExchangeError('bad-reference', `Set "${attr(s, 'name') ?? id}" names a code that is not in the file (${m ?? 'no GUID'})`);
+    for (const m of members) if (!m || !codeIds.has(m)) throw new ExchangeError('bad_reference', `Set "${attr(s, 'name') ?? id}" names a code that is not in the file (${m ?? 'no GUID'})`);
     if (kids(s, 'MemberSource').some((m) => sourceIds.has(normaliseGuid(attr(m, 'targetGUID')) ?? '')) || kids(s, 'MemberNote').length) sourceSets++;
     if (members.length === 0) continue;
     out.push({ id, label: (attr(s, 'name') ?? '').trim() || 'Set', kind: meta.kind === 'mutually exclusive' ? 'exclusive' : 'theme', codeIds: members as string[] });
@@ -161,7 +161,7 @@ function readSets(setsNode: Node | undefined, codeIds: Set<string>, sourceIds: S
 export function importQdc(xml: string): RefiImport {
   const root = parseXml(xml, 'codebook file');
   const cb = child(root, 'CodeBook');
-  if (!cb) throw new ExchangeError('not-refi', 'this is not a REFI-QDA codebook: its root element is not CodeBook');
+  if (!cb) throw new ExchangeError('not_refi', 'this is not a REFI-QDA codebook: its root element is not CodeBook');
   const ns = attr(cb, 'xmlns');
   const warnings: string[] = [];
   if (ns !== undefined && ns !== CODEBOOK_NS) warnings.push(`The codebook names the namespace "${ns}", not ${CODEBOOK_NS}; it was read all the same.`);
@@ -216,18 +216,18 @@ export function importQdpx(bytes: Uint8Array, opts: RefiImportOptions = {}): Ref
   const limits = { ...DEFAULT_ZIP_LIMITS, ...opts.limits };
   const files = readZip(bytes, (n) => n === 'project.qde' || n.startsWith('sources/'), limits);
   const qde = files.get('project.qde');
-  if (!qde) throw new ExchangeError('no-project', 'the archive has no project.qde (a .qdpx file must)');
+  if (!qde) throw new ExchangeError('no_project', 'the archive has no project.qde (a .qdpx file must)');
   opts.onProgress?.(0.1);
   const decode = (b: Uint8Array, what: string) => {
     try {
       return new TextDecoder('utf-8', { fatal: true }).decode(b);
     } catch {
-      throw new ExchangeError('bad-encoding', `${what} is not UTF-8 text`);
+      throw new ExchangeError('bad_encoding', `${what} is not UTF-8 text`);
     }
   };
   const root = parseXml(decode(qde, 'project.qde'), 'project.qde');
   const p = child(root, 'Project');
-  if (!p) throw new ExchangeError('not-refi', 'project.qde is not a REFI-QDA project: its root element is not Project');
+  if (!p) throw new ExchangeError('not_refi', 'project.qde is not a REFI-QDA project: its root element is not Project');
   const warnings: string[] = [];
   const ns = attr(p, 'xmlns');
   if (ns !== undefined && ns !== PROJECT_NS) warnings.push(`The project names the namespace "${ns}", not ${PROJECT_NS}; it was read all the same.`);
@@ -291,7 +291,7 @@ export function importQdpx(bytes: Uint8Array, opts: RefiImportOptions = {}): Ref
     const inline = textOf(s, 'PlainTextContent');
     const path = attr(s, 'plainTextPath');
     if (inline !== undefined && path) warnings.push(`Text "${name}" has both PlainTextContent and plainTextPath; the inline content was used.`);
-    if (inline === undefined && !path) throw new ExchangeError('missing-source', `Text "${name}" has neither PlainTextContent nor plainTextPath`);
+    if (inline === undefined && !path) throw new ExchangeError('missing_source', `Text "${name}" has neither PlainTextContent nor plainTextPath`);
     const content = inline ?? sourceText(files, path!, `Text "${name}"`, decode);
     const map = new OffsetMap(content);
     lengths.set(id, map);
@@ -301,7 +301,7 @@ export function importQdpx(bytes: Uint8Array, opts: RefiImportOptions = {}): Ref
     const codingOf = (c: Node, where: string) => {
       const codeRef = child(c, 'CodeRef');
       const codeId = codeRef ? normaliseGuid(attr(codeRef, 'targetGUID')) : null;
-      if (!codeId || !codeIds.has(codeId)) throw new ExchangeError('bad-reference', `${where}: a coding names a code that is not in the codebook (${codeId ?? 'no GUID'})`);
+      if (!codeId || !codeIds.has(codeId)) throw new ExchangeError('bad_reference', `${where}: a coding names a code that is not in the codebook (${codeId ?? 'no GUID'})`);
       const coder = normaliseGuid(attr(c, 'creatingUser'));
       return { guid: guidOf(c, 'guid', where), codeId, coder: coder && coderIds.has(coder) ? coder : null, at: ms(attr(c, 'creationDateTime')) };
     };
@@ -309,7 +309,7 @@ export function importQdpx(bytes: Uint8Array, opts: RefiImportOptions = {}): Ref
       const guid = guidOf(sel, 'guid', `a selection in "${name}"`);
       const start = Number(attr(sel, 'startPosition'));
       const end = Number(attr(sel, 'endPosition'));
-      if (!Number.isInteger(start) || !Number.isInteger(end)) throw new ExchangeError('bad-position', `selection ${guid} in "${name}": positions must be whole numbers`);
+      if (!Number.isInteger(start) || !Number.isInteger(end)) throw new ExchangeError('bad_position', `selection ${guid} in "${name}": positions must be whole numbers`);
       const where = `selection ${guid} in "${name}"`;
       raw.push({ guid, start, end, textId: id, codings: kids(sel, 'Coding').map((c) => codingOf(c, where)), note: textOf(sel, 'Description') ?? '' });
       attach(kids(sel, 'NoteRef'), { kind: 'segment', textId: id, segmentId: guid });
@@ -330,7 +330,7 @@ export function importQdpx(bytes: Uint8Array, opts: RefiImportOptions = {}): Ref
     const map = lengths.get(r.textId)!;
     const endCp = r.guid.endsWith('-whole') || endReading === 'exclusive' ? r.end : r.end + 1;
     if (r.start < 0 || endCp < r.start || endCp > map.codePointLength) {
-      throw new ExchangeError('bad-position', `selection ${r.guid}: positions ${r.start}–${r.end} fall outside its text of ${map.codePointLength} characters (end read ${endReading})`);
+      throw new ExchangeError('bad_position', `selection ${r.guid}: positions ${r.start}–${r.end} fall outside its text of ${map.codePointLength} characters (end read ${endReading})`);
     }
     const start = map.toUtf16(r.start);
     const end = map.toUtf16(endCp);
@@ -377,7 +377,7 @@ export function importQdpx(bytes: Uint8Array, opts: RefiImportOptions = {}): Ref
     for (const vv of kids(c, 'VariableValue')) {
       const ref = child(vv, 'VariableRef');
       const a = attrIds.get(ref ? normaliseGuid(attr(ref, 'targetGUID')) ?? '' : '');
-      if (!a) throw new ExchangeError('bad-reference', `Case "${attr(c, 'name') ?? id}": a value names a variable that is not in the file`);
+      if (!a) throw new ExchangeError('bad_reference', `Case "${attr(c, 'name') ?? id}": a value names a variable that is not in the file`);
       const v = readValue(vv);
       if (v !== undefined) values[a.id] = a.type === 'choice' && !a.choices?.includes(String(v)) ? null : v;
     }
@@ -407,10 +407,10 @@ export function importQdpx(bytes: Uint8Array, opts: RefiImportOptions = {}): Ref
 
 function sourceText(files: Map<string, Uint8Array>, path: string, what: string, decode: (b: Uint8Array, what: string) => string): string {
   const m = /^internal:\/\/(.+)$/.exec(path.trim());
-  if (!m) throw new ExchangeError('unsupported-source', `${what}: its file is at "${path}", outside the archive; only internal:// sources are read`);
+  if (!m) throw new ExchangeError('unsupported_source', `${what}: its file is at "${path}", outside the archive; only internal:// sources are read`);
   const name = `sources/${m[1]}`;
   const bytes = files.get(name);
-  if (!bytes) throw new ExchangeError('missing-source', `${what}: its file ${name} is not in the archive`);
+  if (!bytes) throw new ExchangeError('missing_source', `${what}: its file ${name} is not in the archive`);
   return decode(bytes, name).replace(/^\uFEFF/, '');
 }
 

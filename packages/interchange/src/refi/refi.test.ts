@@ -147,27 +147,27 @@ describe('malformed and hostile archives get a typed error', () => {
     }
     return 'no error';
   };
-  it('not a zip', () => expect(code(() => importQdpx(strToU8('hello')))).toBe('not-zip'));
-  it('no project.qde', () => expect(code(() => importQdpx(zipSync({ 'x.txt': strToU8('x') })))).toBe('no-project'));
-  it('bad XML', () => expect(code(() => importQdpx(qdpx('<Project name="x"><Users></Project>')))).toBe('bad-xml'));
+  it('not a zip', () => expect(code(() => importQdpx(strToU8('hello')))).toBe('not_zip'));
+  it('no project.qde', () => expect(code(() => importQdpx(zipSync({ 'x.txt': strToU8('x') })))).toBe('no_project'));
+  it('bad XML', () => expect(code(() => importQdpx(qdpx('<Project name="x"><Users></Project>')))).toBe('bad_xml'));
   it('a DOCTYPE (entity expansion) is refused', () =>
-    expect(code(() => importQdpx(qdpx('<?xml version="1.0"?><!DOCTYPE p [<!ENTITY a "aaaa">]><Project xmlns="urn:QDA-XML:project:1.0" name="&a;"/>')))).toBe('bad-xml'));
-  it('missing source file', () => expect(code(() => importQdpx(qdpx(handProject({ text, selections: [] }))))).toBe('missing-source'));
+    expect(code(() => importQdpx(qdpx('<?xml version="1.0"?><!DOCTYPE p [<!ENTITY a "aaaa">]><Project xmlns="urn:QDA-XML:project:1.0" name="&a;"/>')))).toBe('bad_xml'));
+  it('missing source file', () => expect(code(() => importQdpx(qdpx(handProject({ text, selections: [] }))))).toBe('missing_source'));
   it('a source outside the archive', () =>
-    expect(code(() => importQdpx(qdpx(handProject({ text, selections: [] }).replace(`internal://${G(50)}.txt`, 'absolute:///etc/passwd'))))).toBe('unsupported-source'));
+    expect(code(() => importQdpx(qdpx(handProject({ text, selections: [] }).replace(`internal://${G(50)}.txt`, 'absolute:///etc/passwd'))))).toBe('unsupported_source'));
   it('path traversal in an entry name', () =>
-    expect(code(() => importQdpx(zipSync({ 'project.qde': strToU8(handProject({ text, selections: [] })), '../../evil.txt': strToU8('x') })))).toBe('unsafe-path'));
-  it('an absolute entry name', () => expect(code(() => importQdpx(zipSync({ '/etc/x': strToU8('x'), 'project.qde': strToU8('<a/>') })))).toBe('unsafe-path'));
+    expect(code(() => importQdpx(zipSync({ 'project.qde': strToU8(handProject({ text, selections: [] })), '../../evil.txt': strToU8('x') })))).toBe('unsafe_path'));
+  it('an absolute entry name', () => expect(code(() => importQdpx(zipSync({ '/etc/x': strToU8('x'), 'project.qde': strToU8('<a/>') })))).toBe('unsafe_path'));
   it('a huge entry (over the per-entry limit, judged before inflating)', () => {
     const big = new Uint8Array(3 * 1024 * 1024); // zeros deflate to a few KiB
     const zip = zipSync({ 'project.qde': strToU8(handProject({ text, selections: [] })), [`sources/${G(50)}.txt`]: big });
     expect(zip.byteLength).toBeLessThan(64 * 1024);
-    expect(code(() => importQdpx(zip, { limits: { maxEntryBytes: 1024 * 1024 } }))).toBe('too-large');
+    expect(code(() => importQdpx(zip, { limits: { maxEntryBytes: 1024 * 1024 } }))).toBe('too_large');
   });
   it('a selection outside its text', () =>
-    expect(code(() => importQdpx(qdpx(handProject({ text, selections: [[2, 400]] }), { [`sources/${G(50)}.txt`]: text })))).toBe('bad-position'));
+    expect(code(() => importQdpx(qdpx(handProject({ text, selections: [[2, 400]] }), { [`sources/${G(50)}.txt`]: text })))).toBe('bad_position'));
   it('a coding naming a code that is not there', () =>
-    expect(code(() => importQdpx(qdpx(handProject({ text, selections: [[0, 2]] }).replace(`<CodeRef targetGUID="${G(12)}"/>`, `<CodeRef targetGUID="${G(99)}"/>`), { [`sources/${G(50)}.txt`]: text })))).toBe('bad-reference'));
+    expect(code(() => importQdpx(qdpx(handProject({ text, selections: [[0, 2]] }).replace(`<CodeRef targetGUID="${G(12)}"/>`, `<CodeRef targetGUID="${G(99)}"/>`), { [`sources/${G(50)}.txt`]: text })))).toBe('bad_reference'));
   it('source text that is not UTF-8', () =>
-    expect(code(() => importQdpx(zipSync({ 'project.qde': strToU8(handProject({ text, selections: [] })), [`sources/${G(50)}.txt`]: new Uint8Array([0x66, 0xff, 0xfe]) })))).toBe('bad-encoding'));
+    expect(code(() => importQdpx(zipSync({ 'project.qde': strToU8(handProject({ text, selections: [] })), [`sources/${G(50)}.txt`]: new Uint8Array([0x66, 0xff, 0xfe]) })))).toBe('bad_encoding'));
 });

@@ -33,8 +33,8 @@ export function unsafeEntryName(name: string): boolean {
 
 /** Unpacks the entries `want` accepts (by name); refuses the archive on the first unsafe name or size. */
 export function readZip(bytes: Uint8Array, want: (name: string) => boolean, limits: ZipLimits = DEFAULT_ZIP_LIMITS): Map<string, Uint8Array> {
-  if (bytes.byteLength > limits.maxBytes) throw new ExchangeError('too-large', `the archive is ${MiB(bytes.byteLength)}, over the limit of ${MiB(limits.maxBytes)}`);
-  if (bytes.byteLength < 4 || bytes[0] !== 0x50 || bytes[1] !== 0x4b) throw new ExchangeError('not-zip', 'the file is not a ZIP archive (a .qdpx file is one)');
+  if (bytes.byteLength > limits.maxBytes) throw new ExchangeError('too_large', `the archive is ${MiB(bytes.byteLength)}, over the limit of ${MiB(limits.maxBytes)}`);
+  if (bytes.byteLength < 4 || bytes[0] !== 0x50 || bytes[1] !== 0x4b) throw new ExchangeError('not_zip', 'the file is not a ZIP archive (a .qdpx file is one)');
   let problem: ExchangeError | null = null;
   let total = 0;
   let files: Record<string, Uint8Array>;
@@ -43,17 +43,17 @@ export function readZip(bytes: Uint8Array, want: (name: string) => boolean, limi
       filter: (f) => {
         if (problem) return false;
         if (unsafeEntryName(f.name)) {
-          problem = new ExchangeError('unsafe-path', `the archive holds an entry named "${f.name}", which points outside the archive; nothing was imported`);
+          problem = new ExchangeError('unsafe_path', `the archive holds an entry named "${f.name}", which points outside the archive; nothing was imported`);
           return false;
         }
         if (!want(f.name)) return false;
         if (f.originalSize > limits.maxEntryBytes) {
-          problem = new ExchangeError('too-large', `entry "${f.name}" unpacks to ${MiB(f.originalSize)}, over the limit of ${MiB(limits.maxEntryBytes)}`);
+          problem = new ExchangeError('too_large', `entry "${f.name}" unpacks to ${MiB(f.originalSize)}, over the limit of ${MiB(limits.maxEntryBytes)}`);
           return false;
         }
         total += f.originalSize;
         if (total > limits.maxTotalBytes) {
-          problem = new ExchangeError('too-large', `the archive unpacks to more than ${MiB(limits.maxTotalBytes)}`);
+          problem = new ExchangeError('too_large', `the archive unpacks to more than ${MiB(limits.maxTotalBytes)}`);
           return false;
         }
         return true;
@@ -61,7 +61,7 @@ export function readZip(bytes: Uint8Array, want: (name: string) => boolean, limi
     });
   } catch (err) {
     if (problem) throw problem;
-    throw new ExchangeError('not-zip', `the ZIP archive cannot be read (${err instanceof Error ? err.message : String(err)})`);
+    throw new ExchangeError('not_zip', `the ZIP archive cannot be read (${err instanceof Error ? err.message : String(err)})`);
   }
   if (problem) throw problem;
   return new Map(Object.entries(files));

@@ -15,6 +15,7 @@ export function Members(props: { studyId: string; scope: StudyScope }) {
   const [members, { refetch }] = createResource(() => props.studyId, (id) => api.members(id));
   const [error, setError] = createSignal('');
   const [reset, setReset] = createSignal<Link & { email: string }>();
+  const [invited, setInvited] = createSignal<{ path: string; expiresAt: string; email: string }>();
   const [email, setEmail] = createSignal('');
   const [role, setRole] = createSignal<Role>('coder');
   const myRole = () => members()?.find((m) => m.userId === me()?.id)?.role ?? props.scope.study()?.role;
@@ -65,12 +66,13 @@ export function Members(props: { studyId: string; scope: StudyScope }) {
           </tbody>
         </table>
       </Loading>
+      <Show when={invited()}>{(r) => <CopyLink path={r().path} expiresAt={r().expiresAt} label={`Link to join for ${r().email}`} />}</Show>
       <Show when={reset()}>{(r) => <CopyLink path={r().path} expiresAt={r().expiresAt} label={`Password-reset link for ${r().email}`} />}</Show>
       <Show when={canManage()}>
         <Invitations studyId={props.studyId} myRole={myRole()} />
         <details>
-          <summary>Add someone who already has an account on this server</summary>
-          <form class="inline-form" aria-label="Add a member" onSubmit={(e) => { e.preventDefault(); void act(() => api.addMember(props.studyId, email(), role())).then(() => setEmail('')); }}>
+          <summary>Add by email (a member's role changes; anyone else gets a link to join)</summary>
+          <form class="inline-form" aria-label="Add a member" onSubmit={(e) => { e.preventDefault(); const who = email(); void act(async () => { const link = await api.addMember(props.studyId, who, role()); setInvited(link ? { ...link, email: who } : undefined); }).then(() => setEmail('')); }}>
             <label>Email <input type="email" required value={email()} onInput={(e) => setEmail(e.currentTarget.value)} /></label>
             <label>Role
               <select value={role()} onChange={(e) => setRole(e.currentTarget.value as Role)}>
