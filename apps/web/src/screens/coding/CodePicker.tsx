@@ -73,7 +73,7 @@ export function CodePicker(props: {
           value={query()}
           onInput={(e) => { setQuery(e.currentTarget.value); setActive(0); }}
           onKeyDown={onKey}
-          placeholder="name, definition or theme; Enter applies"
+          placeholder="name, definition or theme"
           data-testid="code-search"
         />
       </label>
