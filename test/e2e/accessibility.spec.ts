@@ -41,6 +41,16 @@ test('no serious or critical axe violations on the main screens', async ({ brows
 
   await openText(lead);
   await audit(page, 'coding-lead');
+  // a jotting on a sentence: its mark and chip in the text, its thread with Reply beside it
+  await page.getByTestId('transcript').focus();
+  await page.keyboard.press('ArrowDown');
+  await page.keyboard.press('s');
+  await page.getByRole('button', { name: 'Jotting', exact: true }).click();
+  await page.getByLabel('Jotting', { exact: true }).fill('Checked for accessibility: a jotting on one sentence.');
+  await page.getByRole('button', { name: 'Keep jotting' }).click();
+  await expect(page.getByTestId('notes-here').getByRole('button', { name: 'Reply', exact: true })).toBeVisible();
+  await expect(page.getByTestId('jotting-chip').and(page.locator('[aria-pressed="true"]'))).toBeVisible();
+  await audit(page, 'coding-jotting');
 
   await page.getByRole('navigation', { name: 'Study screens' }).getByRole('link', { name: 'Memos' }).click();
   await expect(page.getByRole('heading', { name: 'New memo' })).toBeVisible();
