@@ -168,7 +168,7 @@ test('observer: nothing to code with is offered, every key press is refused in w
   await expect(msg(p)).toHaveText('Not saved: observers cannot remove segments.');
   // the roles' jottings are on their words: an observer reads one and its replies, and is offered no Reply
   const jotted = turnWith(p, PHRASES.owner!.jot).getByTestId('jotting-chip').filter({ hasText: PHRASES.owner!.jot });
-  await jotted.scrollIntoViewIfNeeded();
+  await turnWith(p, PHRASES.owner!.jot).scrollIntoViewIfNeeded(); // a turn lists its codes and jottings once near the viewport
   await jotted.click();
   await expect(notesHere(p).getByTestId('note-here')).toContainText("A owner's jotting.");
   await expect(notesHere(p).getByTestId('memo-reply')).toContainText('The owner answers their own jotting.');
