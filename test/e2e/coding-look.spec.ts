@@ -6,6 +6,7 @@ const TEXT = 'P01 — projection lead, Beacon Picture Hall';
 const tag = process.env.LOOK_TAG ?? 'now';
 
 test('coding view as coder, lead and observer', async ({ browser, baseURL }) => {
+  test.setTimeout(120_000); // three people signed in at once: a minute is short on a loaded machine
   const coder = await signIn(browser, account('coder', 1), baseURL!);
   await openText(coder, TEXT);
   await selectWords(coder.page, 'pot of tea');

@@ -23,7 +23,7 @@ test('a definition edit is recorded in the history and shows as updated in a cod
   // the history lists the edit: who, the field, before -> after, why
   await lead.page.getByText(/Change history/).click();
   const entry = lead.page.locator('.history li').filter({ hasText: 'why: coders asked where fewer hours go' });
-  await expect(entry).toContainText(`${lead.name}: edit (briefDefinition)`);
+  await expect(entry).toContainText(`${lead.name}: edit (brief definition)`);
   await expect(entry.locator('del')).toHaveText(BEFORE);
   await expect(entry.locator('ins')).toHaveText(BEFORE + ADDED);
   await shot(lead.page, 'definition-history-lead');

@@ -1,5 +1,5 @@
 // First-cycle extras: an in vivo code from the selected words, a jotting on a selection, and the jotting
-// promoted to a memo on the memos screen, found there by search.
+// promoted to a memo on the memos screen, found there by search, and back to its words from there.
 import { test, expect, account, signIn, openText, selectWords, shot } from './fixtures.js';
 
 const TEXT = 'P03 — sound and setup, Ferrowgate Film Club';
@@ -34,5 +34,8 @@ test('in vivo code, jotting, and promoting the jotting to a memo', async ({ brow
   await item.getByRole('link', { name: 'Go to the passage' }).click();
   await expect(page.getByTestId('coding-view')).toHaveAttribute('data-ready', 'yes', { timeout: 20_000 });
   await expect(page.getByRole('heading', { name: TEXT })).toBeVisible();
+  // the jotting was on words that are not a segment: it opens chosen on those words, with its replies
+  await expect(page.getByTestId('notes-here').getByTestId('note-here')).toContainText('borrowed projector');
+  await expect(page.getByTestId('jotting-chip').and(page.locator('[aria-pressed="true"]'))).toHaveAttribute('title', "Jotting on “the sound was so bad I couldn't follow the plot”");
   await coder.context.close();
 });

@@ -17,6 +17,7 @@ async function openMemos(p: Person): Promise<void> {
 const jottingItem = (p: Person) => p.page.locator('.memo-list .memo').filter({ hasText: JOTTING });
 
 test('a reply to a jotting reaches its writer live and stays; an observer is offered no Reply', async ({ browser, baseURL }) => {
+  test.setTimeout(120_000); // three people signed in at once: a minute is short on a loaded machine
   const coder = await signIn(browser, account('coder', 1), baseURL!);
   await openText(coder, TEXT);
   await selectWords(coder.page, 'the last bus back is at half nine');

@@ -9,6 +9,16 @@ const TEXT = 'P03 — sound and setup, Ferrowgate Film Club';
 const msg = (p: Person) => p.page.getByTestId('coding-message');
 const tool = (p: Person, name: string) => p.page.getByRole('toolbar', { name: 'Coding tools' }).getByRole('button', { name, exact: true });
 const chips = (p: Person) => p.page.locator('.transcript .turn-codes .code-chip');
+const panel = (p: Person) => p.page.getByTestId('segment-panel');
+const notesHere = (p: Person) => p.page.getByTestId('notes-here');
+const turnWith = (p: Person, words: string) => p.page.locator('.transcript .turn').filter({ has: p.page.locator('.words', { hasText: words }) });
+/** The words under the coding view's jotting marks (CSS highlight ranges), as the page paints them. */
+const jottingMarks = (p: Person) => p.page.evaluate(() => [...((CSS as unknown as { highlights: Map<string, Set<Range>> }).highlights.get('gloss-jotting') ?? [])].map((r) => r.toString()));
+async function ready(p: Person): Promise<void> {
+  await expect(p.page.getByTestId('coding-view')).toHaveAttribute('data-ready', 'yes', { timeout: 20_000 });
+  await expect(p.page.getByTestId('connection-status')).toHaveAttribute('data-state', 'online');
+}
+const RECODE = 'Recognition';
 
 // one phrase per role, so the roles' segments and in vivo codes do not meet; none of them is a phrase
 // corrections.spec rewrites, and the file runs after supervision.spec (whose reference is the lead's P03 layer)
@@ -23,6 +33,7 @@ const TEXT_OF: Record<string, string> = { trainee: 'P04 — chair and treasurer,
 
 for (const role of ['owner', 'lead', 'coder', 'trainee'] as const) {
   test(`${role}: every control's message says what the server did`, async ({ browser, baseURL }) => {
+    test.setTimeout(120_000); // every control of the view, two reloads: a minute is short on a loaded machine
     const p = await signIn(browser, account(role), baseURL!);
     await openText(p, TEXT_OF[role] ?? TEXT);
     const writesCodebook = role === 'owner' || role === 'lead';
@@ -36,6 +47,50 @@ for (const role of ['owner', 'lead', 'coder', 'trainee'] as const) {
     await tool(p, 'Redo').click();
     await expect(msg(p)).toHaveText('Redone: coded “Workload”. Saved.');
 
+    // the segment panel of the segment just coded: each control, each message from the server's answer
+    await expect(panel(p).getByRole('heading')).toContainText('Workload');
+    // a jotting with nothing else selected goes on the segment, and is shown beside it with Reply
+    await p.page.keyboard.press('j');
+    await p.page.getByLabel('Jotting', { exact: true }).fill(`A ${role}'s jotting on a segment.`);
+    await p.page.getByRole('button', { name: 'Keep jotting' }).click();
+    await expect(msg(p)).toHaveText('Jotting added to the memos. Saved.');
+    await expect(notesHere(p).getByTestId('note-here')).toContainText(`A ${role}'s jotting on a segment.`);
+    await expect(notesHere(p).getByRole('button', { name: 'Reply', exact: true })).toBeVisible();
+    const note = panel(p).getByLabel(/Note on this segment/);
+    await note.fill(`The ${role}'s note.`);
+    await note.press('Tab'); // leaving the note keeps it
+    await expect(msg(p)).toHaveText('Note on “Workload” changed. Saved.');
+    await panel(p).getByRole('button', { name: 'End one word later' }).click();
+    await expect(msg(p)).toHaveText('Resized “Workload”. Saved.');
+    await selectWords(p.page, ph.code);
+    await panel(p).getByRole('button', { name: 'Fit to selection' }).click();
+    await expect(msg(p)).toHaveText('Segment fitted to the selection. Saved.');
+    await panel(p).getByRole('button', { name: 'Recode…' }).click();
+    await applyCodeButton(p, RECODE);
+    await expect(msg(p)).toHaveText(`Recoded as “${RECODE}”. Saved.`);
+    await expect(panel(p).getByRole('button', { name: 'Use as example' })).toHaveCount(writesCodebook ? 1 : 0);
+    if (writesCodebook) {
+      await panel(p).getByRole('button', { name: 'Use as near-miss' }).click();
+      await expect(msg(p)).toHaveText('Added as a near-miss. Saved.');
+    }
+    // what the server kept is what a reload shows: the recoded segment with its note and its jotting
+    await p.page.reload();
+    await ready(p);
+    await turnWith(p, ph.code).scrollIntoViewIfNeeded();
+    const chip = turnWith(p, ph.code).locator('.code-chip').filter({ hasText: RECODE }).filter({ has: p.page.getByTestId('note-mark') });
+    await expect(chip).toHaveCount(1);
+    await expect(chip.getByTestId('jotting-mark')).toHaveText('✉1 jottings');
+    await chip.click();
+    await expect(panel(p).getByLabel(/Note on this segment/)).toHaveValue(`The ${role}'s note.`);
+    await expect(panel(p).getByTestId('segment-quote')).toHaveText(ph.code);
+    await expect(notesHere(p)).toContainText(`A ${role}'s jotting on a segment.`);
+    await panel(p).getByRole('button', { name: 'Remove' }).click();
+    await expect(msg(p)).toHaveText(`Removed the segment coded “${RECODE}”. Saved.`);
+    await p.page.reload();
+    await ready(p);
+    await turnWith(p, ph.code).scrollIntoViewIfNeeded();
+    await expect(turnWith(p, ph.code).locator('.code-chip').filter({ has: p.page.getByTestId('note-mark') }).filter({ hasText: RECODE })).toHaveCount(0);
+
     await selectWords(p.page, ph.inVivo);
     await tool(p, 'In vivo code').click();
     await expect(msg(p)).toHaveText(writesCodebook
@@ -47,6 +102,15 @@ for (const role of ['owner', 'lead', 'coder', 'trainee'] as const) {
     await p.page.getByLabel('Jotting', { exact: true }).fill(`A ${role}'s jotting.`);
     await p.page.getByRole('button', { name: 'Keep jotting' }).click();
     await expect(msg(p)).toHaveText('Jotting added to the memos. Saved.');
+    // on those words, not the whole text: marked over them, listed under their turn, shown with Reply
+    await expect.poll(() => jottingMarks(p)).toContain(ph.jot);
+    await expect(turnWith(p, ph.jot).getByTestId('jotting-chip').filter({ hasText: ph.jot })).toHaveAttribute('aria-pressed', 'true');
+    await expect(notesHere(p).getByTestId('note-here')).toContainText(`A ${role}'s jotting.`);
+    await notesHere(p).getByRole('button', { name: 'Reply', exact: true }).click();
+    await notesHere(p).getByLabel('Your reply').fill(`The ${role} answers their own jotting.`);
+    await notesHere(p).getByRole('button', { name: 'Send reply' }).click();
+    await expect(notesHere(p).getByTestId('reply-message')).toHaveText('Reply added. Saved.');
+    await expect(notesHere(p).getByTestId('memo-reply')).toContainText(`The ${role} answers their own jotting.`);
 
     const form = p.page.getByRole('form', { name: writesCodebook ? 'New code' : 'Propose a code' });
     await form.getByRole('textbox').fill(`Checked by the ${role}`);
@@ -61,7 +125,13 @@ for (const role of ['owner', 'lead', 'coder', 'trainee'] as const) {
   });
 }
 
+async function applyCodeButton(p: Person, label: string): Promise<void> {
+  await p.page.getByTestId('code-search').fill(label);
+  await p.page.getByRole('listbox', { name: 'Codes' }).getByRole('button', { name: label, exact: true }).click();
+}
+
 test('observer: nothing to code with is offered, every key press is refused in words, nothing is left after reload', async ({ browser, baseURL }) => {
+  test.setTimeout(120_000);
   const p = await signIn(browser, account('observer'), baseURL!);
   await openText(p, TEXT);
   for (const name of ['Undo', 'Redo', 'In vivo code', 'Jotting', 'Correct words…']) await expect(tool(p, name)).toHaveCount(0);
@@ -79,6 +149,30 @@ test('observer: nothing to code with is offered, every key press is refused in w
   await expect(msg(p)).toHaveText('Not saved: observers cannot add jottings.');
   await p.page.keyboard.press('Control+z');
   await expect(msg(p)).toHaveText('Not saved: observers cannot undo coding.');
+
+  // another's segment, chosen: read, with none of its coder's controls; its keys are refused in words
+  await chips(p).first().click();
+  await expect(panel(p)).toBeVisible();
+  for (const name of ['Recode…', 'Remove', 'Fit to selection', 'Start one word earlier', 'End one word later', 'Use as example', 'Use as near-miss', 'Re-checked: still fits']) {
+    await expect(panel(p).getByRole('button', { name })).toHaveCount(0);
+  }
+  await expect(panel(p).getByLabel(/Note on this segment/)).toHaveCount(0);
+  await p.page.getByTestId('transcript').focus();
+  await p.page.keyboard.press('r');
+  await expect(msg(p)).toHaveText('Not saved: observers cannot recode segments.');
+  await p.page.keyboard.press('n');
+  await expect(msg(p)).toHaveText('Not saved: observers cannot add notes to segments.');
+  await p.page.keyboard.press('Alt+ArrowRight');
+  await expect(msg(p)).toHaveText('Not saved: observers cannot resize segments.');
+  await p.page.keyboard.press('Delete');
+  await expect(msg(p)).toHaveText('Not saved: observers cannot remove segments.');
+  // the roles' jottings are on their words: an observer reads one and its replies, and is offered no Reply
+  const jotted = turnWith(p, PHRASES.owner!.jot).getByTestId('jotting-chip').filter({ hasText: PHRASES.owner!.jot });
+  await turnWith(p, PHRASES.owner!.jot).scrollIntoViewIfNeeded(); // a turn lists its codes and jottings once near the viewport
+  await jotted.click();
+  await expect(notesHere(p).getByTestId('note-here')).toContainText("A owner's jotting.");
+  await expect(notesHere(p).getByTestId('memo-reply')).toContainText('The owner answers their own jotting.');
+  await expect(notesHere(p).getByRole('button', { name: 'Reply', exact: true })).toHaveCount(0);
 
   await p.page.reload();
   await expect(p.page.getByTestId('coding-view')).toHaveAttribute('data-ready', 'yes', { timeout: 20_000 });

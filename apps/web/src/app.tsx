@@ -52,7 +52,7 @@ function StudyArea(props: { studyId: string; me: Me }) {
       <Match when={route().name === 'audit'}><AuditScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'deid'}><DeidScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={(() => { const r = route(); return r.name === 'coding' ? r.textId : undefined; })()}>
-        {(textId) => { const id = lastWhile('coding', textId(), (r) => r.textId); return <CodingScreen studyId={props.studyId} textId={id()} scope={scope} me={props.me} segmentId={(() => { const r = route(); return r.name === 'coding' ? r.segmentId : undefined; })()} />; }}
+        {(textId) => { const id = lastWhile('coding', textId(), (r) => r.textId); return <CodingScreen studyId={props.studyId} textId={id()} scope={scope} me={props.me} segmentId={(() => { const r = route(); return r.name === 'coding' ? r.segmentId : undefined; })()} memoId={(() => { const r = route(); return r.name === 'coding' ? r.memoId : undefined; })()} />; }}
       </Match>
       <Match when={route().name === 'agreement'}><StudyAgreementScreen studyId={props.studyId} scope={scope} /></Match>
       <Match when={route().name === 'rounds'}><RoundsScreen studyId={props.studyId} scope={scope} me={props.me} /></Match>

@@ -9,6 +9,7 @@ export * from './layer-doc.js';
 export * from './codebook-doc.js';
 export * from './codebook-ops.js';
 export * from './memos-doc.js';
+export * from './memo-passage.js';
 export * from './cases.js';
 export * from './undo.js';
 export * from './palette.js';

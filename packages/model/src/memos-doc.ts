@@ -6,10 +6,14 @@ import { replaceText } from './codebook-doc.js';
 /** Root of the memos document (DESIGN §2): Y.Map<memoId, Y.Map>. The body is a Y.Text. */
 export const MEMOS_ROOT = 'memos';
 
-/** What a memo is about. A segment is named with its text (layer documents are per text). */
+/**
+ * What a memo is about. A segment is named with its text (layer documents are per text). A text
+ * attachment may name a passage of it: `start`/`end` are base64 anchors into the text, as a segment's
+ * (see memo-passage.ts), so the passage follows edits; readers that do not know them see "the text".
+ */
 export type MemoAttachment =
   | { kind: 'study' }
-  | { kind: 'text'; textId: string }
+  | { kind: 'text'; textId: string; start?: string; end?: string }
   | { kind: 'segment'; textId: string; segmentId: string }
   | { kind: 'code'; codeId: string };
 
@@ -47,7 +51,8 @@ function checkAttachment(a: MemoAttachment): MemoAttachment {
   const ok =
     a !== null && typeof a === 'object' &&
     ((a.kind === 'study') ||
-      (a.kind === 'text' && typeof a.textId === 'string') ||
+      (a.kind === 'text' && typeof a.textId === 'string' && (a.start === undefined) === (a.end === undefined) &&
+        (a.start === undefined || (typeof a.start === 'string' && typeof a.end === 'string'))) ||
       (a.kind === 'segment' && typeof a.textId === 'string' && typeof a.segmentId === 'string') ||
       (a.kind === 'code' && typeof a.codeId === 'string'));
   if (!ok) throw new InvalidArgumentError('a memo attaches to the study, a text, a segment (textId + segmentId) or a code');

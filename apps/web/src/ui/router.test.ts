@@ -13,6 +13,8 @@ describe('router', () => {
       { name: 'round-agreement', studyId: 's1', roundId: 'r1' },
       { name: 'round-report', studyId: 's1', roundId: 'r1' },
       { name: 'agreement', studyId: 's1' },
+      { name: 'coding', studyId: 's1', textId: 't1', segmentId: 'g1' },
+      { name: 'coding', studyId: 's1', textId: 't1', memoId: 'm1' },
     ];
     for (const r of routes) expect(parseRoute(href(r))).toEqual(r);
   });

@@ -5,7 +5,7 @@ export type Route =
   | { name: 'signin' }
   | { name: 'studies' }
   | { name: 'study'; studyId: string }
-  | { name: 'coding'; studyId: string; textId: string; segmentId?: string }
+  | { name: 'coding'; studyId: string; textId: string; segmentId?: string; memoId?: string }
   | { name: 'codebook'; studyId: string; codeId?: string }
   | { name: 'memos'; studyId: string }
   | { name: 'members'; studyId: string }
@@ -39,7 +39,7 @@ export function parseRoute(hash: string): Route {
   if (p[0] === 'reset' && p[1]) return { name: 'reset', token: p[1] };
   if (p[0] === 'study' && p[1]) {
     const studyId = p[1];
-    if (p[2] === 'text' && p[3]) return { name: 'coding', studyId, textId: p[3], ...(p[4] === 'segment' && p[5] ? { segmentId: p[5] } : {}) };
+    if (p[2] === 'text' && p[3]) return { name: 'coding', studyId, textId: p[3], ...(p[4] === 'segment' && p[5] ? { segmentId: p[5] } : {}), ...(p[4] === 'jotting' && p[5] ? { memoId: p[5] } : {}) };
     if (p[2] === 'codebook') return { name: 'codebook', studyId, codeId: p[3] };
     if (p[2] === 'memos') return { name: 'memos', studyId };
     if (p[2] === 'members') return { name: 'members', studyId };
@@ -67,7 +67,7 @@ export function href(r: Route): string {
     case 'signin': return '#/signin';
     case 'studies': return '#/';
     case 'study': return `#/study/${e(r.studyId)}`;
-    case 'coding': return `#/study/${e(r.studyId)}/text/${e(r.textId)}${r.segmentId ? '/segment/' + e(r.segmentId) : ''}`;
+    case 'coding': return `#/study/${e(r.studyId)}/text/${e(r.textId)}${r.segmentId ? '/segment/' + e(r.segmentId) : r.memoId ? '/jotting/' + e(r.memoId) : ''}`;
     case 'codebook': return `#/study/${e(r.studyId)}/codebook${r.codeId ? '/' + e(r.codeId) : ''}`;
     case 'agreement': return `#/study/${e(r.studyId)}/agreement`;
     case 'rounds': return `#/study/${e(r.studyId)}/rounds`;

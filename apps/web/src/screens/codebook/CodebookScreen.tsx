@@ -13,6 +13,7 @@ import { EntryEditor } from './EntryEditor.js';
 import { SecondCycle } from './SecondCycle.js';
 import { Proposals } from './Proposals.js';
 import { codebookLooked, useSeenCodes } from '../../ui/seen-codes.js';
+import { fieldWords } from './field-words.js';
 import type { OpenDoc } from '../../sync/open-doc.js';
 
 export function CodebookScreen(props: { studyId: string; scope: StudyScope; me: Me }) {
@@ -83,7 +84,7 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
                 {(h) => (
                   <li>
                     <button type="button" class="link" onClick={() => choose(h.codeIds[0]!)}>{byId().get(h.codeIds[0]!)?.label ?? 'a code'}</button>
-                    {' '}<span class="muted">{h.kind}{h.field ? ` (${h.field})` : ''} by {nameOf(h.by)}, {new Date(h.at).toLocaleString()}</span>
+                    {' '}<span class="muted">{h.kind}{h.field ? ` (${fieldWords(h.field)})` : ''} by {nameOf(h.by)}, {new Date(h.at).toLocaleString()}</span>
                   </li>
                 )}
               </For>

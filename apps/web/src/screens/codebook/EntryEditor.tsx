@@ -9,6 +9,7 @@ import {
 import { DefinitionField } from './DefinitionField.js';
 import { createAttempt } from '../../ui/attempt.js';
 import { OKABE_ITO } from '../../doc/palette.js';
+import { fieldWords } from './field-words.js';
 
 const FIELDS: Array<[Field, string, number]> = [
   ['briefDefinition', 'Brief definition', 2],
@@ -93,7 +94,7 @@ export function EntryEditor(props: {
             {(h) => (
               <li>
                 <time dateTime={new Date(h.at).toISOString()}>{new Date(h.at).toLocaleString()}</time> — {props.nameOf(h.by)}: {h.kind}
-                {h.field ? ` (${h.field})` : ''}{h.detail ? ` ${h.detail}` : ''}{h.reason ? ` — why: ${h.reason}` : ''} <span class="muted">round {h.round}</span>
+                {h.field ? ` (${fieldWords(h.field)})` : ''}{h.detail ? ` ${h.detail}` : ''}{h.reason ? ` — why: ${h.reason}` : ''} <span class="muted">round {h.round}</span>
                 <Show when={h.before !== undefined}>
                   <div class="edit-diff"><del>{h.before || '(empty)'}</del> → <ins>{h.after || '(empty)'}</ins></div>
                 </Show>

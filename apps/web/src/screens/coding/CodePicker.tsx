@@ -3,6 +3,7 @@
  * recently used codes first; arrows choose, Enter applies; every code is also a button. The chosen
  * code's brief definition and when (not) to use it are shown in a card of our own, not a tooltip.
  */
+import { fieldWords } from '../codebook/field-words.js';
 import { For, Show, createMemo, createSignal } from 'solid-js';
 import type { ChangeEntry, CodeGroup, CodeMark, CodeView } from '@gloss/model';
 import { CodeSwatch } from '../../ui/CodeSwatch.js';
@@ -73,7 +74,7 @@ export function CodePicker(props: {
           value={query()}
           onInput={(e) => { setQuery(e.currentTarget.value); setActive(0); }}
           onKeyDown={onKey}
-          placeholder="name, definition or theme; Enter applies"
+          placeholder="name, definition or theme"
           data-testid="code-search"
         />
       </label>
@@ -103,7 +104,7 @@ export function CodePicker(props: {
             <Show when={props.unseenEdit(e.code.id)}>
               {(edit) => (
                 <div class="card-updated" data-testid="card-updated">
-                  <p><span class="tag updated">updated</span> {new Date(edit().at).toLocaleString()}{edit().reason ? ` — why: ${edit().reason}` : ''}</p>
+                  <p><span class="tag updated">updated</span> {edit().field ? `${fieldWords(edit().field!)}, ` : ''}{new Date(edit().at).toLocaleString()}{edit().reason ? ` — why: ${edit().reason}` : ''}</p>
                   <p class="edit-diff"><del>{edit().before || '(empty)'}</del> → <ins>{edit().after || '(empty)'}</ins></p>
                   <button type="button" class="quiet" onClick={() => props.onSeen(e.code.id)}>Seen</button>
                 </div>

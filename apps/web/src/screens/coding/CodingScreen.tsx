@@ -17,7 +17,7 @@ import type { LayerHandle } from './coding-state.js';
  * `layers` narrows the layers opened (a round's text shows that round's layers only; elsewhere the
  * layers coded outside rounds); `banner` goes above the text (a round's "done" mark).
  */
-export function CodingScreen(props: { studyId: string; textId: string; scope: StudyScope; me: Me; segmentId?: string | undefined; layers?: (l: LayerInfo) => boolean; banner?: JSX.Element }) {
+export function CodingScreen(props: { studyId: string; textId: string; scope: StudyScope; me: Me; segmentId?: string | undefined; memoId?: string | undefined; layers?: (l: LayerInfo) => boolean; banner?: JSX.Element }) {
   const [detail] = createResource(() => props.textId, (id) => api.text(id));
   const [docs, setDocs] = createSignal<{ text: OpenDoc; layers: LayerHandle[] }>();
   const [loaded, setLoaded] = createSignal(false);
@@ -72,7 +72,7 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
         <h2 class="text-title">{detail()?.title}</h2>
         {props.banner}
         <Show when={ready()} keyed fallback={<p class="progress">Opening the text…</p>}>
-          {(r) => <CodingView {...r} studyId={props.studyId} textId={props.textId} scope={props.scope} me={props.me} goToSegment={props.segmentId} />}
+          {(r) => <CodingView {...r} studyId={props.studyId} textId={props.textId} scope={props.scope} me={props.me} goToSegment={props.segmentId} goToMemo={props.memoId} />}
         </Show>
       </Loading>
     </main>

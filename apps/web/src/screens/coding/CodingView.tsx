@@ -1,10 +1,10 @@
 /** The coding view proper, once every document is open. */
-import { For, Show, createMemo, createSignal, onCleanup, onMount } from 'solid-js';
+import { For, Show, createMemo, createResource, createSignal, onCleanup, onMount } from 'solid-js';
 import * as Y from 'yjs';
 import {
   addCode, addExample, addInVivoCode, addMemo, addSegment, correctText, createUndoManager, getSegmentsMap,
   recheckSegment, recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments, reconcileLayer, withOrigin, proposeCode,
-  getText, listMemos, MEMOS_ROOT, PROPOSALS_ROOT, DISTINCT_MARKS, turnIndexAt,
+  getText, listMemos, MEMOS_ROOT, PROPOSALS_ROOT, DISTINCT_MARKS, turnIndexAt, passageAttachment, resolvePassage, getMemo,
 } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -24,6 +24,8 @@ import { decide, refusedMessage, savedMessage, undoMessage, type CodingAction } 
 import { WhoseCoding } from './WhoseCoding.js';
 import { useSeenCodes } from '../../ui/seen-codes.js';
 import { diff } from '../../ui/ytext-binding.js';
+import { api } from '../../api/client.js';
+import { NotesHere } from './NotesHere.js';
 
 export interface CodingViewProps {
   studyId: string;
@@ -36,6 +38,8 @@ export interface CodingViewProps {
   me: Me;
   /** Open with this segment chosen and in view ("go to the passage" from a memo or jotting). */
   goToSegment?: string | undefined;
+  /** Open with this memo's or jotting's passage chosen and in view. */
+  goToMemo?: string | undefined;
 }
 
 export function CodingView(props: CodingViewProps) {
@@ -91,6 +95,20 @@ export function CodingView(props: CodingViewProps) {
     }
     return m;
   });
+  // jottings and memos anchored to words that are not a segment, where those words are now
+  const passages = createMemo(() => {
+    memosV();
+    state.words();
+    const out: Array<{ id: string; start: number; end: number }> = [];
+    for (const memo of listMemos(props.memos.doc, { textId: props.textId, attachedKind: 'text' })) {
+      const r = resolvePassage(props.text.doc, props.textId, memo.attachedTo);
+      if (r) out.push({ id: memo.id, ...r });
+    }
+    return out;
+  });
+  const [chosenNote, setChosenNote] = createSignal<string | null>(null);
+  const [members] = createResource(() => props.studyId, (id) => api.members(id).catch(() => []));
+  const nameOf = (id: string) => (id === props.me.id ? 'you' : members()?.find((m) => m.userId === id)?.name ?? props.layers.find((l) => l.coderId === id)?.name ?? 'someone');
   const recent = useRecentCodes(props.studyId);
   const seen = useSeenCodes(props.studyId, props.me.id);
   const presence = useTextPresence(props.text, props.me);
@@ -111,6 +129,7 @@ export function CodingView(props: CodingViewProps) {
   void Promise.all([props.codebook.whenReady, ...props.layers.map((l) => l.doc.whenReady)]).then(() => {
     setLayersIn(true);
     if (props.goToSegment) requestAnimationFrame(() => goTo(props.goToSegment!));
+    if (props.goToMemo) void props.memos.whenReady.then(() => requestAnimationFrame(() => goToNote(props.goToMemo!)));
     requestAnimationFrame(() => performance.mark('gloss:layers-drawn'));
   });
   let searchInput: HTMLInputElement | undefined;
@@ -211,7 +230,7 @@ export function CodingView(props: CodingViewProps) {
     if (!s) return setMessage('Select some words first.');
     void act('code', `Coded ${label}.`, layerTarget(), () => {
       const id = addSegment(mine!.doc.doc, props.text.doc, { codeId, start: s.start, end: s.end });
-      setChosen(id);
+      chooseSegment(id);
     });
     recent.use(codeId);
     backToText();
@@ -230,7 +249,7 @@ export function CodingView(props: CodingViewProps) {
         : addInVivoCode(props.codebook.doc, words, { by: props.me.id });
       const id = addSegment(mine!.doc.doc, props.text.doc, { codeId, start: s.start, end: s.end });
       recent.use(codeId);
-      setChosen(id);
+      chooseSegment(id);
     });
   };
 
@@ -238,19 +257,60 @@ export function CodingView(props: CodingViewProps) {
     const s = sel();
     const seg = chosenSeg();
     const quote = s ? state.words().slice(s.start, s.end) : seg?.quote ?? '';
-    void act('jot', 'Jotting added to the memos.', memosTarget(), () =>
-      void addMemo(props.memos.doc, {
+    // on my chosen segment when no other words are selected (or exactly its words); otherwise on the
+    // selected words themselves, anchored like a segment, so the jotting is marked where it was made
+    const onSegment = seg && seg.coderId === mine?.coderId && (!s || (s.start === seg.start && s.end === seg.end));
+    const words = s ?? (seg && !seg.orphaned ? { start: seg.start, end: seg.end } : null);
+    let made: string | undefined;
+    void act('jot', 'Jotting added to the memos.', memosTarget(), () => {
+      made = addMemo(props.memos.doc, {
         kind: 'jotting',
         author: props.me.id,
         title: quote ? `On “${quote.slice(0, 60)}${quote.length > 60 ? '…' : ''}”` : 'Jotting',
         body,
-        // on the chosen segment only when no other words are selected (the selection is what the jotting is about)
-        attachedTo: seg && seg.coderId === mine?.coderId && (!s || (s.start >= seg.start && s.end <= seg.end)) ? { kind: 'segment', textId: props.textId, segmentId: seg.id } : { kind: 'text', textId: props.textId },
-      }),
-    );
+        attachedTo: onSegment ? { kind: 'segment', textId: props.textId, segmentId: seg.id } : words ? passageAttachment(props.text.doc, props.textId, words.start, words.end) : { kind: 'text', textId: props.textId },
+      });
+    }).then((kept) => {
+      // the new jotting shows beside its words, with its replies, once the server kept it
+      if (kept && made && !onSegment) chooseNote(made);
+    });
     setJotting(null);
     backToText();
   };
+
+  const chooseSegment = (id: string | null) => {
+    setChosen(id);
+    setChosenNote(null);
+  };
+  let sideEl: HTMLElement | undefined;
+  const chooseNote = (id: string | null) => {
+    setChosenNote(id);
+    setChosen(null);
+    // the notes sit below the code list: bring them into the side panel's view
+    if (id) requestAnimationFrame(() => sideEl?.querySelector('[data-testid="notes-here"]')?.scrollIntoView({ block: 'nearest' }));
+  };
+  /** Go to the passage of a memo or jotting: its segment, or the words it is anchored to. */
+  const goToNote = (memoId: string) => {
+    let a;
+    try {
+      a = getMemo(props.memos.doc, memoId).attachedTo;
+    } catch {
+      return setMessage('That memo or jotting is no longer in the memos.');
+    }
+    if (a.kind === 'segment') return goTo(a.segmentId);
+    const r = resolvePassage(props.text.doc, props.textId, a);
+    if (!r) return setMessage('The words that jotting was on are no longer in the text.');
+    chooseNote(memoId);
+    if (transcriptEl) rangeFor(transcriptEl, r.start, r.end)?.startContainer.parentElement?.scrollIntoView({ block: 'center' });
+  };
+  // what the notes panel shows: the chosen anchored jotting, or the jottings and memos on the chosen segment
+  const notesHere = createMemo(() => {
+    memosV();
+    const n = chosenNote();
+    if (n) return listMemos(props.memos.doc, { textId: props.textId }).filter((m) => m.id === n);
+    const seg = chosenSeg();
+    return seg ? listMemos(props.memos.doc, { textId: props.textId, segmentId: seg.id }) : [];
+  });
 
   const resize = (edge: 'start' | 'end', dir: 1 | -1) => {
     const seg = chosenSeg();
@@ -263,7 +323,7 @@ export function CodingView(props: CodingViewProps) {
   };
 
   const goTo = (segmentId: string) => {
-    setChosen(segmentId);
+    chooseSegment(segmentId);
     const s = state.segments().find((x) => x.id === segmentId);
     if (s && transcriptEl) rangeFor(transcriptEl, s.start, s.end)?.startContainer.parentElement?.scrollIntoView({ block: 'center' });
   };
@@ -291,14 +351,14 @@ export function CodingView(props: CodingViewProps) {
         if (!seg) { setMessage('Choose a segment first ([ and ] step through them).'); break; }
         if (!chosenIsMine()) { setMessage(can('remove').allowed ? 'Not saved: you can only remove your own segments.' : (can('remove') as { message: string }).message); break; }
         void act('remove', `Removed the segment coded “${state.codeById().get(seg.codeId)?.label ?? ''}”.`, layerTarget(), () => removeSegment(mine!.doc.doc, seg.id));
-        setChosen(null);
+        chooseSegment(null);
         break;
       }
       case 'recode': { const d = can('recode'); if (!d.allowed) { setMessage(d.message); break; } if (chosenIsMine()) { setPickerMode('recode'); searchInput?.focus(); } break; }
       case 'note': { const d = can('note'); if (!d.allowed) { setMessage(d.message); break; } if (chosenIsMine()) noteInput?.focus(); break; }
       case 'undo': undoStep('undo'); break;
       case 'redo': undoStep('redo'); break;
-      case 'clear': setSelection(null); setChosen(null); setPickerMode('apply'); document.getSelection()?.removeAllRanges(); break;
+      case 'clear': setSelection(null); chooseSegment(null); setPickerMode('apply'); document.getSelection()?.removeAllRanges(); break;
       case 'resize': { const d = can('resize'); if (!d.allowed) { setMessage(d.message); break; } resize(c.edge, c.dir); break; }
       case 'keys': setKeysOpen((o) => !o); break;
       case 'select-turn': case 'select-sentence': {
@@ -389,14 +449,17 @@ export function CodingView(props: CodingViewProps) {
           selection={selection}
           setSelection={setSelection}
           selectedSegment={chosen}
-          selectSegment={(id) => setChosen(id)}
+          selectSegment={chooseSegment}
           remote={presence.remote}
           jottings={jottingsBySegment}
+          passages={passages}
+          chosenPassage={chosenNote}
+          choosePassage={chooseNote}
           onReady={() => setReady(true)}
           ref={(el) => (transcriptEl = el)}
         />
       </div>
-      <aside class="coding-side" aria-label="Coding panel">
+      <aside class="coding-side" aria-label="Coding panel" ref={sideEl}>
         <Show when={mine && codingAllowed()} fallback={<p class="muted" data-testid="read-only-note">{mine ? 'You may read this text and the coding shown; your role does not code.' : 'You have no layer on this text: you can read it and the coding shown.'}</p>}>
           <CodePicker
             codes={state.codes()}
@@ -455,6 +518,9 @@ export function CodingView(props: CodingViewProps) {
               noteRef={(el) => (noteInput = el)}
             />
           )}
+        </Show>
+        <Show when={notesHere().length > 0}>
+          <NotesHere on={chosenNote() ? 'these words' : 'this segment'} notes={notesHere()} mm={props.memos} me={props.me} nameOf={nameOf} version={memosV} mayReply={allowed('reply')} />
         </Show>
         <FlagList flags={state.flags()} codes={state.codeById()} onGo={(f) => f.segmentIds[0] && goTo(f.segmentIds[0])} />
         <section aria-labelledby="layers-h">

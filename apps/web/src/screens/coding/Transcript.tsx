@@ -36,6 +36,10 @@ export interface TranscriptProps {
   remote: Accessor<RemoteCaret[]>;
   /** Jottings in the memos attached to each segment, by segment id (each shows a mark on the segment's name). */
   jottings?: Accessor<Map<string, number>>;
+  /** Jottings and memos anchored to words that are not a segment, where those words are now. */
+  passages?: Accessor<Passage[]>;
+  chosenPassage?: Accessor<string | null>;
+  choosePassage?: (memoId: string) => void;
   onReady?: () => void;
   ref?: (el: HTMLElement) => void;
 }
@@ -44,6 +48,9 @@ export interface TranscriptProps {
 export function initials(name: string): string {
   return name.replace(/\(.*?\)/g, '').split(/\s+/).filter(Boolean).map((w) => w[0]!.toUpperCase()).join('').slice(0, 3);
 }
+
+export interface Passage { id: string; start: number; end: number }
+const NO_PASSAGES: Passage[] = [];
 
 const KEYS: Record<string, Move> = { ArrowRight: 'word-right', ArrowLeft: 'word-left', ArrowDown: 'turn-down', ArrowUp: 'turn-up', Home: 'turn-start', End: 'turn-end' };
 
@@ -126,6 +133,16 @@ export function Transcript(props: TranscriptProps) {
     return m;
   });
   const segById = createMemo(() => new Map(props.state.segments().map((s) => [s.id, s])));
+  // anchored jottings, listed under the turn where their words begin
+  const passagesByTurn = createMemo(() => {
+    const m = new Map<number, Passage[]>();
+    const turns = props.state.turns();
+    for (const p of props.passages?.() ?? []) {
+      const t = Math.max(0, turnIndexAt(turns, p.start));
+      m.set(t, [...(m.get(t) ?? []), p]);
+    }
+    return m;
+  });
 
   const chosenStyle = document.createElement('style');
   document.head.append(chosenStyle);
@@ -148,12 +165,19 @@ export function Transcript(props: TranscriptProps) {
       const r = rangeFor(root, c.start, c.end);
       if (r) byColour.set(c.colour, [...(byColour.get(c.colour) ?? []), r]);
     }
+    // jottings' words: a dotted line over them (codes are under the words), the chosen one tinted too
+    const notes = props.passages?.() ?? [];
+    const noteRanges = (list: Passage[]) => list.map((p) => rangeFor(root, p.start, p.end)).filter((r): r is Range => r !== null);
+    reg.set('gloss-jotting', new H(...noteRanges(notes)));
+    reg.set('gloss-jotting-chosen', new H(...noteRanges(notes.filter((p) => p.id === props.chosenPassage?.()))));
     for (let i = 0; i < 7; i++) reg.delete(`gloss-p${i}`);
     [...byColour.values()].slice(0, 7).forEach((rs, i) => reg.set(`gloss-p${i}`, new H(...rs)));
   };
   createEffect(() => {
     props.selectedSegment();
     props.remote();
+    props.passages?.();
+    props.chosenPassage?.();
     shown();
     props.state.words();
     queueMicrotask(paint);
@@ -263,6 +287,8 @@ export function Transcript(props: TranscriptProps) {
       }}
       onMouseLeave={() => setTip(null)}
       onClick={(e) => {
+        const j = (e.target as HTMLElement).closest<HTMLElement>('[data-jot]');
+        if (j) return props.choosePassage?.(j.dataset.jot!);
         const b = (e.target as HTMLElement).closest<HTMLElement>('[data-id]');
         if (b) props.selectSegment(b.dataset.id!);
       }}
@@ -280,6 +306,9 @@ export function Transcript(props: TranscriptProps) {
             selected={props.selectedSegment}
             cursor={() => cursorTurn() === i}
             notesOf={(id) => ({ note: !!segById().get(id)?.note, jottings: props.jottings?.().get(id) ?? 0 })}
+            passages={() => passagesByTurn().get(i) ?? NO_PASSAGES}
+            chosenPassage={() => props.chosenPassage?.() ?? null}
+            wordsOf={(p) => props.state.words().slice(p.start, p.end)}
             watch={watch}
             measure={measure}
             codes={props.state.codeById}
@@ -330,6 +359,9 @@ function TurnRow(props: {
   /** The keyboard cursor is in this turn. */
   cursor: Accessor<boolean>;
   notesOf: (segmentId: string) => { note: boolean; jottings: number };
+  passages: Accessor<Passage[]>;
+  chosenPassage: Accessor<string | null>;
+  wordsOf: (p: Passage) => string;
   watch: (el: Element, set: (v: boolean) => void) => void;
   measure: MeasureQueue;
   codes: Accessor<Map<string, CodeView>>;
@@ -409,7 +441,7 @@ function TurnRow(props: {
             }}
           </For>
         </div>
-        <Show when={near() && applied().length > 0}>
+        <Show when={near() && (applied().length > 0 || props.passages().length > 0)}>
           <ul class="turn-codes" aria-label="Codes applied in this turn" data-testid="turn-codes">
             <For each={applied()}>
               {(b) => (
@@ -426,6 +458,16 @@ function TurnRow(props: {
                     <Show when={props.coderTag(b.layer)}><span class="code-chip-coder">{props.coderTag(b.layer)}</span></Show>
                     <Show when={props.notesOf(b.id).note}><span class="note-mark" title="This segment has a note" data-testid="note-mark">✎<span class="sr-only"> has a note</span></span></Show>
                     <Show when={props.notesOf(b.id).jottings > 0}><span class="note-mark" title="Jottings on this segment in the memos" data-testid="jotting-mark">✉{props.notesOf(b.id).jottings}<span class="sr-only"> jottings</span></span></Show>
+                  </button>
+                </li>
+              )}
+            </For>
+            <For each={props.passages()}>
+              {(p) => (
+                <li>
+                  <button type="button" class="jot-chip" classList={{ chosen: props.chosenPassage() === p.id }} data-jot={p.id} aria-pressed={props.chosenPassage() === p.id} data-testid="jotting-chip"
+                    title={`Jotting on “${props.wordsOf(p)}”`}>
+                    <span aria-hidden="true">✉</span> jotting<span class="sr-only"> on “{props.wordsOf(p)}”</span>
                   </button>
                 </li>
               )}

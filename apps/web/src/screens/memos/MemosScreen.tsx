@@ -3,13 +3,12 @@
  * and reply: each memo's replies show as a thread under it (a reply is an entry of its writer's own).
  */
 import { For, Show, createMemo, createResource, createSignal, onCleanup, onMount } from 'solid-js';
-import * as Y from 'yjs';
 import {
-  addMemo, addReply, getCodes, getMemoBody, listMemos, listReplies, MEMOS_ROOT, promoteJotting, removeMemo, searchMemos,
+  addMemo, getCodes, getMemoBody, listMemos, promoteJotting, removeMemo, searchMemos,
   type MemoAttachment, type MemoView,
 } from '@gloss/model';
-import { errorMessage } from '../../api/errors.js';
-import { decide, refusedMessage, savedMessage } from '../coding/coding-actions.js';
+import { decide } from '../coding/coding-actions.js';
+import { Thread } from './MemoThread.js';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
@@ -56,7 +55,7 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
   const where = (a: MemoAttachment) => {
     switch (a.kind) {
       case 'study': return 'the study';
-      case 'text': return `text “${texts()?.find((t) => t.id === a.textId)?.title ?? 'a text'}”`;
+      case 'text': return `${a.start ? 'words in ' : ''}text “${texts()?.find((t) => t.id === a.textId)?.title ?? 'a text'}”`;
       case 'segment': return `a segment in “${texts()?.find((t) => t.id === a.textId)?.title ?? 'a text'}”`;
       case 'code': return `code “${codes().find((c) => c.id === a.codeId)?.label ?? 'a code'}”`;
     }
@@ -103,7 +102,7 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
                 </Show>
                 <div class="row">
                   <Show when={m().attachedTo.kind === 'segment' || m().attachedTo.kind === 'text' ? m().attachedTo : undefined}>
-                    {(a) => <a class="button-link" href={href({ name: 'coding', studyId: props.studyId, textId: (a() as { textId: string }).textId, ...('segmentId' in a() ? { segmentId: (a() as { segmentId: string }).segmentId } : {}) })}>Go to the passage</a>}
+                    {(a) => <a class="button-link" href={href({ name: 'coding', studyId: props.studyId, textId: (a() as { textId: string }).textId, ...('segmentId' in a() ? { segmentId: (a() as { segmentId: string }).segmentId } : 'start' in a() ? { memoId: m().replyTo ?? m().id } : {}) })}>Go to the passage</a>}
                   </Show>
                   <button type="button" class="quiet" onClick={() => setOpen(open() === m().id ? null : m().id)} aria-expanded={open() === m().id}>{open() === m().id ? 'Close' : m().author === props.me.id ? 'Open and edit' : 'Read'}</button>
                   <Show when={m().author === props.me.id && m().kind === 'jotting'}>
@@ -153,78 +152,4 @@ function MemoBody(props: { memo: MemoView; doc: OpenDoc['doc']; mine: boolean })
   let el!: HTMLTextAreaElement;
   onMount(() => onCleanup(bindField(el, getMemoBody(props.doc, props.memo.id), { readOnly: !props.mine })));
   return <label>Body <textarea ref={el} rows="8" class="memo-editor" /></label>;
-}
-
-/**
- * The replies under one memo, and a Reply form for those who may write memos. What it says comes
- * from the server's answer: "Saved." once the server kept the reply, its refusal in words otherwise
- * (the reply is then taken back here), as in the coding view.
- */
-function Thread(props: { memo: MemoView; mm: OpenDoc; me: Me; nameOf: (id: string) => string; version: () => unknown; mayReply: boolean }) {
-  const doc = props.mm.doc;
-  const replies = createMemo(() => {
-    props.version();
-    return listReplies(doc, props.memo.id);
-  });
-  const [draft, setDraft] = createSignal<string | null>(null);
-  const [said, setSaid] = createSignal('');
-  let input: HTMLTextAreaElement | undefined;
-  const what = props.memo.kind === 'jotting' ? 'jotting' : 'memo';
-
-  const send = async () => {
-    const body = draft() ?? '';
-    // only this change is taken back if the server refuses it
-    const takeBack = new Y.UndoManager([doc.getMap(MEMOS_ROOT)], { trackedOrigins: new Set([null]), captureTimeout: 0 });
-    try {
-      addReply(doc, props.memo.id, { author: props.me.id, body });
-    } catch (err) {
-      takeBack.destroy();
-      setSaid(`Not done: ${errorMessage(err)}`);
-      return;
-    }
-    takeBack.trackedOrigins.delete(null);
-    setDraft(null);
-    setSaid('Reply added. Sending…');
-    const answer = await props.mm.confirm();
-    if (answer.outcome === 'refused') {
-      takeBack.undo();
-      setSaid(refusedMessage(answer.reason));
-    } else setSaid(savedMessage('Reply added.', answer.outcome));
-    takeBack.destroy();
-  };
-
-  return (
-    <div class="memo-thread">
-      <Show when={replies().length > 0}>
-        <ul class="replies" aria-label={`Replies to this ${what}`}>
-          <For each={replies()}>
-            {(r) => (
-              <li class="reply" data-testid="memo-reply">
-                <span class="muted">{props.nameOf(r.author)}, {new Date(r.createdAt).toLocaleString()}:</span>
-                <p class="memo-body">{r.body}</p>
-                <Show when={r.author === props.me.id}>
-                  <button type="button" class="quiet" onClick={() => {
-                    if (!confirm('Delete your reply?')) return;
-                    try { removeMemo(doc, r.id); setSaid('Reply deleted.'); } catch (err) { setSaid(`Not done: ${errorMessage(err)}`); }
-                  }}>Delete reply</button>
-                </Show>
-              </li>
-            )}
-          </For>
-        </ul>
-      </Show>
-      <Show when={props.mayReply}>
-        <Show when={draft() !== null} fallback={
-          <button type="button" class="quiet" onClick={() => { setDraft(''); setSaid(''); queueMicrotask(() => input?.focus()); }}>Reply</button>
-        }>
-          <form class="inline-form" aria-label={`Reply to this ${what}`} onSubmit={(e) => { e.preventDefault(); void send(); }}>
-            <label>Your reply <textarea ref={input} rows="2" value={draft()!} onInput={(e) => setDraft(e.currentTarget.value)} required /></label>
-            <button type="submit">Send reply</button>
-            <button type="button" class="quiet" onClick={() => setDraft(null)}>Cancel</button>
-          </form>
-        </Show>
-      </Show>
-      <Show when={said()}><p class="progress" role="status" data-testid="reply-message">{said()}</p></Show>
-    </div>
-  );
 }
