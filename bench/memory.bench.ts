@@ -35,22 +35,34 @@ interface Child {
   stop(): Promise<void>;
 }
 
+/** `gloss serve` on a port of its own choosing (PORT=0), ready once it prints its listening line. */
 async function serve(env: Record<string, string>, args: string[] = []): Promise<Child> {
-  const port = 19_400 + Math.floor(Math.random() * 400);
   const proc = spawn(process.execPath, ['--import', 'tsx', join(root, 'apps/cli/src/main.ts'), 'serve', ...args], {
     cwd: root,
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', LOG_LEVEL: 'warn', ...env },
-    stdio: ['ignore', 'ignore', 'inherit'],
+    env: { ...process.env, PORT: '0', HOST: '127.0.0.1', LOG_LEVEL: 'warn', ...env },
+    stdio: ['ignore', 'pipe', 'inherit'],
   });
-  const url = `http://127.0.0.1:${port}`;
-  const deadline = Date.now() + 600_000;
-  for (;;) {
-    if (proc.exitCode !== null) throw new Error(`server exited (${proc.exitCode})`);
-    const ok = await fetch(`${url}/api/health`).then((r) => r.status === 200, () => false);
-    if (ok) break;
-    if (Date.now() > deadline) throw new Error('server not ready in 10 minutes');
-    await new Promise((r) => setTimeout(r, 500));
-  }
+  const url = await new Promise<string>((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error('server not listening in 10 minutes')), 600_000);
+    let buffer = '';
+    proc.stdout!.on('data', (chunk: Buffer) => {
+      buffer += chunk.toString('utf8');
+      for (const line of buffer.split('\n')) {
+        if (!line.startsWith('{')) continue;
+        try {
+          const event = JSON.parse(line) as { event?: string; url?: string };
+          if (event.event === 'listening' && event.url) {
+            clearTimeout(timer);
+            resolve(event.url.replace('localhost', '127.0.0.1'));
+          }
+        } catch {
+          // a partial line: wait for the rest
+        }
+      }
+    });
+    proc.once('exit', (code) => reject(new Error(`server exited (${code}) before listening`)));
+  });
+  proc.stdout!.resume();
   return {
     proc,
     url,
