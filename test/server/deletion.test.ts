@@ -7,7 +7,7 @@
  */
 import {
   auditLog, documents, eq, projectedAttributes, projectedCaseTexts, projectedCaseValues, projectedCases,
-  projectedCodes, projectedMemos, projectedSegments, pseudonymKeyExports, pseudonyms, retiredDocuments, roundDone, roundParticipants,
+  projectedCodes, projectedMemos, projectedSegments, projectionState, pseudonymKeyExports, pseudonyms, retiredDocuments, roundDone, roundParticipants,
   roundReading, roundTexts, rounds, segmentComments, snapshots, supervisionSettings, textAssignments, textReferences, updates, versions, type Db,
 } from '@gloss/db';
 import WebSocket from 'ws';
@@ -51,6 +51,7 @@ async function fillEveryTable(db: Db, seed: BasicSeed): Promise<string[]> {
   await db.insert(versions).values({ docId: textRoom, name: 'as imported', snapshot: new Uint8Array([0, 0]) });
   const now = new Date();
   await db.insert(projectedSegments).values({ layerDocId: layer!.id, id: 's1', studyId, textId, coderId: users.coder.id, codeId: 'c1', start: 0, end: 5, quote: 'words', orphaned: false, createdAt: now });
+  await db.insert(projectionState).values({ docId: layer!.id, seq: 0, textSeq: 0 }).onConflictDoNothing();
   await db.insert(projectedCodes).values({ studyId, id: 'c1', label: 'Borrowing', status: 'active', type: 'data-driven', briefDefinition: '', fullDefinition: '', inclusion: '', exclusion: '', colour: '#000000', inVivo: false, createdAt: now });
   await db.insert(projectedMemos).values({ studyId, id: 'm1', author: users.coder.id, kind: 'memo', attachedKind: 'study', title: 'First thoughts', body: 'words', createdAt: now, updatedAt: now });
   await db.insert(projectedCases).values({ studyId, id: 'p01', name: 'P01', kind: 'participant' });

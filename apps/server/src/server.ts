@@ -151,7 +151,10 @@ export async function startServer(
       prepared();
     }
     // After the start-up step, so documents it wrote without the store (the demo's) are projected too.
-    scheduleCatchUp(database.db, projector).catch((err: unknown) => logger.warn({ err }, 'projection catch-up could not start'));
+    // Only documents whose log moved past their projection are noted (projection/catch-up.ts).
+    scheduleCatchUp(database.db, projector)
+      .then((behind) => logger.info({ documents: behind }, 'projection catch-up noted documents behind their log'))
+      .catch((err: unknown) => logger.warn({ err }, 'projection catch-up could not start'));
 
     const sweep = setInterval(() => {
       sessions.deleteExpired().catch((err: unknown) => logger.warn({ err }, 'expired-session sweep failed'));

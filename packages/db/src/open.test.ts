@@ -25,6 +25,25 @@ describe('openDatabase', () => {
     }
   });
 
+  it("runs PGlite with the memory settings chosen for it, and a caller's own settings instead when given", async () => {
+    const folder = await freshPgliteDir();
+    const show = async (settings?: string[]) => {
+      const database = await openDatabase({ dataDir: folder.dir, ...(settings ? { pgliteSettings: settings } : {}) });
+      try {
+        const rows = await database.db.execute('show shared_buffers');
+        return (rows as unknown as { rows: Array<{ shared_buffers: string }> }).rows[0]!.shared_buffers;
+      } finally {
+        await database.close();
+      }
+    };
+    try {
+      expect(await show()).toBe('16MB');
+      expect(await show(['shared_buffers=32MB'])).toBe('32MB');
+    } finally {
+      folder.remove();
+    }
+  }, 120_000);
+
   it('fails with a typed error on an unreachable PostgreSQL', async () => {
     const err = await openDatabase({ databaseUrl: 'postgres://nobody@127.0.0.1:1/none' }).catch((x: unknown) => x);
     expect(err).toBeInstanceOf(DatabaseError);

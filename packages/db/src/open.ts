@@ -28,7 +28,19 @@ export interface OpenOptions {
   dataDir?: string;
   /** Connection pool size for PostgreSQL (default 10). */
   maxConnections?: number;
+  /** PGlite server settings (`name=value`), replacing PGLITE_MEMORY_SETTINGS. */
+  pgliteSettings?: readonly string[];
 }
+
+/**
+ * PGlite keeps PostgreSQL's memory defaults (shared_buffers 128 MB among them), all inside the one
+ * WebAssembly memory of this process, which never shrinks. Measured on the demo right after start
+ * (issue 11): resident 491 MB with the defaults, 381 MB with these; `relaxedDurability` (532 MB),
+ * glibc's MALLOC_ARENA_MAX=2 (513 MB), lazy WebAssembly compilation (488 MB) and shared_buffers 8 MB
+ * (386 MB) gave nothing more; the rest is mostly PGlite's initial 128 MB WebAssembly memory and code. A
+ * study's working set is far smaller than 16 MB of pages, and the operating system caches the files.
+ */
+export const PGLITE_MEMORY_SETTINGS: readonly string[] = ['shared_buffers=16MB', 'work_mem=1MB', 'maintenance_work_mem=8MB', 'temp_buffers=1MB'];
 
 export interface Database {
   db: Db;
@@ -51,14 +63,17 @@ const lockId = (key: string) => sql`hashtextextended(${key}, 0)`;
 const MIGRATION_LOCK = 'gloss:migrate';
 
 export async function openDatabase(options: OpenOptions = {}): Promise<Database> {
-  return options.databaseUrl ? openPostgres(options.databaseUrl, options.maxConnections ?? 10) : openPglite(options.dataDir);
+  return options.databaseUrl
+    ? openPostgres(options.databaseUrl, options.maxConnections ?? 10)
+    : openPglite(options.dataDir, options.pgliteSettings ?? PGLITE_MEMORY_SETTINGS);
 }
 
-async function openPglite(dataDir: string | undefined): Promise<Database> {
+async function openPglite(dataDir: string | undefined, settings: readonly string[]): Promise<Database> {
   let client: PGlite;
   try {
     if (dataDir) mkdirSync(dataDir, { recursive: true });
-    client = await PGlite.create(dataDir ? { dataDir } : {});
+    const startParams = [...PGlite.defaultStartParams, ...settings.flatMap((s) => ['-c', s])];
+    client = await PGlite.create({ ...(dataDir ? { dataDir } : {}), startParams });
   } catch (cause) {
     throw new DatabaseError('db_open_failed', `cannot open PGlite data folder ${dataDir ?? '(memory)'}: ${String(cause)}`, { cause });
   }

@@ -4,7 +4,7 @@
  * each change, so they may lag the documents by about a second and are never written by clients.
  * Ids of codes, segments, memos, cases and attributes are the model's string ids, not uuids.
  */
-import { boolean, index, integer, jsonb, pgTable, primaryKey, text, timestamp, uuid } from 'drizzle-orm/pg-core';
+import { bigint, boolean, index, integer, jsonb, pgTable, primaryKey, text, timestamp, uuid } from 'drizzle-orm/pg-core';
 import { documents, studies, texts, users } from './schema.js';
 
 const studyRef = () =>
@@ -129,6 +129,22 @@ export const projectedCaseTexts = pgTable(
   },
   (t) => [primaryKey({ columns: [t.studyId, t.caseId, t.textId] }), index('case_texts_text_idx').on(t.textId)],
 );
+
+/**
+ * How far each layer, codebook and memos document has been projected: the highest update-log sequence
+ * number its rows reflect (0 for a document that is only its first snapshot) and, for a layer, the same
+ * for its text's document (a correction moves the layer's offsets and quotes). Written in the
+ * transaction that writes the rows, so the two never disagree; a node's start projects only documents
+ * whose log has moved past it (projection/catch-up.ts).
+ */
+export const projectionState = pgTable('projection_state', {
+  docId: uuid('doc_id')
+    .primaryKey()
+    .references(() => documents.id, { onDelete: 'cascade' }),
+  seq: bigint('seq', { mode: 'number' }).notNull(),
+  textSeq: bigint('text_seq', { mode: 'number' }),
+  projectedAt: ms('projected_at').notNull().defaultNow(),
+});
 
 export type ProjectedSegmentRow = typeof projectedSegments.$inferInsert;
 export type ProjectedCodeRow = typeof projectedCodes.$inferInsert;

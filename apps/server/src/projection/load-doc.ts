@@ -4,21 +4,29 @@ import type { UpdateStore } from '../sync/contracts.js';
 
 export type DocLoader = Pick<UpdateStore, 'load'>;
 
-export async function loadDoc(store: DocLoader, docId: string): Promise<Y.Doc> {
-  const { updates } = await store.load(docId);
+/** The document and the highest log sequence number its state includes. */
+export async function loadDocAt(store: DocLoader, docId: string): Promise<{ doc: Y.Doc; seq: number }> {
+  const { updates, seq } = await store.load(docId);
   const doc = new Y.Doc({ gc: false });
   doc.transact(() => {
     for (const u of updates) Y.applyUpdate(doc, u);
   });
-  return doc;
+  return { doc, seq };
 }
 
-/** Loads several documents; destroys them all after `fn` (also when it throws). */
-export async function withDocs<T>(store: DocLoader, ids: readonly string[], fn: (docs: Y.Doc[]) => T | Promise<T>): Promise<T> {
-  const docs = await Promise.all(ids.map((id) => loadDoc(store, id)));
+export async function loadDoc(store: DocLoader, docId: string): Promise<Y.Doc> {
+  return (await loadDocAt(store, docId)).doc;
+}
+
+/** Loads several documents; destroys them all after `fn` (also when it throws). `seqs[i]` is docs[i]'s. */
+export async function withDocs<T>(store: DocLoader, ids: readonly string[], fn: (docs: Y.Doc[], seqs: number[]) => T | Promise<T>): Promise<T> {
+  const loaded = await Promise.all(ids.map((id) => loadDocAt(store, id)));
   try {
-    return await fn(docs);
+    return await fn(
+      loaded.map((l) => l.doc),
+      loaded.map((l) => l.seq),
+    );
   } finally {
-    for (const d of docs) d.destroy();
+    for (const l of loaded) l.doc.destroy();
   }
 }

@@ -13,6 +13,7 @@ import {
   projectedCodes,
   projectedMemos,
   projectedSegments,
+  projectionState,
 } from '@gloss/db';
 import { readTurns } from '@gloss/model';
 import { and, eq, inArray, sql } from 'drizzle-orm';
@@ -31,9 +32,9 @@ export async function projectDocument(db: Db, store: DocLoader, docId: string): 
     case 'layer':
       return projectLayers(db, store, doc);
     case 'codebook':
-      return withDocs(store, [doc.id], ([cb]) => writeCodebook(db, doc.studyId, cb!));
+      return withDocs(store, [doc.id], ([cb], [seq]) => writeCodebook(db, doc.studyId, cb!, { docId: doc.id, seq: seq!, textSeq: null }));
     case 'memos':
-      return withDocs(store, [doc.id], ([m]) => writeMemos(db, doc.studyId, m!));
+      return withDocs(store, [doc.id], ([m], [seq]) => writeMemos(db, doc.studyId, m!, { docId: doc.id, seq: seq!, textSeq: null }));
   }
 }
 
@@ -43,7 +44,7 @@ async function projectLayers(db: Db, store: DocLoader, doc: DocumentRow): Promis
   const textDocRow = docsOfText.find((d) => d.kind === 'text');
   if (!textDocRow) return;
   const layers = doc.kind === 'layer' ? [doc] : docsOfText.filter((d) => d.kind === 'layer');
-  await withDocs(store, [textDocRow.id, ...layers.map((l) => l.id)], async ([textDoc, ...layerDocs]) => {
+  await withDocs(store, [textDocRow.id, ...layers.map((l) => l.id)], async ([textDoc, ...layerDocs], [textSeq, ...layerSeqs]) => {
     const turns = readTurns(textDoc!);
     const rows = layers.flatMap((l, i) =>
       segmentRows(textDoc!, layerDocs[i]!, { layerDocId: l.id, studyId: l.studyId, textId, coderId: l.coderId }, turns),
@@ -53,11 +54,28 @@ async function projectLayers(db: Db, store: DocLoader, doc: DocumentRow): Promis
       const ids = layers.map((l) => l.id);
       if (ids.length > 0) await tx.delete(projectedSegments).where(inArray(projectedSegments.layerDocId, ids));
       for (const chunk of chunks(rows)) await tx.insert(projectedSegments).values(chunk);
+      await recordState(tx, layers.map((l, i) => ({ docId: l.id, seq: layerSeqs[i]!, textSeq: textSeq! })));
     });
   });
 }
 
-async function writeCodebook(db: Db, studyId: string, cb: Y.Doc): Promise<void> {
+type StateRow = typeof projectionState.$inferInsert;
+type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
+
+/** Remembers what the rows just written reflect (catch-up.ts reads it at the next start). */
+async function recordState(tx: Tx, rows: StateRow[]): Promise<void> {
+  for (const chunk of chunks(rows)) {
+    await tx
+      .insert(projectionState)
+      .values(chunk)
+      .onConflictDoUpdate({
+        target: projectionState.docId,
+        set: { seq: sql`excluded.seq`, textSeq: sql`excluded.text_seq`, projectedAt: sql`now()` },
+      });
+  }
+}
+
+async function writeCodebook(db: Db, studyId: string, cb: Y.Doc, state: StateRow): Promise<void> {
   const codes = codeRows(cb, studyId);
   const c = caseRows(cb, studyId);
   await db.transaction(async (tx) => {
@@ -70,15 +88,17 @@ async function writeCodebook(db: Db, studyId: string, cb: Y.Doc): Promise<void> 
     for (const chunk of chunks(c.attributes)) await tx.insert(projectedAttributes).values(chunk);
     for (const chunk of chunks(c.values)) await tx.insert(projectedCaseValues).values(chunk);
     for (const chunk of chunks(c.texts)) await tx.insert(projectedCaseTexts).values(chunk);
+    await recordState(tx, [state]);
   });
 }
 
-async function writeMemos(db: Db, studyId: string, doc: Y.Doc): Promise<void> {
+async function writeMemos(db: Db, studyId: string, doc: Y.Doc, state: StateRow): Promise<void> {
   const rows = memoRows(doc, studyId);
   await db.transaction(async (tx) => {
     await lockFor(tx, `memos:${studyId}`);
     await tx.delete(projectedMemos).where(and(eq(projectedMemos.studyId, studyId)));
     for (const chunk of chunks(rows)) await tx.insert(projectedMemos).values(chunk);
+    await recordState(tx, [state]);
   });
 }
 

@@ -1,0 +1,85 @@
+/**
+ * Pure: resolved segments of the given layers plus each segment's flag kinds, in the shape
+ * `GET /api/texts/:id/segments` answers. The flags are computed over the layers of those counted as
+ * coders of the text (agreement/coders.ts: by default whoever applied a code; a round passes its
+ * participants), the same rule the agreement report uses. Layers outside rounds, a round's coder
+ * layers and a consensus layer are flagged each among their own kind: a coder's round layer and their
+ * own layer outside it are not two coders, nor duplicates of each other.
+ */
+import { computeFlags, listSegments, readTurns, resolveSegments, type Flag, type LayerSource } from '@gloss/model';
+import type * as Y from 'yjs';
+import { countedOn, decideCoders, type CoderChoice } from '../agreement/coders.js';
+import { comparedAs, type VisibleLayer } from '../http/text-layers.js';
+
+export interface SegmentOut {
+  id: string;
+  /** null: a segment of a round's consensus layer. */
+  coderId: string | null;
+  /** The layer's room, its round (null outside rounds) and kind. */
+  layer: string;
+  round: string | null;
+  kind: 'coder' | 'consensus';
+  codeId: string;
+  start: number;
+  end: number;
+  quote: string;
+  flags: string[];
+}
+
+/**
+ * The flags of one group of layers (`group` names it: '' for layers outside rounds, a round id, or
+ * `consensus:<layer>`). The default computes them afresh; the text cache (segments/text-cache.ts) keeps
+ * one live engine per group and refreshes it incrementally.
+ */
+export type GroupFlags = (group: string, layers: LayerSource[]) => Flag[];
+
+const cmp = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
+
+export function segmentsWithFlags(
+  textDoc: Y.Doc,
+  codebook: Y.Doc,
+  layers: Array<VisibleLayer & { doc: Y.Doc }>,
+  choice: CoderChoice = {},
+  groupFlags: GroupFlags = (_group, sources) => computeFlags({ textDoc, codebook, layers: sources }),
+): SegmentOut[] {
+  const turns = readTurns(textDoc);
+  const records = new Map(layers.map((l) => [l, listSegments(l.doc)]));
+  const groups = new Map<string, Array<VisibleLayer & { doc: Y.Doc }>>();
+  for (const l of layers) {
+    const key = l.coderId === null ? `consensus:${l.layerDocId}` : (l.roundId ?? '');
+    groups.set(key, [...(groups.get(key) ?? []), l]);
+  }
+  const flags = [...groups.entries()].flatMap(([key, group]) => {
+    const counted = countedOn(decideCoders([{ textId: '', layers: group.map((l) => ({ coderId: comparedAs(l), segments: records.get(l)!.length })) }], key === '' ? choice : {}), '');
+    const flagged = group.filter((l) => counted.includes(comparedAs(l)));
+    return groupFlags(key, flagged.map((l) => ({ layerId: l.layerDocId, coder: comparedAs(l), doc: l.doc })));
+  });
+  const kinds = new Map<string, Set<string>>();
+  for (const f of flags) {
+    for (const ref of f.segments) {
+      const key = `${ref.layerId}/${ref.segmentId}`;
+      let set = kinds.get(key);
+      if (!set) kinds.set(key, (set = new Set()));
+      set.add(f.kind);
+    }
+  }
+  const out: SegmentOut[] = [];
+  for (const l of layers) {
+    for (const s of resolveSegments(textDoc, records.get(l)!, turns)) {
+      if (s.unresolved) continue; // names text this server has not stored: nothing true to say about it
+      out.push({
+        id: s.id,
+        coderId: l.coderId,
+        layer: l.layerDocId,
+        round: l.roundId ?? null,
+        kind: l.coderId === null ? 'consensus' : 'coder',
+        codeId: s.codeId,
+        start: s.start,
+        end: s.end,
+        quote: s.quote,
+        flags: [...(kinds.get(`${l.layerDocId}/${s.id}`) ?? [])].sort(),
+      });
+    }
+  }
+  return out.sort((a, b) => a.start - b.start || a.end - b.end || cmp(a.coderId ?? '', b.coderId ?? '') || cmp(a.layer, b.layer) || cmp(a.id, b.id));
+}

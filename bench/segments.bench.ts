@@ -1,0 +1,232 @@
+/**
+ * How the cost of segments grows (issue 11 items 4 and 6): a heavily corrected 30,000-word text (6,000
+ * corrections after coding, ~17,000 Yjs items) with 5 layers of 200, 2,000 and 10,000 segments each
+ * (1k, 10k, 50k segments), stored on embedded PGlite behind the composed server.
+ * - `segments.resolve.<n>`: `resolveSegments` over all segments, cold (anchors decoded afresh) and warm;
+ *   reference: one-by-one `Y.createAbsolutePositionFromRelativePosition` on 1,000 of them, per segment.
+ * - `segments.flags.<n>`: every flag from scratch (FlagEngine) and after one text correction;
+ *   no outside reference.
+ * - `segments.route.<n>`: `GET /api/texts/:id/segments` over HTTP: first request (documents loaded from
+ *   the log), a repeat, after a new segment, after a text correction; reference: the route's work
+ *   before the text cache (documents loaded afresh + `segmentsWithFlags`), in the same process.
+ * Target: route < 100 ms, cold resolution <= 10 ms at 10k. Medians with min and max (the machine is
+ * shared; each record carries the 1-minute load average).
+ */
+import { mkdtempSync, rmSync } from 'node:fs';
+import { loadavg, tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { mulberry32 } from '@gloss/agreement';
+import { addCode, addExclusiveSet, addSegment, FlagEngine, getText, listSegments, resolveSegments, type Transcript } from '@gloss/model';
+import * as Y from 'yjs';
+import { admin, createPgUpdateStore, loadConfig, startServer } from '@gloss/server';
+import { loadDoc, withDocs } from '../apps/server/src/projection/load-doc.js';
+import { segmentsWithFlags } from '../apps/server/src/segments/with-flags.js';
+import type { UpdateStore } from '../apps/server/src/sync/contracts.js';
+
+const WORDS = ['the', 'ferry', 'winter', 'we', 'kept', 'going', 'because', 'my', 'mother', 'said', 'school', 'harbour', 'bread', 'neighbours', 'rota', 'council', 'bus', 'quiet', 'after', 'storm'];
+// SEGMENTS_SIZES=1000,10000 narrows the run (the 50k fixture takes minutes on a busy machine).
+const SIZES = (process.env.SEGMENTS_SIZES ?? '1000,10000,50000').split(',').map(Number);
+const note = (what: string) => process.stderr.write(`segments bench: ${what} (load ${loadavg()[0]!.toFixed(1)})\n`);
+const LAYERS = 5;
+const CORRECTIONS = 6_000;
+
+const r2 = (x: number) => Math.round(x * 100) / 100;
+function stats(ms: number[]) {
+  const s = [...ms].sort((a, b) => a - b);
+  return { medianMs: r2(s[Math.floor(s.length / 2)]!), minMs: r2(s[0]!), maxMs: r2(s.at(-1)!), runs: s.length };
+}
+function timeIt(fn: () => unknown): number {
+  const t0 = performance.now();
+  fn();
+  return performance.now() - t0;
+}
+const load1 = () => r2(loadavg()[0]!);
+
+function transcript(rand: () => number): Transcript {
+  return {
+    turns: Array.from({ length: 300 }, (_, i) => ({
+      speaker: i % 2 === 0 ? 'I' : 'P21',
+      startMs: null,
+      endMs: null,
+      text: Array.from({ length: 100 }, () => WORDS[Math.floor(rand() * WORDS.length)]).join(' '),
+    })),
+  };
+}
+
+async function change(store: UpdateStore, docId: string, doc: Y.Doc, fn: () => void): Promise<void> {
+  const before = Y.encodeStateVector(doc);
+  fn();
+  await store.append(docId, Y.encodeStateAsUpdate(doc, before), null);
+}
+
+export async function run() {
+  const dataDir = mkdtempSync(join(tmpdir(), 'gloss-bench-segments-'));
+  const server = await startServer(loadConfig({ PORT: '0', HOST: '127.0.0.1', DATA_DIR: dataDir, LOG_LEVEL: 'error' }));
+  const store = createPgUpdateStore(server.database, { compactMinBytes: 0 });
+  const out: Array<Record<string, unknown> & { name: string }> = [];
+  try {
+    const owner = await admin.createUser(server.db, { email: 'bench.owner@example.test', name: 'Bench Owner', password: 'bench-password-1' });
+    const coders: Array<{ id: string }> = [];
+    for (let i = 0; i < LAYERS; i++) coders.push(await admin.createUser(server.db, { email: `bench.c${i}@example.test`, name: `Coder ${i}`, password: 'bench-password-1' }));
+    const res = await fetch(`${server.url}/api/session`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', origin: server.url },
+      body: JSON.stringify({ email: 'bench.owner@example.test', password: 'bench-password-1' }),
+    });
+    const cookie = res.headers.getSetCookie()[0]!.split(';', 1)[0]!;
+
+    for (const size of SIZES) {
+      const rand = mulberry32(20261202 + size);
+      const study = await admin.createStudy(server.db, { title: `Segments ${size}`, createdBy: owner.id });
+      const text = await admin.addTextFromTranscript(server.db, study.id, { title: 'Long interview', transcript: transcript(rand), sourceFormat: 'txt', createdBy: owner.id });
+      const layerIds: string[] = [];
+      for (const c of coders) layerIds.push(await admin.ensureLayer(server.db, study.id, text.id, c.id));
+
+      // The stored documents, changed as people would: codes, then coding, then many corrections.
+      const textDoc = await loadDoc(store, text.room);
+      const cb = await loadDoc(store, study.codebookRoom);
+      const layers = await Promise.all(layerIds.map((id) => loadDoc(store, id)));
+      let codes: string[] = [];
+      await change(store, study.codebookRoom, cb, () => {
+        codes = Array.from({ length: 40 }, (_, i) => addCode(cb, { label: `code ${i}` }, { by: owner.id }));
+        addExclusiveSet(cb, 'stance', codes.slice(0, 4), { by: owner.id });
+      });
+      const t = getText(textDoc);
+      for (let k = 0; k < size / LAYERS; k++) {
+        const start = Math.floor(rand() * (t.length - 400));
+        const width = 30 + Math.floor(rand() * 300);
+        const code = codes[Math.floor(rand() * codes.length)]!;
+        layers.forEach((l) => {
+          const s = Math.max(0, start + Math.floor(rand() * 20) - 10);
+          addSegment(l, textDoc, { codeId: rand() < 0.2 ? codes[Math.floor(rand() * codes.length)]! : code, start: s, end: Math.min(t.length, s + width + Math.floor(rand() * 20)) });
+        });
+      }
+      for (let i = 0; i < LAYERS; i++) await store.append(layerIds[i]!, Y.encodeStateAsUpdate(layers[i]!), null);
+      await change(store, text.room, textDoc, () => {
+        for (let i = 0; i < CORRECTIONS; i++) {
+          const at = Math.floor(rand() * (t.length - 5));
+          textDoc.transact(() => {
+            t.delete(at, 1 + Math.floor(rand() * 3));
+            t.insert(at, WORDS[Math.floor(rand() * WORDS.length)]!.slice(0, 1 + Math.floor(rand() * 3)));
+          });
+        }
+      });
+      await store.flush();
+      note(`${size}: stored`);
+      let items = 0;
+      for (let n = t._start; n !== null; n = n.right) items++;
+      const all = layers.flatMap((l) => listSegments(l));
+      const shape = { segments: all.length, words: 30_000, characters: t.length, textItems: items };
+
+      // Resolution: cold anchors are fresh copies (as a first read from the log gives).
+      const fresh = (n = all.length) => all.slice(0, n).map((s) => ({ ...s, start: s.start.slice(), end: s.end.slice() }));
+      const cold: number[] = [];
+      const warm: number[] = [];
+      for (let r = 0; r < 7; r++) {
+        const segs = fresh();
+        cold.push(timeIt(() => resolveSegments(textDoc, segs)));
+        warm.push(timeIt(() => resolveSegments(textDoc, segs)));
+      }
+      const refN = Math.min(1_000, all.length);
+      const ref: number[] = [];
+      for (let r = 0; r < 3; r++) {
+        const segs = fresh(refN);
+        ref.push(timeIt(() => segs.forEach((s) => {
+          Y.createAbsolutePositionFromRelativePosition(Y.decodeRelativePosition(s.start), textDoc, false);
+          Y.createAbsolutePositionFromRelativePosition(Y.decodeRelativePosition(s.end), textDoc, false);
+        })));
+      }
+      const refStats = stats(ref);
+      const coldStats = stats(cold);
+      out.push({
+        name: `segments.resolve.${size}`, ...shape, cold: coldStats, warm: stats(warm),
+        reference: { name: 'one-by-one Y.createAbsolutePositionFromRelativePosition', segments: refN, ...refStats, perSegmentMs: r2(refStats.medianMs / refN) },
+        ratioPerSegmentColdToReference: r2(coldStats.medianMs / all.length / (refStats.medianMs / refN)),
+        targetMs: size === 10_000 ? 10 : undefined, loadavg1: load1(),
+      });
+
+      // Flags from scratch, and after one correction (incremental).
+      const sources = layers.map((doc, i) => ({ layerId: layerIds[i]!, coder: coders[i]!.id, doc }));
+      const full: number[] = [];
+      let flagCount = 0;
+      for (let r = 0; r < 3; r++) {
+        full.push(timeIt(() => {
+          const e = new FlagEngine({ textDoc, codebook: cb, layers: sources });
+          flagCount = e.flags().length;
+          e.destroy();
+        }));
+      }
+      const engine = new FlagEngine({ textDoc, codebook: cb, layers: sources });
+      engine.flags();
+      const afterEdit: number[] = [];
+      const stored = Y.encodeStateVector(textDoc);
+      for (let r = 0; r < 11; r++) {
+        const at = Math.floor(rand() * (t.length - 10));
+        textDoc.transact(() => {
+          t.delete(at, 3);
+          t.insert(at, 'mended');
+        });
+        afterEdit.push(timeIt(() => engine.refresh()));
+      }
+      engine.destroy();
+      out.push({ name: `segments.flags.${size}`, ...shape, flags: flagCount, full: stats(full), afterOneCorrection: stats(afterEdit), loadavg1: load1() });
+      // The corrections above were local: store them so the route sees the same text.
+      await store.append(text.room, Y.encodeStateAsUpdate(textDoc, stored), null);
+      await store.flush();
+
+      note(`${size}: model figures done`);
+      // The route over HTTP.
+      const get = async () => {
+        const t0 = performance.now();
+        const r = await fetch(`${server.url}/api/texts/${text.id}/segments`, { headers: { cookie } }).catch((err: unknown) => {
+          throw new Error(`segments request failed: ${String((err as Error).cause ?? err)}`);
+        });
+        const body = await r.text();
+        const ms = performance.now() - t0; // the answer received; parsing it is the client's cost
+        if (r.status !== 200) throw new Error(`segments: ${r.status}`);
+        return { ms, count: (JSON.parse(body) as unknown[]).length };
+      };
+      const first = await get();
+      note(`${size}: first request ${Math.round(first.ms)} ms`);
+      const repeat: number[] = [];
+      for (let r = 0; r < 9; r++) repeat.push((await get()).ms);
+      const afterSegment: number[] = [];
+      const afterCorrection: number[] = [];
+      for (let r = 0; r < 7; r++) {
+        const i = r % LAYERS;
+        const s = Math.floor(rand() * (t.length - 200));
+        await change(store, layerIds[i]!, layers[i]!, () => void addSegment(layers[i]!, textDoc, { codeId: codes[r]!, start: s, end: s + 120 }));
+        await store.flush();
+        afterSegment.push((await get()).ms);
+        const at = Math.floor(rand() * (t.length - 10));
+        await change(store, text.room, textDoc, () => textDoc.transact(() => {
+          t.delete(at, 3);
+          t.insert(at, 'fixed');
+        }));
+        await store.flush();
+        afterCorrection.push((await get()).ms);
+      }
+      const before: number[] = [];
+      for (let r = 0; r < 3; r++) {
+        const t0 = performance.now();
+        await withDocs(store, [text.room, ...layerIds, study.codebookRoom], ([td, ...rest]) => {
+          const c = rest.pop()!;
+          return JSON.stringify(segmentsWithFlags(td!, c, layerIds.map((id, i) => ({ layerDocId: id, coderId: coders[i]!.id, doc: rest[i]! }))));
+        });
+        before.push(performance.now() - t0);
+      }
+      out.push({
+        name: `segments.route.${size}`, ...shape, answered: first.count, db: 'pglite',
+        firstMs: r2(first.ms), repeat: stats(repeat), afterNewSegment: stats(afterSegment), afterCorrection: stats(afterCorrection),
+        reference: { name: 'route work before the text cache: load documents from the log + segmentsWithFlags, in process (no HTTP)', ...stats(before) },
+        targetMs: 100, loadavg1: load1(),
+      });
+      for (const d of [textDoc, cb, ...layers]) d.destroy();
+    }
+    return out;
+  } finally {
+    await store.close();
+    await server.close();
+    rmSync(dataDir, { recursive: true, force: true });
+  }
+}
