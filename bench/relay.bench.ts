@@ -17,7 +17,7 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { createServer } from 'node:http';
 import { createRequire } from 'node:module';
-import type { AddressInfo } from 'node:net';
+import { Socket, type AddressInfo } from 'node:net';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
@@ -37,14 +37,22 @@ const EDITS_PER_SEC = 5;
 const WARMUP_MS = 1_000;
 const MEASURE_MS = 4_000;
 
-export type ServerKind = 'reference' | 'reference-leveldb' | 'gloss-pglite' | 'gloss-postgres';
+export type ServerKind = 'reference' | 'reference-leveldb' | 'gloss-pglite' | 'gloss-postgres' | 'gloss-pglite-before' | 'gloss-postgres-before';
 
 const SERVER_NAMES: Record<ServerKind, string> = {
   reference: 'y-websocket-2.1.0-utils (memory)',
   'reference-leveldb': 'y-websocket-2.1.0-utils + y-leveldb-0.1.2',
   'gloss-pglite': 'gloss-pglite',
   'gloss-postgres': 'gloss-postgres',
+  'gloss-pglite-before': 'gloss-pglite (before)',
+  'gloss-postgres-before': 'gloss-postgres (before)',
 };
+
+/**
+ * BENCH_RELAY_BEFORE=<folder>: a checkout of an earlier commit (installed), whose Gloss server runs as
+ * the "-before" kinds in the same run, for before/after figures under the same machine load.
+ */
+const BEFORE_ROOT = process.env.BENCH_RELAY_BEFORE;
 
 export interface BenchServer {
   kind: ServerKind;
@@ -52,7 +60,7 @@ export interface BenchServer {
   wsBase: string;
   room: string;
   headers: Record<string, string>;
-  cpu(): Promise<{ user: number; system: number }>;
+  cpu(): Promise<{ user: number; system: number; socketWrites: number }>;
   stop(): Promise<void>;
 }
 
@@ -110,12 +118,26 @@ async function serveGloss(): Promise<{ port: number; room: string; wsPath: strin
   return { port: server.port, room: layerRoom, wsPath: '/sync', email, password, cleanup };
 }
 
+/** Socket writes made by this process (one write system call each, corked or not): counted by wrapping net.Socket. */
+let socketWrites = 0;
+function countSocketWrites(): void {
+  const proto = Socket.prototype as unknown as Record<'_write' | '_writev', (...args: unknown[]) => unknown>;
+  for (const name of ['_write', '_writev'] as const) {
+    const original = proto[name];
+    proto[name] = function (this: unknown, ...args: unknown[]) {
+      socketWrites++;
+      return original.apply(this, args);
+    };
+  }
+}
+
 async function childMain(kind: string): Promise<void> {
+  countSocketWrites();
   const { cleanup, ...info } = kind.startsWith('reference') ? { ...(await serveReference()), cleanup: async () => {} } : await serveGloss();
   process.stdout.write(JSON.stringify({ event: 'ready', ...info }) + '\n');
   // Answers "cpu" with this process's CPU time so far (microseconds).
   createInterface({ input: process.stdin }).on('line', (line) => {
-    if (line === 'cpu') process.stdout.write(JSON.stringify({ event: 'cpu', ...process.cpuUsage() }) + '\n');
+    if (line === 'cpu') process.stdout.write(JSON.stringify({ event: 'cpu', ...process.cpuUsage(), socketWrites }) + '\n');
   });
   process.stdin.on('end', () => {
     cleanup().then(
@@ -133,15 +155,18 @@ async function childMain(kind: string): Promise<void> {
 /** Starts a server of `kind` in a child process (tsx via --import, so the pid is the server's own). */
 export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
   const env: NodeJS.ProcessEnv = { ...process.env, BENCH_SERVER: kind.startsWith('reference') ? kind : 'gloss' };
-  if (kind === 'gloss-pglite') delete env.DATABASE_URL;
+  if (kind === 'gloss-pglite' || kind === 'gloss-pglite-before') delete env.DATABASE_URL;
   // y-websocket's utils switch their LevelDB persistence on when YPERSISTENCE names a folder.
   let leveldbDir: string | null = null;
   if (kind === 'reference-leveldb') env.YPERSISTENCE = leveldbDir = mkdtempSync(join(tmpdir(), 'bench-yleveldb-'));
   else delete env.YPERSISTENCE;
   // BENCH_SERVER_NODE_ARGS: extra node flags for the server only (e.g. --cpu-prof when looking into a figure).
   const nodeArgs = (process.env.BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean);
-  const child: ChildProcess = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', fileURLToPath(import.meta.url)], {
-    cwd: repoRoot,
+  const before = kind.endsWith('-before');
+  const root = before ? BEFORE_ROOT! : repoRoot;
+  const script = before ? join(root, 'bench', 'relay.bench.ts') : fileURLToPath(import.meta.url);
+  const child: ChildProcess = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', script], {
+    cwd: root,
     env,
     stdio: ['pipe', 'pipe', 'inherit'],
   });
@@ -155,7 +180,7 @@ export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
   });
   const next = (event: string) =>
     new Promise<Record<string, unknown>>((resolve, reject) => {
-      const timer = setTimeout(() => reject(new Error(`bench server (${kind}): no ${event} line`)), 60_000);
+      const timer = setTimeout(() => reject(new Error(`bench server (${kind}): no ${event} line`)), 180_000);
       waiters.push((msg) => (msg.event === event ? (clearTimeout(timer), resolve(msg), true) : false));
     });
   const ready = await next('ready');
@@ -180,7 +205,7 @@ export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
       const reply = next('cpu');
       child.stdin!.write('cpu\n');
       const msg = await reply;
-      return { user: msg.user as number, system: msg.system as number };
+      return { user: msg.user as number, system: msg.system as number, socketWrites: (msg.socketWrites as number | undefined) ?? NaN };
     },
     async stop() {
       const exited = new Promise((resolve) => child.once('exit', resolve));
@@ -294,18 +319,21 @@ export async function measure(kind: ServerKind, clients: number): Promise<Record
       p99Ms: round(percentile(latencies, 99)),
       serverCpuUsPerUpdate: round(cpuUs / Math.max(1, sent), 1),
       serverCpuPercent: round((cpuUs / 1000 / MEASURE_MS) * 100, 1),
+      // Load-independent: write system calls the server made per update relayed (peers + database).
+      serverSocketWritesPerUpdate: round((cpu1.socketWrites - cpu0.socketWrites) / Math.max(1, sent), 1),
     };
   } finally {
     await server.stop();
   }
 }
 
-const ALL_KINDS: ServerKind[] = ['reference', 'reference-leveldb', 'gloss-pglite', 'gloss-postgres'];
+const ALL_KINDS: ServerKind[] = ['reference', 'reference-leveldb', 'gloss-pglite-before', 'gloss-pglite', 'gloss-postgres-before', 'gloss-postgres'];
 const REFERENCES: ServerKind[] = ['reference', 'reference-leveldb'];
 
 export async function run(): Promise<Array<Record<string, unknown> & { name: string }>> {
   const wantedKinds = process.env.BENCH_RELAY_SERVERS?.split(',').filter(Boolean);
-  const kinds = ALL_KINDS.filter((k) => (wantedKinds ? wantedKinds.includes(k) : true)).filter((k) => k !== 'gloss-postgres' || process.env.DATABASE_URL);
+  const kinds = ALL_KINDS.filter((k) => (wantedKinds ? wantedKinds.includes(k) : true)).filter((k) => !k.startsWith('gloss-postgres') || process.env.DATABASE_URL)
+    .filter((k) => !k.endsWith('-before') || BEFORE_ROOT);
   const sizes = (process.env.BENCH_RELAY_CLIENTS ?? '10,50,100,200').split(',').map(Number);
   const records: Array<Record<string, unknown> & { name: string }> = [];
   for (const clients of sizes) {
