@@ -222,8 +222,11 @@ export function openSocket(server: BenchServer, onMessage?: (data: Uint8Array) =
   ws.binaryType = 'nodebuffer';
   if (onMessage) ws.on('message', (data: Buffer) => onMessage(new Uint8Array(data.buffer, data.byteOffset, data.byteLength)));
   return new Promise((resolve, reject) => {
-    ws.once('open', () => resolve(ws));
-    ws.once('error', reject);
+    // A socket that closes (or never opens) under load must fail the run, not hang it.
+    const timer = setTimeout(() => (ws.terminate(), reject(new Error('bench socket did not open in 60 s'))), 60_000);
+    ws.once('open', () => (clearTimeout(timer), resolve(ws)));
+    ws.once('error', (error) => (clearTimeout(timer), reject(error)));
+    ws.once('close', () => (clearTimeout(timer), reject(new Error('bench socket closed before it opened'))));
   });
 }
 
@@ -342,6 +345,8 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
       const record = await measure(kind, clients);
       byKind.set(kind, record);
       records.push({ ...record, loadAverage1m: round(loadavg()[0]!) });
+      // Progress on stderr: a long curve run that fails late still shows what it measured.
+      process.stderr.write(JSON.stringify(records.at(-1)) + '\n');
     }
     for (const kind of kinds.filter((k) => !REFERENCES.includes(k))) {
       const r = byKind.get(kind)!;
