@@ -1,18 +1,25 @@
 /**
- * Relay latency and server CPU per update, Gloss beside the reference: y-websocket 2.1.0's own server
- * utilities (bin/utils.cjs setupWSConnection, in memory). 10 and 50 clients each make 5 edits/s in one
- * room; one more client only listens and times each update from send to arrival. Each server runs in
- * its own child process, which reports its own process.cpuUsage(). Gloss runs as in production:
- * the real server (startServer), signed-in clients, durable on PGlite (and PostgreSQL when DATABASE_URL
- * is set). Target (DESIGN.md §9): p99 and CPU per update within 1.2x of the reference at 50 clients.
+ * Relay latency and server CPU per update, Gloss beside two references built from y-websocket 2.1.0's
+ * own server utilities (bin/utils.cjs setupWSConnection): in memory, and with its own LevelDB
+ * persistence switched on exactly as its YPERSISTENCE variable does (y-leveldb 0.1.2, what a team that
+ * self-hosts would otherwise run; note it stores each update after relaying it, without waiting).
+ * 10, 50, 100 and 200 clients each make 5 edits/s in one room; one more client only listens and times
+ * each update from send to arrival. Each server runs in its own child process, which reports its own
+ * process.cpuUsage(). Gloss runs as in production: the real server (startServer), a signed-in coder
+ * editing their own layer of a text, durable on PGlite (and PostgreSQL when DATABASE_URL is set), every
+ * update committed to the log before it is relayed. Target (issue 11): p99 and CPU per update within
+ * 1.2x of the in-memory reference at every size; each record gives its ratio to both references.
  *
- * Run as a child with BENCH_SERVER=gloss|reference it is the server under test instead.
+ * Windows: 1 s warm-up, then MEASURE_MS (4 s) measured, per server and size.
+ * BENCH_RELAY_CLIENTS=50 and BENCH_RELAY_SERVERS=reference,gloss-pglite narrow a run (profiling).
+ * Run as a child with BENCH_SERVER=gloss|reference|reference-leveldb it is the server under test instead.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { createServer } from 'node:http';
 import { createRequire } from 'node:module';
-import type { AddressInfo } from 'node:net';
-import { tmpdir } from 'node:os';
+import { Socket, type AddressInfo } from 'node:net';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { loadavg, tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { createInterface } from 'node:readline';
 import { fileURLToPath } from 'node:url';
@@ -30,7 +37,22 @@ const EDITS_PER_SEC = 5;
 const WARMUP_MS = 1_000;
 const MEASURE_MS = 4_000;
 
-export type ServerKind = 'reference' | 'gloss-pglite' | 'gloss-postgres';
+export type ServerKind = 'reference' | 'reference-leveldb' | 'gloss-pglite' | 'gloss-postgres' | 'gloss-pglite-before' | 'gloss-postgres-before';
+
+const SERVER_NAMES: Record<ServerKind, string> = {
+  reference: 'y-websocket-2.1.0-utils (memory)',
+  'reference-leveldb': 'y-websocket-2.1.0-utils + y-leveldb-0.1.2',
+  'gloss-pglite': 'gloss-pglite',
+  'gloss-postgres': 'gloss-postgres',
+  'gloss-pglite-before': 'gloss-pglite (before)',
+  'gloss-postgres-before': 'gloss-postgres (before)',
+};
+
+/**
+ * BENCH_RELAY_BEFORE=<folder>: a checkout of an earlier commit (installed), whose Gloss server runs as
+ * the "-before" kinds in the same run, for before/after figures under the same machine load.
+ */
+const BEFORE_ROOT = process.env.BENCH_RELAY_BEFORE;
 
 export interface BenchServer {
   kind: ServerKind;
@@ -38,7 +60,7 @@ export interface BenchServer {
   wsBase: string;
   room: string;
   headers: Record<string, string>;
-  cpu(): Promise<{ user: number; system: number }>;
+  cpu(): Promise<{ user: number; system: number; socketWrites: number }>;
   stop(): Promise<void>;
 }
 
@@ -80,20 +102,42 @@ async function serveGloss(): Promise<{ port: number; room: string; wsPath: strin
   const email = `bench-${Date.now()}@example.test`;
   const user = await admin.createUser(server.db, { email, name: 'Bench Coder', password });
   const study = await admin.createStudy(server.db, { title: 'Bench study', createdBy: user.id });
+  // The coder's own layer of a text: a room written without a per-update write rule, as coding is.
+  const text = await admin.addTextFromTranscript(server.db, study.id, {
+    title: 'Bench text',
+    sourceFormat: 'txt',
+    createdBy: user.id,
+    transcript: admin.transcriptFromPlainText('Interviewer: How did the week go?\n\nParticipant: Long, but we managed.'),
+  });
+  const layerRoom = await admin.ensureLayer(server.db, study.id, text.id, user.id);
   const cleanup = async () => {
     await server.close();
     folder?.remove();
     await pg?.drop();
   };
-  return { port: server.port, room: study.memosRoom, wsPath: '/sync', email, password, cleanup };
+  return { port: server.port, room: layerRoom, wsPath: '/sync', email, password, cleanup };
+}
+
+/** Socket writes made by this process (one write system call each, corked or not): counted by wrapping net.Socket. */
+let socketWrites = 0;
+function countSocketWrites(): void {
+  const proto = Socket.prototype as unknown as Record<'_write' | '_writev', (...args: unknown[]) => unknown>;
+  for (const name of ['_write', '_writev'] as const) {
+    const original = proto[name];
+    proto[name] = function (this: unknown, ...args: unknown[]) {
+      socketWrites++;
+      return original.apply(this, args);
+    };
+  }
 }
 
 async function childMain(kind: string): Promise<void> {
-  const { cleanup, ...info } = kind === 'reference' ? { ...(await serveReference()), cleanup: async () => {} } : await serveGloss();
+  countSocketWrites();
+  const { cleanup, ...info } = kind.startsWith('reference') ? { ...(await serveReference()), cleanup: async () => {} } : await serveGloss();
   process.stdout.write(JSON.stringify({ event: 'ready', ...info }) + '\n');
   // Answers "cpu" with this process's CPU time so far (microseconds).
   createInterface({ input: process.stdin }).on('line', (line) => {
-    if (line === 'cpu') process.stdout.write(JSON.stringify({ event: 'cpu', ...process.cpuUsage() }) + '\n');
+    if (line === 'cpu') process.stdout.write(JSON.stringify({ event: 'cpu', ...process.cpuUsage(), socketWrites }) + '\n');
   });
   process.stdin.on('end', () => {
     cleanup().then(
@@ -110,12 +154,19 @@ async function childMain(kind: string): Promise<void> {
 
 /** Starts a server of `kind` in a child process (tsx via --import, so the pid is the server's own). */
 export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
-  const env: NodeJS.ProcessEnv = { ...process.env, BENCH_SERVER: kind === 'reference' ? 'reference' : 'gloss' };
-  if (kind === 'gloss-pglite') delete env.DATABASE_URL;
+  const env: NodeJS.ProcessEnv = { ...process.env, BENCH_SERVER: kind.startsWith('reference') ? kind : 'gloss' };
+  if (kind === 'gloss-pglite' || kind === 'gloss-pglite-before') delete env.DATABASE_URL;
+  // y-websocket's utils switch their LevelDB persistence on when YPERSISTENCE names a folder.
+  let leveldbDir: string | null = null;
+  if (kind === 'reference-leveldb') env.YPERSISTENCE = leveldbDir = mkdtempSync(join(tmpdir(), 'bench-yleveldb-'));
+  else delete env.YPERSISTENCE;
   // BENCH_SERVER_NODE_ARGS: extra node flags for the server only (e.g. --cpu-prof when looking into a figure).
   const nodeArgs = (process.env.BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean);
-  const child: ChildProcess = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', fileURLToPath(import.meta.url)], {
-    cwd: repoRoot,
+  const before = kind.endsWith('-before');
+  const root = before ? BEFORE_ROOT! : repoRoot;
+  const script = before ? join(root, 'bench', 'relay.bench.ts') : fileURLToPath(import.meta.url);
+  const child: ChildProcess = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', script], {
+    cwd: root,
     env,
     stdio: ['pipe', 'pipe', 'inherit'],
   });
@@ -129,13 +180,13 @@ export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
   });
   const next = (event: string) =>
     new Promise<Record<string, unknown>>((resolve, reject) => {
-      const timer = setTimeout(() => reject(new Error(`bench server (${kind}): no ${event} line`)), 60_000);
+      const timer = setTimeout(() => reject(new Error(`bench server (${kind}): no ${event} line`)), 180_000);
       waiters.push((msg) => (msg.event === event ? (clearTimeout(timer), resolve(msg), true) : false));
     });
   const ready = await next('ready');
   const http = `http://127.0.0.1:${ready.port as number}`;
   let headers: Record<string, string> = {};
-  if (kind !== 'reference') {
+  if (!kind.startsWith('reference')) {
     const res = await fetch(`${http}/api/session`, {
       method: 'POST',
       headers: { 'content-type': 'application/json', origin: http },
@@ -154,12 +205,13 @@ export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
       const reply = next('cpu');
       child.stdin!.write('cpu\n');
       const msg = await reply;
-      return { user: msg.user as number, system: msg.system as number };
+      return { user: msg.user as number, system: msg.system as number, socketWrites: (msg.socketWrites as number | undefined) ?? NaN };
     },
     async stop() {
       const exited = new Promise((resolve) => child.once('exit', resolve));
       child.stdin!.end();
       await exited;
+      if (leveldbDir !== null) rmSync(leveldbDir, { recursive: true, force: true });
     },
   };
 }
@@ -170,8 +222,11 @@ export function openSocket(server: BenchServer, onMessage?: (data: Uint8Array) =
   ws.binaryType = 'nodebuffer';
   if (onMessage) ws.on('message', (data: Buffer) => onMessage(new Uint8Array(data.buffer, data.byteOffset, data.byteLength)));
   return new Promise((resolve, reject) => {
-    ws.once('open', () => resolve(ws));
-    ws.once('error', reject);
+    // A socket that closes (or never opens) under load must fail the run, not hang it.
+    const timer = setTimeout(() => (ws.terminate(), reject(new Error('bench socket did not open in 60 s'))), 60_000);
+    ws.once('open', () => (clearTimeout(timer), resolve(ws)));
+    ws.once('error', (error) => (clearTimeout(timer), reject(error)));
+    ws.once('close', () => (clearTimeout(timer), reject(new Error('bench socket closed before it opened'))));
   });
 }
 
@@ -204,6 +259,7 @@ export async function measure(kind: ServerKind, clients: number): Promise<Record
   Y = await import('yjs');
   const server = await startBenchServer(kind);
   try {
+    // Send time of each update sent inside the measured window (only those are timed).
     const sentAt = new Map<string, number>();
     const latencies: number[] = [];
     let measuring = false;
@@ -213,7 +269,7 @@ export async function measure(kind: ServerKind, clients: number): Promise<Record
         const t = sentAt.get(id);
         if (t !== undefined) {
           sentAt.delete(id);
-          if (measuring) latencies.push(now - t);
+          latencies.push(now - t);
         }
       }
     });
@@ -228,9 +284,11 @@ export async function measure(kind: ServerKind, clients: number): Promise<Record
       const edit = () => {
         const clock = Y.getState(doc.store, doc.clientID);
         text.insert(Math.floor(Math.random() * (text.length + 1)), 'a coded remark ');
-        sentAt.set(`${doc.clientID}:${clock}`, performance.now());
+        if (measuring) {
+          sentAt.set(`${doc.clientID}:${clock}`, performance.now());
+          sent++;
+        }
         ws.send(syncMessage(2, pending!));
-        if (measuring) sent++;
       };
       // Stagger the clients across the 200 ms period.
       let interval: NodeJS.Timeout | undefined;
@@ -255,7 +313,7 @@ export async function measure(kind: ServerKind, clients: number): Promise<Record
     const cpuUs = cpu1.user - cpu0.user + (cpu1.system - cpu0.system);
     return {
       name: 'relay',
-      server: kind === 'reference' ? 'y-websocket-2.1.0-utils (memory)' : kind,
+      server: SERVER_NAMES[kind],
       clients,
       editsPerSecPerClient: EDITS_PER_SEC,
       updatesSent: sent,
@@ -264,34 +322,47 @@ export async function measure(kind: ServerKind, clients: number): Promise<Record
       p99Ms: round(percentile(latencies, 99)),
       serverCpuUsPerUpdate: round(cpuUs / Math.max(1, sent), 1),
       serverCpuPercent: round((cpuUs / 1000 / MEASURE_MS) * 100, 1),
+      // Load-independent: write system calls the server made per update relayed (peers + database).
+      serverSocketWritesPerUpdate: round((cpu1.socketWrites - cpu0.socketWrites) / Math.max(1, sent), 1),
     };
   } finally {
     await server.stop();
   }
 }
 
+const ALL_KINDS: ServerKind[] = ['reference', 'reference-leveldb', 'gloss-pglite-before', 'gloss-pglite', 'gloss-postgres-before', 'gloss-postgres'];
+const REFERENCES: ServerKind[] = ['reference', 'reference-leveldb'];
+
 export async function run(): Promise<Array<Record<string, unknown> & { name: string }>> {
-  const kinds: ServerKind[] = ['reference', 'gloss-pglite'];
-  if (process.env.DATABASE_URL) kinds.push('gloss-postgres');
+  const wantedKinds = process.env.BENCH_RELAY_SERVERS?.split(',').filter(Boolean);
+  const kinds = ALL_KINDS.filter((k) => (wantedKinds ? wantedKinds.includes(k) : true)).filter((k) => !k.startsWith('gloss-postgres') || process.env.DATABASE_URL)
+    .filter((k) => !k.endsWith('-before') || BEFORE_ROOT);
+  const sizes = (process.env.BENCH_RELAY_CLIENTS ?? '10,50,100,200').split(',').map(Number);
   const records: Array<Record<string, unknown> & { name: string }> = [];
-  for (const clients of [10, 50]) {
+  for (const clients of sizes) {
     const byKind = new Map<ServerKind, Record<string, unknown>>();
     for (const kind of kinds) {
       const record = await measure(kind, clients);
       byKind.set(kind, record);
-      records.push(record);
+      records.push({ ...record, loadAverage1m: round(loadavg()[0]!) });
+      // Progress on stderr: a long curve run that fails late still shows what it measured.
+      process.stderr.write(JSON.stringify(records.at(-1)) + '\n');
     }
-    const ref = byKind.get('reference')!;
-    for (const kind of kinds.filter((k) => k !== 'reference')) {
+    for (const kind of kinds.filter((k) => !REFERENCES.includes(k))) {
       const r = byKind.get(kind)!;
-      records.push({
-        name: 'relay-vs-reference',
-        server: kind,
-        clients,
-        p99Ratio: round((r.p99Ms as number) / (ref.p99Ms as number)),
-        cpuPerUpdateRatio: round((r.serverCpuUsPerUpdate as number) / (ref.serverCpuUsPerUpdate as number)),
-        target: clients === 50 ? '<= 1.2' : 'informative',
-      });
+      for (const refKind of REFERENCES) {
+        const ref = byKind.get(refKind);
+        if (ref === undefined) continue;
+        records.push({
+          name: 'relay-vs-reference',
+          server: kind,
+          reference: SERVER_NAMES[refKind],
+          clients,
+          p99Ratio: round((r.p99Ms as number) / (ref.p99Ms as number)),
+          cpuPerUpdateRatio: round((r.serverCpuUsPerUpdate as number) / (ref.serverCpuUsPerUpdate as number)),
+          target: refKind === 'reference' ? '<= 1.2' : 'informative',
+        });
+      }
     }
   }
   return records;

@@ -39,14 +39,28 @@ describe('GroupCommit', () => {
 });
 
 describe('GroupCommit with a commit delay', () => {
-  it('waits before a commit that follows another closely, so later arrivals join it', async () => {
+  it('waits before a commit while items arrive faster than the delay, so later arrivals join it', async () => {
     const batches: number[][] = [];
-    const group = new GroupCommit<number, number>(async (items) => (batches.push(items), items), 100, 200, 60_000);
-    await group.submit(1); // idle: committed at once
-    const second = group.submit(2); // busy now: this commit waits 200 ms …
+    let clock = 0;
+    const group = new GroupCommit<number, number>(async (items) => (batches.push(items), items), 100, 200, () => clock);
+    await group.submit(1); // nothing known about the rate yet: committed at once
+    clock += 1; // the next arrives 1 ms later: a stream far denser than one per 200 ms
+    const second = group.submit(2); // so this commit waits 200 ms …
     await new Promise((resolve) => setImmediate(resolve)); // (the drain has started and is waiting)
-    const third = group.submit(3); // … so this one arrives in time to share it
+    const third = group.submit(3); // … and this one arrives in time to share it
     await Promise.all([second, third]);
     expect(batches).toEqual([[1], [2, 3]]);
+  });
+
+  it('does not wait when items arrive more sparsely than the delay (the wait would gather nothing)', async () => {
+    const batches: number[][] = [];
+    let clock = 0;
+    // A delay of a minute: were it ever taken, this test would time out.
+    const group = new GroupCommit<number, number>(async (items) => (batches.push(items), items), 100, 60_000, () => clock);
+    for (const i of [1, 2, 3]) {
+      clock += 3_600_000; // one item an hour
+      await group.submit(i);
+    }
+    expect(batches).toEqual([[1], [2], [3]]);
   });
 });

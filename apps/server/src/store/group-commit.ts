@@ -6,20 +6,32 @@ export class GroupCommit<T, R> {
   private queue: Array<{ item: T; resolve: (r: R) => void; reject: (e: unknown) => void }> = [];
   private running: Promise<void> | null = null;
 
-  private lastCommitEnd = -Infinity;
+  /** Moving average of the time between submits (ms): how many items a short wait would gather. */
+  private meanGapMs = Infinity;
+  private lastSubmit = -Infinity;
 
   /**
-   * `delayMs`: when a commit ended less than `busyWindowMs` ago (a steady stream, not one lone edit),
-   * wait this long before the next so more items share it — PostgreSQL's commit_delay idea. 0 = never.
+   * `delayMs`: while items arrive faster than one per `delayMs` (a deep, steady stream, not one lone
+   * edit), wait this long before a commit so more items share it — PostgreSQL's commit_delay idea,
+   * made adaptive: at a sparse rate the wait would gather nothing and only add latency, so none is taken.
+   * 0 = never wait.
    */
   constructor(
     private readonly commit: (items: T[]) => Promise<R[]>,
     private readonly maxBatch: number,
     private readonly delayMs = 0,
-    private readonly busyWindowMs = 50,
+    /** The clock arrivals are timed by (replaceable in tests). */
+    private readonly now: () => number = () => performance.now(),
   ) {}
 
   submit(item: T): Promise<R> {
+    const now = this.now();
+    if (this.lastSubmit !== -Infinity) {
+      const gap = now - this.lastSubmit;
+      // One long pause resets the estimate at once: a lone edit after a burst does not wait.
+      this.meanGapMs = this.meanGapMs === Infinity || gap > this.meanGapMs * 5 ? gap : 0.8 * this.meanGapMs + 0.2 * gap;
+    }
+    this.lastSubmit = now;
     return new Promise<R>((resolve, reject) => {
       this.queue.push({ item, resolve, reject });
       // A microtask's delay lets the messages of one socket read join the first batch.
@@ -38,7 +50,7 @@ export class GroupCommit<T, R> {
 
   private async drain(): Promise<void> {
     while (this.queue.length > 0) {
-      if (this.delayMs > 0 && this.queue.length < this.maxBatch && performance.now() - this.lastCommitEnd < this.busyWindowMs) {
+      if (this.delayMs > 0 && this.queue.length < this.maxBatch && this.meanGapMs < this.delayMs) {
         await new Promise((resolve) => setTimeout(resolve, this.delayMs));
       }
       const batch = this.queue.splice(0, this.maxBatch);
@@ -48,7 +60,6 @@ export class GroupCommit<T, R> {
       } catch (error) {
         for (const entry of batch) entry.reject(error);
       }
-      this.lastCommitEnd = performance.now();
     }
     this.running = null;
   }

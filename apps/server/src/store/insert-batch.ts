@@ -16,8 +16,29 @@ export interface LogRow {
 }
 
 
-/** Inserts the rows in order; returns their seqs in the same order. */
-export async function insertBatch(db: Db, rows: readonly LogRow[]): Promise<number[]> {
+/** The embedded database's own client, reached past drizzle (drizzle keeps it as `$client`). */
+interface SimpleQueryClient {
+  exec(query: string): Promise<Array<{ rows: unknown[] }>>;
+}
+
+/** PGlite's client under `db`, or null (PostgreSQL, or a drizzle without `$client`). */
+export function pgliteClientOf(db: Db): SimpleQueryClient | null {
+  const client = (db as unknown as { $client?: Partial<SimpleQueryClient> & { dataDir?: unknown; waitReady?: unknown } }).$client;
+  return client !== undefined && typeof client.exec === 'function' && 'waitReady' in client ? (client as SimpleQueryClient) : null;
+}
+
+/** Largest batch sent as literals on PGlite; larger ones take the unnest statement below. */
+const LITERAL_BATCH = 256;
+
+/**
+ * Inserts the rows in order; returns their seqs in the same order. On PGlite (`pglite` given) a
+ * batch goes as one simple-protocol statement with the values written as literals: no parse/bind
+ * round and no query builder, which measured 2-3x less CPU per commit than the parameterised
+ * statement through drizzle (0.7 vs 1.7-3.3 ms for one row, issue 11). Safe as literals because the
+ * ids are checked UUIDs and the bytes are hex digits.
+ */
+export async function insertBatch(db: Db, rows: readonly LogRow[], pglite: SimpleQueryClient | null = null): Promise<number[]> {
+  if (pglite !== null && rows.length <= LITERAL_BATCH) return insertLiterals(pglite, rows);
   const blob = Buffer.allocUnsafe(rows.reduce((n, row) => n + row.data.length, 0));
   const offsets: number[] = [];
   const lengths: number[] = [];
@@ -43,6 +64,18 @@ export async function insertBatch(db: Db, rows: readonly LogRow[]): Promise<numb
     order by d.n
     returning seq`);
   return seqsOf(result, rows.length);
+}
+
+async function insertLiterals(client: SimpleQueryClient, rows: readonly LogRow[]): Promise<number[]> {
+  const values = rows.map((row) => {
+    if (!isUuid(row.docId) || (row.userId !== null && !isUuid(row.userId))) {
+      throw new StoreError('append-failed', `not a UUID: ${row.docId} / ${row.userId}`);
+    }
+    const hex = Buffer.from(row.data.buffer, row.data.byteOffset, row.data.byteLength).toString('hex');
+    return `('${row.docId}','\\x${hex}'::bytea,${row.data.length},${row.userId === null ? 'null' : `'${row.userId}'`})`;
+  });
+  const [result] = await client.exec(`insert into updates (doc_id, data, bytes, user_id) values ${values.join(',')} returning seq`);
+  return seqsOf(result?.rows ?? [], rows.length);
 }
 
 /** Small batches (the usual case at moderate load): a plain VALUES list plans cheaper (PGlite: ~1.0 vs ~1.7 ms CPU for one row). */

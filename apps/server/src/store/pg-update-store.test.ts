@@ -32,9 +32,25 @@ describe.each(dbKinds())('PgUpdateStore on %s', (kind) => {
 
   beforeAll(async () => {
     database = await openTestDatabase(kind);
-    ({ docIds, userId } = await seedDocuments(database, 4));
+    ({ docIds, userId } = await seedDocuments(database, 5));
   });
   afterAll(async () => database?.close());
+
+  it('stores every byte value exactly, with and without an author, in small and large batches', async () => {
+    // Small batches go as literals on PGlite (insert-batch.ts): each byte 0-255 must come back as it went in.
+    const store = createPgUpdateStore(database, { compactMinBytes: 0 });
+    const every = Uint8Array.from({ length: 256 }, (_, i) => i);
+    const sizes = [1, 3, 300]; // one row, a small batch, a batch past the literal limit (unnest)
+    const sent: Uint8Array[] = [];
+    for (const n of sizes) {
+      const batch = Array.from({ length: n }, (_, i) => every.subarray(i % 256, 256 - (i % 7)));
+      sent.push(...batch);
+      await Promise.all(batch.map((data, i) => store.append(docIds[4]!, data, i % 2 === 0 ? userId : null)));
+    }
+    const { updates } = await store.since(docIds[4]!, 0);
+    expect(updates.map((u) => Buffer.from(u).toString('hex'))).toEqual(sent.map((u) => Buffer.from(u).toString('hex')));
+    await store.close();
+  });
 
   it('commits a burst in few statements, seqs rising in submission order across documents', async () => {
     const store = createPgUpdateStore(database, { compactMinBytes: 0 });
