@@ -9,7 +9,8 @@ import { StudyNav } from '../study/StudyNav.js';
 import { api } from '../../api/client.js';
 import { Loading } from '../../ui/Loading.js';
 import { href } from '../../ui/router.js';
-import { openDoc, type OpenDoc } from '../../sync/open-doc.js';
+import { openDoc, unprime, type OpenDoc } from '../../sync/open-doc.js';
+import { openText } from '../../sync/opening.js';
 import { CodingView } from './CodingView.js';
 import type { LayerHandle } from './coding-state.js';
 
@@ -19,12 +20,15 @@ import type { LayerHandle } from './coding-state.js';
  */
 export function CodingScreen(props: { studyId: string; textId: string; scope: StudyScope; me: Me; segmentId?: string | undefined; layers?: (l: LayerInfo) => boolean; banner?: JSX.Element }) {
   const [detail] = createResource(() => props.textId, (id) => api.text(id));
+  // every document's state in one request, alongside the text's rooms (sync/opening.ts); never fails
+  const [opened] = createResource(() => props.textId, (id) => openText(id));
   const [docs, setDocs] = createSignal<{ text: OpenDoc; layers: LayerHandle[] }>();
   const [loaded, setLoaded] = createSignal(false);
 
   createEffect(() => {
     const d = detail();
-    if (!d) return;
+    const primed = opened();
+    if (!d || primed === undefined) return;
     // A participant coding this text independently in a round codes in the round's layer, which only the
     // round's text screen opens (with the "done" mark): there is no layer for them here, so go there.
     if (!props.layers && d.round?.participant && d.round.phase === 'independent') {
@@ -52,6 +56,7 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
         text.release();
         layers.forEach((l) => l.doc.release());
         live = false;
+        unprime(primed);
         setLoaded(false);
         setDocs(undefined);
       });
