@@ -167,7 +167,7 @@ export const isPaused = (): boolean => paused;
  * `offline: false` keeps no IndexedDB copy: for documents this person only reads (other coders' layers),
  * which need not survive a lost connection and would cost storage and time on every open.
  */
-export function openDoc(room: string, opts: { label: string; gc?: boolean; offline?: boolean; background?: boolean }): OpenDoc {
+export function openDoc(room: string, opts: { label: string; gc?: boolean; offline?: boolean; background?: boolean; holdUntil?: Promise<unknown> }): OpenDoc {
   const existing = open.get(room);
   if (existing) {
     existing.refs++;
@@ -182,7 +182,9 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   const provider = new WebsocketProvider(syncBaseUrl(), room, doc, {
     // with a state from the opening request, connect once it is applied: the first sync message then
     // carries its state vector and the server sends only what changed since
-    connect: !paused && !defer && !early,
+    // `holdUntil` (the opening request in flight): the offline copy loads meanwhile, the socket waits
+    // for the state and the ticket the request brings
+    connect: !paused && !defer && !early && !opts.holdUntil,
     params: ticket ? { ticket } : {},
     maxBackoffTime: 2500,
     // Access taken away is not a network problem: reconnecting would only be refused again.
@@ -294,6 +296,12 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
       });
     if (early) applyPrimed(early, true);
     else primeOpen.set(room, (state) => applyPrimed(state, false));
+    // after the states the request primed (queued before this, so applied first), connect
+    void opts.holdUntil?.finally(() =>
+      inOwnTask(() => {
+        if (!released && !paused && !defer && !provider.shouldConnect) provider.connect();
+      }),
+    );
   });
 
   if (opts.background !== true) {
