@@ -27,6 +27,25 @@ export async function seedRounds(db: Db): Promise<RoundSeed> {
   return { ...s, coderBaseLayer };
 }
 
+export interface Coder2Seed extends RoundSeed {
+  /** coder2's layer outside rounds on the coding text, holding one segment whose note is the marker given. */
+  coder2BaseLayer: string;
+  base2SegId: string;
+}
+
+/** The round seed plus a layer of coder2's outside rounds on the coding text, holding a marked segment. */
+export async function seedRoundsWithCoder2Base(db: Db, note: string): Promise<Coder2Seed> {
+  const s = await seedRounds(db);
+  const text = await loadStoredDoc(db, s.codingTextRoom);
+  const layer = newLayerDoc();
+  const words = 'keys to the shed';
+  const at = text.getText('text').toString().indexOf(words);
+  const base2SegId = addSegment(layer, text, { codeId: s.codes.access, start: at, end: at + words.length, note }, () => 1000);
+  const coder2BaseLayer = await ensureLayer(db, s.studyId, s.codingTextId, s.users.coder2.id);
+  await appendUpdate(db, coder2BaseLayer, layer);
+  return { ...s, coder2BaseLayer, base2SegId };
+}
+
 export type Client = ApiClient & { cookie: string };
 export const EVERYONE = Object.keys(PEOPLE) as Person[];
 
@@ -52,4 +71,15 @@ export interface LayerOut {
   canWrite: boolean;
   round: string | null;
   kind: 'coder' | 'consensus';
+}
+
+/** The lead starts a round on the coding text with the coder, coder2 and the lead taking part. */
+export function startRoundOfThree(s: RoundSeed, lead: Client, name: string) {
+  return lead.call<RoundOut>('POST', `/api/studies/${s.studyId}/rounds`, {
+    name,
+    textIds: [s.codingTextId],
+    participantIds: [s.users.coder.id, s.users.coder2.id, s.users.lead.id],
+    unit: 'sentence',
+    statistic: 'krippendorff-alpha',
+  });
 }

@@ -17,16 +17,14 @@ import { WebSocket } from 'ws';
 import { WebsocketProvider } from 'y-websocket';
 import * as Y from 'yjs';
 import type { Db } from '@gloss/db';
-import { addSegment, listSegments, newLayerDoc } from '@gloss/model';
+import { addSegment, listSegments } from '@gloss/model';
 import { readZip } from '../../packages/interchange/src/refi/zip-read.js';
-import { ensureLayer } from '../../apps/server/src/admin/texts.js';
-import { appendUpdate, loadStoredDoc } from '../coding/support.js';
 import { apiClient, upgradeStatus, webSocketWithHeaders } from '../support/http.js';
 import type { Person } from '../support/seed.js';
 import { spawnServer, type SpawnedServer } from '../support/server.js';
 import { waitFor } from '../support/wait.js';
 import { decodeFrame, markersIn, recordingWebSocket, type Frame } from './frames.js';
-import { clientsFor, seedRounds, type Client, type RoundOut, type RoundSeed } from './support.js';
+import { clientsFor, seedRoundsWithCoder2Base, startRoundOfThree, type Client, type Coder2Seed, type RoundOut } from './support.js';
 
 const POLICY_VIOLATION = 1008; // RFC 6455 §7.4.1
 const twoNodes = Boolean(process.env.DATABASE_URL && process.env.REDIS_URL);
@@ -45,23 +43,8 @@ const M = {
   afterCaret: `mk-caret-after-${tag}`,
 };
 
-interface WireSeed extends RoundSeed {
-  coder2BaseLayer: string;
-  base2SegId: string;
-}
-
-/** The round seed plus a layer of coder2's outside rounds on the coding text, holding a marked segment. */
-async function seed(db: Db): Promise<WireSeed> {
-  const s = await seedRounds(db);
-  const text = await loadStoredDoc(db, s.codingTextRoom);
-  const layer = newLayerDoc();
-  const words = 'keys to the shed';
-  const at = text.getText('text').toString().indexOf(words);
-  const base2SegId = addSegment(layer, text, { codeId: s.codes.access, start: at, end: at + words.length, note: M.baseCoder2 }, () => 1000);
-  const coder2BaseLayer = await ensureLayer(db, s.studyId, s.codingTextId, s.users.coder2.id);
-  await appendUpdate(db, coder2BaseLayer, layer);
-  return { ...s, coder2BaseLayer, base2SegId };
-}
+type WireSeed = Coder2Seed;
+const seed = (db: Db) => seedRoundsWithCoder2Base(db, M.baseCoder2);
 
 interface Conn {
   doc: Y.Doc;
@@ -131,13 +114,7 @@ describe(`independent coding at the wire (${twoNodes ? 'two nodes, PostgreSQL an
     for (const c of [onA, onB]) expect(listSegments(c.doc).map((x) => x.note)).toContain(M.baseCoder2);
 
     const started = Date.now();
-    const res = await as.lead.call<RoundOut>('POST', `/api/studies/${s.studyId}/rounds`, {
-      name: 'Wire round',
-      textIds: [s.codingTextId],
-      participantIds: [s.users.coder.id, s.users.coder2.id, s.users.lead.id],
-      unit: 'sentence',
-      statistic: 'krippendorff-alpha',
-    });
+    const res = await startRoundOfThree(s, as.lead, 'Wire round');
     expect(res.status).toBe(201);
     roundId = res.body.id;
     await waitFor(() => onA.closes.length > 0 && onB.closes.length > 0, 'both sockets close', 20_000);

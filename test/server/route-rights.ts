@@ -57,6 +57,7 @@ export const ROUTE_RIGHTS: Record<string, Rights> = {
   'GET /api/studies/:studyId/feedback': members,
   'GET /api/studies/:studyId/comments/events': members,
   'GET /api/texts/:textId': members,
+  'GET /api/texts/:textId/opening': members, // each gets only the rooms their sync upgrade would open (opening.test.ts)
   'GET /api/texts/:textId/segments': members,
   'GET /api/texts/:textId/comparison': members,
   'GET /api/texts/:textId/comments': members,

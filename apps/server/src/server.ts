@@ -8,6 +8,7 @@ import type { Server } from 'node:http';
 import { serve } from '@hono/node-server';
 import { openDatabase, type Database, type Db } from '@gloss/db';
 import { createRoomAuthorizer } from './access/authorizer.js';
+import { createTicketBook } from './access/tickets.js';
 import { createFirstRun, type FirstRun } from './auth/first-run.js';
 import { createRateLimiter } from './auth/rate-limit.js';
 import { createSessionService } from './auth/sessions.js';
@@ -72,7 +73,9 @@ export async function startServer(
     cleanups.push(() => store.close());
 
     const firstRun = createFirstRun(database.db);
-    const authorizer = createRoomAuthorizer({ db: database.db, sessions, publicUrl: config.publicUrl });
+    // Tickets stand while live access has evaluated no change since their decisions (tickets.ts).
+    const tickets = createTicketBook({ stamp: () => liveAccess.stamp() });
+    const authorizer = createRoomAuthorizer({ db: database.db, sessions, publicUrl: config.publicUrl, tickets });
     // Before the app: routes that change members, roles or sessions re-check open connections through it.
     const liveAccess = createLiveAccess({ authorizer, relay, logger, sweepMs: config.accessRecheckMs });
     await liveAccess.start();
@@ -91,6 +94,7 @@ export async function startServer(
     const docs: DocWriter = {
       write: (docId, update, userId) => (syncDocs ? syncDocs.write(docId, update, userId) : Promise.reject(new Error('sync is not attached yet'))),
       announce: (docId, seq, update) => (syncDocs ? syncDocs.announce(docId, seq, update) : Promise.reject(new Error('sync is not attached yet'))),
+      state: (docId, holdMs) => (syncDocs ? syncDocs.state(docId, holdMs) : Promise.reject(new Error('sync is not attached yet'))),
     };
     const app = buildApp(
       {
@@ -101,6 +105,8 @@ export async function startServer(
         docs,
         sessions,
         liveAccess,
+        authorizer,
+        tickets,
         signInLimiter: createRateLimiter({
           windowMs: config.signInWindowMs,
           maxKeys: config.signInTrackedKeys,

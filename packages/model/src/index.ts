@@ -21,3 +21,4 @@ export * from './examples.js';
 export * from './comparison.js';
 export * from './proposals.js';
 export * from './deid.js';
+export * from './opening.js';

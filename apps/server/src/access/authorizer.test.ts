@@ -14,9 +14,10 @@ import { createSessionService, type SessionService } from '../auth/sessions.js';
 import { HttpError } from '../errors.js';
 import type { RoomAuthorizer } from '../sync/contracts.js';
 import { createRoomAuthorizer, LOST_ACCESS } from './authorizer.js';
+import { createTicketBook } from './tickets.js';
 
 const HOST = 'gloss.test:8080';
-const req = (headers: Record<string, string>) => ({ headers: { host: HOST, ...headers } }) as unknown as IncomingMessage;
+const req = (headers: Record<string, string>, query = '') => ({ headers: { host: HOST, ...headers }, url: `/sync/room${query}` }) as unknown as IncomingMessage;
 
 describe('room authorizer', () => {
   let database: Database;
@@ -132,6 +133,33 @@ describe('room authorizer', () => {
     expect(g.sessionExpiresAt.getTime()).toBe(now + 60_000);
     now += 60_000;
     expect(await short.recheck(g)).toEqual({ ok: false, reason: LOST_ACCESS.expired });
+  });
+
+  it('grantsFor decides many rooms as the upgrade does; its ticket skips the decision only while nothing changed', async () => {
+    const clock = { stamp: 0 };
+    const book = createTicketBook({ stamp: () => clock.stamp });
+    const ticketed = createRoomAuthorizer({ db: database.db, sessions, publicUrl: undefined, tickets: book });
+    const token = cookie.coder2!.slice('gloss_session='.length);
+    const session = (await sessions.validate(token, { extend: false }))!;
+    const rooms = [seed.textRoom, seed.codebookRoom, seed.memosRoom, coderLayer, '6f1c1d2e-0000-4000-8000-000000000000'];
+    const grants = await ticketed.grantsFor(session, rooms);
+    // the unknown room is left out; the rest are the grants the upgrade gives
+    expect(grants.map((g) => g.room)).toEqual(rooms.slice(0, 4));
+    for (const g of grants) expect(g).toEqual(await grant('coder2', g.room));
+    const { ticket } = book.issue(session.sessionId, grants, book.stamp());
+    const upgrade = (room: string, who: Person = 'coder2', t = ticket) => ticketed.authorize(req({ origin: `http://${HOST}`, cookie: cookie[who]! }, `?ticket=${t}`), room);
+    // removed by another process (nothing announced to live access here): the ticket still stands,
+    // which shows the upgrade took the grant from it and decided nothing
+    await removeMember(database.db, seed.studyId, seed.users.coder2.id);
+    expect((await upgrade(seed.textRoom)).room).toBe(seed.textRoom);
+    // another person's cookie: decided afresh, for that person
+    expect((await upgrade(seed.textRoom, 'coder')).userId).toBe(seed.users.coder.id);
+    // the origin is still checked first
+    expect(await status(ticketed.authorize(req({ origin: 'http://evil.example', cookie: cookie.coder2! }, `?ticket=${ticket}`), seed.textRoom))).toBe(403);
+    // once live access evaluated any change, the upgrade decides afresh: coder2 is no member now
+    clock.stamp++;
+    expect(await status(upgrade(seed.textRoom))).toBe(403);
+    await addMember(database.db, seed.studyId, seed.users.coder2.id, 'coder');
   });
 
   it('keeps every plain reason within a WebSocket close frame (123 bytes, RFC 6455 §5.5)', () => {

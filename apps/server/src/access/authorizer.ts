@@ -9,6 +9,7 @@ import type { IncomingMessage } from 'node:http';
 import type { Db } from '@gloss/db';
 import { isAllowedOrigin } from '../auth/origin.js';
 import { readSessionToken } from '../auth/cookies.js';
+import { looksLikeToken, sessionIdFromToken } from '../auth/tokens.js';
 import type { SessionService, ValidSession } from '../auth/sessions.js';
 import { recordAudit } from '../admin/audit.js';
 import { HttpError, forbidden, notFound, unauthenticated } from '../errors.js';
@@ -16,12 +17,25 @@ import type { Recheck, RoomAuthorizer, RoomGrant } from '../sync/contracts.js';
 import { AppCloseCode } from '../sync/errors.js';
 import { findDocument, findRetired, roleIn } from './membership.js';
 import { decideDocument } from './rounds.js';
+import type { TicketBook } from './tickets.js';
 
 export interface AuthorizerDeps {
   db: Db;
   sessions: SessionService;
   publicUrl: string | undefined;
   now?: () => number;
+  /** Grants decided ahead for a page's sockets (tickets.ts); absent: every upgrade decides afresh. */
+  tickets?: Pick<TicketBook, 'redeem'>;
+}
+
+/** The authorizer with the opening request's side: deciding many rooms of one session at once. */
+export interface SessionAuthorizer extends RoomAuthorizer {
+  /**
+   * The grants of those `rooms` the session may open now, decided exactly as at the upgrade (and the
+   * viewing of others' layers recorded in the access log as the upgrade records it); rooms it may not
+   * open are left out, with no word of why.
+   */
+  grantsFor(session: ValidSession, rooms: readonly string[]): Promise<RoomGrant[]>;
 }
 
 /** Plain words for a connection closed by a re-check (WebSocket close reasons: at most 123 bytes). */
@@ -39,7 +53,7 @@ type Decision =
   | { ok: true; grant: RoomGrant; viewed: { coderId: string | null; textId: string | null } | null }
   | { ok: false; status: 403 | 404 | 410; reason: string; closeCode?: number };
 
-export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }: AuthorizerDeps): RoomAuthorizer {
+export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now, tickets }: AuthorizerDeps): SessionAuthorizer {
   /** The one rule: may this signed-in person open this room now, and may they write? */
   async function decide(session: ValidSession, room: string): Promise<Decision> {
     // A purge retires the text's old room before it deletes it: connections to it must drop their copy.
@@ -77,7 +91,25 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
     };
   }
 
+  /** Who viewed whose layer is part of the access log (DESIGN §6). */
+  async function audit(decision: Decision & { ok: true }): Promise<void> {
+    if (!decision.viewed) return;
+    const { grant } = decision;
+    await recordAudit(db, { userId: grant.userId, studyId: grant.studyId, action: 'layer.view', target: grant.docId, detail: decision.viewed });
+  }
+
   return {
+    async grantsFor(session, rooms) {
+      const out: RoomGrant[] = [];
+      for (const room of rooms) {
+        const decision = await decide(session, room);
+        if (!decision.ok) continue;
+        await audit(decision);
+        out.push(decision.grant);
+      }
+      return out;
+    },
+
     async authorize(req: IncomingMessage, room: string): Promise<RoomGrant> {
       const header = (name: string) => {
         const v = req.headers[name];
@@ -89,6 +121,13 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
         throw new HttpError(403, 'bad_origin', 'This origin may not open sync connections.');
       }
       const token = readSessionToken(header('cookie'));
+      // A ticket from this page's opening request: the grant was decided (and audited) there, for this
+      // session, and nothing it depends on has changed since (tickets.ts); the cookie must still match.
+      const ticket = tickets && token && looksLikeToken(token) ? ticketOf(req.url) : null;
+      if (ticket) {
+        const grant = tickets!.redeem(ticket, sessionIdFromToken(token!), room);
+        if (grant) return grant;
+      }
       const session = token ? await sessions.validate(token, { extend: false }) : null;
       if (!session) throw unauthenticated();
 
@@ -98,12 +137,8 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
         if (decision.status === 410) throw new HttpError(410, 'document_replaced', decision.reason);
         throw forbidden(decision.reason === LOST_ACCESS.notMember ? 'You are not a member of this study.' : decision.reason === LOST_ACCESS.mayNotRead ? undefined : decision.reason);
       }
-      const { grant } = decision;
-      if (decision.viewed) {
-        // Who viewed whose layer is part of the access log (DESIGN §6).
-        await recordAudit(db, { userId: grant.userId, studyId: grant.studyId, action: 'layer.view', target: grant.docId, detail: decision.viewed });
-      }
-      return grant;
+      await audit(decision);
+      return decision.grant;
     },
 
     async recheck(grant: RoomGrant): Promise<Recheck> {
@@ -116,4 +151,12 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now }
       return decision.ok ? { ok: true, grant: decision.grant } : { ok: false, reason: decision.reason, ...(decision.closeCode ? { closeCode: decision.closeCode } : {}) };
     },
   };
+}
+
+/** The `ticket` query parameter of a sync URL, or null. */
+function ticketOf(url: string | undefined): string | null {
+  const q = url?.indexOf('?') ?? -1;
+  if (q < 0) return null;
+  const value = new URLSearchParams(url!.slice(q + 1)).get('ticket');
+  return value && /^[A-Za-z0-9_-]{20,100}$/.test(value) ? value : null;
 }

@@ -14,6 +14,7 @@ import { sessionRoutes } from './session.js';
 import { staticRoutes } from './static.js';
 import { studyRoutes } from './studies.js';
 import { studyTextRoutes, textRoutes } from './texts.js';
+import { openingRoutes } from './opening.js';
 import { agreementRoutes } from './agreement.js';
 import { importRoutes } from './imports.js';
 import { segmentRoutes } from './segments.js';
@@ -55,6 +56,7 @@ export function buildApp(deps: AppDeps, log: (err: unknown) => void = (err) => l
   api.route('/studies/:studyId/audit', auditRoutes(deps));
   api.route('/studies/:studyId/texts', studyTextRoutes(deps));
   api.route('/texts', textRoutes(deps));
+  api.route('/texts', openingRoutes(deps));
   api.route('/studies/:studyId/texts/import', importRoutes(deps));
   api.route('/studies/:studyId/agreement', agreementRoutes(deps));
   api.route('/texts', segmentRoutes(deps));

@@ -13,6 +13,8 @@ import type { DocWriter } from '../rounds/doc-change.js';
 import type { Readiness } from '../readiness.js';
 import type { HeavyWork } from '../heavy/pool.js';
 import type { HeavyLimits } from '../heavy/limits.js';
+import type { SessionAuthorizer } from '../access/authorizer.js';
+import type { TicketBook } from '../access/tickets.js';
 
 export interface AppDeps {
   db: Db;
@@ -26,6 +28,10 @@ export interface AppDeps {
    * open sync connections on every node are re-checked and closed or downgraded if they lost a right.
    */
   liveAccess: LiveAccess;
+  /** The sync upgrade's authorizer, for deciding a page's rooms ahead (the opening request); absent in bare app tests. */
+  authorizer?: Pick<SessionAuthorizer, 'grantsFor'>;
+  /** Where the opening request leaves its decisions for the page's sockets; absent: no tickets. */
+  tickets?: Pick<TicketBook, 'stamp' | 'issue'>;
   config: Pick<ServerConfig, 'publicUrl' | 'maxBodyBytes' | 'webDist' | 'trustProxy' | 'signInMaxFailures' | 'signInMaxFailuresPerEmail' | 'signInMaxFailuresPerAddress'>;
   /** Live comment events across nodes; absent in bare app tests. */
   commentEvents?: CommentEvents;

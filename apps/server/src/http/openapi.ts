@@ -188,6 +188,19 @@ export function buildOpenApi() {
           responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) },
         },
       },
+      '/api/texts/{textId}/opening': {
+        get: {
+          summary:
+            'Everything the coding view of a text opens, in one response before any sync socket: the states (whole-document Yjs updates) of the text, of every layer of it ' +
+            'the caller may read (outside rounds and of the open round), and of the study\'s codebook and memos, decided room by room by the same rule as the sync upgrade ' +
+            '(a participant in an independent phase gets no one else\'s layer). Binary: varUint version (1), varString ticket, varUint count, then per document varString room, ' +
+            'varString kind, varUint8Array state (lib0 encoding). Brotli or gzip as Accept-Encoding allows. The ticket, presented as `/sync/<room>?ticket=…` with the same ' +
+            'session cookie within 30 seconds, opens the rooms it names without deciding them again, as long as no access change happened meanwhile (else the upgrade decides afresh).',
+          security: secured,
+          parameters: [idParam('textId')],
+          responses: { '200': { description: 'The states', content: { 'application/octet-stream': { schema: { type: 'string', format: 'binary' } } } }, ...errors(401, 404) },
+        },
+      },
       ...codingPaths,
       ...exchangePaths,
       ...peoplePaths,

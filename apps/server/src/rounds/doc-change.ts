@@ -10,6 +10,8 @@ export interface DocWriter {
   write(docId: string, update: Uint8Array, userId: string | null): Promise<void>;
   /** An update committed outside sync (an import): to the open rooms of every node (sync `announce`). */
   announce(docId: string, seq: number, update: Uint8Array): Promise<void>;
+  /** The document's whole state, from its room (sync `state`: the room stays open `holdMs` for the sockets that follow). */
+  state(docId: string, holdMs: number): Promise<Uint8Array>;
 }
 
 /** Applies `change` to the stored document; writes and returns true when it changed anything. */

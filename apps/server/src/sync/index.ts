@@ -5,6 +5,7 @@
 import type { Server } from 'node:http';
 import type { Duplex } from 'node:stream';
 import { WebSocketServer, type WebSocket } from 'ws';
+import * as Y from 'yjs';
 import { Connection, DEFAULT_MAX_PRESENCE_BYTES } from './connection.js';
 import type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
 import { AppCloseCode, CloseCode, SyncError } from './errors.js';
@@ -51,6 +52,12 @@ export interface SyncHandle {
    * position `seq`) to the open room here (its peers receive it) and to other nodes' rooms.
    */
   announce(docId: string, seq: number, update: Uint8Array): Promise<void>;
+  /**
+   * The document's state as one update (everything committed, from the open room or loaded into one),
+   * keeping the room open for `holdMs` afterwards: the opening request reads it and the page's sockets,
+   * arriving right after, join a room that is already loaded instead of loading it again.
+   */
+  state(docId: string, holdMs: number): Promise<Uint8Array>;
   close(): Promise<void>;
   stats(): SyncStats;
 }
@@ -65,6 +72,8 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
   });
   const wss = new WebSocketServer({ noServer: true, maxPayload: options.maxMessageBytes });
   const connections = new Set<Connection>();
+  /** Leases that keep rooms open after an opening request read them (`state`), cleared on close. */
+  const leases = new Set<() => void>();
   let closing = false;
 
   const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer): void => {
@@ -169,8 +178,23 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
       if (room) return room.applyCommitted(seq, update);
       await options.relay.publish(docId, encodeRelayFrame({ kind: 'update', seq, data: update }));
     },
+    async state(docId, holdMs) {
+      const lease: RoomPeer = { send: () => {}, sendAwareness: () => {}, fail: () => {} };
+      const room = await registry.join(docId, docId, lease);
+      const state = Y.encodeStateAsUpdate(room.doc);
+      const release = (): void => {
+        clearTimeout(timer);
+        leases.delete(release);
+        registry.leave(room, lease);
+      };
+      const timer = setTimeout(release, closing ? 0 : holdMs);
+      timer.unref();
+      leases.add(release);
+      return state;
+    },
     async close() {
       closing = true;
+      for (const release of [...leases]) release();
       clearInterval(keepalive);
       offReconnect?.();
       httpServer.off('upgrade', onUpgrade);

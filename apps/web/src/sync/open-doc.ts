@@ -68,6 +68,60 @@ export interface OpenDoc {
 interface Entry { handle: OpenDoc; refs: number }
 const open = new Map<string, Entry>();
 
+/** The origin of a state from the opening request (sync/opening.ts): the server's, not a change made here. */
+export const PRIMED = Symbol('opening');
+/** States the opening request brought for documents not open yet, by room; taken by the next openDoc. */
+const primed = new Map<string, Uint8Array>();
+/** Applies a state that arrived for a document already open, and counts it ready. */
+const primeOpen = new Map<string, (state: Uint8Array) => void>();
+
+/**
+ * Applying a whole document's state is the longest piece of work in opening a text (a layer of 2,000
+ * segments is ~280 kB): each runs in a task of its own, in the order asked, so the page can paint and
+ * answer between them.
+ */
+const applyQueue: Array<() => void> = [];
+function inOwnTask(work: () => void): void {
+  applyQueue.push(work);
+  if (applyQueue.length === 1) setTimeout(runNext, 0);
+}
+function runNext(): void {
+  const work = applyQueue[0];
+  if (!work) return; // emptied meanwhile (sign-out)
+  try {
+    work();
+  } finally {
+    applyQueue.shift();
+    if (applyQueue.length > 0) setTimeout(runNext, 0);
+  }
+}
+
+/**
+ * Puts the server's state of `room` (from the opening request) into its document: soon if it is open,
+ * else when it opens. The document then counts as ready, as with its offline copy; its socket exchanges
+ * only what changed since.
+ */
+export function prime(room: string, state: Uint8Array): void {
+  const apply = primeOpen.get(room);
+  if (apply) apply(state);
+  else primed.set(room, state);
+}
+
+/** Forgets states primed for documents that were never opened (the screen went elsewhere). */
+export function unprime(rooms: Iterable<string>): void {
+  for (const room of rooms) primed.delete(room);
+}
+
+/**
+ * The ticket the opening request got for this page's sockets: presented at each upgrade so the server
+ * need not decide the room again (it decides afresh when the ticket no longer stands). '' for none.
+ */
+let ticket = '';
+export function setSyncTicket(t: string): void {
+  ticket = t;
+  for (const { handle } of open.values()) handle.provider.params = t ? { ticket: t } : {};
+}
+
 /**
  * Chromium opens WebSocket connections to one host one at a time (each handshake waits for the one
  * before it, as RFC 6455 §4.1 allows), so every socket opened early delays the ones behind it. A
@@ -91,6 +145,10 @@ function startBackground(): void {
 export async function closeAllDocs(): Promise<void> {
   const entries = [...open.values()];
   open.clear();
+  // nothing of this person's may reach whoever signs in next on this page
+  primed.clear();
+  applyQueue.length = 0;
+  ticket = '';
   await Promise.all(entries.map(({ handle }) => handle.closeNow()));
 }
 
@@ -109,7 +167,7 @@ export const isPaused = (): boolean => paused;
  * `offline: false` keeps no IndexedDB copy: for documents this person only reads (other coders' layers),
  * which need not survive a lost connection and would cost storage and time on every open.
  */
-export function openDoc(room: string, opts: { label: string; gc?: boolean; offline?: boolean; background?: boolean }): OpenDoc {
+export function openDoc(room: string, opts: { label: string; gc?: boolean; offline?: boolean; background?: boolean; holdUntil?: Promise<unknown> }): OpenDoc {
   const existing = open.get(room);
   if (existing) {
     existing.refs++;
@@ -117,10 +175,17 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   }
   // Text documents are opened with gc:false so anchors into deleted text still resolve (DESIGN §2).
   const doc = new Y.Doc({ gc: opts.gc ?? true });
+  const early = primed.get(room);
+  primed.delete(room);
   const local = opts.offline === false ? null : new IndexeddbPersistence(`gloss:${room}`, doc);
   const defer = opts.background === true && foregroundLoading.size > 0;
   const provider = new WebsocketProvider(syncBaseUrl(), room, doc, {
-    connect: !paused && !defer,
+    // with a state from the opening request, connect once it is applied: the first sync message then
+    // carries its state vector and the server sends only what changed since
+    // `holdUntil` (the opening request in flight): the offline copy loads meanwhile, the socket waits
+    // for the state and the ticket the request brings
+    connect: !paused && !defer && !early && !opts.holdUntil,
+    params: ticket ? { ticket } : {},
     maxBackoffTime: 2500,
     // Access taken away is not a network problem: reconnecting would only be refused again.
     shouldReconnect: (event: CloseEvent) => !NO_RECONNECT.has(event.code),
@@ -197,7 +262,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     }
   });
   doc.on('update', (_u: Uint8Array, origin: unknown) => {
-    if (origin === provider || (local && origin === local)) return;
+    if (origin === provider || origin === PRIMED || (local && origin === local)) return;
     wroteHere = true;
     if (!provider.wsconnected || !provider.synced) setPending(pending() + 1);
   });
@@ -220,6 +285,23 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     void local?.whenSynced.then(() => {
       if (doc.store.clients.size > 0 && !provider.wsconnected) finish();
     });
+    // The opening request's state is the server's as of a moment ago: ready to draw, the socket follows.
+    const applyPrimed = (state: Uint8Array, connect: boolean) =>
+      inOwnTask(() => {
+        if (released) return;
+        Y.applyUpdate(doc, state, PRIMED);
+        performance.mark(`gloss:primed:${room}`);
+        finish();
+        if (connect && !paused && !defer && !provider.shouldConnect) provider.connect();
+      });
+    if (early) applyPrimed(early, true);
+    else primeOpen.set(room, (state) => applyPrimed(state, false));
+    // after the states the request primed (queued before this, so applied first), connect
+    void opts.holdUntil?.finally(() =>
+      inOwnTask(() => {
+        if (!released && !paused && !defer && !provider.shouldConnect) provider.connect();
+      }),
+    );
   });
 
   if (opts.background !== true) {
@@ -269,6 +351,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     closeNow() {
       if (released) return closing;
       released = true;
+      primeOpen.delete(room);
       cleanupForeground?.();
       setState('unloading');
       unregisterDoc(handle);

@@ -9,7 +9,8 @@ import { StudyNav } from '../study/StudyNav.js';
 import { api } from '../../api/client.js';
 import { Loading } from '../../ui/Loading.js';
 import { href } from '../../ui/router.js';
-import { openDoc, type OpenDoc } from '../../sync/open-doc.js';
+import { openDoc, unprime, type OpenDoc } from '../../sync/open-doc.js';
+import { openText } from '../../sync/opening.js';
 import { CodingView } from './CodingView.js';
 import type { LayerHandle } from './coding-state.js';
 
@@ -19,12 +20,19 @@ import type { LayerHandle } from './coding-state.js';
  */
 export function CodingScreen(props: { studyId: string; textId: string; scope: StudyScope; me: Me; segmentId?: string | undefined; memoId?: string | undefined; layers?: (l: LayerInfo) => boolean; banner?: JSX.Element }) {
   const [detail] = createResource(() => props.textId, (id) => api.text(id));
+  // every document's state in one request, alongside the text's rooms (sync/opening.ts); never fails.
+  // The documents open meanwhile from their offline copies (a second open draws from them at once);
+  // their sockets wait for it, so they connect with the ticket and exchange only what changed.
+  let opening: { textId: string; done: Promise<string[]> } | undefined;
+  const openingOf = (textId: string) => (opening?.textId === textId ? opening : (opening = { textId, done: openText(textId) })).done;
+  createEffect(() => void openingOf(props.textId));
   const [docs, setDocs] = createSignal<{ text: OpenDoc; layers: LayerHandle[] }>();
   const [loaded, setLoaded] = createSignal(false);
 
   createEffect(() => {
     const d = detail();
     if (!d) return;
+    const done = openingOf(props.textId);
     // A participant coding this text independently in a round codes in the round's layer, which only the
     // round's text screen opens (with the "done" mark): there is no layer for them here, so go there.
     if (!props.layers && d.round?.participant && d.round.phase === 'independent') {
@@ -32,10 +40,10 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
       return;
     }
     untrack(() => {
-      const text = openDoc(d.room, { label: `“${d.title || 'this text'}”`, gc: false });
+      const text = openDoc(d.room, { label: `“${d.title || 'this text'}”`, gc: false, holdUntil: done });
       const layers = d.layers.filter(props.layers ?? ((l) => !l.round)).map((l) => {
         const mine = l.mine ?? l.coderId === props.me.id;
-        return { coderId: l.coderId, name: mine ? `${l.name ?? props.me.name} (you)` : l.kind === 'consensus' ? 'Consensus' : l.name ?? l.coderId, mine, kind: l.kind, canWrite: l.canWrite, doc: openDoc(l.room, { label: mine ? 'your coding' : `${l.name ?? 'a'} layer`, gc: false, offline: mine || l.canWrite === true }) };
+        return { coderId: l.coderId, name: mine ? `${l.name ?? props.me.name} (you)` : l.kind === 'consensus' ? 'Consensus' : l.name ?? l.coderId, mine, kind: l.kind, canWrite: l.canWrite, doc: openDoc(l.room, { label: mine ? 'your coding' : `${l.name ?? 'a'} layer`, gc: false, offline: mine || l.canWrite === true, holdUntil: done }) };
       });
       setDocs({ text, layers });
       // draw once the text and every layer hold the server's state (or the offline copy)
@@ -52,6 +60,7 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
         text.release();
         layers.forEach((l) => l.doc.release());
         live = false;
+        void done.then(unprime);
         setLoaded(false);
         setDocs(undefined);
       });

@@ -19,7 +19,12 @@ import type { RemoteCaret } from './text-presence.js';
 import { describeFlag, type Flag } from '../../doc/flag-view.js';
 
 const FIRST_BATCH = 60;
-const BATCH = 300;
+/**
+ * Turns added per frame after the first screen. Small enough that one frame's rendering stays a short
+ * task on a slow machine (300 turns of a 30,000-word text took a few hundred milliseconds in one task);
+ * content-visibility keeps the layout of the turns off screen cheap.
+ */
+const BATCH = 60;
 const FLAGS_SHOWN = 5;
 
 interface TurnFlags { count: number; first: Flag[] }
