@@ -11,6 +11,7 @@ import { parseArgs } from 'node:util';
 import { openDatabase } from '@gloss/db';
 import { exportLosses } from '@gloss/interchange';
 import { createPgUpdateStore, exchange, loadConfig } from '@gloss/server';
+import { refusal } from '../refusal.js';
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
@@ -35,8 +36,9 @@ export async function exportCommand(argv: string[]): Promise<number> {
   };
   try {
     if (format === 'qdc' || format === 'qdpx') for (const l of exportLosses(format)) err.write(`note: ${l}\n`);
-    const result = await exchange.runExport(database.db, store, values.study.toLowerCase(), format, { actorId: null, via: 'cli', onProgress, layers }).catch((e: { status?: number; message?: string }) => {
-      if (e.status && e.status < 500) throw Object.assign(new Error(e.message), { exitCode: 2 });
+    const result = await exchange.runExport(database.db, store, values.study.toLowerCase(), format, { actorId: null, via: 'cli', onProgress, layers }).catch((e: unknown) => {
+      const refused = refusal(e);
+      if (refused !== null) throw Object.assign(new Error(refused), { exitCode: 2 });
       throw e;
     });
     const out = values.out ? createWriteStream(values.out) : process.stdout;

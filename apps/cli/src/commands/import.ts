@@ -11,6 +11,7 @@ import { parseArgs } from 'node:util';
 import { and, asc, eq, memberships, openDatabase, users } from '@gloss/db';
 import { ExchangeError, importLosses } from '@gloss/interchange';
 import { createPgUpdateStore, exchange, loadConfig } from '@gloss/server';
+import { refusal } from '../refusal.js';
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 const USAGE = 'usage: gloss import --study ID --format qdc|qdpx FILE [--as EMAIL]\n       gloss import --new-study "Title" --owner EMAIL --format qdc|qdpx FILE';
@@ -87,8 +88,8 @@ export async function importCommand(argv: string[]): Promise<number> {
       process.stdout.write(JSON.stringify({ error: e.toJSON() }) + '\n');
       return fail(`${e.message} (nothing was imported)`);
     }
-    const x = e as { status?: number; message?: string };
-    if (x.status && x.status < 500) return fail(x.message ?? 'refused');
+    const refused = refusal(e);
+    if (refused !== null) return fail(refused);
     throw e;
   } finally {
     await store.close();

@@ -2,6 +2,7 @@
 import { parseArgs } from 'node:util';
 import { openDatabase } from '@gloss/db';
 import { admin, loadConfig } from '@gloss/server';
+import { refusal } from '../refusal.js';
 
 async function readStdin(): Promise<string> {
   const chunks: Buffer[] = [];
@@ -32,9 +33,9 @@ export async function userCommand(argv: string[]): Promise<number> {
     process.stdout.write(JSON.stringify({ id: user.id, email: user.email, name: user.name }) + '\n');
     return 0;
   } catch (err) {
-    const e = err as { status?: number; message?: string };
-    if (e.status && e.status < 500) {
-      process.stderr.write(`gloss user add: ${e.message}\n`);
+    const refused = refusal(err);
+    if (refused !== null) {
+      process.stderr.write(`gloss user add: ${refused}\n`);
       return 2;
     }
     throw err;

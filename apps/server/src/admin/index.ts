@@ -1,4 +1,5 @@
 /** Administrative operations shared by the HTTP API, the CLI, demo seeding and tests. */
+export { AdminError, type AdminErrorCode } from './errors.js';
 export { createUser, findUserByEmail, normaliseEmail, setPassword, type NewUser } from './users.js';
 export * from './account-links.js';
 export { createStudy, addMember, removeMember, type NewStudy } from './studies.js';
