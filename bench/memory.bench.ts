@@ -37,9 +37,14 @@ interface Child {
 
 /** `gloss serve` on a port of its own choosing (PORT=0), ready once it prints its listening line. */
 async function serve(env: Record<string, string>, args: string[] = []): Promise<Child> {
+  // The embedded database unless this server is given one: a DATABASE_URL inherited from the bench's own
+  // environment would put the "PGlite" servers on PostgreSQL (their figures, and the sign-in, were wrong).
+  const inherited: NodeJS.ProcessEnv = { ...process.env };
+  if (!('DATABASE_URL' in env)) delete inherited.DATABASE_URL;
+  delete inherited.REDIS_URL;
   const proc = spawn(process.execPath, ['--import', 'tsx', join(root, 'apps/cli/src/main.ts'), 'serve', ...args], {
     cwd: root,
-    env: { ...process.env, PORT: '0', HOST: '127.0.0.1', LOG_LEVEL: 'warn', ...env },
+    env: { ...inherited, PORT: '0', HOST: '127.0.0.1', LOG_LEVEL: 'warn', ...env },
     stdio: ['ignore', 'pipe', 'inherit'],
   });
   const url = await new Promise<string>((resolve, reject) => {
