@@ -6,22 +6,13 @@
 import { openDatabase, projectedSegments, eq, type Database } from '@gloss/db';
 import { addSegment, correctText } from '@gloss/model';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import * as Y from 'yjs';
 import { ensureLayer } from '../../apps/server/src/admin/texts.js';
 import { createProjector, documentsBehind, loadDoc, scheduleCatchUp } from '../../apps/server/src/projection/index.js';
 import { createPgUpdateStore } from '../../apps/server/src/store/index.js';
 import type { UpdateStore } from '../../apps/server/src/sync/contracts.js';
 import { dbKinds, freshPgliteDir, freshPostgresDatabase } from '../support/database.js';
 import { seedCoding, type CodingSeed } from './support.js';
-
-/** Appends exactly the update `fn` makes to a copy of the stored document (no projector: a node that dies before projecting). */
-async function change(store: UpdateStore, docId: string, fn: (doc: Y.Doc) => void): Promise<void> {
-  const doc = await loadDoc(store, docId);
-  const before = Y.encodeStateVector(doc);
-  fn(doc);
-  await store.append(docId, Y.encodeStateAsUpdate(doc, before), null);
-  doc.destroy();
-}
+import { appendChange } from '../support/store-change.js';
 
 describe.each(dbKinds())('projection resumes on %s', (kind) => {
   let open: () => Promise<Database>;
@@ -89,7 +80,7 @@ describe.each(dbKinds())('projection resumes on %s', (kind) => {
       const textDoc = await loadDoc(store, seed.codingTextRoom);
       const words = 'a spade and a plot';
       const at = textDoc.getText('text').toString().indexOf(words);
-      await change(store, layers[0]!, (l) => {
+      await appendChange(store, layers[0]!, (l) => {
         segId = addSegment(l, textDoc, { codeId: seed.codes.tools, start: at, end: at + words.length });
       });
       textDoc.destroy();
@@ -103,7 +94,7 @@ describe.each(dbKinds())('projection resumes on %s', (kind) => {
 
   it("after a text correction, the next start projects that text's layers and nothing else", async () => {
     const result = await start(async (store, database) => {
-      await change(store, seed.codingTextRoom, (t) => correctText(t, t.getText('text').toString().indexOf('and a plot'), 4));
+      await appendChange(store, seed.codingTextRoom, (t) => correctText(t, t.getText('text').toString().indexOf('and a plot'), 4));
       await store.flush();
       const behind = await documentsBehind(database.db);
       expect([...behind].sort()).toEqual([...layers].sort());

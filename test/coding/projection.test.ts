@@ -7,22 +7,13 @@
 import { type Database, eq, sql, projectedCaseTexts, projectedCases, projectedCodes, projectedMemos, projectedSegments } from '@gloss/db';
 import { addCase, addMemo, addSegment, correctText, getSegmentsMap, linkText, updateCodeField } from '@gloss/model';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import * as Y from 'yjs';
 import { ensureLayer } from '../../apps/server/src/admin/texts.js';
 import { createProjector, loadDoc, projectDocument, withProjection, type Projector } from '../../apps/server/src/projection/index.js';
 import { createPgUpdateStore, type PgUpdateStore } from '../../apps/server/src/store/index.js';
 import type { UpdateStore } from '../../apps/server/src/sync/contracts.js';
 import { dbKinds, openTestDatabase } from '../support/database.js';
 import { seedCoding, until, type CodingSeed } from './support.js';
-
-/** Applies `change` to a copy of the stored document and appends exactly the resulting update. */
-async function change(store: UpdateStore, docId: string, fn: (doc: Y.Doc) => void): Promise<void> {
-  const doc = await loadDoc(store, docId);
-  const before = Y.encodeStateVector(doc);
-  fn(doc);
-  await store.append(docId, Y.encodeStateAsUpdate(doc, before), null);
-  doc.destroy();
-}
+import { appendChange } from '../support/store-change.js';
 
 describe.each(dbKinds())('projection on %s', (kind) => {
   let database: Database;
@@ -50,7 +41,7 @@ describe.each(dbKinds())('projection on %s', (kind) => {
     const layer = await ensureLayer(database.db, seed.studyId, seed.codingTextId, seed.users.coder.id);
     const textDoc = await loadDoc(store, seed.codingTextRoom);
     let segId = '';
-    await change(store, layer, (l) => {
+    await appendChange(store, layer, (l) => {
       const words = 'a spade and a plot';
       const start = textDoc.getText('text').toString().indexOf(words);
       segId = addSegment(l, textDoc, { codeId: seed.codes.tools, start, end: start + words.length });
@@ -60,18 +51,18 @@ describe.each(dbKinds())('projection on %s', (kind) => {
     expect((await segmentRows())[0]).toMatchObject({ id: segId, layerDocId: layer, coderId: seed.users.coder.id, codeId: seed.codes.tools, quote: 'a spade and a plot', orphaned: false });
 
     // A correction inside the passage changes only the text document; the layer's rows must follow.
-    await change(store, seed.codingTextRoom, (t) => correctText(t, t.getText('text').toString().indexOf('and a plot'), 4));
+    await appendChange(store, seed.codingTextRoom, (t) => correctText(t, t.getText('text').toString().indexOf('and a plot'), 4));
     await until(async () => (await segmentRows())[0]?.quote === 'a spade a plot', 'quote re-projected after the correction', 10_000);
     textDoc.destroy();
   }, 60_000);
 
   it('codes, cases and memos are projected from the codebook and memos documents', async () => {
-    await change(store, seed.codebookRoom, (cb) => {
+    await appendChange(store, seed.codebookRoom, (cb) => {
       updateCodeField(cb, seed.codes.time, 'briefDefinition', 'Talk of seasons and harvests.', { by: seed.users.lead.id });
       const caseId = addCase(cb, { name: 'P01', kind: 'participant' });
       linkText(cb, caseId, seed.codingTextId);
     });
-    await change(store, seed.memosRoom, (m) => {
+    await appendChange(store, seed.memosRoom, (m) => {
       addMemo(m, { author: seed.users.coder.id, title: 'Lending', body: 'Tools travel along the hedges.', attachedTo: { kind: 'code', codeId: seed.codes.tools } });
     });
     await projector.flush();
@@ -94,7 +85,7 @@ describe.each(dbKinds())('projection on %s', (kind) => {
     const textDoc = await loadDoc(store, seed.codingTextRoom);
     const at = textDoc.getText('text').toString().indexOf('keys');
     let segId = '';
-    await change(store, layer, (l) => {
+    await appendChange(store, layer, (l) => {
       segId = addSegment(l, textDoc, { codeId: seed.codes.access, start: at, end: at + 4 });
     });
     await projector.flush();
@@ -106,7 +97,7 @@ describe.each(dbKinds())('projection on %s', (kind) => {
     expect((await segmentRows()).filter((r) => r.layerDocId === layer)).toEqual([]);
 
     await database.db.execute(sql`alter table segments drop constraint test_refuse_keys`);
-    await change(store, layer, (l) => {
+    await appendChange(store, layer, (l) => {
       addSegment(l, textDoc, { codeId: seed.codes.access, start: at + 5, end: at + 7 });
     });
     textDoc.destroy();

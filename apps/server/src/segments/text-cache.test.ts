@@ -13,14 +13,7 @@ import { createMemoryUpdateStore } from '../store/memory-update-store.js';
 import type { UpdateStore } from '../sync/contracts.js';
 import { createTextCache } from './text-cache.js';
 import { segmentsWithFlags } from './with-flags.js';
-
-async function change(store: UpdateStore, docId: string, fn: (doc: Y.Doc) => void): Promise<void> {
-  const doc = await loadDoc(store, docId);
-  const before = Y.encodeStateVector(doc);
-  fn(doc);
-  await store.append(docId, Y.encodeStateAsUpdate(doc, before), null);
-  doc.destroy();
-}
+import { appendChange } from '../../../../test/support/store-change.js';
 
 const WORDS = ['tide', 'net', 'shed', 'winter', 'we', 'rowed', 'out', 'and', 'back'];
 
@@ -58,15 +51,15 @@ describe('text cache for the segments route', () => {
         const t = await loadDoc(store, 'text');
         const len = getText(t).length;
         const start = Math.floor(rand() * (len - 40));
-        await change(store, l.layerDocId, (doc) => void addSegment(doc, t, { codeId: codes[Math.floor(rand() * codes.length)]!, start, end: start + 5 + Math.floor(rand() * 30) }));
+        await appendChange(store, l.layerDocId, (doc) => void addSegment(doc, t, { codeId: codes[Math.floor(rand() * codes.length)]!, start, end: start + 5 + Math.floor(rand() * 30) }));
         t.destroy();
       } else if (what < 0.85) {
-        await change(store, 'text', (t) => {
+        await appendChange(store, 'text', (t) => {
           const at = Math.floor(rand() * (getText(t).length - 10));
           correctText(t, at, 1 + Math.floor(rand() * 6), WORDS[Math.floor(rand() * WORDS.length)]!);
         });
       } else {
-        await change(store, 'cb', (c) => updateCodeField(c, codes[Math.floor(rand() * codes.length)]!, 'inclusion', `step ${step}`, { by: 'lead' }));
+        await appendChange(store, 'cb', (c) => updateCodeField(c, codes[Math.floor(rand() * codes.length)]!, 'inclusion', `step ${step}`, { by: 'lead' }));
       }
       const got = await cache.segments(query);
       expect(got.source).toBe('refreshed');
