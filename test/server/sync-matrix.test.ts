@@ -2,7 +2,7 @@
  * The authorisation matrix for sync (issue 13 item 7): every person (anonymous, each study role, a
  * member of another study, and a participant of a round in its independent phase) × every kind of room
  * (a text, a text in an open round, the codebook, the memos, a coder's layer, a participant's round
- * layer) × every message type of the y-websocket protocol (y-protocols
+ * layer, and after the reveal the round's consensus layer) × every message type of the y-websocket protocol (y-protocols
  * 1.0.7: sync step 1, sync step 2, update, awareness, query-awareness, auth). Zero unauthorised
  * successes: a room someone may not read refuses the upgrade itself (401 without a session, 403/404
  * otherwise), and a write by someone who may not write it in full is answered with permission-denied
@@ -80,6 +80,7 @@ describe('sync authorisation matrix', () => {
   let server: SpawnedServer<RoundSeed>;
   const cookies = {} as Record<Person, string>;
   const rooms = {} as Record<Room, string>;
+  let roundId = '';
 
   beforeAll(async () => {
     server = await spawnServer({ db: 'pglite', seed: seedRounds, startTimeoutMs: 180_000 });
@@ -96,6 +97,7 @@ describe('sync authorisation matrix', () => {
       purpose: 'Every message type against every role.',
     });
     expect(round.status).toBe(201);
+    roundId = round.body.id;
     const mine = (await apiClient(server.url, cookies.coder2).call<RoundOut>('GET', `/api/rounds/${round.body.id}`)).body.texts[0]!.layers;
     Object.assign(rooms, {
       text: s.textRoom,
@@ -108,17 +110,20 @@ describe('sync authorisation matrix', () => {
   }, 300_000);
   afterAll(async () => server?.stop());
 
-  it('gives no one more than the table allows, for every message type', async () => {
+  /**
+   * Every cell of `table`: the upgrade, then each message type, as described at the top. Then, per room
+   * someone may write in full, a last accepted write, and once it is held, none of the refused ones is.
+   */
+  async function checkTable<R extends string>(table: Record<R, Record<Who, Access>>, roomOf: (room: R) => string) {
     const unauthorised: string[] = [];
     const wrongRefusal: string[] = [];
     const denied: string[] = [];
     /** Markers of refused writes, per room: checked again at the end, once a later accepted write is held. */
-    const refusedMarkers = new Map<Room, string[]>();
-    let n = 0;
-    for (const room of Object.keys(EXPECTED) as Room[]) {
-      const roomId = rooms[room];
+    const refusedMarkers = new Map<R, string[]>();
+    for (const room of Object.keys(table) as R[]) {
+      const roomId = roomOf(room);
       for (const who of WHO) {
-        const access = EXPECTED[room][who];
+        const access = table[room][who];
         const cell = `${who} on ${room}`;
         const cookie = who === 'anonymous' ? undefined : cookies[PERSON[who]];
         if (access === 'none') {
@@ -142,7 +147,7 @@ describe('sync authorisation matrix', () => {
           aw.destroy();
           // Writes: as an update and as a sync step 2, each with its own marker.
           for (const [step, label] of [[2, 'update'], [1, 'step2']] as const) {
-            const marker = `m${n++}-${who}-${room}-${label}`;
+            const marker = `m${markerCount++}-${who}-${room}-${label}`;
             const from = probe.received.length;
             probe.send(payloadMessage(MESSAGE_SYNC, step, markerUpdate(marker)));
             const holds = async () => (await serverState(probe)).getMap('matrix').get(marker) === marker;
@@ -167,11 +172,10 @@ describe('sync authorisation matrix', () => {
         }
       }
     }
-    // Each room someone may write in full: a last accepted write, and once it is held, none of the refused ones is.
-    for (const room of Object.keys(EXPECTED) as Room[]) {
-      const writer = WHO.find((w) => EXPECTED[room][w] === 'write') as Exclude<Who, 'anonymous'> | undefined;
+    for (const room of Object.keys(table) as R[]) {
+      const writer = WHO.find((w) => table[room][w] === 'write') as Exclude<Who, 'anonymous'> | undefined;
       if (!writer) continue;
-      const probe = await openProbe(server.url, rooms[room], cookies[PERSON[writer]]);
+      const probe = await openProbe(server.url, roomOf(room), cookies[PERSON[writer]]);
       try {
         const last = `last-${room}`;
         probe.send(payloadMessage(MESSAGE_SYNC, 2, markerUpdate(last)));
@@ -182,11 +186,37 @@ describe('sync authorisation matrix', () => {
         probe.close();
       }
     }
+    return { unauthorised, wrongRefusal, denied };
+  }
+  let markerCount = 0;
+
+  it('gives no one more than the table allows, for every message type', async () => {
+    const { unauthorised, wrongRefusal, denied } = await checkTable(EXPECTED, (room) => rooms[room]);
     expect(unauthorised, 'unauthorised successes').toEqual([]);
     expect(wrongRefusal, 'cells that did not behave as the table says').toEqual([]);
     expect(denied.length).toBeGreaterThan(0);
   }, 300_000);
 
+  // After the main table, because it moves the round on. After the reveal, the round's consensus layer
+  // (DESIGN §6) is read by whoever reads others' layers (not a trainee without a shared comparison) and
+  // written by lead and owner only. Before the reveal it is not listed to anyone (rounds/layer-entries.ts) and refused at
+  // the upgrade (test/rounds/lifecycle.test.ts).
+  it('after the reveal, the consensus layer: every message type against every role', async () => {
+    const lead = apiClient(server.url, cookies.lead);
+    expect((await lead.call('POST', `/api/rounds/${roundId}/reveal`)).status).toBe(200);
+    const revealed = (await lead.call<RoundOut>('GET', `/api/rounds/${roundId}`)).body;
+    const consensusRoom = revealed.texts[0]!.layers.find((l) => l.kind === 'consensus')!.room;
+    // prettier-ignore
+    const table = {
+      consensusLayer: { anonymous: 'none', owner: 'write', lead: 'write', coder: 'read', trainee: 'none', observer: 'read', outsider: 'none', participant: 'read' },
+    } satisfies Record<string, Record<Who, Access>>;
+    const { unauthorised, wrongRefusal, denied } = await checkTable(table, () => consensusRoom);
+    expect(unauthorised, 'unauthorised successes').toEqual([]);
+    expect(wrongRefusal, 'cells that did not behave as the table says').toEqual([]);
+    expect(denied.length).toBeGreaterThan(0);
+  }, 300_000);
+
+  // Last: it ends the observer's sessions and changes their password.
   it('refuses the upgrade for a signed-out session and for one ended by a password change', async () => {
     const { url, seeded } = server;
     const out = await signIn(url, PEOPLE.observer.email, PASSWORD);
