@@ -17,6 +17,7 @@ import type { Recheck, RoomAuthorizer, RoomGrant } from '../sync/contracts.js';
 import { AppCloseCode } from '../sync/errors.js';
 import { findDocument, findRetired, roleIn } from './membership.js';
 import { decideDocument } from './rounds.js';
+import { memoReaderView } from './memo-view.js';
 import type { TicketBook } from './tickets.js';
 
 export interface AuthorizerDeps {
@@ -87,6 +88,8 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now, 
         canWrite: access.write || access.writeRule !== undefined,
         ...(access.writeRule ? { writeRule: access.writeRule } : {}),
         hidePointing: access.hidePointing,
+        // the memos document is study-wide: which of its entries this reader receives (memo-view.ts)
+        ...(doc.kind === 'memos' ? { memoView: await memoReaderView(db, doc.studyId, session.user.id, role) } : {}),
       },
     };
   }

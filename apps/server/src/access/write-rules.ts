@@ -20,6 +20,7 @@ export const WRITE_REFUSED = {
   othersMemo: "You can only write your own memos: this change touched someone else's memo.",
   forged: 'A memo must carry your own name as its author.',
   memosOnly: 'The memos document holds only memos.',
+  fixedPlace: 'A memo keeps the place it was written on (what it is attached to, whom it answers); write a new one instead.',
   replyNowhere: 'A reply must answer a memo or jotting that exists (not another reply).',
   proposalsOnly: 'You may only propose codes: ask the lead to change the codebook.',
   proposalNotNew: 'A proposal cannot be changed once made; the lead decides it.',
@@ -63,6 +64,17 @@ function touchedBy(doc: Y.Doc, update: Uint8Array): Touched | null {
 const authorOf = (m: unknown): string | undefined => (m instanceof Y.Map ? (m.get('author') as string | undefined) : undefined);
 
 /**
+ * The items that fix where an entry is read (its map item, its attachment, author and replyTo fields):
+ * who may receive an entry follows from them (memo-view.ts), so they may not change once written.
+ */
+function placeOf(root: Y.Map<unknown>, id: string): unknown[] {
+  const item = (root as unknown as { _map: Map<string, Y.Item> })._map.get(id);
+  const m = root.get(id);
+  const fields = m instanceof Y.Map ? (m as unknown as { _map: Map<string, Y.Item> })._map : new Map<string, Y.Item>();
+  return [item, fields.get('attachedTo'), fields.get('author'), fields.get('replyTo')];
+}
+
+/**
  * null when `update` keeps to `rule` for `userId`; otherwise the refusal in plain words.
  * `scratch` is a copy of the document the caller gives up (it is changed here).
  */
@@ -71,7 +83,11 @@ export function checkWrite(rule: WriteRule, scratch: Y.Doc, update: Uint8Array, 
   const entries = scratch.getMap<unknown>(root);
   // what each entry was before (authors of memos; which proposals already existed)
   const before = new Map<string, string | undefined>();
-  entries.forEach((m, id) => before.set(id, authorOf(m)));
+  const places = new Map<string, unknown[]>();
+  entries.forEach((m, id) => {
+    before.set(id, authorOf(m));
+    if (rule === 'own-memos') places.set(id, placeOf(entries, id));
+  });
   const touched = touchedBy(scratch, update);
   if (touched === null) return WRITE_REFUSED.notChecked;
   for (const [name, keys] of touched) {
@@ -82,6 +98,8 @@ export function checkWrite(rule: WriteRule, scratch: Y.Doc, update: Uint8Array, 
       if (rule === 'own-memos') {
         if (before.has(key) && before.get(key) !== userId) return WRITE_REFUSED.othersMemo;
         if (after !== undefined && authorOf(after) !== userId) return WRITE_REFUSED.forged;
+        const place = places.get(key);
+        if (place !== undefined && after !== undefined && placeOf(entries, key).some((item, i) => item !== place[i])) return WRITE_REFUSED.fixedPlace;
         // a new reply (an entry of one's own with replyTo) must answer a memo that is there, not a reply
         if (!before.has(key) && after instanceof Y.Map && after.get('replyTo') !== undefined) {
           const to = after.get('replyTo');

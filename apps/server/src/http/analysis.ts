@@ -14,6 +14,9 @@ import { and, asc, eq, inArray } from 'drizzle-orm';
 import { Hono } from 'hono';
 import { z } from 'zod';
 import { HttpError } from '../errors.js';
+import { can } from '../access/policy.js';
+import { studySupervision } from '../access/supervision.js';
+import type { Role } from '../sync/contracts.js';
 import { contexts } from '../analysis/context.js';
 import { chooseLayers, pageRows, readableLayers, type LayerInfo, segmentFacts, studyCases, studyCodes, textOrder, withDescendants, type Fact, type FactFilter } from '../analysis/facts.js';
 import { caseByCode, codeByAttribute, cooccurrence, cooccurringSegments } from '../analysis/tables.js';
@@ -89,18 +92,20 @@ function roundFacets(layers: readonly LayerInfo[]) {
 }
 
 /** What the filters of the screens offer: attributes, cases, coders with readable segments, texts, speakers, rounds. */
-async function tableFacets(db: AppDeps['db'], studyId: string, facts: Fact[], cases: Array<{ id: string; name: string }>, layers: readonly LayerInfo[]) {
+async function tableFacets(db: AppDeps['db'], studyId: string, facts: Fact[], cases: Array<{ id: string; name: string }>, layers: readonly LayerInfo[], reader: { role: Role; userId: string }) {
   const coderIds = [...new Set(facts.map((f) => f.coderId).filter((x): x is string => Boolean(x)))];
   const [attrs, textRows, people] = await Promise.all([
     db.select({ id: projectedAttributes.id, name: projectedAttributes.name }).from(projectedAttributes).where(eq(projectedAttributes.studyId, studyId)).orderBy(asc(projectedAttributes.name)),
     db.select({ id: texts.id, title: texts.title }).from(texts).where(eq(texts.studyId, studyId)).orderBy(asc(texts.createdAt), asc(texts.id)),
     coderIds.length ? db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, coderIds)).orderBy(asc(users.name)) : Promise.resolve([]),
   ]);
+  // a trainee is offered only the texts assigned to them (issue 9): others' titles are not theirs to see
+  const assigned = can(reader.role, 'text.readUnassigned') ? null : (await studySupervision(db, studyId, reader.userId)).assignedTexts;
   return {
     attributes: attrs,
     cases: cases.map((c) => ({ id: c.id, name: c.name })),
     coders: people,
-    texts: textRows,
+    texts: assigned === null ? textRows : textRows.filter((t) => assigned.has(t.id)),
     speakers: [...new Set(facts.map((f) => f.speaker).filter((x): x is string => Boolean(x)))].sort((a, b) => a.localeCompare(b)),
     rounds: roundFacets(layers),
   };
@@ -201,7 +206,7 @@ export function analysisRoutes(deps: AppDeps) {
     const codeIds = shown.map((k) => k.id);
     const codeHeads = shown.map((k) => ({ id: k.id, label: k.label, colour: k.colour }));
     const caseHeads = cases.map((k) => ({ id: k.id, label: k.name }));
-    const facets = await tableFacets(deps.db, studyId, facts, cases, readable);
+    const facets = await tableFacets(deps.db, studyId, facts, cases, readable, { role, userId: me });
     switch (q.kind) {
       case 'frequency': {
         const rows = codeIds.map((id) => {

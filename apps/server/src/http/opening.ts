@@ -5,7 +5,8 @@
  * compressed on the wire. Which rooms go in is decided by the sync upgrade's own authorizer, room by
  * room, so nothing comes here that a socket would not be given (a round participant in the independent
  * phase gets no one else's layer). The decisions are left under a short-lived ticket (access/tickets.ts)
- * that the page's sockets present at their upgrade instead of being decided again.
+ * that the page's sockets present at their upgrade instead of being decided again. The memos state is
+ * filtered for the reader exactly as their memos socket is (access/memo-readers.ts).
  */
 import { promisify } from 'node:util';
 import { brotliCompress, constants as zlib, gzip } from 'node:zlib';
@@ -14,6 +15,7 @@ import { encodeOpening, type OpeningDoc } from '@gloss/model';
 import { and, eq, inArray, isNull, or } from 'drizzle-orm';
 import { Hono } from 'hono';
 import * as Y from 'yjs';
+import { readableMemosState } from '../access/memo-readers.js';
 import { openRoundOfText } from '../access/rounds.js';
 import { TICKET_TTL_MS } from '../access/tickets.js';
 import { HttpError } from '../errors.js';
@@ -51,7 +53,8 @@ export function openingRoutes(deps: AppDeps) {
     const stamp = deps.tickets?.stamp() ?? 0;
     const grants = await deps.authorizer.grantsFor(session, rows.map((r) => r.id));
     const docs: OpeningDoc[] = [];
-    for (const g of grants) docs.push({ room: g.room, kind: g.kind, state: await stateOf(deps, g.docId) });
+    // the memos go as this reader may receive them, filtered as their socket filters (memo-readers.ts)
+    for (const g of grants) docs.push({ room: g.room, kind: g.kind, state: g.kind === 'memos' ? readableMemosState(await stateOf(deps, g.docId), g.memoView) : await stateOf(deps, g.docId) });
     const ticket = deps.tickets && grants.length > 0 ? deps.tickets.issue(session.sessionId, grants, stamp).ticket : '';
     const body = encodeOpening({ ticket, docs });
     const { bytes, encoding } = await compress(body, c.req.header('accept-encoding') ?? '');

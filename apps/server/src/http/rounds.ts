@@ -7,7 +7,7 @@
  */
 import { type RoundRow, documents, inArray, users } from '@gloss/db';
 import { enterRound } from '@gloss/model';
-import { eq } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import { Hono, type Context } from 'hono';
 import * as Y from 'yjs';
 import { can } from '../access/policy.js';
@@ -78,7 +78,9 @@ async function roomsOfRoundTexts(deps: AppDeps, textIds: string[]): Promise<stri
  * filtered when their user now codes independently).
  */
 async function rightsChanged(deps: AppDeps, studyId: string, textIds: string[]): Promise<void> {
-  await deps.liveAccess.changed({ studyId, roomIds: await roomsOfRoundTexts(deps, textIds) });
+  // the study's memos room too: jottings on the round's segments open and close with the phase (memo-view.ts)
+  const memos = await deps.db.select({ id: documents.id }).from(documents).where(and(eq(documents.studyId, studyId), eq(documents.kind, 'memos')));
+  await deps.liveAccess.changed({ studyId, roomIds: [...(await roomsOfRoundTexts(deps, textIds)), ...memos.map((r) => r.id)] });
 }
 
 /** The round named by `:roundId` and the caller's role in its study (404 for non-members, so ids are not probed). */

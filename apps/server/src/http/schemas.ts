@@ -67,6 +67,7 @@ export const Study = StudySummary.extend({
   ethicsNote: z.string(),
   codebookRoom: z.uuid(),
   memosRoom: z.uuid(),
+  memosView: z.string().describe('Which memos entries this reader receives, as a key that changes with it: a memos copy made for another key is stale (connect with ?memosView=<key>; the server closes a stale one with 4409).'),
   permissions: z.array(z.string()),
 });
 export const Member = z.object({ userId: z.uuid(), name: z.string(), email: z.string(), role: RoleSchema });

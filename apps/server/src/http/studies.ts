@@ -1,4 +1,5 @@
 /** GET/POST /api/studies, GET/PATCH /api/studies/:studyId. */
+import { memoReaderView } from '../access/memo-view.js';
 import { documents, memberships, studies } from '@gloss/db';
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import { Hono } from 'hono';
@@ -32,7 +33,7 @@ function studySummary(study: StudyFields, role: Role) {
 }
 
 /** One study in full: its summary, document rooms and what `role` may do there. */
-function studyDetail(study: StudyFields, role: Role, rooms: { codebookRoom: string | null; memosRoom: string | null }) {
+function studyDetail(study: StudyFields, role: Role, rooms: { codebookRoom: string | null; memosRoom: string | null; memosView: string }) {
   return { ...studySummary(study, role), retentionUntil: iso(study.retentionUntil), ethicsNote: study.ethicsNote, ...rooms, permissions: ACTIONS.filter((a) => can(role, a)) };
 }
 
@@ -60,12 +61,13 @@ export function studyRoutes(deps: AppDeps) {
       ethicsNote: body.ethicsNote ?? '',
       createdBy: c.get('session').user.id,
     });
-    return c.json(studyDetail(study, 'owner', { codebookRoom: study.codebookRoom, memosRoom: study.memosRoom }), 201);
+    const memosView = (await memoReaderView(deps.db, study.id, c.get('session').user.id, 'owner')).key;
+    return c.json(studyDetail(study, 'owner', { codebookRoom: study.codebookRoom, memosRoom: study.memosRoom, memosView }), 201);
   });
 
   app.get('/:studyId', async (c) => {
     const { studyId, role } = await studyRole(deps, c);
-    return c.json(await describe(studyId, role));
+    return c.json(await describe(studyId, role, c.get('session').user.id));
   });
 
   app.patch('/:studyId', async (c) => {
@@ -82,7 +84,7 @@ export function studyRoutes(deps: AppDeps) {
     await deps.db.update(studies).set(changes).where(eq(studies.id, studyId));
     const action = body.archived === true ? 'study.archive' : body.archived === false ? 'study.unarchive' : 'study.update';
     await recordAudit(deps.db, { userId: c.get('session').user.id, studyId, action, target: studyId, detail: body });
-    return c.json(await describe(studyId, role));
+    return c.json(await describe(studyId, role, c.get('session').user.id));
   });
 
   app.delete('/:studyId', async (c) => {
@@ -93,7 +95,7 @@ export function studyRoutes(deps: AppDeps) {
     return c.body(null, 204);
   });
 
-  async function describe(studyId: string, role: Role) {
+  async function describe(studyId: string, role: Role, userId: string) {
     const [study] = await deps.db.select().from(studies).where(eq(studies.id, studyId));
     if (!study) throw notFound('Study');
     const docs = await deps.db
@@ -103,6 +105,8 @@ export function studyRoutes(deps: AppDeps) {
     return studyDetail(study, role, {
       codebookRoom: docs.find((d) => d.kind === 'codebook')?.id ?? null,
       memosRoom: docs.find((d) => d.kind === 'memos')?.id ?? null,
+      // which memos this reader receives: the web app keeps one offline copy per view (memo-view.ts)
+      memosView: (await memoReaderView(deps.db, studyId, userId, role)).key,
     });
   }
 

@@ -153,8 +153,9 @@ export function textReferenceRoutes(deps: AppDeps) {
     await setReference(deps.db, text.id, body.layer?.toLowerCase() ?? null, me);
     await recordAudit(deps.db, { userId: me, studyId: text.studyId, action: 'reference.choose', target: text.id, detail: { layer: body.layer } });
     // Shared comparisons now point at another layer: re-check open connections to the old and new one.
+    // The memos room too: a trainee's view of jottings on the shared layer's segments follows it.
     const rooms = [before, body.layer?.toLowerCase()].filter((x): x is string => !!x);
-    if (rooms.length) await deps.liveAccess.changed({ studyId: text.studyId, roomIds: rooms });
+    if (rooms.length) await deps.liveAccess.changed({ studyId: text.studyId, roomIds: [...rooms, ...(await roomsOfText(deps.db, text.id))] });
     return c.json({ textId: text.id, layer: await referenceOf(deps.db, text.id) });
   });
 

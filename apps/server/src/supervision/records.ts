@@ -103,7 +103,16 @@ export async function setReference(db: Db, textId: string, layerDocId: string | 
     .onConflictDoUpdate({ target: textReferences.textId, set: { layerDocId, chosenBy: by, chosenAt: new Date() } });
 }
 
-/** Every room of a text (its text document and layers): what an assignment change re-checks. */
+/**
+ * Every room of a text (its text document and layers) and its study's memos room, whose entries on the
+ * text a reader may or may not receive (access/memo-view.ts): what an assignment change re-checks.
+ */
 export async function roomsOfText(db: Db, textId: string): Promise<string[]> {
-  return (await db.select({ id: documents.id }).from(documents).where(eq(documents.textId, textId))).map((r) => r.id);
+  const own = (await db.select({ id: documents.id }).from(documents).where(eq(documents.textId, textId))).map((r) => r.id);
+  const memos = await db
+    .select({ id: documents.id })
+    .from(documents)
+    .innerJoin(texts, eq(texts.studyId, documents.studyId))
+    .where(and(eq(texts.id, textId), eq(documents.kind, 'memos')));
+  return [...own, ...memos.map((r) => r.id)];
 }

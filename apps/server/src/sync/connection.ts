@@ -4,15 +4,21 @@
  */
 import type { WebSocket } from 'ws';
 import * as Y from 'yjs';
-import type { RoomGrant } from './contracts.js';
+import type { RoomGrant, WriteRule } from './contracts.js';
 import { decodeAwarenessUpdate, encodeAwarenessUpdate, type AwarenessEntry } from './awareness-table.js';
 import { withoutPointing } from './pointing-filter.js';
-import { CloseCode, SyncError } from './errors.js';
+import { AppCloseCode, CloseCode, SyncError } from './errors.js';
 import type { SyncLogger } from './logger.js';
-import { encodeAwarenessMessage, encodePermissionDenied, encodeSyncStep1, encodeSyncStep2, peekKind, readPayload } from './protocol.js';
+import { encodeAwarenessMessage, encodePermissionDenied, encodeSyncStep1, encodeSyncStep2, encodeSyncUpdate, peekKind, readPayload } from './protocol.js';
 import type { Room, RoomPeer } from './room.js';
 import { checkUpdate } from './update-check.js';
 import { checkWrite } from '../access/write-rules.js';
+import { entryFacts, mayReadEntry, seesEverything, type MemoReaderView } from '../access/memo-view.js';
+import { MEMOS_ROOT } from '@gloss/model';
+import { readableMemos } from '../access/memo-readers.js';
+
+/** Why a memos connection closes with 4409 (the web app discards its copy and reloads). */
+export const MEMOS_VIEW_CHANGED = 'What you may read in the memos changed: this device’s copy is replaced with a fresh one.';
 
 /** Messages held per connection while its room loads; a client needs a handful (sync step 1, awareness, edits). */
 const MAX_BACKLOG = 1_000;
@@ -60,6 +66,12 @@ export class Connection implements RoomPeer {
    * its writes are refused at the first bytes like any read-only connection's, and the client is told once now.
    */
   regrant(grant: RoomGrant): void {
+    if (this.room !== null && widens(this.room.doc, this.grantValue.memoView, grant.memoView)) {
+      // The client's copy was filtered for the old view: an entry withheld then and readable now would
+      // never arrive (its clocks already cover the placeholders), so the copy must be replaced.
+      this.revoke(MEMOS_VIEW_CHANGED, AppCloseCode.viewChanged);
+      return;
+    }
     const lostWrite = this.grantValue.canWrite && !grant.canWrite;
     const nowHidden = !this.grantValue.hidePointing && grant.hidePointing === true;
     this.grantValue = grant;
@@ -123,6 +135,18 @@ export class Connection implements RoomPeer {
     });
   }
 
+  /** A change of the room's document, in the version this connection may read. */
+  sendUpdate(update: Uint8Array, message: Uint8Array): void {
+    if (this.room === null) return;
+    const filtered = this.readable(this.room, update);
+    this.send(filtered === update ? message : encodeSyncUpdate(filtered));
+  }
+
+  /** `update` as this connection may receive it: the memos room withholds entries its view refuses. */
+  private readable(room: Room, update: Uint8Array): Uint8Array {
+    return this.grant.kind === 'memos' ? readableMemos(room.doc, update, this.grant.memoView) : update;
+  }
+
   sendAwareness(entries: readonly AwarenessEntry[], message: Uint8Array): void {
     if (!this.grant.hidePointing) return this.send(message);
     this.send(encodeAwarenessMessage(encodeAwarenessUpdate(withoutPointing(entries, this.ownedClientId))));
@@ -160,6 +184,29 @@ export class Connection implements RoomPeer {
     }
   }
 
+  /** The write rule's refusal of `update` against the room's state (plus updates in flight), or null. */
+  private judge(room: Room, rule: WriteRule, update: Uint8Array): string | null {
+    const scratch = room.scratchCopy();
+    try {
+      return checkWrite(rule, scratch, update, this.grant.userId);
+    } finally {
+      scratch.destroy();
+    }
+  }
+
+  /** Holds this connection's later messages until `work` settles, then handles them in order. */
+  private holdWhile(work: Promise<void>): void {
+    this.backlog = [];
+    work
+      .catch((error: unknown) => this.logger.error({ err: error, room: this.grant.room }, 'judging a held update failed'))
+      .finally(() => {
+        const queued = this.backlog ?? [];
+        this.backlog = null;
+        while (queued.length > 0 && this.backlog === null) this.handle(queued.shift()!);
+        if (this.backlog !== null) (this.backlog as Uint8Array[]).unshift(...queued); // held again: keep the order
+      });
+  }
+
   private dispatch(message: Uint8Array, room: Room): void {
     const { kind, decoder } = peekKind(message);
     switch (kind) {
@@ -171,7 +218,7 @@ export class Connection implements RoomPeer {
         } catch (cause) {
           throw new SyncError('malformed-message', 'bad state vector', CloseCode.invalidPayload, { cause });
         }
-        this.send(encodeSyncStep2(diff));
+        this.send(encodeSyncStep2(this.readable(room, diff)));
         return;
       }
       case 'sync-step2':
@@ -183,22 +230,30 @@ export class Connection implements RoomPeer {
         const update = readPayload(decoder);
         if (checkUpdate(update).empty) return;
         const rule = this.grant.writeRule;
-        if (rule !== undefined) {
-          const scratch = room.scratchCopy();
-          let refusal: string | null;
-          try {
-            refusal = checkWrite(rule, scratch, update, this.grant.userId);
-          } finally {
-            scratch.destroy();
-          }
-          if (refusal !== null) {
-            // Nothing is stored or relayed; the client is told in words and stays connected.
-            this.logger.warn({ room: this.grant.room, userId: this.grant.userId, rule, refusal }, 'update refused by its write rule');
-            this.send(encodePermissionDenied(refusal));
-            return;
-          }
+        if (rule !== undefined && this.judge(room, rule, update) !== null) {
+          // This node may be behind the log: a client that failed over from another node resends what
+          // it had from there (others' memos, committed there and not yet relayed here), which the rule
+          // would take for forgeries. Judge again once the room holds everything committed; what is
+          // already in the log then changes nothing and only the client's own edits are judged.
+          // Later messages of this connection wait meanwhile, so their order holds.
+          this.holdWhile(
+            room.catchUpNow().then(() => {
+              if (this.closed) return;
+              const writeRule = this.grant.writeRule;
+              if (!this.grant.canWrite) return void this.send(encodePermissionDenied('read-only'));
+              const refusal = writeRule === undefined ? null : this.judge(room, writeRule, update);
+              if (refusal !== null) {
+                // Nothing is stored or relayed; the client is told in words and stays connected.
+                this.logger.warn({ room: this.grant.room, userId: this.grant.userId, rule: writeRule, refusal }, 'update refused by its write rule');
+                this.send(encodePermissionDenied(refusal));
+                return;
+              }
+              void room.submitUpdate(update, this, this.grant.userId);
+            }),
+          );
+          return;
         }
-        room.submitUpdate(update, this, this.grant.userId);
+        void room.submitUpdate(update, this, this.grant.userId);
         return;
       }
       case 'awareness': {
@@ -228,6 +283,21 @@ export class Connection implements RoomPeer {
         return; // clients have nothing to say to the server here
     }
   }
+}
+
+/**
+ * Whether an entry of the memos document withheld under `before` is readable under `after`. A view
+ * that only narrows needs no new copy: what it now withholds is filtered from here on (the client
+ * keeps what it was allowed to receive before).
+ */
+function widens(doc: Y.Doc, before: MemoReaderView | undefined, after: MemoReaderView | undefined): boolean {
+  if (before === undefined || after === undefined || before.key === after.key || seesEverything(before)) return false;
+  // every key, deleted entries included: their structs travel as well
+  for (const key of (doc.getMap(MEMOS_ROOT) as unknown as { _map: Map<string, unknown> })._map.keys()) {
+    const facts = entryFacts(doc, key);
+    if (!mayReadEntry(before, facts) && mayReadEntry(after, facts)) return true;
+  }
+  return false;
 }
 
 /** A WebSocket close reason holds at most 123 bytes of UTF-8 (RFC 6455 §5.5); longer ones are cut at a character. */

@@ -5,6 +5,7 @@
 import type { IncomingMessage } from 'node:http';
 
 import type { Role } from '@gloss/db';
+import type { MemoReaderView } from '../access/memo-view.js';
 // One Role type for the whole server: the database's (memberships.role).
 export type { Role };
 export type DocKind = 'text' | 'layer' | 'codebook' | 'memos';
@@ -40,6 +41,12 @@ export interface RoomGrant {
    * Their names stay. Read on every send, so a re-checked grant takes effect at once.
    */
   hidePointing?: boolean;
+  /**
+   * The memos room only: which entries this reader may receive (access/memo-view.ts). States and
+   * changes reach the connection with the others' structs replaced by placeholders (memo-filter.ts);
+   * when a re-check finds another view, the connection closes with 4409 so the client starts afresh.
+   */
+  memoView?: MemoReaderView;
 }
 
 /** The outcome of re-running the decision for an open connection: its grant now, or why it lost the room. */

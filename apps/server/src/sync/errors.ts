@@ -32,11 +32,16 @@ export const CloseCode = {
 
 /**
  * Application close codes (RFC 6455 §7.4.2 leaves 4000–4999 to applications); the numbers echo the
- * HTTP statuses they mean. A client must not reconnect to the room after either.
+ * HTTP statuses they mean. A client must not reconnect to the room with the copy it holds after any of them.
  */
 export const AppCloseCode = {
   /** The document was deleted (with its text or study). */
   deleted: 4404,
   /** The document was rebuilt under a new room (a de-identification purge): discard the local copy and reload. */
   replaced: 4410,
+  /**
+   * The memos this reader may receive changed (a text assigned or unassigned, a round started or
+   * revealed): the copy the client holds was filtered for the old view, so it is discarded and fetched afresh.
+   */
+  viewChanged: 4409,
 } as const;

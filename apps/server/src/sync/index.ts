@@ -6,7 +6,7 @@ import type { Server } from 'node:http';
 import type { Duplex } from 'node:stream';
 import { WebSocketServer, type WebSocket } from 'ws';
 import * as Y from 'yjs';
-import { Connection, DEFAULT_MAX_PRESENCE_BYTES } from './connection.js';
+import { Connection, DEFAULT_MAX_PRESENCE_BYTES, MEMOS_VIEW_CHANGED } from './connection.js';
 import type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
 import { AppCloseCode, CloseCode, SyncError } from './errors.js';
 import type { ConnectionTracker } from './live-access.js';
@@ -110,10 +110,16 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
       return refuse(socket, status);
     }
     if (socket.destroyed) return;
-    wss.handleUpgrade(req, socket, head, (ws) => void open(ws, grant, stamp));
+    const claimedView = memosViewOf(req.url);
+    wss.handleUpgrade(req, socket, head, (ws) => void open(ws, grant, stamp, claimedView));
   }
 
-  async function open(ws: WebSocket, grant: RoomGrant, stamp: number): Promise<void> {
+  async function open(ws: WebSocket, grant: RoomGrant, stamp: number, claimedView: string | null): Promise<void> {
+    // A client names the memos view its local copy was filtered for: another view's copy is never synced.
+    if (grant.memoView !== undefined && claimedView !== null && claimedView !== grant.memoView.key) {
+      ws.close(AppCloseCode.viewChanged, MEMOS_VIEW_CHANGED);
+      return;
+    }
     const connection = new Connection(ws, grant, logger, { maxPresenceBytes: options.maxPresenceBytes ?? DEFAULT_MAX_PRESENCE_BYTES });
     connections.add(connection);
     // Followed from now on, also while the room loads: a revoked connection then never starts.
@@ -208,6 +214,14 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
       return { connections: connections.size, ...registry.stats() };
     },
   };
+}
+
+/** The `memosView` query parameter of a sync URL (the view key the client's memos copy was made for), or null. */
+function memosViewOf(url: string | undefined): string | null {
+  const q = url?.indexOf('?') ?? -1;
+  if (q < 0) return null;
+  const value = new URLSearchParams(url!.slice(q + 1)).get('memosView');
+  return value && /^[0-9a-f]{16}$/.test(value) ? value : null;
 }
 
 export type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';

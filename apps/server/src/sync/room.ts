@@ -16,6 +16,11 @@ export type RoomState = 'loading' | 'ready' | 'unloading' | 'gone';
 /** A local connection as the room sees it. */
 export interface RoomPeer {
   send(message: Uint8Array): void;
+  /**
+   * A change of the document (`message` is it encoded for everyone). Peers that may read only part of
+   * the document (memos: memo-filter.ts) send their own version; without this, `message` is sent.
+   */
+  sendUpdate?(update: Uint8Array, message: Uint8Array): void;
   /** Presence news; `message` is the entries encoded as they are, for peers that may see them all. */
   sendAwareness(entries: readonly AwarenessEntry[], message: Uint8Array): void;
   fail(error: SyncError): void;
@@ -48,6 +53,7 @@ export class Room {
   private cursor = 0;
   private lastHigh = 0;
   private catchingUp = false;
+  private catching: Promise<void> | null = null;
   /** Seqs above the cursor already applied here (own commits, relayed updates): catch-up skips them. */
   private readonly applied = new Set<number>();
   private timer: NodeJS.Timeout | null = null;
@@ -199,8 +205,14 @@ export class Room {
     for (const peer of this.peers) if (peer !== except) peer.sendAwareness(entries, message);
   }
 
-  broadcast(message: Uint8Array, except: RoomPeer | null): void {
-    for (const peer of this.peers) if (peer !== except) peer.send(message);
+  /** A change of the document to every local peer but its sender, each in the version it may read. */
+  private broadcastUpdate(update: Uint8Array, except: RoomPeer | null): void {
+    const message = encodeSyncUpdate(update);
+    for (const peer of this.peers) {
+      if (peer === except) continue;
+      if (peer.sendUpdate) peer.sendUpdate(update, message);
+      else peer.send(message);
+    }
   }
 
   /**
@@ -210,6 +222,21 @@ export class Room {
   async catchUp(): Promise<void> {
     if (this.stateValue !== 'ready' || this.catchingUp) return;
     this.catchingUp = true;
+    const run = this.readSinceCursor();
+    this.catching = run;
+    return run;
+  }
+
+  /**
+   * Catches up from the log now and resolves once everything committed before the call is applied here
+   * (after a read already in flight, which may have started before those rows were committed).
+   */
+  async catchUpNow(): Promise<void> {
+    if (this.catching !== null) await this.catching;
+    await this.catchUp();
+  }
+
+  private async readSinceCursor(): Promise<void> {
     try {
       const { updates, seq, seqs } = await this.deps.store.since(this.docId, this.cursor);
       if (this.stateValue !== 'ready') return;
@@ -223,6 +250,7 @@ export class Room {
       this.deps.logger.warn({ err: error, room: this.name }, 'catch-up from the log failed; will retry');
     } finally {
       this.catchingUp = false;
+      this.catching = null;
     }
   }
 
@@ -265,7 +293,7 @@ export class Room {
   private onDocUpdate(update: Uint8Array, origin: unknown): void {
     if (this.stateValue !== 'ready') return;
     const except = origin === FROM_STORE || origin === FROM_RELAY ? null : (origin as RoomPeer);
-    this.broadcast(encodeSyncUpdate(update), except);
+    this.broadcastUpdate(update, except);
   }
 
   private applySafely(update: Uint8Array, from: RoomPeer): void {

@@ -36,6 +36,7 @@ export function toStudy(v: unknown): Study {
     ...base,
     codebookRoom: need(roomOf(j, 'codebook'), 'the codebook room'),
     memosRoom: need(roomOf(j, 'memos'), 'the memos room'),
+    memosView: str(j.memosView),
     mode: str(j.mode),
     permissions: Array.isArray(j.permissions) ? j.permissions.filter((x): x is string => typeof x === 'string') : undefined,
   };

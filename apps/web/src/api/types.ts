@@ -20,6 +20,8 @@ export interface Study extends StudySummary {
   codebookRoom: string;
   /** Room of the study's memos document. */
   memosRoom: string;
+  /** Which memos entries this person receives (changes with it): the offline copy is kept per view. */
+  memosView?: string;
   /** Independent coding or reflexive mode etc., as the server reports it. */
   mode?: string;
   /** The date after which the study's data should be deleted (ISO), when one is set. */

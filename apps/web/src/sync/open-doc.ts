@@ -26,7 +26,12 @@ export const DELETED_CLOSE = 4404;
  * removed words, so it is discarded (never sent back) and the page reloads onto the new room.
  */
 export const REPLACED_CLOSE = 4410;
-const NO_RECONNECT = new Set([LOST_ACCESS_CLOSE, DELETED_CLOSE, REPLACED_CLOSE]);
+/**
+ * What this person may read of the memos changed so that this copy lacks entries they may now read
+ * (it was filtered for the old view): it is discarded, never sent back, and the page reloads with a fresh one.
+ */
+export const VIEW_CHANGED_CLOSE = 4409;
+const NO_RECONNECT = new Set([LOST_ACCESS_CLOSE, DELETED_CLOSE, REPLACED_CLOSE, VIEW_CHANGED_CLOSE]);
 /** Survives the reload after a replaced document, so the next page can say why it reloaded. */
 export const RELOAD_NOTICE_KEY = 'gloss-reload-notice';
 export type LinkState = 'connecting' | 'connected' | 'disconnected' | 'paused';
@@ -119,8 +124,10 @@ export function unprime(rooms: Iterable<string>): void {
 let ticket = '';
 export function setSyncTicket(t: string): void {
   ticket = t;
-  for (const { handle } of open.values()) handle.provider.params = t ? { ticket: t } : {};
+  for (const { handle } of open.values()) handle.provider.params = { ...(viewOf.get(handle.room) ?? {}), ...(t ? { ticket: t } : {}) };
 }
+/** The memos view a document's copy was made for, sent with each connection (`memosView`), by room. */
+const viewOf = new Map<string, { memosView: string }>();
 
 /**
  * Chromium opens WebSocket connections to one host one at a time (each handshake waits for the one
@@ -152,6 +159,17 @@ export async function closeAllDocs(): Promise<void> {
   await Promise.all(entries.map(({ handle }) => handle.closeNow()));
 }
 
+/** The key of the memos view whose copy this device keeps, per room (localStorage, `gloss:*`: sign-out forgets it). */
+const VIEW_KEY = (room: string) => `gloss:memos-view:${room}`;
+/** Deletes the copy kept for an earlier view of `room`, and remembers the view of the one kept now. */
+function forgetOtherViews(room: string, view: string): void {
+  const before = localStorage.getItem(VIEW_KEY(room));
+  if (before !== null && before !== view) indexedDB.deleteDatabase(`gloss:${room}:${before}`);
+  // a copy from before views existed holds whatever the server sent then
+  if (before === null) indexedDB.deleteDatabase(`gloss:${room}`);
+  localStorage.setItem(VIEW_KEY(room), view);
+}
+
 /** Stops and restarts syncing for every open document (the "work offline" switch). */
 let paused = false;
 export function setPaused(p: boolean): void {
@@ -167,7 +185,12 @@ export const isPaused = (): boolean => paused;
  * `offline: false` keeps no IndexedDB copy: for documents this person only reads (other coders' layers),
  * which need not survive a lost connection and would cost storage and time on every open.
  */
-export function openDoc(room: string, opts: { label: string; gc?: boolean; offline?: boolean; background?: boolean; holdUntil?: Promise<unknown> }): OpenDoc {
+/**
+ * `view` (the memos only): the server's key for what this person may read of the document. The offline
+ * copy is kept under it (a copy filtered for another view lacks entries and is never synced again; the
+ * old one is deleted), and each connection names it so the server refuses a stale copy (4409).
+ */
+export function openDoc(room: string, opts: { label: string; gc?: boolean; offline?: boolean; background?: boolean; holdUntil?: Promise<unknown>; view?: string }): OpenDoc {
   const existing = open.get(room);
   if (existing) {
     existing.refs++;
@@ -177,7 +200,11 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   const doc = new Y.Doc({ gc: opts.gc ?? true });
   const early = primed.get(room);
   primed.delete(room);
-  const local = opts.offline === false ? null : new IndexeddbPersistence(`gloss:${room}`, doc);
+  if (opts.view !== undefined) {
+    viewOf.set(room, { memosView: opts.view });
+    forgetOtherViews(room, opts.view);
+  } else viewOf.delete(room);
+  const local = opts.offline === false ? null : new IndexeddbPersistence(opts.view !== undefined ? `gloss:${room}:${opts.view}` : `gloss:${room}`, doc);
   const defer = opts.background === true && foregroundLoading.size > 0;
   const provider = new WebsocketProvider(syncBaseUrl(), room, doc, {
     // with a state from the opening request, connect once it is applied: the first sync message then
@@ -185,7 +212,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     // `holdUntil` (the opening request in flight): the offline copy loads meanwhile, the socket waits
     // for the state and the ticket the request brings
     connect: !paused && !defer && !early && !opts.holdUntil,
-    params: ticket ? { ticket } : {},
+    params: { ...(viewOf.get(room) ?? {}), ...(ticket ? { ticket } : {}) },
     maxBackoffTime: 2500,
     // Access taken away is not a network problem: reconnecting would only be refused again.
     shouldReconnect: (event: CloseEvent) => !NO_RECONNECT.has(event.code),
@@ -215,6 +242,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
       sessionStorage.setItem(RELOAD_NOTICE_KEY, `${opts.label}: ${event.reason || 'the text was rebuilt after de-identification'} This device’s copy was discarded and the page reloaded.`);
       void handle.discardLocalCopy();
     }
+    if (event?.code === VIEW_CHANGED_CLOSE) void handle.discardLocalCopy();
   });
   const [refused, setRefusedSig] = createSignal<string | null>(null);
   const [refusals, setRefusals] = createSignal(0);

@@ -42,7 +42,8 @@ export function useStudy(studyId: () => string, me: () => Me): StudyScope {
   const track = (s: Study) => {
     const cb = openDoc(s.codebookRoom, { label: 'the codebook' });
     // the memos wait for the documents a screen is opening (see openDoc's `background`)
-    const mm = openDoc(s.memosRoom, { label: 'the memos', background: true });
+    // the memos copy is kept per view: the server sends each reader only the memos they may read
+    const mm = openDoc(s.memosRoom, { label: 'the memos', background: true, ...(s.memosView ? { view: s.memosView } : {}) });
     setCodebook(cb);
     setMemos(mm);
     const user = me();
