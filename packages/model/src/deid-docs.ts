@@ -1,0 +1,303 @@
+/**
+ * De-identification beyond the transcript (DESIGN §8), pure: every string a study's other documents
+ * hold — the codebook (definitions, inclusion and exclusion, example and near-miss quotes, the change
+ * log), the memos and jottings and their replies, segment notes in layers — is found and rewritten
+ * with the same whole-word replacements as the texts (`planEdits`), and a document is rebuilt from its
+ * current state alone, without deleted content or any of its old client ids (the purge).
+ *
+ * The walk is generic over every root of a document, so a root or field added later is covered
+ * without a list to keep up to date. Map keys are ids and are not rewritten; `start`/`end` values are
+ * anchors (bytes, or base64 of bytes), never words, and are left alone.
+ */
+import * as Y from 'yjs';
+import { fromBase64, toBase64 } from 'lib0/buffer';
+import { anchorAt, resolveAnchor } from './anchor.js';
+import { planEdits, type Replacement } from './deid.js';
+import { getText } from './text-doc.js';
+
+/** Keys whose values are anchors (RelativePositions as bytes or base64), never words. */
+const ANCHOR_KEYS = new Set(['start', 'end']);
+
+type Root = Y.Map<unknown> | Y.Array<unknown> | Y.Text;
+
+/**
+ * Every non-empty root of `doc`, typed. A document built by applyUpdate alone has its roots as
+ * generic types until someone asks for them by type: a root holding keyed entries is a map, one whose
+ * items are characters or formatting is a text, anything else in sequence is an array.
+ */
+export function docRoots(doc: Y.Doc): Array<{ name: string; type: Root }> {
+  const out: Array<{ name: string; type: Root }> = [];
+  for (const [name, t] of [...doc.share.entries()]) {
+    if (t instanceof Y.Map || t instanceof Y.Array || t instanceof Y.Text) {
+      out.push({ name, type: t as Root });
+      continue;
+    }
+    if (t._map.size > 0) {
+      out.push({ name, type: doc.getMap(name) });
+      continue;
+    }
+    let textual = false;
+    let any = false;
+    for (let item = t._start; item !== null; item = item.right) {
+      any = true;
+      if (item.content instanceof Y.ContentString || item.content instanceof Y.ContentFormat || item.content instanceof Y.ContentEmbed) textual = true;
+    }
+    if (any) out.push({ name, type: textual ? doc.getText(name) : doc.getArray(name) });
+  }
+  return out;
+}
+
+/** A string found in a document, with where it is (root and keys, joined by dots). */
+export interface DocString {
+  path: string;
+  text: string;
+}
+
+function walkPlain(value: unknown, path: string, out: DocString[]): void {
+  if (typeof value === 'string') {
+    if (value.length > 0) out.push({ path, text: value });
+  } else if (Array.isArray(value)) value.forEach((v, i) => walkPlain(v, `${path}.${i}`, out));
+  else if (value !== null && typeof value === 'object' && !(value instanceof Uint8Array)) {
+    for (const [k, v] of Object.entries(value)) if (!ANCHOR_KEYS.has(k)) walkPlain(v, `${path}.${k}`, out);
+  }
+}
+
+function walkType(value: unknown, path: string, out: DocString[]): void {
+  if (value instanceof Y.Text) {
+    const s = value.toString();
+    if (s.length > 0) out.push({ path, text: s });
+  } else if (value instanceof Y.Map) {
+    for (const [k, v] of value.entries()) if (!ANCHOR_KEYS.has(k)) walkType(v, `${path}.${k}`, out);
+  } else if (value instanceof Y.Array) {
+    value.toArray().forEach((v, i) => walkType(v, `${path}.${i}`, out));
+  } else walkPlain(value, path, out);
+}
+
+/** Every string `doc` holds now (not its deleted content), for finding candidates in it. */
+export function docStrings(doc: Y.Doc): DocString[] {
+  const out: DocString[] = [];
+  for (const { name, type } of docRoots(doc)) walkType(type, name, out);
+  return out;
+}
+
+/** `s` with the replacements applied as whole words (longest first), and how many were made. */
+export function replaceInString(s: string, replacements: readonly Replacement[]): { text: string; count: number } {
+  const edits = planEdits(s, replacements);
+  if (edits.length === 0) return { text: s, count: 0 };
+  let text = s;
+  for (const e of [...edits].reverse()) text = text.slice(0, e.start) + e.insert + text.slice(e.end);
+  return { text, count: edits.length };
+}
+
+/** A plain (JSON-like) value with its strings replaced; the same object when nothing changed. */
+function replacePlain(value: unknown, replacements: readonly Replacement[], tally: { n: number }): unknown {
+  if (typeof value === 'string') {
+    const r = replaceInString(value, replacements);
+    tally.n += r.count;
+    return r.count > 0 ? r.text : value;
+  }
+  if (Array.isArray(value)) {
+    let changed = false;
+    const next = value.map((v) => {
+      const w = replacePlain(v, replacements, tally);
+      if (w !== v) changed = true;
+      return w;
+    });
+    return changed ? next : value;
+  }
+  if (value !== null && typeof value === 'object' && !(value instanceof Uint8Array)) {
+    let changed = false;
+    const next: Record<string, unknown> = {};
+    for (const [k, v] of Object.entries(value)) {
+      const w = ANCHOR_KEYS.has(k) ? v : replacePlain(v, replacements, tally);
+      if (w !== v) changed = true;
+      next[k] = w;
+    }
+    return changed ? next : value;
+  }
+  return value;
+}
+
+function replaceInType(type: unknown, replacements: readonly Replacement[], tally: { n: number }): void {
+  if (type instanceof Y.Text) {
+    const edits = planEdits(type.toString(), replacements);
+    // From the end, so earlier offsets stay valid; the pseudonym keeps the formatting of the word it replaces.
+    for (const e of [...edits].reverse()) {
+      const attrs = formatAt(type, e.start);
+      type.delete(e.start, e.end - e.start);
+      type.insert(e.start, e.insert, attrs);
+    }
+    tally.n += edits.length;
+  } else if (type instanceof Y.Map) {
+    for (const [k, v] of [...type.entries()]) {
+      if (ANCHOR_KEYS.has(k)) continue;
+      if (v instanceof Y.AbstractType) replaceInType(v, replacements, tally);
+      else {
+        const w = replacePlain(v, replacements, tally);
+        if (w !== v) type.set(k, w);
+      }
+    }
+  } else if (type instanceof Y.Array) {
+    const items = type.toArray();
+    for (let i = items.length - 1; i >= 0; i--) {
+      const v = items[i];
+      if (v instanceof Y.AbstractType) replaceInType(v, replacements, tally);
+      else {
+        const w = replacePlain(v, replacements, tally);
+        if (w !== v) {
+          type.delete(i, 1);
+          type.insert(i, [w]);
+        }
+      }
+    }
+  }
+}
+
+function formatAt(text: Y.Text, index: number): Record<string, unknown> | undefined {
+  let at = 0;
+  for (const op of text.toDelta() as Array<{ insert: unknown; attributes?: Record<string, unknown> }>) {
+    const len = typeof op.insert === 'string' ? op.insert.length : 1;
+    if (index < at + len) return op.attributes;
+    at += len;
+  }
+  return undefined;
+}
+
+/**
+ * Rewrites every string of `doc` (all roots, all depths) with the replacements, in one transaction, as
+ * ordinary edits. Returns how many occurrences were replaced.
+ */
+export function replaceInDoc(doc: Y.Doc, replacements: readonly Replacement[]): number {
+  const tally = { n: 0 };
+  const roots = docRoots(doc);
+  doc.transact(() => {
+    for (const { type } of roots) replaceInType(type, replacements, tally);
+  });
+  return tally.n;
+}
+
+type DeltaOp = { insert: unknown; attributes?: Record<string, unknown> };
+const copyDelta = (text: Y.Text): DeltaOp[] =>
+  (text.toDelta() as DeltaOp[]).map((op) => ({ ...op, insert: op.insert instanceof Y.AbstractType ? copyValue(op.insert) : op.insert }));
+
+function copyValue(value: unknown): unknown {
+  if (value instanceof Y.Text) {
+    const t = new Y.Text();
+    t.applyDelta(copyDelta(value));
+    return t;
+  }
+  if (value instanceof Y.Map) {
+    const m = new Y.Map<unknown>();
+    for (const [k, v] of value.entries()) m.set(k, copyValue(v));
+    return m;
+  }
+  if (value instanceof Y.Array) {
+    const a = new Y.Array<unknown>();
+    a.push(value.toArray().map(copyValue));
+    return a;
+  }
+  return value;
+}
+
+/**
+ * A new document holding only the current state of `old`: the same roots, maps, arrays and texts
+ * (with their formatting) and the same plain values, but none of the deleted content and none of
+ * the old client ids, so no part of the old history can merge into it.
+ */
+export function rebuildDoc(old: Y.Doc): Y.Doc {
+  const fresh = new Y.Doc({ gc: false });
+  const roots = docRoots(old);
+  fresh.transact(() => {
+    for (const { name, type } of roots) {
+      if (type instanceof Y.Text) {
+        fresh.getText(name).applyDelta(copyDelta(type));
+      } else if (type instanceof Y.Map) {
+        const m = fresh.getMap<unknown>(name);
+        for (const [k, v] of type.entries()) m.set(k, copyValue(v));
+      } else {
+        fresh.getArray<unknown>(name).push(type.toArray().map(copyValue));
+      }
+    }
+  });
+  return fresh;
+}
+
+/** Client ids that wrote any part of `doc`'s history (deleted content included). */
+export function docClients(doc: Y.Doc): number[] {
+  return [...Y.decodeStateVector(Y.encodeStateVector(doc)).keys()];
+}
+
+/** The client ids whose structs an update carries. */
+export function updateClients(update: Uint8Array): Set<number> {
+  const out = new Set<number>();
+  for (const s of Y.decodeUpdate(update).structs) out.add(s.id.client);
+  return out;
+}
+
+/** A text rebuilt by a purge: its document before and after, for moving anchors from one to the other. */
+export interface TextMove {
+  old: Y.Doc;
+  fresh: Y.Doc;
+}
+
+function moveAnchor(move: TextMove, anchor: Uint8Array, assoc: 0 | -1): Uint8Array | null {
+  const at = resolveAnchor(move.old, anchor);
+  if (at === null) return null;
+  const text = getText(move.fresh);
+  return anchorAt(text, Math.min(at, text.length), assoc);
+}
+
+/**
+ * Moves the anchors that point into rebuilt texts — examples and near-misses in a codebook (bytes),
+ * passages of jottings in a memos document (base64) — to the same offsets of the rebuilt texts, as
+ * ordinary edits of `doc`. Anchors that no longer resolve are left as they were (their stored quote
+ * stays). Returns how many anchored values moved.
+ */
+export function moveDocAnchors(doc: Y.Doc, moves: ReadonlyMap<string, TextMove>): number {
+  let moved = 0;
+  const visit = (value: unknown): unknown => {
+    if (value === null || typeof value !== 'object' || value instanceof Uint8Array || Array.isArray(value)) return value;
+    const o = value as Record<string, unknown>;
+    const move = typeof o.textId === 'string' ? moves.get(o.textId) : undefined;
+    if (!move || o.start === undefined || o.end === undefined) return value;
+    const bytes = typeof o.start === 'string';
+    try {
+      const s = moveAnchor(move, bytes ? fromBase64(o.start as string) : (o.start as Uint8Array), 0);
+      const e = moveAnchor(move, bytes ? fromBase64(o.end as string) : (o.end as Uint8Array), -1);
+      if (s === null || e === null) return value;
+      moved++;
+      return { ...o, start: bytes ? toBase64(s) : s, end: bytes ? toBase64(e) : e };
+    } catch {
+      return value; // not an anchor after all
+    }
+  };
+  const inType = (type: unknown): void => {
+    if (type instanceof Y.Map) {
+      for (const [k, v] of [...type.entries()]) {
+        if (v instanceof Y.AbstractType) inType(v);
+        else {
+          const w = visit(v);
+          if (w !== v) type.set(k, w);
+        }
+      }
+    } else if (type instanceof Y.Array) {
+      const items = type.toArray();
+      for (let i = items.length - 1; i >= 0; i--) {
+        const v = items[i];
+        if (v instanceof Y.AbstractType) inType(v);
+        else {
+          const w = visit(v);
+          if (w !== v) {
+            type.delete(i, 1);
+            type.insert(i, [w]);
+          }
+        }
+      }
+    }
+  };
+  const roots = docRoots(doc);
+  doc.transact(() => {
+    for (const { type } of roots) inType(type);
+  });
+  return moved;
+}
