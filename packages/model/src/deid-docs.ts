@@ -7,7 +7,8 @@
  *
  * The walk is generic over every root of a document, so a root or field added later is covered
  * without a list to keep up to date. Map keys are ids and are not rewritten; `start`/`end` values are
- * anchors (bytes, or base64 of bytes), never words, and are left alone.
+ * anchors (bytes, or base64 of bytes), and the fields that hold ids or fixed vocabularies (`id`,
+ * `author`, `codeId`, `kind`, `status`…) are never words: both are left alone (NOT_WORDS).
  */
 import * as Y from 'yjs';
 import { fromBase64, toBase64 } from 'lib0/buffer';
@@ -15,8 +16,12 @@ import { anchorAt, resolveAnchor } from './anchor.js';
 import { planEdits, type Replacement } from './deid.js';
 import { getText } from './text-doc.js';
 
-/** Keys whose values are anchors (RelativePositions as bytes or base64), never words. */
-const ANCHOR_KEYS = new Set(['start', 'end']);
+/** Keys whose values are anchors (RelativePositions as bytes or base64), ids or fixed vocabularies, never words. */
+const ANCHOR_KEYS = new Set([
+  'start', 'end',
+  'id', 'by', 'author', 'createdBy', 'codeId', 'codeIds', 'textId', 'segmentId', 'parentId', 'mergedInto', 'splitInto',
+  'replyTo', 'caseId', 'attributeId', 'kind', 'type', 'status', 'colour', 'field',
+]);
 
 type Root = Y.Map<unknown> | Y.Array<unknown> | Y.Text;
 

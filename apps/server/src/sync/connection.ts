@@ -7,11 +7,11 @@ import * as Y from 'yjs';
 import type { RoomGrant } from './contracts.js';
 import { decodeAwarenessUpdate, encodeAwarenessUpdate, type AwarenessEntry } from './awareness-table.js';
 import { withoutPointing } from './pointing-filter.js';
-import { CloseCode, SyncError } from './errors.js';
+import { AppCloseCode, CloseCode, SyncError } from './errors.js';
 import type { SyncLogger } from './logger.js';
 import { encodeAwarenessMessage, encodePermissionDenied, encodeSyncStep1, encodeSyncStep2, peekKind, readPayload } from './protocol.js';
 import type { Room, RoomPeer } from './room.js';
-import { checkUpdate } from './update-check.js';
+import { carriesClient, checkUpdate } from './update-check.js';
 import { checkWrite } from '../access/write-rules.js';
 
 /** Messages held per connection while its room loads; a client needs a handful (sync step 1, awareness, edits). */
@@ -182,6 +182,10 @@ export class Connection implements RoomPeer {
         }
         const update = readPayload(decoder);
         if (checkUpdate(update).empty) return;
+        const retired = this.grant.retiredClients;
+        if (retired !== undefined && retired.length > 0 && carriesClient(update, retired)) {
+          throw new SyncError('retired-copy', 'this copy predates the de-identification purge: discard it and reload', AppCloseCode.replaced);
+        }
         const rule = this.grant.writeRule;
         if (rule !== undefined) {
           const scratch = room.scratchCopy();

@@ -40,6 +40,11 @@ export interface RoomGrant {
    * Their names stay. Read on every send, so a re-checked grant takes effect at once.
    */
   hidePointing?: boolean;
+  /**
+   * Yjs client ids of the documents a de-identification purge replaced with this one: an update
+   * carrying a struct of one of them comes from an old copy, and closes its connection with 4410.
+   */
+  retiredClients?: readonly number[];
 }
 
 /** The outcome of re-running the decision for an open connection: its grant now, or why it lost the room. */
