@@ -7,8 +7,8 @@
 import * as Y from 'yjs';
 import { describe, expect, it } from 'vitest';
 import { addCode, addExample, createCodebookDoc, getCode, getDefinitionText, recordDefinitionEdit } from './codebook-doc.js';
-import { docClients, docStrings, moveDocAnchors, rebuildDoc, replaceInDoc, replaceInString, updateClients } from './deid-docs.js';
-import { rebuildTextDoc } from './deid.js';
+import { captureAnchors, docClients, docStrings, moveDocAnchors, rebuildDoc, replaceInDoc, replaceInString, restoreAnchors, updateClients } from './deid-docs.js';
+import { applyEdits, planEdits, rebuildTextDoc } from './deid.js';
 import { exampleFromSegment, resolveExample } from './examples.js';
 import { addSegment, getSegment, newLayerDoc, setSegmentNote } from './layer-doc.js';
 import { passageAttachment, resolvePassage } from './memo-passage.js';
@@ -100,5 +100,24 @@ describe('rebuildDoc', () => {
     // the rebuilt documents stay editable as the originals were
     updateMemo(memos, d.memo, { body: 'edited' });
     expect(getMemo(memos, d.memo).body).toBe('edited');
+  });
+});
+
+describe('captureAnchors / restoreAnchors', () => {
+  it('an example and a jotting on a replaced name are on its pseudonym afterwards, as a segment would be', () => {
+    const d = studyDocs();
+    const cb = d.cb;
+    // an example on exactly "Dana Whitcombe" (offsets 0–14), and a jotting on "Dana Whitcombe drove"
+    addExample(cb, d.code, exampleFromSegment(d.text, d.layer, 't1', addSegment(d.layer, d.text, { codeId: 'c1', start: 0, end: 14 })), 'example', actor);
+    const jot = addMemo(d.memos, { kind: 'jotting', author: 'u1', body: 'x', attachedTo: passageAttachment(d.text, 't1', 0, 20) });
+    const edits = planEdits(getText(d.text).toString(), REPLACEMENTS);
+    const captured = [cb, d.memos].map((doc) => captureAnchors(doc, 't1', d.text));
+    applyEdits(d.text, [d.layer], edits);
+    expect(restoreAnchors(cb, 't1', d.text, captured[0]!, edits)).toBe(1); // the name ("drove me" keeps its own anchors)
+    restoreAnchors(d.memos, 't1', d.text, captured[1]!, edits);
+    const ex = getCode(cb, d.code).examples;
+    expect(ex.map((e) => resolveExample(d.text, e).current)).toEqual(['drove me', '[Person 1]']);
+    const p = resolvePassage(d.text, 't1', getMemo(d.memos, jot).attachedTo)!;
+    expect(getText(d.text).toString().slice(p.start, p.end)).toBe('[Person 1] drove');
   });
 });

@@ -13,7 +13,7 @@
 import * as Y from 'yjs';
 import { fromBase64, toBase64 } from 'lib0/buffer';
 import { anchorAt, resolveAnchor } from './anchor.js';
-import { planEdits, type Replacement } from './deid.js';
+import { mapBoundary, planEdits, type Replacement, type TextEdit } from './deid.js';
 import { getText } from './text-doc.js';
 
 /** Keys whose values are anchors (RelativePositions as bytes or base64), ids or fixed vocabularies, never words. */
@@ -252,36 +252,26 @@ function moveAnchor(move: TextMove, anchor: Uint8Array, assoc: 0 | -1): Uint8Arr
   return anchorAt(text, Math.min(at, text.length), assoc);
 }
 
+type Anchored = Record<string, unknown> & { textId: string };
+const isAnchored = (v: unknown): v is Anchored =>
+  v !== null && typeof v === 'object' && !(v instanceof Uint8Array) && !Array.isArray(v) &&
+  typeof (v as Anchored).textId === 'string' && (v as Anchored).start !== undefined && (v as Anchored).end !== undefined;
+
+const decodeAnchor = (v: unknown): Uint8Array => (typeof v === 'string' ? fromBase64(v) : (v as Uint8Array));
+/** An anchor written back in the form it was found in (bytes in the codebook, base64 in memo attachments). */
+const encodeLike = (like: unknown, a: Uint8Array): unknown => (typeof like === 'string' ? toBase64(a) : a);
+
 /**
- * Moves the anchors that point into rebuilt texts — examples and near-misses in a codebook (bytes),
- * passages of jottings in a memos document (base64) — to the same offsets of the rebuilt texts, as
- * ordinary edits of `doc`. Anchors that no longer resolve are left as they were (their stored quote
- * stays). Returns how many anchored values moved.
+ * Visits every plain value that names a text and carries `start`/`end` anchors (examples, near-misses,
+ * jotting passages), wherever it sits; a returned different value replaces it, as an ordinary edit.
  */
-export function moveDocAnchors(doc: Y.Doc, moves: ReadonlyMap<string, TextMove>): number {
-  let moved = 0;
-  const visit = (value: unknown): unknown => {
-    if (value === null || typeof value !== 'object' || value instanceof Uint8Array || Array.isArray(value)) return value;
-    const o = value as Record<string, unknown>;
-    const move = typeof o.textId === 'string' ? moves.get(o.textId) : undefined;
-    if (!move || o.start === undefined || o.end === undefined) return value;
-    const bytes = typeof o.start === 'string';
-    try {
-      const s = moveAnchor(move, bytes ? fromBase64(o.start as string) : (o.start as Uint8Array), 0);
-      const e = moveAnchor(move, bytes ? fromBase64(o.end as string) : (o.end as Uint8Array), -1);
-      if (s === null || e === null) return value;
-      moved++;
-      return { ...o, start: bytes ? toBase64(s) : s, end: bytes ? toBase64(e) : e };
-    } catch {
-      return value; // not an anchor after all
-    }
-  };
-  const inType = (type: unknown): void => {
+function eachAnchored(doc: Y.Doc, visit: (o: Anchored, path: string) => Anchored): void {
+  const inType = (type: unknown, path: string): void => {
     if (type instanceof Y.Map) {
       for (const [k, v] of [...type.entries()]) {
-        if (v instanceof Y.AbstractType) inType(v);
-        else {
-          const w = visit(v);
+        if (v instanceof Y.AbstractType) inType(v, `${path}.${k}`);
+        else if (isAnchored(v)) {
+          const w = visit(v, `${path}.${k}`);
           if (w !== v) type.set(k, w);
         }
       }
@@ -289,9 +279,9 @@ export function moveDocAnchors(doc: Y.Doc, moves: ReadonlyMap<string, TextMove>)
       const items = type.toArray();
       for (let i = items.length - 1; i >= 0; i--) {
         const v = items[i];
-        if (v instanceof Y.AbstractType) inType(v);
-        else {
-          const w = visit(v);
+        if (v instanceof Y.AbstractType) inType(v, `${path}.${i}`);
+        else if (isAnchored(v)) {
+          const w = visit(v, `${path}.${i}`);
           if (w !== v) {
             type.delete(i, 1);
             type.insert(i, [w]);
@@ -302,7 +292,69 @@ export function moveDocAnchors(doc: Y.Doc, moves: ReadonlyMap<string, TextMove>)
   };
   const roots = docRoots(doc);
   doc.transact(() => {
-    for (const { type } of roots) inType(type);
+    for (const { name, type } of roots) inType(type, name);
+  });
+}
+
+/**
+ * Moves the anchors that point into rebuilt texts — examples and near-misses in a codebook (bytes),
+ * passages of jottings in a memos document (base64) — to the same offsets of the rebuilt texts, as
+ * ordinary edits of `doc`. Anchors that no longer resolve are left as they were (their stored quote
+ * stays). Returns how many anchored values moved.
+ */
+export function moveDocAnchors(doc: Y.Doc, moves: ReadonlyMap<string, TextMove>): number {
+  let moved = 0;
+  eachAnchored(doc, (o) => {
+    const move = moves.get(o.textId);
+    if (!move) return o;
+    try {
+      const s = moveAnchor(move, decodeAnchor(o.start), 0);
+      const e = moveAnchor(move, decodeAnchor(o.end), -1);
+      if (s === null || e === null) return o;
+      moved++;
+      return { ...o, start: encodeLike(o.start, s), end: encodeLike(o.end, e) };
+    } catch {
+      return o; // not an anchor after all
+    }
+  });
+  return moved;
+}
+
+/** Where each anchored value of `doc` on text `textId` is now ([start, end) offsets), by its place in the document. */
+export function captureAnchors(doc: Y.Doc, textId: string, textDoc: Y.Doc): Map<string, { start: number; end: number }> {
+  const out = new Map<string, { start: number; end: number }>();
+  eachAnchored(doc, (o, path) => {
+    if (o.textId !== textId) return o;
+    try {
+      const s = resolveAnchor(textDoc, decodeAnchor(o.start));
+      const e = resolveAnchor(textDoc, decodeAnchor(o.end));
+      if (s !== null && e !== null && s < e) out.set(path, { start: s, end: e });
+    } catch {
+      // not an anchor after all
+    }
+    return o;
+  });
+  return out;
+}
+
+/**
+ * After `edits` were applied to the text (model deid.ts `applyEdits`), anchors captured before them are
+ * set again where their words are now — a boundary inside a replaced word moves to the pseudonym's
+ * edge, as a segment's does — so an example or a jotting on "Dana Whitcombe" is on "[Person 1]".
+ */
+export function restoreAnchors(doc: Y.Doc, textId: string, textDoc: Y.Doc, captured: ReadonlyMap<string, { start: number; end: number }>, edits: readonly TextEdit[]): number {
+  const text = getText(textDoc);
+  let moved = 0;
+  eachAnchored(doc, (o, path) => {
+    const was = o.textId === textId ? captured.get(path) : undefined;
+    if (!was) return o;
+    const start = mapBoundary(was.start, edits, 'start');
+    const end = mapBoundary(was.end, edits, 'end');
+    const [s, e] = [resolveAnchor(textDoc, decodeAnchor(o.start)), resolveAnchor(textDoc, decodeAnchor(o.end))];
+    if (s === start && e === end) return o;
+    if (end <= start || end > text.length) return o;
+    moved++;
+    return { ...o, start: encodeLike(o.start, anchorAt(text, start, 0)), end: encodeLike(o.end, anchorAt(text, end, -1)) };
   });
   return moved;
 }

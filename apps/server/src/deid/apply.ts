@@ -9,7 +9,7 @@
  */
 import * as Y from 'yjs';
 import { pseudonyms, segmentComments, texts, type Db } from '@gloss/db';
-import { applyEdits, planEdits, readText, replaceInDoc, replaceInString, type Replacement } from '@gloss/model';
+import { applyEdits, captureAnchors, planEdits, readText, replaceInDoc, replaceInString, restoreAnchors, type Replacement } from '@gloss/model';
 import { eq, sql } from 'drizzle-orm';
 import { recordAudit } from '../admin/audit.js';
 import { loadDoc, type DocLoader } from '../projection/load-doc.js';
@@ -47,39 +47,45 @@ export async function applyReplacements(
   let segmentsMoved = 0;
   const elsewhere = { codebook: 0, memos: 0, notes: 0, comments: 0, titles: 0 };
   const perOriginal = new Map<string, number>();
-  for (const t of await studyTexts(deps.db, studyId)) {
-    const textDoc = await loadDoc(deps.store, t.docId);
-    const layers = await Promise.all(t.layerIds.map((id) => loadDoc(deps.store, id)));
-    try {
-      const text = readText(textDoc);
-      const edits = planEdits(text, replacements);
-      for (const e of edits) perOriginal.set(text.slice(e.start, e.end), (perOriginal.get(text.slice(e.start, e.end)) ?? 0) + 1);
-      const textBefore = Y.encodeStateVector(textDoc);
-      const layersBefore = layers.map((l) => Y.encodeStateVector(l));
-      if (edits.length > 0) {
-        segmentsMoved += applyEdits(textDoc, layers, edits);
-        await deps.docs.write(t.docId, Y.encodeStateAsUpdate(textDoc, textBefore), by);
-        occurrences += edits.length;
-        changedTexts++;
+  // The codebook and memos hold anchors into the texts (examples, jotting passages): loaded first, so
+  // those anchors follow each text's edits as segments do, then rewritten and written once.
+  const shared = await Promise.all((await studySharedDocs(deps.db, studyId)).map(async (d) => {
+    const doc = await loadDoc(deps.store, d.id);
+    return { ...d, doc, before: Y.encodeStateVector(doc) };
+  }));
+  try {
+    for (const t of await studyTexts(deps.db, studyId)) {
+      const textDoc = await loadDoc(deps.store, t.docId);
+      const layers = await Promise.all(t.layerIds.map((id) => loadDoc(deps.store, id)));
+      try {
+        const text = readText(textDoc);
+        const edits = planEdits(text, replacements);
+        for (const e of edits) perOriginal.set(text.slice(e.start, e.end), (perOriginal.get(text.slice(e.start, e.end)) ?? 0) + 1);
+        const textBefore = Y.encodeStateVector(textDoc);
+        const layersBefore = layers.map((l) => Y.encodeStateVector(l));
+        if (edits.length > 0) {
+          const captured = shared.map((d) => captureAnchors(d.doc, t.textId, textDoc));
+          segmentsMoved += applyEdits(textDoc, layers, edits);
+          shared.forEach((d, i) => restoreAnchors(d.doc, t.textId, textDoc, captured[i]!, edits));
+          await deps.docs.write(t.docId, Y.encodeStateAsUpdate(textDoc, textBefore), by);
+          occurrences += edits.length;
+          changedTexts++;
+        }
+        for (const [i, layer] of layers.entries()) {
+          elsewhere.notes += replaceInDoc(layer, replacements);
+          await writeDiff(deps.docs, t.layerIds[i]!, layer, layersBefore[i]!, by);
+        }
+      } finally {
+        textDoc.destroy();
+        for (const l of layers) l.destroy();
       }
-      for (const [i, layer] of layers.entries()) {
-        elsewhere.notes += replaceInDoc(layer, replacements);
-        await writeDiff(deps.docs, t.layerIds[i]!, layer, layersBefore[i]!, by);
-      }
-    } finally {
-      textDoc.destroy();
-      for (const l of layers) l.destroy();
     }
-  }
-  for (const shared of await studySharedDocs(deps.db, studyId)) {
-    const doc = await loadDoc(deps.store, shared.id);
-    try {
-      const before = Y.encodeStateVector(doc);
-      elsewhere[shared.kind] += replaceInDoc(doc, replacements);
-      await writeDiff(deps.docs, shared.id, doc, before, by);
-    } finally {
-      doc.destroy();
+    for (const d of shared) {
+      elsewhere[d.kind] += replaceInDoc(d.doc, replacements);
+      await writeDiff(deps.docs, d.id, d.doc, d.before, by);
     }
+  } finally {
+    for (const d of shared) d.doc.destroy();
   }
   for (const c of await studyComments(deps.db, studyId)) {
     const r = replaceInString(c.body, replacements);
