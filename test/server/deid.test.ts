@@ -20,11 +20,10 @@ import { loadConfig, startServer, type RunningServer } from '../../apps/server/s
 import { addTextFromTranscript, ensureLayer, transcriptFromPlainText } from '../../apps/server/src/admin/index.js';
 import { freshPgliteDir, freshPostgresDatabase } from '../support/database.js';
 import { apiClient, signIn, webSocketWithHeaders, type ApiClient } from '../support/http.js';
-import { allTables } from '../support/schema-scan.js';
+import { scanForOriginals } from '../support/original-scan.js';
 import { PASSWORD, PEOPLE, seedBasic, type BasicSeed } from '../support/seed.js';
 import { dbKinds } from '../support/server.js';
 import { waitFor } from '../support/wait.js';
-import { sql, rowsOf } from '@gloss/db';
 
 const TEXT_1 = 'I: Who helped you at first?\nP3: Dana Whitcombe did. Dana drove me to Lowmere every week; you can ring her on 07700 900123.';
 const TEXT_2 = 'I: And later?\nP7: Later Dana Whitcombe moved to Lowmere for good.';
@@ -72,21 +71,7 @@ async function codeText(db: Db, seed: BasicSeed, textId: string, room: string, s
 }
 
 /** Rows, per table, of every table of the schema (but the key) whose text, jsonb or bytea holds any original. */
-async function ownScan(db: Db): Promise<Record<string, number>> {
-  const out: Record<string, number> = {};
-  for (const table of allTables()) {
-    if (table.name === 'pseudonyms') continue;
-    const cols = table.columns.filter((c) => ['text', 'jsonb', 'bytea'].includes(c.type));
-    for (const original of ORIGINALS) {
-      for (const c of cols) {
-        const cond = c.type === 'bytea' ? sql`position(convert_to(${original}, 'UTF8') in ${sql.identifier(c.name)}) > 0` : sql`strpos(${sql.identifier(c.name)}::text, ${original}) > 0`;
-        const [row] = rowsOf<{ n: string | number }>(await db.execute(sql`select count(*) as n from ${sql.identifier(table.name)} where ${cond}`));
-        if (Number(row?.n ?? 0) > 0) out[`${table.name}.${c.name}`] = (out[`${table.name}.${c.name}`] ?? 0) + Number(row!.n);
-      }
-    }
-  }
-  return out;
-}
+const ownScan = (db: Db) => scanForOriginals(db, ORIGINALS);
 
 interface Segment { coderId: string; quote: string; start: number; end: number }
 
