@@ -5,23 +5,25 @@
  * by this test's own scan of every table of the schema (test/support/schema-scan.ts), in text, jsonb
  * and bytea columns — and a stock y-websocket client that held the old copy is closed with 4410
  * every time it tries, so it cannot send the old history back. (Close codes 4000–4999 are left to
- * applications by RFC 6455 §7.4.2.)
+ * applications by RFC 6455 §7.4.2.) The identifiers are also planted outside the transcripts — a code's
+ * definition and example, a memo and its reply, a segment note, a comment on a segment — and must be
+ * found there, replaced there and purged from there; an old copy of the memos document that connects to
+ * the rebuilt memos room is closed with 4410 before anything of it is stored.
  */
 import * as Y from 'yjs';
 import WebSocket from 'ws';
 import { WebsocketProvider } from 'y-websocket';
-import { asc, auditLog, documents, eq, updates, pseudonyms, type Db } from '@gloss/db';
-import { addSegment, newLayerDoc, readText } from '@gloss/model';
+import { and, asc, auditLog, documents, eq, updates, pseudonyms, segmentComments, type Db } from '@gloss/db';
+import { addCode, addExample, addMemo, addReply, addSegment, exampleFromSegment, getCode, getMemo, listMemos, listReplies, listSegments, newLayerDoc, readText, resolveExample, setSegmentNote } from '@gloss/model';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig, startServer, type RunningServer } from '../../apps/server/src/index.js';
 import { addTextFromTranscript, ensureLayer, transcriptFromPlainText } from '../../apps/server/src/admin/index.js';
 import { freshPgliteDir, freshPostgresDatabase } from '../support/database.js';
 import { apiClient, signIn, webSocketWithHeaders, type ApiClient } from '../support/http.js';
-import { allTables } from '../support/schema-scan.js';
+import { scanForOriginals } from '../support/original-scan.js';
 import { PASSWORD, PEOPLE, seedBasic, type BasicSeed } from '../support/seed.js';
 import { dbKinds } from '../support/server.js';
 import { waitFor } from '../support/wait.js';
-import { sql, rowsOf } from '@gloss/db';
 
 const TEXT_1 = 'I: Who helped you at first?\nP3: Dana Whitcombe did. Dana drove me to Lowmere every week; you can ring her on 07700 900123.';
 const TEXT_2 = 'I: And later?\nP7: Later Dana Whitcombe moved to Lowmere for good.';
@@ -38,35 +40,38 @@ async function startFresh(kind: 'pglite' | 'postgres') {
   return { server, drop: () => fresh.drop() };
 }
 
-/** The text document as stored (its log), and a coder's layer with segments written straight into the log before any room opens. */
-async function codeText(db: Db, seed: BasicSeed, textId: string, room: string, spans: Array<[string, string]>): Promise<void> {
+/** A document as stored (its log). */
+async function stored(db: Db, room: string): Promise<Y.Doc> {
   const rows = await db.select().from(updates).where(eq(updates.docId, room)).orderBy(asc(updates.seq));
-  const textDoc = new Y.Doc({ gc: false });
-  for (const r of rows) Y.applyUpdate(textDoc, r.data);
+  const doc = new Y.Doc({ gc: false });
+  for (const r of rows) Y.applyUpdate(doc, r.data);
+  return doc;
+}
+
+/** Appends what `change` does to a stored document as one log row (before any room opens). */
+async function changeStored(db: Db, room: string, change: (doc: Y.Doc) => void): Promise<void> {
+  const doc = await stored(db, room);
+  const before = Y.encodeStateVector(doc);
+  change(doc);
+  const u = Y.encodeStateAsUpdate(doc, before);
+  await db.insert(updates).values({ docId: room, data: u, bytes: u.byteLength });
+}
+
+/** A coder's layer with segments written straight into the log before any room opens; the first segment gets `note`. */
+async function codeText(db: Db, seed: BasicSeed, textId: string, room: string, spans: Array<[string, string]>, note?: string): Promise<{ layerId: string; textDoc: Y.Doc; layer: Y.Doc; first: string }> {
+  const textDoc = await stored(db, room);
   const t = readText(textDoc);
   const layer = newLayerDoc();
-  for (const [from, to] of spans) addSegment(layer, textDoc, { codeId: 'help', start: t.indexOf(from), end: t.indexOf(to) + to.length });
+  const ids = spans.map(([from, to]) => addSegment(layer, textDoc, { codeId: 'help', start: t.indexOf(from), end: t.indexOf(to) + to.length }));
+  if (note) setSegmentNote(layer, ids[0]!, note);
   const layerId = await ensureLayer(db, seed.studyId, textId, seed.users.coder.id);
   const u = Y.encodeStateAsUpdate(layer);
   await db.insert(updates).values({ docId: layerId, data: u, bytes: u.byteLength });
+  return { layerId, textDoc, layer, first: ids[0]! };
 }
 
 /** Rows, per table, of every table of the schema (but the key) whose text, jsonb or bytea holds any original. */
-async function ownScan(db: Db): Promise<Record<string, number>> {
-  const out: Record<string, number> = {};
-  for (const table of allTables()) {
-    if (table.name === 'pseudonyms') continue;
-    const cols = table.columns.filter((c) => ['text', 'jsonb', 'bytea'].includes(c.type));
-    for (const original of ORIGINALS) {
-      for (const c of cols) {
-        const cond = c.type === 'bytea' ? sql`position(convert_to(${original}, 'UTF8') in ${sql.identifier(c.name)}) > 0` : sql`strpos(${sql.identifier(c.name)}::text, ${original}) > 0`;
-        const [row] = rowsOf<{ n: string | number }>(await db.execute(sql`select count(*) as n from ${sql.identifier(table.name)} where ${cond}`));
-        if (Number(row?.n ?? 0) > 0) out[`${table.name}.${c.name}`] = (out[`${table.name}.${c.name}`] ?? 0) + Number(row!.n);
-      }
-    }
-  }
-  return out;
-}
+const ownScan = (db: Db) => scanForOriginals(db, ORIGINALS);
 
 interface Segment { coderId: string; quote: string; start: number; end: number }
 
@@ -78,6 +83,9 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
   let owner: ApiClient;
   let coderCookie: string;
   const texts: Array<{ id: string; room: string }> = [];
+  let codeId = '';
+  let person = '';
+  let memoId = '';
   const quotes = async (textId: string) => ((await lead.call<Segment[]>('GET', `/api/texts/${textId}/segments`)).body).map((s) => s.quote).sort();
 
   beforeAll(async () => {
@@ -87,8 +95,18 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
       const t = await addTextFromTranscript(server.db, seed.studyId, { title, transcript: transcriptFromPlainText(body), sourceFormat: 'txt', createdBy: seed.users.owner.id });
       texts.push({ id: t.id, room: t.room });
     }
-    await codeText(server.db, seed, texts[0]!.id, texts[0]!.room, [['Dana Whitcombe', 'Dana Whitcombe'], ['Dana drove', 'Lowmere'], ['every', 'week'], ['Who', 'first?']]);
+    const coded = await codeText(server.db, seed, texts[0]!.id, texts[0]!.room, [['Dana Whitcombe', 'Dana Whitcombe'], ['Dana drove', 'Lowmere'], ['every', 'week'], ['Who', 'first?']], 'Dana again');
     await codeText(server.db, seed, texts[1]!.id, texts[1]!.room, [['Later', 'Whitcombe'], ['moved', 'good.']]);
+    // outside the transcripts: a code's definition and an example (quote "Dana Whitcombe", also in the change log), a memo and a reply, a comment
+    await changeStored(server.db, seed.codebookRoom, (cb) => {
+      codeId = addCode(cb, { label: 'Neighbour help', briefDefinition: 'Help from Dana Whitcombe or anyone in Lowmere' }, { by: seed.users.lead.id });
+      addExample(cb, codeId, exampleFromSegment(coded.textDoc, coded.layer, texts[0]!.id, coded.first), 'example', { by: seed.users.lead.id });
+    });
+    await changeStored(server.db, seed.memosRoom, (m) => {
+      memoId = addMemo(m, { author: seed.users.lead.id, title: 'Helpers', body: 'Lowmere came up twice.', attachedTo: { kind: 'study' } });
+      addReply(m, memoId, { author: seed.users.coder.id, body: 'Dana drove.' });
+    });
+    await server.db.insert(segmentComments).values({ studyId: seed.studyId, textId: texts[0]!.id, layerDocId: coded.layerId, segmentId: coded.first, authorId: seed.users.lead.id, body: 'Is Dana the same person?' });
     lead = apiClient(server.url, await signIn(server.url, PEOPLE.lead.email, PASSWORD));
     owner = apiClient(server.url, await signIn(server.url, PEOPLE.owner.email, PASSWORD));
     coderCookie = await signIn(server.url, PEOPLE.coder.email, PASSWORD);
@@ -106,19 +124,22 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
   }, 180_000); // generous: at load 18 on two cores one step took over 30 s
 
   it('finds the identifiers across both texts; the same person gets the same pseudonym; replacement keeps every quote outside the replaced words', async () => {
-    const found = await lead.call<{ candidates: Array<{ original: string; kind: string; occurrences: number; textIds: string[]; suggestion: string }> }>(
+    const found = await lead.call<{ candidates: Array<{ original: string; kind: string; occurrences: number; textIds: string[]; where: string[]; suggestion: string }> }>(
       'POST', `/api/studies/${seed.studyId}/deid/candidates`, { list: ['Lowmere'] },
     );
     expect(found.status).toBe(200);
     const by = new Map(found.body.candidates.map((c) => [c.original, c]));
-    expect(by.get('Dana Whitcombe')).toMatchObject({ kind: 'person', occurrences: 2 });
+    // two in the texts, three in the codebook (definition, example quote, the change log's note of the example)
+    expect(by.get('Dana Whitcombe')).toMatchObject({ kind: 'person', occurrences: 5 });
+    expect(by.get('Dana Whitcombe')!.where.sort()).toEqual(['codebook', 'texts']);
+    expect(by.get('Dana')!.where.sort()).toEqual(['comments', 'memos', 'segment notes', 'texts']);
     expect(by.get('Dana Whitcombe')!.textIds.sort()).toEqual(texts.map((t) => t.id).sort());
     expect(by.get('Dana')!.suggestion).toBe(by.get('Dana Whitcombe')!.suggestion);
-    expect(by.get('Lowmere')).toMatchObject({ kind: 'listed', occurrences: 2 });
+    expect(by.get('Lowmere')).toMatchObject({ kind: 'listed', occurrences: 4 }); // two in the texts, the definition, the memo
     expect(by.get('07700 900123')?.kind).toBe('phone');
 
     const before = await Promise.all(texts.map((t) => quotes(t.id)));
-    const person = by.get('Dana Whitcombe')!.suggestion;
+    person = by.get('Dana Whitcombe')!.suggestion;
     // accepted as suggested, one edited by the reviewer (Lowmere → [Town A]), the rest rejected (not sent)
     const accepted = [
       { original: 'Dana Whitcombe', pseudonym: person, kind: 'person' },
@@ -128,6 +149,8 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     ];
     const applied = await lead.call<{ occurrences: number; texts: number }>('POST', `/api/studies/${seed.studyId}/deid/apply`, { replacements: accepted });
     expect(applied.body).toMatchObject({ occurrences: 6, texts: 2 }); // text 1: four, text 2: two
+    // codebook: definition 2, example quote 1, change log 1; memos: memo 1, reply 1; the note; the comment
+    expect(applied.body).toMatchObject({ elsewhere: { codebook: 4, memos: 2, notes: 1, comments: 1, titles: 0 } });
     const replace = (q: string) => q.replace(/Dana Whitcombe/g, person).replace(/\bDana\b/g, person).replace(/Lowmere/g, '[Town A]');
     await waitFor(async () => JSON.stringify(await quotes(texts[0]!.id)) === JSON.stringify(before[0]!.map(replace).sort()), 'quotes of text 1 follow the replacement', 90_000);
     expect(await quotes(texts[0]!.id)).toEqual([person, `${person} drove me to [Town A]`, 'Who helped you at first?', 'every week'].sort());
@@ -158,7 +181,15 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     expect(Buffer.from(Y.encodeStateAsUpdate(doc)).includes(Buffer.from('Whitcombe'))).toBe(true);
 
     const before = await Promise.all(texts.map((t) => quotes(t.id)));
-    const purge = await lead.call<{ texts: Array<{ textId: string; oldRoom: string; newRoom: string }>; scan: { occurrences: number; tablesScanned: number } }>(
+    // an old copy of the memos document, as a client that held it before the purge would
+    const oldMemosCopy = await stored(server.db, seed.memosRoom);
+    const [layerRow] = await server.db.select({ id: documents.id }).from(documents).where(and(eq(documents.textId, texts[0]!.id), eq(documents.kind, 'layer')));
+    const layerOf0 = layerRow!.id;
+    const purge = await lead.call<{
+      texts: Array<{ textId: string; oldRoom: string; newRoom: string }>;
+      documents: Array<{ kind: string; oldRoom: string; newRoom: string }>;
+      scan: { occurrences: number; tablesScanned: number };
+    }>(
       'POST', `/api/studies/${seed.studyId}/deid/purge`, {},
     );
     expect(purge.status).toBe(200);
@@ -177,6 +208,34 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     expect(again).toBe('close 4410 after 0 messages');
     provider.destroy();
 
+    expect(await ownScan(server.db)).toEqual({});
+    // every document of the study was rebuilt under a new room; what pointed at the old ones follows
+    const rebuilt = new Map(purge.body.documents.map((d) => [d.oldRoom, d.newRoom]));
+    expect(purge.body.documents.map((d) => d.kind).sort()).toEqual(['codebook', 'layer', 'layer', 'memos', 'text', 'text', 'text']);
+    const [comment] = await server.db.select().from(segmentComments).where(eq(segmentComments.studyId, seed.studyId));
+    expect(comment).toMatchObject({ body: `Is ${person} the same person?`, layerDocId: rebuilt.get(layerOf0) });
+    const newText = await stored(server.db, rebuilt.get(texts[0]!.room)!);
+    const cb = await stored(server.db, rebuilt.get(seed.codebookRoom)!);
+    expect(getCode(cb, codeId).briefDefinition).toBe(`Help from ${person} or anyone in [Town A]`);
+    expect(resolveExample(newText, getCode(cb, codeId).examples[0]!)).toMatchObject({ current: person, changed: false });
+    const memos = await stored(server.db, rebuilt.get(seed.memosRoom)!);
+    expect(getMemo(memos, memoId).body).toBe('[Town A] came up twice.');
+    expect(listReplies(memos, memoId).map((r) => r.body)).toEqual([`${person} drove.`]);
+    expect(listSegments(await stored(server.db, rebuilt.get(layerOf0)!)).map((x) => x.note).filter(Boolean)).toEqual([`${person} again`]);
+
+    // an old copy of the memos document (it still holds "Dana" in its history) that finds the rebuilt
+    // room is closed with 4410 at its first sync answer, and nothing of it is stored
+    const oldMemos = new Y.Doc({ gc: false });
+    Y.applyUpdate(oldMemos, Y.encodeStateAsUpdate(oldMemosCopy));
+    expect(listMemos(oldMemos).length).toBeGreaterThan(0);
+    const oldCloses: number[] = [];
+    const sneaky = new WebsocketProvider(server.url.replace(/^http/, 'ws') + '/sync', rebuilt.get(seed.memosRoom)!, oldMemos, {
+      WebSocketPolyfill: webSocketWithHeaders(WebSocket, { cookie: coderCookie, origin: server.url }) as never,
+      disableBc: true,
+    } as ConstructorParameters<typeof WebsocketProvider>[3]);
+    sneaky.on('connection-close', (e: CloseEvent | null) => void (e && oldCloses.push(e.code)));
+    await waitFor(() => oldCloses.includes(4410), 'old memos copy closed with 4410 in the rebuilt room', 60_000);
+    sneaky.destroy();
     expect(await ownScan(server.db)).toEqual({});
     const rooms = await server.db.select({ id: documents.id }).from(documents).where(eq(documents.kind, 'text'));
     for (const t of purge.body.texts) {

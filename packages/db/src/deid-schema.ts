@@ -3,7 +3,7 @@
  * the texts) and read by the study's owner only; and the text documents a purge replaced, so a client
  * still holding one of them is told to discard its copy instead of being refused as if it never existed.
  */
-import { index, pgTable, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import { index, jsonb, pgTable, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
 import { studies, texts, users } from './schema.js';
 
 /** One identifier of a study and its pseudonym: the same original gets the same replacement in every text. */
@@ -33,7 +33,11 @@ export const pseudonymKeyExports = pgTable('pseudonym_key_exports', {
   exportedAt: timestamp('exported_at', { withTimezone: true }).notNull().defaultNow(),
 });
 
-/** A text document replaced by a purge: its id (the old room) and the document that replaced it. */
+/**
+ * A document replaced by a purge (a text, layer, codebook or memos document): its id (the old room),
+ * the document that replaced it, and every client id that wrote the old one's history (with those of
+ * the documents it had replaced in turn), so the rebuilt room can refuse an old copy's structs.
+ */
 export const retiredDocuments = pgTable(
   'retired_documents',
   {
@@ -41,13 +45,15 @@ export const retiredDocuments = pgTable(
     studyId: uuid('study_id')
       .notNull()
       .references(() => studies.id, { onDelete: 'cascade' }),
-    textId: uuid('text_id')
-      .notNull()
-      .references(() => texts.id, { onDelete: 'cascade' }),
+    /** The text of a text or layer document; null for the codebook and memos. */
+    textId: uuid('text_id').references(() => texts.id, { onDelete: 'cascade' }),
+    kind: text('kind').notNull().default('text'),
     replacedBy: uuid('replaced_by').notNull(),
+    /** Yjs client ids of the old document's history (numbers). */
+    clients: jsonb('clients').$type<number[]>().notNull().default([]),
     retiredAt: timestamp('retired_at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index('retired_documents_text_idx').on(t.textId)],
+  (t) => [index('retired_documents_text_idx').on(t.textId), index('retired_documents_replaced_by_idx').on(t.replacedBy)],
 );
 
 export type PseudonymRow = typeof pseudonyms.$inferSelect;

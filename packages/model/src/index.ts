@@ -22,3 +22,4 @@ export * from './comparison.js';
 export * from './proposals.js';
 export * from './deid.js';
 export * from './opening.js';
+export * from './deid-docs.js';

@@ -15,7 +15,7 @@ import { recordAudit } from '../admin/audit.js';
 import { HttpError, forbidden, notFound, unauthenticated } from '../errors.js';
 import type { Recheck, RoomAuthorizer, RoomGrant } from '../sync/contracts.js';
 import { AppCloseCode } from '../sync/errors.js';
-import { findDocument, findRetired, roleIn } from './membership.js';
+import { findDocument, findRetired, retiredClientsOf, roleIn } from './membership.js';
 import { decideDocument } from './rounds.js';
 import { memoReaderView } from './memo-view.js';
 import type { TicketBook } from './tickets.js';
@@ -46,7 +46,7 @@ export const LOST_ACCESS = {
   notMember: 'You are no longer a member of this study.',
   mayNotRead: 'Your role in this study no longer lets you open this document.',
   gone: 'This document was deleted.',
-  replaced: 'This text was rebuilt after de-identification: your copy on this device must be discarded.',
+  replaced: 'This document was rebuilt after de-identification: your copy on this device must be discarded.',
 } as const;
 
 /** `viewed`: someone else's layer (its coder and text), for the access log. */
@@ -71,6 +71,8 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now, 
     // Rounds narrow the role table per document (an independent phase); `reason` says why in plain words.
     const access = await decideDocument(db, doc, role, session.user.id);
     if (!access.read) return { ok: false, status: 403, reason: access.reason ?? LOST_ACCESS.mayNotRead };
+    // A rebuilt room refuses structs of the documents it replaced: an old copy must not bring the originals back.
+    const retiredClients = await retiredClientsOf(db, doc.id);
     return {
       ok: true,
       viewed: doc.kind === 'layer' && doc.coderId !== session.user.id ? { coderId: doc.coderId, textId: doc.textId } : null,
@@ -90,6 +92,7 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now, 
         hidePointing: access.hidePointing,
         // the memos document is study-wide: which of its entries this reader receives (memo-view.ts)
         ...(doc.kind === 'memos' ? { memoView: await memoReaderView(db, doc.studyId, session.user.id, role) } : {}),
+        ...(retiredClients.length > 0 ? { retiredClients } : {}),
       },
     };
   }

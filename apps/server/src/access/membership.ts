@@ -19,7 +19,13 @@ export async function findDocument(db: Db, docId: string) {
   return row ?? null;
 }
 
-/** A text document a de-identification purge replaced (its old room), or null. */
+/** Client ids of the documents a purge replaced with `docId` (empty for a document never rebuilt). */
+export async function retiredClientsOf(db: Db, docId: string): Promise<number[]> {
+  const rows = await db.select({ clients: retiredDocuments.clients }).from(retiredDocuments).where(eq(retiredDocuments.replacedBy, docId));
+  return rows.flatMap((r) => r.clients);
+}
+
+/** A document a de-identification purge replaced (its old room), or null. */
 export async function findRetired(db: Db, docId: string) {
   if (!isUuid(docId)) return null;
   const [row] = await db.select().from(retiredDocuments).where(eq(retiredDocuments.id, docId));

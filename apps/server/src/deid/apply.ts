@@ -1,17 +1,20 @@
 /**
- * Applying accepted replacements across every text of a study: the text documents are edited and
- * the segments that touch a replaced word re-anchored (model `applyEdits`), each change written
- * through the sync layer's DocWriter so open rooms and other nodes receive it as any edit. The
- * pairs go into the study's pseudonym key; the audit log gets the kind, pseudonym and counts, never
- * the original words.
+ * Applying accepted replacements across everything of a study: the text documents are edited and the
+ * segments that touch a replaced word re-anchored (model `applyEdits`); segment notes in the layers,
+ * the codebook (definitions, inclusion and exclusion, example and near-miss quotes, its change log)
+ * and the memos, jottings and replies are rewritten string by string (model `replaceInDoc`); each
+ * document change is written through the sync layer's DocWriter, so open rooms and other nodes receive
+ * it as any edit. Comments on segments and text titles are rows, rewritten in place. The pairs go into
+ * the study's pseudonym key; the audit log gets kinds, pseudonyms and counts, never the original words.
  */
 import * as Y from 'yjs';
-import { pseudonyms, type Db } from '@gloss/db';
-import { applyEdits, planEdits, readText, type Replacement } from '@gloss/model';
-import { sql } from 'drizzle-orm';
+import { pseudonyms, segmentComments, texts, type Db } from '@gloss/db';
+import { applyEdits, captureAnchors, planEdits, readText, replaceInDoc, replaceInString, restoreAnchors, type Replacement } from '@gloss/model';
+import { eq, sql } from 'drizzle-orm';
 import { recordAudit } from '../admin/audit.js';
 import { loadDoc, type DocLoader } from '../projection/load-doc.js';
 import type { DocWriter } from '../rounds/doc-change.js';
+import { studyComments, studySharedDocs, studyTitles } from './study-docs.js';
 import { studyTexts } from './study-texts.js';
 
 export interface AcceptedReplacement extends Replacement {
@@ -19,9 +22,18 @@ export interface AcceptedReplacement extends Replacement {
 }
 
 export interface ApplyResult {
+  /** Occurrences replaced in the transcripts. */
   occurrences: number;
   texts: number;
   segmentsMoved: number;
+  /** Occurrences replaced outside the transcripts, by place. */
+  elsewhere: { codebook: number; memos: number; notes: number; comments: number; titles: number };
+}
+
+async function writeDiff(docs: DocWriter, docId: string, doc: Y.Doc, before: Uint8Array, by: string): Promise<void> {
+  const diff = Y.encodeStateAsUpdate(doc, before);
+  const { structs, ds } = Y.decodeUpdate(diff);
+  if (structs.length > 0 || ds.clients.size > 0) await docs.write(docId, diff, by);
 }
 
 export async function applyReplacements(
@@ -33,29 +45,59 @@ export async function applyReplacements(
   let occurrences = 0;
   let changedTexts = 0;
   let segmentsMoved = 0;
+  const elsewhere = { codebook: 0, memos: 0, notes: 0, comments: 0, titles: 0 };
   const perOriginal = new Map<string, number>();
-  for (const t of await studyTexts(deps.db, studyId)) {
-    const textDoc = await loadDoc(deps.store, t.docId);
-    const layers = await Promise.all(t.layerIds.map((id) => loadDoc(deps.store, id)));
-    try {
-      const text = readText(textDoc);
-      const edits = planEdits(text, replacements);
-      if (edits.length === 0) continue;
-      for (const e of edits) perOriginal.set(text.slice(e.start, e.end), (perOriginal.get(text.slice(e.start, e.end)) ?? 0) + 1);
-      const textBefore = Y.encodeStateVector(textDoc);
-      const layersBefore = layers.map((l) => Y.encodeStateVector(l));
-      segmentsMoved += applyEdits(textDoc, layers, edits);
-      await deps.docs.write(t.docId, Y.encodeStateAsUpdate(textDoc, textBefore), by);
-      for (const [i, layer] of layers.entries()) {
-        const diff = Y.encodeStateAsUpdate(layer, layersBefore[i]);
-        if (Y.decodeUpdate(diff).structs.length > 0) await deps.docs.write(t.layerIds[i]!, diff, by);
+  // The codebook and memos hold anchors into the texts (examples, jotting passages): loaded first, so
+  // those anchors follow each text's edits as segments do, then rewritten and written once.
+  const shared = await Promise.all((await studySharedDocs(deps.db, studyId)).map(async (d) => {
+    const doc = await loadDoc(deps.store, d.id);
+    return { ...d, doc, before: Y.encodeStateVector(doc) };
+  }));
+  try {
+    for (const t of await studyTexts(deps.db, studyId)) {
+      const textDoc = await loadDoc(deps.store, t.docId);
+      const layers = await Promise.all(t.layerIds.map((id) => loadDoc(deps.store, id)));
+      try {
+        const text = readText(textDoc);
+        const edits = planEdits(text, replacements);
+        for (const e of edits) perOriginal.set(text.slice(e.start, e.end), (perOriginal.get(text.slice(e.start, e.end)) ?? 0) + 1);
+        const textBefore = Y.encodeStateVector(textDoc);
+        const layersBefore = layers.map((l) => Y.encodeStateVector(l));
+        if (edits.length > 0) {
+          const captured = shared.map((d) => captureAnchors(d.doc, t.textId, textDoc));
+          segmentsMoved += applyEdits(textDoc, layers, edits);
+          shared.forEach((d, i) => restoreAnchors(d.doc, t.textId, textDoc, captured[i]!, edits));
+          await deps.docs.write(t.docId, Y.encodeStateAsUpdate(textDoc, textBefore), by);
+          occurrences += edits.length;
+          changedTexts++;
+        }
+        for (const [i, layer] of layers.entries()) {
+          elsewhere.notes += replaceInDoc(layer, replacements);
+          await writeDiff(deps.docs, t.layerIds[i]!, layer, layersBefore[i]!, by);
+        }
+      } finally {
+        textDoc.destroy();
+        for (const l of layers) l.destroy();
       }
-      occurrences += edits.length;
-      changedTexts++;
-    } finally {
-      textDoc.destroy();
-      for (const l of layers) l.destroy();
     }
+    for (const d of shared) {
+      elsewhere[d.kind] += replaceInDoc(d.doc, replacements);
+      await writeDiff(deps.docs, d.id, d.doc, d.before, by);
+    }
+  } finally {
+    for (const d of shared) d.doc.destroy();
+  }
+  for (const c of await studyComments(deps.db, studyId)) {
+    const r = replaceInString(c.body, replacements);
+    if (r.count === 0) continue;
+    await deps.db.update(segmentComments).set({ body: r.text }).where(eq(segmentComments.id, c.id));
+    elsewhere.comments += r.count;
+  }
+  for (const t of await studyTitles(deps.db, studyId)) {
+    const r = replaceInString(t.title, replacements);
+    if (r.count === 0) continue;
+    await deps.db.update(texts).set({ title: r.text }).where(eq(texts.id, t.id));
+    elsewhere.titles += r.count;
   }
   for (const r of replacements) {
     await deps.db
@@ -70,5 +112,8 @@ export async function applyReplacements(
       detail: { kind: r.kind, pseudonym: r.pseudonym, occurrences: perOriginal.get(r.original) ?? 0 },
     });
   }
-  return { occurrences, texts: changedTexts, segmentsMoved };
+  if (Object.values(elsewhere).some((n) => n > 0)) {
+    await recordAudit(deps.db, { userId: by, studyId, action: 'deid.replace.elsewhere', target: studyId, detail: { ...elsewhere } });
+  }
+  return { occurrences, texts: changedTexts, segmentsMoved, elsewhere };
 }

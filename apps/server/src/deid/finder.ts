@@ -17,6 +17,8 @@ export interface Candidate {
   occurrences: number;
   /** Ids of the texts it occurs in. */
   textIds: string[];
+  /** Where it was found: 'texts' and the study's other places (codebook, memos, segment notes, comments, text titles). */
+  where: string[];
   /** The words around its first occurrence, for the reviewer. */
   context: string;
   /** A pseudonym: the one in the study's key when there is one, else the next free of its kind. */
@@ -108,8 +110,18 @@ function contextAt(text: string, start: number, end: number): string {
   return `${a > 0 ? '…' : ''}${text.slice(a, b).replace(/\s+/g, ' ')}${b < text.length ? '…' : ''}`;
 }
 
+/**
+ * A piece of the study's words: a transcript (no `where`), or a string from elsewhere, named by `where`
+ * (its `id` then only tells pieces apart).
+ */
+export interface Source {
+  id: string;
+  text: string;
+  where?: string;
+}
+
 export function findCandidates(
-  texts: ReadonlyArray<{ id: string; text: string }>,
+  texts: readonly Source[],
   listed: readonly string[],
   key: ReadonlyMap<string, string>,
 ): Candidate[] {
@@ -128,13 +140,15 @@ export function findCandidates(
   const nextFor = pseudonymSequence(key.values());
   // Counted with all candidates at once, as they will be replaced: "Dana" inside "Dana Whitcombe" is not a "Dana".
   const all = [...found.keys()].map((original) => ({ original, pseudonym: original }));
-  const tally = new Map<string, { occurrences: number; textIds: string[]; context: string }>();
+  const tally = new Map<string, { occurrences: number; textIds: string[]; where: string[]; context: string }>();
   for (const t of texts) {
+    const where = t.where ?? 'texts';
     for (const e of planEdits(t.text, all)) {
       const original = t.text.slice(e.start, e.end);
-      const entry = tally.get(original) ?? { occurrences: 0, textIds: [], context: contextAt(t.text, e.start, e.end) };
+      const entry = tally.get(original) ?? { occurrences: 0, textIds: [], where: [], context: contextAt(t.text, e.start, e.end) };
       entry.occurrences++;
-      if (!entry.textIds.includes(t.id)) entry.textIds.push(t.id);
+      if (t.where === undefined && !entry.textIds.includes(t.id)) entry.textIds.push(t.id);
+      if (!entry.where.includes(where)) entry.where.push(where);
       tally.set(original, entry);
     }
   }

@@ -5,15 +5,13 @@
  */
 import { Hono } from 'hono';
 import { z } from 'zod';
-import { readText } from '@gloss/model';
 import { applyReplacements } from '../deid/apply.js';
 import { findCandidates } from '../deid/finder.js';
+import { otherWords, readStudyWords } from '../deid/study-words.js';
 import { deleteKey, exportKeyOnce, keyMap, readKey } from '../deid/key.js';
 import { purgeStudy } from '../deid/purge.js';
 import { scanStudy } from '../deid/scan.js';
-import { studyTexts } from '../deid/study-texts.js';
 import { HttpError } from '../errors.js';
-import { loadDoc } from '../projection/load-doc.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
 import { studyRole } from './study-access.js';
@@ -39,13 +37,8 @@ export function deidRoutes(deps: AppDeps) {
     const { studyId } = await studyRole(deps, c, 'deid.manage');
     const { list } = await readJson(c, CandidatesBody);
     const { store } = need();
-    const texts = [];
-    for (const t of await studyTexts(deps.db, studyId)) {
-      const doc = await loadDoc(store, t.docId);
-      texts.push({ id: t.textId, title: t.title, text: readText(doc) });
-      doc.destroy();
-    }
-    const candidates = findCandidates(texts, list, await keyMap(deps.db, studyId));
+    const texts = await readStudyWords(deps.db, store, studyId);
+    const candidates = findCandidates([...texts, ...(await otherWords(deps.db, store, studyId))], list, await keyMap(deps.db, studyId));
     return c.json({ texts: texts.map((t) => ({ id: t.id, title: t.title })), candidates });
   });
 
@@ -59,11 +52,11 @@ export function deidRoutes(deps: AppDeps) {
 
   app.post('/:studyId/deid/purge', async (c) => {
     const { studyId } = await studyRole(deps, c, 'deid.manage');
-    const { store, docs } = need();
-    const texts = await purgeStudy({ db: deps.db, store, docs, liveAccess: deps.liveAccess }, studyId, c.get('session').user.id);
+    const { store } = need();
+    const purged = await purgeStudy({ db: deps.db, store, liveAccess: deps.liveAccess, ...(deps.projector ? { projector: deps.projector } : {}) }, studyId, c.get('session').user.id);
     const key = await keyMap(deps.db, studyId);
     const scan = await scanStudy(deps.db, studyId, [...key.keys()]);
-    return c.json({ texts, scan, keyEntries: key.size });
+    return c.json({ texts: purged.texts, documents: purged.documents, referencesMoved: purged.referencesMoved, scan, keyEntries: key.size });
   });
 
   app.get('/:studyId/deid/scan', async (c) => {

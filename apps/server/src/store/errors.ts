@@ -1,7 +1,8 @@
 /** Typed failures of the update store. */
 export class StoreError extends Error {
   constructor(
-    readonly code: 'store-closed' | 'append-failed' | 'load-failed',
+    /** `document-gone`: the document was deleted or retired by a purge; this append was refused, others of its batch stored. */
+    readonly code: 'store-closed' | 'append-failed' | 'load-failed' | 'document-gone',
     message: string,
     options?: { cause?: unknown },
   ) {

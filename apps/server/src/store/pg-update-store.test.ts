@@ -3,7 +3,7 @@
  * catch-up reads, and compaction that folds the log into a snapshot without losing anything.
  * Expected document contents come from Yjs itself (applying the same updates to a fresh Y.Doc).
  */
-import { snapshots, type Database } from '@gloss/db';
+import { snapshots, sql, type Database } from '@gloss/db';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
 import { dbKinds, openTestDatabase } from '../../../../test/support/database.js';
@@ -49,6 +49,20 @@ describe.each(dbKinds())('PgUpdateStore on %s', (kind) => {
     }
     const { updates } = await store.since(docIds[4]!, 0);
     expect(updates.map((u) => Buffer.from(u).toString('hex'))).toEqual(sent.map((u) => Buffer.from(u).toString('hex')));
+    await store.close();
+  });
+
+  it('refuses an append to a document that is gone, alone: the rest of its batch is stored (small, literal and unnest batches)', async () => {
+    // A purge deletes the retired document's row; an append arriving later must not fail everyone's batch (insert-batch.ts).
+    const store = createPgUpdateStore(database, { compactMinBytes: 0 });
+    const { docIds: [gone] } = await seedDocuments(database, 1);
+    await database.db.execute(sql`delete from documents where id = ${gone!}::uuid`);
+    for (const n of [2, 40, 300]) {
+      const results = await Promise.allSettled(Array.from({ length: n }, (_, i) => store.append(i % 2 === 0 ? gone! : docIds[3]!, Uint8Array.of(n, i % 256), null)));
+      expect(results.filter((r) => r.status === 'fulfilled')).toHaveLength(Math.floor(n / 2));
+      for (const r of results.filter((x) => x.status === 'rejected')) expect((r as PromiseRejectedResult).reason).toMatchObject({ code: 'document-gone' });
+    }
+    expect((await store.since(gone!, 0)).updates).toEqual([]);
     await store.close();
   });
 

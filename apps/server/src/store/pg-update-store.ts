@@ -51,11 +51,11 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
   const counts = { batches: 0, rows: 0, compactions: 0 };
 
   const pglite = database.kind === 'pglite' ? pgliteClientOf(database.db) : null;
-  const commits = new GroupCommit<LogRow, number>(async (rows) => {
+  const commits = new GroupCommit<LogRow, number | null>(async (rows) => {
     const seqs = await insertBatch(database.db, rows, pglite);
     counts.batches++;
     counts.rows += rows.length;
-    for (const row of rows) noteAppend(row.docId, row.data.length);
+    rows.forEach((row, i) => seqs[i] !== null && noteAppend(row.docId, row.data.length));
     return seqs;
   }, options.maxBatch ?? 2_000, options.commitDelayMs ?? (database.kind === 'pglite' ? 5 : 0));
 
@@ -101,7 +101,10 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
       if (!isUuid(docId) || (userId !== null && !isUuid(userId))) {
         return Promise.reject(new StoreError('append-failed', `not a UUID: ${docId} / ${userId}`));
       }
-      return commits.submit({ docId, data: update, userId });
+      return commits.submit({ docId, data: update, userId }).then((seq) => {
+        if (seq === null) throw new StoreError('document-gone', `document ${docId} was deleted or replaced; the update was not stored`);
+        return seq;
+      });
     },
     async since(docId, seq) {
       return flatten(await readLog(database.db, docId, seq), seq);

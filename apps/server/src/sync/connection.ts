@@ -11,7 +11,7 @@ import { AppCloseCode, CloseCode, SyncError } from './errors.js';
 import type { SyncLogger } from './logger.js';
 import { encodeAwarenessMessage, encodePermissionDenied, encodeSyncStep1, encodeSyncStep2, encodeSyncUpdate, peekKind, readPayload } from './protocol.js';
 import type { Room, RoomPeer } from './room.js';
-import { checkUpdate } from './update-check.js';
+import { carriesClient, checkUpdate } from './update-check.js';
 import { checkWrite } from '../access/write-rules.js';
 import { entryFacts, mayReadEntry, seesEverything, type MemoReaderView } from '../access/memo-view.js';
 import { MEMOS_ROOT } from '@gloss/model';
@@ -229,6 +229,10 @@ export class Connection implements RoomPeer {
         }
         const update = readPayload(decoder);
         if (checkUpdate(update).empty) return;
+        const retired = this.grant.retiredClients;
+        if (retired !== undefined && retired.length > 0 && carriesClient(update, retired)) {
+          throw new SyncError('retired-copy', 'this copy predates the de-identification purge: discard it and reload', AppCloseCode.replaced);
+        }
         const rule = this.grant.writeRule;
         if (rule !== undefined && this.judge(room, rule, update) !== null) {
           // This node may be behind the log: a client that failed over from another node resends what

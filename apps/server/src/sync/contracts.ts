@@ -47,6 +47,10 @@ export interface RoomGrant {
    * when a re-check finds another view, the connection closes with 4409 so the client starts afresh.
    */
   memoView?: MemoReaderView;
+   * Yjs client ids of the documents a de-identification purge replaced with this one: an update
+   * carrying a struct of one of them comes from an old copy, and closes its connection with 4410.
+   */
+  retiredClients?: readonly number[];
 }
 
 /** The outcome of re-running the decision for an open connection: its grant now, or why it lost the room. */

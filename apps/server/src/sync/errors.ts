@@ -6,7 +6,8 @@ export type SyncErrorCode =
   | 'invalid-awareness'
   | 'presence-too-large'
   | 'presence-taken'
-  | 'store-failed';
+  | 'store-failed'
+  | 'retired-copy';
 
 export class SyncError extends Error {
   readonly code: SyncErrorCode;

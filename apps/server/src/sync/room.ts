@@ -6,7 +6,7 @@
 import * as Y from 'yjs';
 import type { Relay, UpdateStore } from './contracts.js';
 import { AwarenessTable, decodeAwarenessUpdate, encodeAwarenessUpdate, type AwarenessEntry } from './awareness-table.js';
-import { CloseCode, SyncError } from './errors.js';
+import { AppCloseCode, CloseCode, SyncError } from './errors.js';
 import type { SyncLogger } from './logger.js';
 import { encodeAwarenessMessage, encodeSyncUpdate } from './protocol.js';
 import { decodeRelayFrame, encodeRelayFrame } from './relay-frame.js';
@@ -114,6 +114,12 @@ export class Room {
           },
           (cause: unknown) => {
             landed();
+            // A document a purge retired (or a deletion removed) refuses appends: the sender holds a copy to discard.
+            if ((cause as { code?: unknown } | null)?.code === 'document-gone') {
+              this.deps.logger.warn({ room: this.name }, 'update to a retired or deleted document refused; closing its connection');
+              from.fail(new SyncError('store-failed', 'this document was replaced or deleted', AppCloseCode.replaced, { cause }));
+              return;
+            }
             this.deps.logger.error({ err: cause, room: this.name }, 'update not stored; closing its connection');
             from.fail(new SyncError('store-failed', 'update could not be stored', CloseCode.internalError, { cause }));
           },

@@ -11,3 +11,9 @@ export function checkUpdate(update: Uint8Array): { empty: boolean } {
     throw new SyncError('invalid-update', 'update does not decode', CloseCode.invalidPayload, { cause });
   }
 }
+
+/** Whether the update carries a struct written by one of `clients` (a document's retired history). */
+export function carriesClient(update: Uint8Array, clients: readonly number[]): boolean {
+  const set = new Set(clients);
+  return Y.decodeUpdate(update).structs.some((s) => set.has(s.id.client));
+}
