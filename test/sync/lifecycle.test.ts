@@ -94,7 +94,7 @@ describe('room lifecycle', () => {
       g.flushGate.open();
       await waitFor(() => b.doc.getText('text').toString() === 'before unload', 'b sees the stored text');
       expect(g.calls.load).toBe(2);
-      expect(server.sync.stats().byState).toMatchObject({ ready: 1, unloading: 0 });
+      expect(server.sync.stats().byState).toMatchObject({ open: 1, unloading: 0 });
       b.destroy();
       await waitFor(() => server.sync.stats().rooms === 0, 'unloaded again');
     } finally {

@@ -68,6 +68,12 @@ export interface UpdateStore {
   since(docId: string, seq: number): Promise<{ updates: Uint8Array[]; seq: number; seqs?: number[] }>;
   /** Waits for in-flight commits; after this resolves nothing appended earlier is pending. */
   flush(): Promise<void>;
+  /**
+   * The same for one document only (a room's unload): every append of `docId` made before the call,
+   * queued or in a batch being written, has committed or failed (and, behind a projector, been
+   * projected). Appends of other documents are not waited for. Absent: the room falls back to flush().
+   */
+  flushDoc?(docId: string): Promise<void>;
   close(): Promise<void>;
 }
 

@@ -6,7 +6,11 @@ export type SyncErrorCode =
   | 'invalid-awareness'
   | 'presence-too-large'
   | 'presence-taken'
-  | 'store-failed';
+  | 'store-failed'
+  | 'server-busy'
+  | 'too-many-messages'
+  | 'too-much-pending'
+  | 'room-unavailable';
 
 export class SyncError extends Error {
   readonly code: SyncErrorCode;
