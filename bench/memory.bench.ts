@@ -8,6 +8,8 @@
  *   text's room opened until the room answered (loaded), RSS sampled at 0, 10, 100 and 1,000 rooms:
  *   memory per loaded document is the growth from 0 to 1,000 divided by 1,000.
  * No outside reference is run here (bench/relay.bench.ts runs the y-websocket server for relay).
+ * BENCH_MEMORY_DOCUMENTS (default 1000) makes the loaded-documents part smaller for a quick check;
+ * BENCH_MEMORY_PARTS (demo, loaded-documents, postgres; default all) picks parts.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { readFileSync, mkdtempSync, rmSync } from 'node:fs';
@@ -18,6 +20,7 @@ import { openDatabase } from '@gloss/db';
 import { admin } from '@gloss/server';
 import { freshPostgresDatabase } from '../test/support/postgres.js';
 import WebSocket from 'ws';
+import { BENCH_SYNC_LIMITS } from './relay.bench.js';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const mb = (kb: number) => Math.round(kb / 1024);
@@ -44,7 +47,7 @@ async function serve(env: Record<string, string>, args: string[] = []): Promise<
   delete inherited.REDIS_URL;
   const proc = spawn(process.execPath, ['--import', 'tsx', join(root, 'apps/cli/src/main.ts'), 'serve', ...args], {
     cwd: root,
-    env: { ...inherited, PORT: '0', HOST: '127.0.0.1', LOG_LEVEL: 'warn', ...env },
+    env: { ...inherited, PORT: '0', HOST: '127.0.0.1', LOG_LEVEL: 'warn', ...BENCH_SYNC_LIMITS, ...env },
     stdio: ['ignore', 'pipe', 'inherit'],
   });
   const url = await new Promise<string>((resolve, reject) => {
@@ -91,7 +94,9 @@ async function atRest(child: Child) {
 
 export async function run() {
   const out: Array<Record<string, unknown> & { name: string }> = [];
+  const parts = process.env.BENCH_MEMORY_PARTS?.split(',').filter(Boolean);
   for (const [name, part] of [['memory.demo', demoAtRest], ['memory.loaded-documents', loadedDocuments], ['memory.postgres', postgresAtRest]] as const) {
+    if (parts && !parts.includes(name.replace('memory.', ''))) continue;
     // One part failing (a busy machine, no PostgreSQL) keeps the others' figures.
     await part(out).catch((err: unknown) => out.push({ name, error: String((err as Error)?.stack ?? err) }));
   }
@@ -113,6 +118,8 @@ async function demoAtRest(out: Out) {
   }
 }
 
+const DOCUMENTS = Number(process.env.BENCH_MEMORY_DOCUMENTS ?? 1_000);
+
 async function loadedDocuments(out: Out) {
   // 1,000 small texts written before the server starts (PGlite is one process's at a time).
   const dir = mkdtempSync(join(tmpdir(), 'gloss-bench-mem-'));
@@ -123,7 +130,7 @@ async function loadedDocuments(out: Out) {
       const owner = await admin.createUser(database.db, { email: 'bench.mem@example.test', name: 'Bench Owner', password: 'bench-password-1' });
       const study = await admin.createStudy(database.db, { title: 'Memory', createdBy: owner.id });
       const words = 'we carried the nets down to the harbour before the school bus came and the ferry was late again '.repeat(10);
-      for (let i = 0; i < 1_000; i++) {
+      for (let i = 0; i < DOCUMENTS; i++) {
         const text = await admin.addTextFromTranscript(database.db, study.id, {
           title: `Note ${i}`,
           transcript: { turns: [{ speaker: 'P01', startMs: null, endMs: null, text: `${i} ${words}` }] },
@@ -140,7 +147,7 @@ async function loadedDocuments(out: Out) {
   const sockets: WebSocket[] = [];
   try {
     const rest = await atRest(child);
-    out.push({ name: 'memory.rest.pglite-empty', ...rest, documents: 1_000, loadavg1: load1() });
+    out.push({ name: 'memory.rest.pglite-empty', ...rest, documents: DOCUMENTS, loadavg1: load1() });
     const res = await fetch(`${child.url}/api/session`, {
       method: 'POST',
       headers: { 'content-type': 'application/json', origin: child.url },
@@ -159,7 +166,7 @@ async function loadedDocuments(out: Out) {
       });
     const points: Array<{ rooms: number; rssMb: number }> = [{ rooms: 0, rssMb: rest.rssMb }];
     let opened = 0;
-    for (const target of [10, 100, 1_000]) {
+    for (const target of [10, 100, 1_000].filter((n) => n < DOCUMENTS).concat(DOCUMENTS)) {
       while (opened < target) {
         const batch = rooms.slice(opened, Math.min(target, opened + 20));
         await Promise.all(batch.map(open));

@@ -34,6 +34,12 @@ const here = dirname(fileURLToPath(import.meta.url));
 let Y: typeof YT;
 const repoRoot = join(here, '..');
 const EDITS_PER_SEC = 5;
+
+/**
+ * Benchmarks open up to 1,000 sockets as one person from one address, past the per-person (100) and
+ * per-address (500) connection limits a real deployment keeps (sync/budgets.ts): raised here only.
+ */
+export const BENCH_SYNC_LIMITS = { MAX_CONNECTIONS_PER_USER: '100000', MAX_CONNECTIONS_PER_ADDRESS: '100000' } as const;
 const WARMUP_MS = 1_000;
 const MEASURE_MS = 4_000;
 
@@ -96,6 +102,7 @@ async function serveGloss(): Promise<{ port: number; room: string; wsPath: strin
     DATA_DIR: folder?.dir ?? join(tmpdir(), 'unused'),
     DATABASE_URL: pg?.url ?? '',
     MAX_MESSAGE_BYTES: String(4 * 1024 * 1024),
+    ...BENCH_SYNC_LIMITS,
   });
   const server = await startServer(config);
   const password = 'bench-password-1';

@@ -49,6 +49,8 @@ export interface SpawnedServer<T> {
   readonly dbEnv: Readonly<Record<string, string>>;
   /** Output so far (for failure messages). */
   readonly stderr: string;
+  /** The running process's id (its memory is read from /proc by the fuzz run); undefined while stopped. */
+  readonly pid: number | undefined;
   /** Sends a signal and waits for the exit; returns the exit code (null when killed by the signal). */
   kill(signal?: NodeJS.Signals): Promise<number | null>;
   /** Stops the process (SIGTERM, graceful) and deletes its database. */
@@ -179,6 +181,9 @@ export async function spawnServer<T = undefined>(options: SpawnOptions<T>): Prom
     },
     get stderr() {
       return stderr;
+    },
+    get pid() {
+      return (child as ChildProcess | null)?.pid;
     },
     seeded,
     dbKind: options.db,

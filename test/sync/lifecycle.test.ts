@@ -9,6 +9,7 @@ import { WebSocket } from 'ws';
 import * as Y from 'yjs';
 import type { UpdateStore } from '../../apps/server/src/sync/contracts.js';
 import { createMemoryUpdateStore } from '../../apps/server/src/store/index.js';
+import { noRelay } from '../../apps/server/src/relay/index.js';
 import { connectClient, startSyncServer, testAuthorizer, waitFor } from './support/harness.js';
 
 /** A gate: `wait()` blocks until `open()`. */
@@ -94,7 +95,7 @@ describe('room lifecycle', () => {
       g.flushGate.open();
       await waitFor(() => b.doc.getText('text').toString() === 'before unload', 'b sees the stored text');
       expect(g.calls.load).toBe(2);
-      expect(server.sync.stats().byState).toMatchObject({ ready: 1, unloading: 0 });
+      expect(server.sync.stats().byState).toMatchObject({ open: 1, unloading: 0 });
       b.destroy();
       await waitFor(() => server.sync.stats().rooms === 0, 'unloaded again');
     } finally {
@@ -141,6 +142,61 @@ describe('room lifecycle', () => {
       c.destroy();
       expect(g.calls.load).toBe(2);
     } finally {
+      await server.close();
+    }
+  });
+});
+
+describe('unload timeouts (issue 13)', () => {
+  it('an unload whose own commits do not settle is let go after its timeout; a client arriving meanwhile waits, then gets a fresh room', async () => {
+    const g = gatedStore();
+    const warnings: string[] = [];
+    const server = await startSyncServer({
+      store: g.store,
+      authorizer: testAuthorizer(new Set(['r6']), 'u1'),
+      budgets: { roomUnloadTimeoutMs: 200 },
+      logger: { warn: (_o, msg) => warnings.push(msg ?? ''), error: () => {} },
+    });
+    try {
+      const a = connectClient(server.url, 'r6');
+      await waitFor(() => a.provider.synced, 'a synced');
+      a.doc.getText('text').insert(0, 'kept');
+      await waitFor(() => g.inner.rows('r6').length > 0, 'stored');
+      g.flushGate.close(); // the flush never ends
+      a.destroy();
+      await waitFor(() => server.sync.stats().byState.unloading === 1, 'room unloading');
+      const b = connectClient(server.url, 'r6');
+      await waitFor(() => b.doc.getText('text').toString() === 'kept', 'b gets the stored text from a fresh load');
+      expect(warnings).toContain('room unload: own commits or projection did not settle; unloading anyway');
+      expect(g.calls.load).toBe(2);
+      b.destroy();
+    } finally {
+      g.flushGate.open();
+      await server.close();
+    }
+  });
+
+  it('a client rejoining a room whose unload is stuck is closed with 1013 after the timeout, in words', async () => {
+    const g = gatedStore();
+    let release!: () => void;
+    const stuck = new Promise<void>((resolve) => (release = resolve));
+    const relay = { ...noRelay(), unsubscribe: () => stuck }; // leaving the relay hangs until released
+    const server = await startSyncServer({ store: g.store, relay, authorizer: testAuthorizer(new Set(['r7']), 'u1'), budgets: { roomUnloadTimeoutMs: 100 } });
+    try {
+      const a = connectClient(server.url, 'r7');
+      await waitFor(() => a.provider.synced, 'a synced');
+      a.destroy();
+      await waitFor(() => server.sync.stats().byState.unloading === 1, 'room unloading');
+      const ws = new WebSocket(`${server.url}/r7`);
+      const reason = new Promise<string>((resolve) => ws.on('close', (_code, r) => resolve(r.toString())));
+      expect(await closeCode(ws)).toBe(1013);
+      expect(await reason).toBe('the document was still closing after 100 ms; try again');
+      release();
+      const c = connectClient(server.url, 'r7');
+      await waitFor(() => c.provider.synced, 'c synced once the unload ended');
+      c.destroy();
+    } finally {
+      release();
       await server.close();
     }
   });

@@ -76,4 +76,53 @@ describe('loadConfig', () => {
     expect(loadConfig({ TRUST_PROXY: 'true' }).trustProxy).toBe(1);
     expect(loadConfig({ TRUST_PROXY: '2' }).trustProxy).toBe(2);
   });
+
+  it('reads the sync budgets, with the README defaults, and refuses a burst below the rate', () => {
+    expect(loadConfig({}).syncBudgets).toEqual({
+      maxBacklogBytes: 16_777_216,
+      maxPendingBytesPerConnection: 67_108_864,
+      maxCommitQueue: 10_000,
+      maxCommitQueueBytes: 67_108_864,
+      maxConnectionsPerAddress: 500,
+      maxConnectionsPerUser: 100,
+      maxMessagesPerSecond: 100,
+      messageBurst: 500,
+      maxLoadedDocuments: 10_000,
+      roomLoadTimeoutMs: 30_000,
+      roomUnloadTimeoutMs: 30_000,
+      roomIdleMs: 0,
+    });
+    const c = loadConfig({
+      MAX_BACKLOG_BYTES: '2048',
+      MAX_PENDING_BYTES_PER_CONNECTION: '100000',
+      MAX_COMMIT_QUEUE: '50',
+      MAX_COMMIT_QUEUE_BYTES: '70000',
+      MAX_CONNECTIONS_PER_ADDRESS: '3',
+      MAX_CONNECTIONS_PER_USER: '2',
+      MAX_MESSAGES_PER_SECOND: '10',
+      MESSAGE_BURST: '20',
+      MAX_LOADED_DOCUMENTS: '7',
+      ROOM_LOAD_TIMEOUT_SECONDS: '5',
+      ROOM_UNLOAD_TIMEOUT_SECONDS: '6',
+      ROOM_IDLE_SECONDS: '60',
+    });
+    expect(c.syncBudgets).toEqual({
+      maxBacklogBytes: 2048,
+      maxPendingBytesPerConnection: 100_000,
+      maxCommitQueue: 50,
+      maxCommitQueueBytes: 70_000,
+      maxConnectionsPerAddress: 3,
+      maxConnectionsPerUser: 2,
+      maxMessagesPerSecond: 10,
+      messageBurst: 20,
+      maxLoadedDocuments: 7,
+      roomLoadTimeoutMs: 5_000,
+      roomUnloadTimeoutMs: 6_000,
+      roomIdleMs: 60_000,
+    });
+    // A rate above the default burst raises the burst with it; a burst set below the rate is an error.
+    expect(loadConfig({ MAX_MESSAGES_PER_SECOND: '1000' }).syncBudgets.messageBurst).toBe(1000);
+    expect(() => loadConfig({ MAX_MESSAGES_PER_SECOND: '100', MESSAGE_BURST: '10' })).toThrow(ConfigError);
+    expect(() => loadConfig({ MAX_CONNECTIONS_PER_USER: '0' })).toThrow(ConfigError);
+  });
 });

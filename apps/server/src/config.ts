@@ -2,6 +2,7 @@
 import { availableParallelism } from 'node:os';
 import { resolve } from 'node:path';
 import { ConfigError } from './errors.js';
+import { DEFAULT_BUDGETS, type SyncBudgets } from './sync/budgets.js';
 
 export type LogLevel = 'debug' | 'info' | 'warn' | 'error' | 'silent';
 
@@ -47,6 +48,8 @@ export interface ServerConfig {
   /** Heavy requests one person may start per minute (sliding), and run at once; more get a 429. */
   heavyPerMinute: number;
   heavyAtOnce: number;
+  /** Sync resource budgets (sync/budgets.ts): per connection, person, address and node. */
+  syncBudgets: SyncBudgets;
 }
 
 const LOG_LEVELS: LogLevel[] = ['debug', 'info', 'warn', 'error', 'silent'];
@@ -124,5 +127,27 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
     heavyQueue: int(env, 'HEAVY_QUEUE', 64, 1),
     heavyPerMinute: int(env, 'HEAVY_PER_MINUTE', 120, 1),
     heavyAtOnce: int(env, 'HEAVY_AT_ONCE', 2, 1),
+    syncBudgets: syncBudgets(env),
   };
+}
+
+function syncBudgets(env: NodeJS.ProcessEnv): SyncBudgets {
+  const d = DEFAULT_BUDGETS;
+  const maxMessagesPerSecond = int(env, 'MAX_MESSAGES_PER_SECOND', d.maxMessagesPerSecond, 1);
+  const budgets: SyncBudgets = {
+    maxBacklogBytes: int(env, 'MAX_BACKLOG_BYTES', d.maxBacklogBytes, 1024),
+    maxPendingBytesPerConnection: int(env, 'MAX_PENDING_BYTES_PER_CONNECTION', d.maxPendingBytesPerConnection, 64 * 1024),
+    maxCommitQueue: int(env, 'MAX_COMMIT_QUEUE', d.maxCommitQueue, 1),
+    maxCommitQueueBytes: int(env, 'MAX_COMMIT_QUEUE_BYTES', d.maxCommitQueueBytes, 64 * 1024),
+    maxConnectionsPerAddress: int(env, 'MAX_CONNECTIONS_PER_ADDRESS', d.maxConnectionsPerAddress, 1),
+    maxConnectionsPerUser: int(env, 'MAX_CONNECTIONS_PER_USER', d.maxConnectionsPerUser, 1),
+    maxMessagesPerSecond,
+    messageBurst: int(env, 'MESSAGE_BURST', Math.max(d.messageBurst, maxMessagesPerSecond), 1),
+    maxLoadedDocuments: int(env, 'MAX_LOADED_DOCUMENTS', d.maxLoadedDocuments, 1),
+    roomLoadTimeoutMs: int(env, 'ROOM_LOAD_TIMEOUT_SECONDS', d.roomLoadTimeoutMs / 1000, 1) * 1000,
+    roomUnloadTimeoutMs: int(env, 'ROOM_UNLOAD_TIMEOUT_SECONDS', d.roomUnloadTimeoutMs / 1000, 1) * 1000,
+    roomIdleMs: int(env, 'ROOM_IDLE_SECONDS', d.roomIdleMs / 1000, 0) * 1000,
+  };
+  if (budgets.messageBurst < budgets.maxMessagesPerSecond) throw new ConfigError('MESSAGE_BURST must be at least MAX_MESSAGES_PER_SECOND');
+  return budgets;
 }

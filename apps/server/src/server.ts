@@ -142,6 +142,8 @@ export async function startServer(
       pingIntervalMs: config.pingIntervalMs,
       logger,
       ready: readiness.ready,
+      budgets: config.syncBudgets,
+      trustProxy: config.trustProxy,
     });
     cleanups.push(() => sync.close());
     syncStats = () => ({ ...sync.stats() });

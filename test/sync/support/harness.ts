@@ -55,6 +55,7 @@ export async function startSyncServer(options: {
   pingIntervalMs?: number;
   catchUpIntervalMs?: number;
   logger?: SyncOptions['logger'];
+  budgets?: SyncOptions['budgets'];
 }): Promise<TestServer> {
   const http = createServer((_req, res) => res.writeHead(404).end());
   const sync = attachSync(http, {
@@ -66,6 +67,7 @@ export async function startSyncServer(options: {
     pingIntervalMs: options.pingIntervalMs ?? 30_000,
     catchUpIntervalMs: options.catchUpIntervalMs,
     logger: options.logger ?? quietLogger,
+    ...(options.budgets ? { budgets: options.budgets } : {}),
   });
   await new Promise<void>((resolve) => http.listen(0, '127.0.0.1', resolve));
   const port = (http.address() as AddressInfo).port;

@@ -82,4 +82,47 @@ describe('projector', () => {
     expect(r.calls).toEqual(['doc-1']);
     await store.close();
   });
+
+  it('settleDoc projects one waiting document now and does not wait for runs queued after it', async () => {
+    const order: string[] = [];
+    let releaseB!: () => void;
+    const bHeld = new Promise<void>((resolve) => (releaseB = resolve));
+    const p = createProjector({
+      db: null as never,
+      store: createMemoryUpdateStore(),
+      delayMs: 10_000,
+      project: async (id) => {
+        if (id === 'b') await bHeld; // another document's slow projection
+        order.push(id);
+      },
+    });
+    p.notify('a');
+    p.notify('b');
+    await p.settleDoc('a'); // a is queued first; b is not waited for
+    expect(order).toEqual(['a']);
+    await p.settleDoc('nothing-waiting');
+    const b = p.settleDoc('b');
+    releaseB();
+    await b;
+    expect(order).toEqual(['a', 'b']);
+  });
+
+  it('withProjection.flushDoc waits for that document’s append in flight and its projection', async () => {
+    const projected: string[] = [];
+    const inner = createMemoryUpdateStore();
+    const p = createProjector({ db: null as never, store: inner, delayMs: 10_000, project: async (id) => void projected.push(id) });
+    const store = withProjection(inner, p);
+    const release = inner.holdCommits();
+    const appended = store.append('doc-1', update('held'), null);
+    const flushed = store.flushDoc!('doc-1');
+    let done = false;
+    void flushed.then(() => (done = true));
+    await new Promise((r) => setImmediate(r));
+    expect(done).toBe(false); // the append is still held
+    release();
+    await flushed;
+    await appended;
+    expect(projected).toEqual(['doc-1']);
+    expect(inner.rows('doc-1')).toHaveLength(1);
+  });
 });

@@ -24,6 +24,11 @@ export interface Projector {
   flush(): Promise<void>;
   /** Projects these documents now (not waiting for the quiet time); resolves when they are done. */
   settle(docIds: readonly string[]): Promise<void>;
+  /**
+   * Projects this one document now if a change of it is waiting, and resolves when its own run is
+   * done (runs queued after it are not waited for). A room's unload waits on this, not on flush().
+   */
+  settleDoc(docId: string): Promise<void>;
   /** Flushes, then ignores later notifications. */
   close(): Promise<void>;
   /** Documents projected so far (successfully). */
@@ -35,6 +40,8 @@ export function createProjector(o: ProjectorOptions): Projector {
   const project = o.project ?? ((id: string) => projectDocument(o.db, o.store, id));
   const timers = new Map<string, NodeJS.Timeout>();
   const queued = new Set<string>();
+  /** Each document's latest run in the queue, until it has finished. */
+  const runs = new Map<string, Promise<void>>();
   let queue: Promise<void> = Promise.resolve();
   let projected = 0;
   let closed = false;
@@ -46,7 +53,7 @@ export function createProjector(o: ProjectorOptions): Projector {
     // Already waiting in the queue: that run will read the newest state anyway.
     if (queued.has(docId)) return;
     queued.add(docId);
-    queue = queue.then(async () => {
+    const run = queue.then(async () => {
       queued.delete(docId);
       try {
         await project(docId);
@@ -54,6 +61,11 @@ export function createProjector(o: ProjectorOptions): Projector {
       } catch (err) {
         o.onError?.(err, docId);
       }
+    });
+    queue = run;
+    runs.set(docId, run);
+    void run.then(() => {
+      if (runs.get(docId) === run) runs.delete(docId);
     });
   };
 
@@ -79,6 +91,10 @@ export function createProjector(o: ProjectorOptions): Projector {
       if (closed) return;
       for (const id of docIds) enqueue(id);
       await queue;
+    },
+    async settleDoc(docId) {
+      if (timers.has(docId) && !closed) enqueue(docId);
+      await runs.get(docId);
     },
     async close() {
       await this.flush();

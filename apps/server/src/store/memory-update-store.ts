@@ -45,6 +45,10 @@ export function createMemoryUpdateStore(): MemoryUpdateStore {
     flush: async () => {
       while (held !== null) await held;
     },
+    // One hold covers every document here, so one document's flush waits as the whole one does.
+    flushDoc: async () => {
+      while (held !== null) await held;
+    },
     close: async () => {},
     rows: (docId) => log(docId).map((entry) => entry.data),
     holdCommits() {

@@ -19,6 +19,7 @@ import { readableMemos } from '../access/memo-readers.js';
 
 /** Why a memos connection closes with 4409 (the web app discards its copy and reloads). */
 export const MEMOS_VIEW_CHANGED = 'What you may read in the memos changed: this device’s copy is replaced with a fresh one.';
+import { DEFAULT_BUDGETS, TokenBucket } from './budgets.js';
 
 /** Messages held per connection while its room loads; a client needs a handful (sync step 1, awareness, edits). */
 const MAX_BACKLOG = 1_000;
@@ -27,13 +28,32 @@ export const DEFAULT_MAX_PRESENCE_BYTES = 64 * 1024;
 export interface ConnectionLimits {
   /** Largest presence state (JSON, UTF-8 bytes) this connection may hold; it is replayed to every joiner. */
   maxPresenceBytes: number;
+  /** Bytes held for this connection before its room has loaded. */
+  maxBacklogBytes: number;
+  /** Its updates awaiting commit plus what waits to be written to its socket, in bytes. */
+  maxPendingBytes: number;
+  maxMessagesPerSecond: number;
+  messageBurst: number;
 }
+
+export const DEFAULT_CONNECTION_LIMITS: ConnectionLimits = {
+  maxPresenceBytes: DEFAULT_MAX_PRESENCE_BYTES,
+  maxBacklogBytes: DEFAULT_BUDGETS.maxBacklogBytes,
+  maxPendingBytes: DEFAULT_BUDGETS.maxPendingBytesPerConnection,
+  maxMessagesPerSecond: DEFAULT_BUDGETS.maxMessagesPerSecond,
+  messageBurst: DEFAULT_BUDGETS.messageBurst,
+};
 
 const utf8 = new TextEncoder();
 
 export class Connection implements RoomPeer {
   /** Messages that arrive before the room is ready, handled in order once it is. */
   private backlog: Uint8Array[] | null = [];
+  private backlogBytes = 0;
+  /** Bytes of this connection's updates submitted and not yet committed (or failed). */
+  private pendingCommitBytes = 0;
+  private readonly messages: TokenBucket;
+  private readsPaused = false;
   private room: Room | null = null;
   private ownedClientId: number | null = null;
   private closed = false;
@@ -45,9 +65,12 @@ export class Connection implements RoomPeer {
     readonly ws: WebSocket,
     private grantValue: RoomGrant,
     private readonly logger: SyncLogger,
-    private readonly limits: ConnectionLimits = { maxPresenceBytes: DEFAULT_MAX_PRESENCE_BYTES },
+    private readonly limits: ConnectionLimits = DEFAULT_CONNECTION_LIMITS,
+    /** Called once when the connection stops (closed for any reason): lets go of its commit-queue place. */
+    private readonly onStop: (connection: Connection) => void = () => {},
   ) {
     const grant = grantValue;
+    this.messages = new TokenBucket(limits.maxMessagesPerSecond, limits.messageBurst);
     ws.on('message', (data, isBinary) => this.onMessage(data as Buffer, isBinary));
     ws.on('pong', () => {
       this.alive = true;
@@ -108,6 +131,7 @@ export class Connection implements RoomPeer {
   stop(): void {
     this.closed = true;
     this.backlog = null;
+    this.onStop(this);
     if (this.room !== null && this.ownedClientId !== null) this.room.releasePresence(this.ownedClientId, this);
   }
 
@@ -115,6 +139,25 @@ export class Connection implements RoomPeer {
     if (this.ws.readyState !== this.ws.OPEN) return;
     this.corkUntilTickEnds();
     this.ws.send(message);
+    // A peer that does not read makes the server hold everything sent to it; past the budget it goes.
+    if (this.ws.bufferedAmount > this.limits.maxPendingBytes) {
+      this.fail(
+        new SyncError('too-much-pending', `over ${this.limits.maxPendingBytes} bytes waiting to be sent; the client is not reading`, CloseCode.tryAgainLater),
+      );
+    }
+  }
+
+  /** The node's commit queue is deep: stop reading this socket (TCP pushes back on the client). */
+  pauseReads(): void {
+    if (this.readsPaused || this.closed) return;
+    this.readsPaused = true;
+    this.ws.pause();
+  }
+
+  resumeReads(): void {
+    if (!this.readsPaused) return;
+    this.readsPaused = false;
+    if (!this.closed) this.ws.resume();
   }
 
   /**
@@ -155,6 +198,8 @@ export class Connection implements RoomPeer {
   fail(error: SyncError): void {
     if (this.closed) return;
     this.closed = true;
+    this.backlog = null;
+    this.onStop(this);
     this.logger.warn({ code: error.code, room: this.grantValue.room, userId: this.grantValue.userId, err: error.cause }, error.message);
     this.ws.close(error.closeCode, error.message.slice(0, 120));
   }
@@ -165,10 +210,20 @@ export class Connection implements RoomPeer {
       this.fail(new SyncError('unsupported-message', 'text frames are not part of the protocol', CloseCode.unsupportedData));
       return;
     }
+    if (!this.messages.take()) {
+      this.fail(
+        new SyncError('too-many-messages', `over ${this.limits.maxMessagesPerSecond} messages per second (burst ${this.limits.messageBurst})`, CloseCode.policyViolation),
+      );
+      return;
+    }
     const message = new Uint8Array(data.buffer, data.byteOffset, data.byteLength);
-    if (this.backlog === null) this.handle(message);
-    else if (this.backlog.length < MAX_BACKLOG) this.backlog.push(message);
-    else this.fail(new SyncError('unsupported-message', 'too many messages before the document loaded', CloseCode.tryAgainLater));
+    if (this.backlog === null) return this.handle(message);
+    this.backlogBytes += message.byteLength;
+    if (this.backlog.length >= MAX_BACKLOG || this.backlogBytes > this.limits.maxBacklogBytes) {
+      this.fail(new SyncError('too-much-pending', `over ${this.limits.maxBacklogBytes} bytes or ${MAX_BACKLOG} messages before the document loaded`, CloseCode.tryAgainLater));
+      return;
+    }
+    this.backlog.push(message);
   }
 
   private handle(message: Uint8Array): void {
@@ -185,6 +240,16 @@ export class Connection implements RoomPeer {
   }
 
   /** The write rule's refusal of `update` against the room's state (plus updates in flight), or null. */
+  /** Hands an update to the room; its bytes count against this connection's budget until it is stored or refused. */
+  private submit(room: Room, update: Uint8Array): void {
+    const size = update.byteLength;
+    this.pendingCommitBytes += size;
+    const settled = () => {
+      this.pendingCommitBytes -= size;
+    };
+    void room.submitUpdate(update, this, this.grant.userId).then(settled, settled);
+  }
+
   private judge(room: Room, rule: WriteRule, update: Uint8Array): string | null {
     const scratch = room.scratchCopy();
     try {
@@ -233,6 +298,9 @@ export class Connection implements RoomPeer {
         if (retired !== undefined && retired.length > 0 && carriesClient(update, retired)) {
           throw new SyncError('retired-copy', 'this copy predates the de-identification purge: discard it and reload', AppCloseCode.replaced);
         }
+        if (this.pendingCommitBytes + update.byteLength + this.ws.bufferedAmount > this.limits.maxPendingBytes) {
+          throw new SyncError('too-much-pending', `over ${this.limits.maxPendingBytes} bytes of updates waiting to be stored`, CloseCode.tryAgainLater);
+        }
         const rule = this.grant.writeRule;
         if (rule !== undefined && this.judge(room, rule, update) !== null) {
           // This node may be behind the log: a client that failed over from another node resends what
@@ -252,12 +320,12 @@ export class Connection implements RoomPeer {
                 this.send(encodePermissionDenied(refusal));
                 return;
               }
-              void room.submitUpdate(update, this, this.grant.userId);
+              this.submit(room, update);
             }),
           );
           return;
         }
-        void room.submitUpdate(update, this, this.grant.userId);
+        this.submit(room, update);
         return;
       }
       case 'awareness': {

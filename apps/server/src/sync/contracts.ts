@@ -47,6 +47,7 @@ export interface RoomGrant {
    * when a re-check finds another view, the connection closes with 4409 so the client starts afresh.
    */
   memoView?: MemoReaderView;
+  /**
    * Yjs client ids of the documents a de-identification purge replaced with this one: an update
    * carrying a struct of one of them comes from an old copy, and closes its connection with 4410.
    */
@@ -79,6 +80,12 @@ export interface UpdateStore {
   since(docId: string, seq: number): Promise<{ updates: Uint8Array[]; seq: number; seqs?: number[] }>;
   /** Waits for in-flight commits; after this resolves nothing appended earlier is pending. */
   flush(): Promise<void>;
+  /**
+   * The same for one document only (a room's unload): every append of `docId` made before the call,
+   * queued or in a batch being written, has committed or failed (and, behind a projector, been
+   * projected). Appends of other documents are not waited for. Absent: the room falls back to flush().
+   */
+  flushDoc?(docId: string): Promise<void>;
   close(): Promise<void>;
 }
 

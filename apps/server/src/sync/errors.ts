@@ -7,7 +7,12 @@ export type SyncErrorCode =
   | 'presence-too-large'
   | 'presence-taken'
   | 'store-failed'
-  | 'retired-copy';
+  | 'retired-copy'
+
+  | 'server-busy'
+  | 'too-many-messages'
+  | 'too-much-pending'
+  | 'room-unavailable';
 
 export class SyncError extends Error {
   readonly code: SyncErrorCode;

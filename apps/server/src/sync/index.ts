@@ -7,6 +7,9 @@ import type { Duplex } from 'node:stream';
 import { WebSocketServer, type WebSocket } from 'ws';
 import * as Y from 'yjs';
 import { Connection, DEFAULT_MAX_PRESENCE_BYTES, MEMOS_VIEW_CHANGED } from './connection.js';
+import { CommitQueueBudget, ConnectionCounts, DEFAULT_BUDGETS, type SyncBudgets } from './budgets.js';
+import { RoomError } from './room-state.js';
+import { clientAddress } from '../auth/client-address.js';
 import type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
 import { AppCloseCode, CloseCode, SyncError } from './errors.js';
 import type { ConnectionTracker } from './live-access.js';
@@ -33,12 +36,18 @@ export interface SyncOptions {
   liveAccess?: ConnectionTracker;
   /** False while the server is still starting (readiness.ts): upgrades are refused with 503 until then. */
   ready?: () => boolean;
+  /** Resource budgets (budgets.ts); each one absent takes its default. */
+  budgets?: Partial<SyncBudgets>;
+  /** Proxies in front that append to X-Forwarded-For (the per-address limit's address, as sign-in's); default 0. */
+  trustProxy?: number;
 }
 
 export interface SyncStats {
   connections: number;
   rooms: number;
   byState: Record<RoomState, number>;
+  /** Updates (and their bytes) awaiting commit on this node, and connections whose reads are paused for it. */
+  commitQueue: { queued: number; queuedBytes: number; pausedSenders: number };
 }
 
 export interface SyncHandle {
@@ -64,12 +73,28 @@ export interface SyncHandle {
 
 export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle {
   const logger = options.logger ?? consoleLogger;
+  const budgets: SyncBudgets = { ...DEFAULT_BUDGETS, ...options.budgets };
+  const commits = new CommitQueueBudget(budgets.maxCommitQueue, budgets.maxCommitQueueBytes);
   const registry = new RoomRegistry({
     store: options.store,
     relay: options.relay,
     logger,
     catchUpIntervalMs: options.catchUpIntervalMs ?? (options.relay.lossy ? 5_000 : 0),
+    loadTimeoutMs: budgets.roomLoadTimeoutMs,
+    unloadTimeoutMs: budgets.roomUnloadTimeoutMs,
+    commits,
+    maxLoadedDocuments: budgets.maxLoadedDocuments,
+    roomIdleMs: budgets.roomIdleMs,
   });
+  const perAddress = new ConnectionCounts(budgets.maxConnectionsPerAddress);
+  const perUser = new ConnectionCounts(budgets.maxConnectionsPerUser);
+  const connectionLimits = {
+    maxPresenceBytes: options.maxPresenceBytes ?? DEFAULT_MAX_PRESENCE_BYTES,
+    maxBacklogBytes: budgets.maxBacklogBytes,
+    maxPendingBytes: budgets.maxPendingBytesPerConnection,
+    maxMessagesPerSecond: budgets.maxMessagesPerSecond,
+    messageBurst: budgets.messageBurst,
+  };
   const wss = new WebSocketServer({ noServer: true, maxPayload: options.maxMessageBytes });
   const connections = new Set<Connection>();
   /** Leases that keep rooms open after an opening request read them (`state`), cleared on close. */
@@ -93,6 +118,27 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
     const room = roomFromUrl(req.url);
     if (room === null) return refuse(socket, 404);
     if (closing || options.ready?.() === false) return refuse(socket, 503);
+    // Counted from here (before the authorizer's awaits), so parallel upgrades cannot all pass.
+    const address = clientAddress(req.socket.remoteAddress, headerOf(req, 'x-forwarded-for'), options.trustProxy ?? 0);
+    if (!perAddress.tryAdd(address)) {
+      logger.warn({ address, limit: budgets.maxConnectionsPerAddress }, 'sync connection refused: too many from one address (429)');
+      return refuse(socket, 429);
+    }
+    let counted = true;
+    const uncount = (): void => {
+      if (counted) perAddress.remove(address);
+      counted = false;
+    };
+    socket.once('close', uncount);
+    try {
+      await authorizeAndOpen(req, socket, head, room, uncount);
+    } catch (error) {
+      uncount();
+      throw error;
+    }
+  }
+
+  async function authorizeAndOpen(req: IncomingMessage, socket: Duplex, head: Buffer, room: string, uncountAddress: () => void): Promise<void> {
     const stamp = options.liveAccess?.stamp() ?? 0;
     let grant: RoomGrant;
     try {
@@ -110,6 +156,16 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
       return refuse(socket, status);
     }
     if (socket.destroyed) return;
+    if (!perUser.tryAdd(grant.userId)) {
+      logger.warn({ userId: grant.userId, room, limit: budgets.maxConnectionsPerUser }, 'sync connection refused: too many for one person (429)');
+      return refuse(socket, 429);
+    }
+    let userCounted = true;
+    socket.once('close', () => {
+      if (userCounted) perUser.remove(grant.userId);
+      userCounted = false;
+      uncountAddress();
+    });
     const claimedView = memosViewOf(req.url);
     wss.handleUpgrade(req, socket, head, (ws) => void open(ws, grant, stamp, claimedView));
   }
@@ -120,7 +176,7 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
       ws.close(AppCloseCode.viewChanged, MEMOS_VIEW_CHANGED);
       return;
     }
-    const connection = new Connection(ws, grant, logger, { maxPresenceBytes: options.maxPresenceBytes ?? DEFAULT_MAX_PRESENCE_BYTES });
+    const connection = new Connection(ws, grant, logger, connectionLimits, (c) => commits.forget(c));
     connections.add(connection);
     // Followed from now on, also while the room loads: a revoked connection then never starts.
     const untrack = options.liveAccess?.track(connection, stamp) ?? (() => {});
@@ -128,10 +184,17 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
     try {
       room = await registry.join(grant.room, grant.docId, connection);
     } catch (error) {
-      logger.error({ err: error, room: grant.room }, 'room failed to load');
       connections.delete(connection);
       untrack();
-      ws.close(CloseCode.internalError, 'document could not be loaded');
+      connection.stop();
+      if (error instanceof RoomError && error.code !== 'load-failed') {
+        // Busy, not broken: the client may try again later.
+        logger.warn({ err: error, code: error.code, room: grant.room, userId: grant.userId }, error.message);
+        ws.close(CloseCode.tryAgainLater, error.message.slice(0, 120));
+      } else {
+        logger.error({ err: error, room: grant.room }, 'room failed to load');
+        ws.close(CloseCode.internalError, 'document could not be loaded');
+      }
       return;
     }
     const leave = (): void => {
@@ -185,7 +248,7 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
       await options.relay.publish(docId, encodeRelayFrame({ kind: 'update', seq, data: update }));
     },
     async state(docId, holdMs) {
-      const lease: RoomPeer = { send: () => {}, sendAwareness: () => {}, fail: () => {} };
+      const lease: RoomPeer = { send: () => {}, sendAwareness: () => {}, fail: () => {}, lease: true };
       const room = await registry.join(docId, docId, lease);
       const state = Y.encodeStateAsUpdate(room.doc);
       const release = (): void => {
@@ -211,7 +274,7 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
       await new Promise<void>((resolve) => wss.close(() => resolve()));
     },
     stats() {
-      return { connections: connections.size, ...registry.stats() };
+      return { connections: connections.size, ...registry.stats(), commitQueue: commits.stats() };
     },
   };
 }
@@ -224,6 +287,12 @@ function memosViewOf(url: string | undefined): string | null {
   return value && /^[0-9a-f]{16}$/.test(value) ? value : null;
 }
 
+function headerOf(req: IncomingMessage, name: string): string | undefined {
+  const value = req.headers[name];
+  return Array.isArray(value) ? value[0] : value;
+}
+
+export { DEFAULT_BUDGETS, type SyncBudgets } from './budgets.js';
 export type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
 export { SyncError, CloseCode, AppCloseCode } from './errors.js';
 export { createLiveAccess, ACCESS_CHANNEL, type AccessChange, type LiveAccess, type LiveAccessService } from './live-access.js';

@@ -1,7 +1,7 @@
 /**
- * One open document: its Y.Doc, presence, local peers and lifecycle.
- * loading -> ready -> unloading -> gone. Client updates are committed to the store before
- * they are applied (and so broadcast) or relayed; applies keep arrival order per room.
+ * One open document: its Y.Doc, presence, local peers and lifecycle (room-state.ts:
+ * loading -> open -> unloading -> closed, or loading -> failed). Client updates are committed to the
+ * store before they are applied (and so broadcast) or relayed; applies keep arrival order per room.
  */
 import * as Y from 'yjs';
 import type { Relay, UpdateStore } from './contracts.js';
@@ -10,8 +10,10 @@ import { AppCloseCode, CloseCode, SyncError } from './errors.js';
 import type { SyncLogger } from './logger.js';
 import { encodeAwarenessMessage, encodeSyncUpdate } from './protocol.js';
 import { decodeRelayFrame, encodeRelayFrame } from './relay-frame.js';
+import type { CommitQueueBudget, Pausable } from './budgets.js';
+import { RoomError, RoomStateMachine, within, type RoomState } from './room-state.js';
 
-export type RoomState = 'loading' | 'ready' | 'unloading' | 'gone';
+export type { RoomState };
 
 /** A local connection as the room sees it. */
 export interface RoomPeer {
@@ -24,6 +26,11 @@ export interface RoomPeer {
   /** Presence news; `message` is the entries encoded as they are, for peers that may see them all. */
   sendAwareness(entries: readonly AwarenessEntry[], message: Uint8Array): void;
   fail(error: SyncError): void;
+  /** Present on real connections: their socket reads pause while the node's commit queue is deep. */
+  pauseReads?(): void;
+  resumeReads?(): void;
+  /** A peer that only holds the room open (an opening request's lease): its room counts as idle. */
+  readonly lease?: boolean;
 }
 
 export interface RoomDeps {
@@ -32,13 +39,21 @@ export interface RoomDeps {
   logger: SyncLogger;
   /** Re-read the log this often while open (recovers relay messages that never arrived); 0 = never. */
   catchUpIntervalMs: number;
+  /** A load taking longer fails the room and its waiters. */
+  loadTimeoutMs: number;
+  /** The unload waits this long for its own commits and projection, then lets go (logged). */
+  unloadTimeoutMs: number;
+  /** The node's commit queue (count and bytes), shared by all rooms. */
+  commits: CommitQueueBudget;
 }
 
 const FROM_STORE = Symbol('store');
 const FROM_RELAY = Symbol('relay');
 
 export class Room {
-  private stateValue: RoomState = 'loading';
+  private readonly machine = new RoomStateMachine();
+  /** When a peer last joined, left or wrote (least-recently-used unloading). */
+  lastUsed = performance.now();
   readonly doc = new Y.Doc({ gc: false });
   readonly awareness = new AwarenessTable();
   readonly peers = new Set<RoomPeer>();
@@ -66,27 +81,44 @@ export class Room {
     private readonly deps: RoomDeps,
   ) {
     this.doc.on('update', (update: Uint8Array, origin: unknown) => this.onDocUpdate(update, origin));
-    this.ready = this.load();
-    this.ready.catch(() => {}); // observed by whoever awaits it; the room marks itself gone
+    const loading = this.load();
+    this.ready = within(loading, deps.loadTimeoutMs, () => new RoomError('load-timeout', `document did not load within ${deps.loadTimeoutMs} ms`)).catch(
+      (error: unknown) => {
+        if (this.machine.state === 'loading') this.machine.to('failed');
+        // A load that ends after its timeout lets go of what it took.
+        void loading.then(() => this.release(), () => {});
+        throw error instanceof RoomError ? error : new RoomError('load-failed', 'document could not be loaded', { cause: error });
+      },
+    );
+    this.ready.catch(() => {}); // observed by whoever awaits it; the room marks itself failed
   }
 
   get state(): RoomState {
-    return this.stateValue;
+    return this.machine.state;
+  }
+
+  /** Past its life (closed or failed): the registry makes a new room for the name. */
+  get ended(): boolean {
+    return this.machine.ended;
+  }
+
+  /** Resolves once the room is closed or failed. */
+  get settled(): Promise<void> {
+    return this.machine.settled;
   }
 
   private async load(): Promise<void> {
     try {
       await this.deps.relay.subscribe(this.name, (payload) => this.onRelay(payload));
       const { updates, seq } = await this.deps.store.load(this.docId);
+      if (this.machine.state !== 'loading') return; // timed out meanwhile; the caller releases
       applyAll(this.doc, updates, FROM_STORE, this.deps.logger, this.docId);
       this.cursor = this.lastHigh = seq;
     } catch (error) {
-      this.stateValue = 'gone';
-      await this.deps.relay.unsubscribe(this.name).catch(() => {});
-      this.doc.destroy();
+      await this.release();
       throw error;
     }
-    this.stateValue = 'ready';
+    this.machine.to('open');
     for (const payload of this.relayBacklog.splice(0)) this.onRelay(payload);
     if (this.deps.catchUpIntervalMs > 0) {
       this.timer = setInterval(() => void this.catchUp(), this.deps.catchUpIntervalMs);
@@ -96,10 +128,19 @@ export class Room {
 
   /** Commit, then apply and relay. `update` was already checked by checkUpdate. Resolves once applied (or failed). */
   submitUpdate(update: Uint8Array, from: RoomPeer, userId: string | null): Promise<void> {
+    const size = update.byteLength;
+    const budget = this.deps.commits;
+    if (!budget.admits(size)) {
+      from.fail(new SyncError('server-busy', 'the server is busy storing updates; try again later', CloseCode.tryAgainLater));
+      return this.tail;
+    }
+    this.lastUsed = performance.now();
+    budget.add(size, from.pauseReads && from.resumeReads ? (from as Pausable) : null);
     const committed = this.deps.store.append(this.docId, update, userId);
     committed.catch(() => {}); // handled in order below
     this.inFlight.push(update);
     const landed = () => {
+      budget.done(size);
       const at = this.inFlight.indexOf(update);
       if (at >= 0) this.inFlight.splice(at, 1);
     };
@@ -134,7 +175,7 @@ export class Room {
    */
   applyCommitted(seq: number, update: Uint8Array): Promise<void> {
     this.tail = this.tail.then(() => {
-      if (this.stateValue !== 'ready') return;
+      if (this.machine.state !== 'open') return;
       try {
         Y.applyUpdate(this.doc, update, FROM_STORE);
       } catch (error) {
@@ -226,7 +267,7 @@ export class Room {
    * numbers are taken at insert, not commit: a row with a lower number may commit just after a read.
    */
   async catchUp(): Promise<void> {
-    if (this.stateValue !== 'ready' || this.catchingUp) return;
+    if (this.machine.state !== 'open' || this.catchingUp) return;
     this.catchingUp = true;
     const run = this.readSinceCursor();
     this.catching = run;
@@ -245,7 +286,7 @@ export class Room {
   private async readSinceCursor(): Promise<void> {
     try {
       const { updates, seq, seqs } = await this.deps.store.since(this.docId, this.cursor);
-      if (this.stateValue !== 'ready') return;
+      if (this.machine.state !== 'open') return;
       const missing = seqs === undefined ? updates : updates.filter((_, i) => !this.applied.has(seqs[i]!));
       applyAll(this.doc, missing, FROM_STORE, this.deps.logger, this.docId);
       if (seqs !== undefined) for (const s of seqs) this.applied.add(s);
@@ -260,30 +301,48 @@ export class Room {
     }
   }
 
-  /** Waits for pending commits, flushes, leaves the relay. Idempotent. */
+  /**
+   * Waits for this document's own commits and projection (not the node's whole queue), leaves the
+   * relay, closes. Bounded by the unload timeout: a stuck commit is logged and let go, so the name can
+   * load again (from the log, which has every committed update). Idempotent; an open room only.
+   */
   unload(): Promise<void> {
     this.unloading ??= (async () => {
-      this.stateValue = 'unloading';
+      this.machine.to('unloading');
       if (this.timer !== null) clearInterval(this.timer);
-      await this.tail;
+      const ms = this.deps.unloadTimeoutMs;
+      const store = this.deps.store;
+      const own = async () => {
+        await this.tail;
+        await (store.flushDoc ? store.flushDoc(this.docId) : store.flush());
+      };
       try {
-        await this.deps.store.flush();
-        await this.deps.relay.unsubscribe(this.name);
+        await within(own(), ms, () => new RoomError('unload-timeout', `own commits did not settle within ${ms} ms`));
       } catch (error) {
-        this.deps.logger.warn({ err: error, room: this.name }, 'room unload: flush or unsubscribe failed');
+        this.deps.logger.warn({ err: error, room: this.name }, 'room unload: own commits or projection did not settle; unloading anyway');
       }
-      this.doc.destroy();
-      this.stateValue = 'gone';
+      await this.release();
+      this.machine.to('closed');
     })();
     return this.unloading;
   }
 
+  /** Leaves the relay and frees the document (unload, or a load that failed or ended after its timeout). */
+  private async release(): Promise<void> {
+    try {
+      await this.deps.relay.unsubscribe(this.name);
+    } catch (error) {
+      this.deps.logger.warn({ err: error, room: this.name }, 'room: relay unsubscribe failed');
+    }
+    this.doc.destroy();
+  }
+
   private onRelay(payload: Uint8Array): void {
-    if (this.stateValue === 'loading') {
+    if (this.machine.state === 'loading') {
       this.relayBacklog.push(payload);
       return;
     }
-    if (this.stateValue !== 'ready') return;
+    if (this.machine.state !== 'open') return;
     const frame = decodeRelayFrame(payload);
     if (frame === null) return;
     try {
@@ -297,13 +356,13 @@ export class Room {
   }
 
   private onDocUpdate(update: Uint8Array, origin: unknown): void {
-    if (this.stateValue !== 'ready') return;
+    if (this.machine.state !== 'open') return;
     const except = origin === FROM_STORE || origin === FROM_RELAY ? null : (origin as RoomPeer);
     this.broadcastUpdate(update, except);
   }
 
   private applySafely(update: Uint8Array, from: RoomPeer): void {
-    if (this.stateValue === 'gone') return;
+    if (this.machine.ended) return;
     try {
       Y.applyUpdate(this.doc, update, from);
     } catch (error) {
