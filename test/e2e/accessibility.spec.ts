@@ -128,7 +128,10 @@ async function auditWhileCoding(p: Person, role: string): Promise<void> {
   await search.fill('work');
   await expect(options).not.toHaveCount(all);
   await expect(options.first()).toBeVisible();
-  await search.press('ArrowDown'); // the second match is the active option
+  await search.press('ArrowDown'); // the second match is the active option; focus stays in the field
+  await expect(options.nth(1)).toHaveAttribute('aria-selected', 'true');
+  await expect(search).toHaveAttribute('aria-activedescendant', (await options.nth(1).getAttribute('id'))!);
+  await expect(search).toBeFocused();
   await audit(page, `coding-${role}-filtered`);
   await search.fill('no code is called this');
   await expect(page.getByTestId('no-code-matches')).toBeVisible();

@@ -1,6 +1,7 @@
 /** The codebook: tree, themes and exclusive sets on the left; the chosen entry and second-cycle actions on the right. */
 import { For, Show, createEffect, createMemo, createResource, createSignal, onCleanup } from 'solid-js';
-import { addCode, addExclusiveSet, addTheme, codeTree, getCodes, listChanges, listExclusiveSets, listThemes } from '@gloss/model';
+import { addCode, assignMarks, addExclusiveSet, addTheme, codeTree, getCodes, listChanges, listExclusiveSets, listThemes, PROPOSALS_ROOT } from '@gloss/model';
+import { codesInView, marksOverflowWords } from '../../doc/code-marks.js';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
@@ -33,6 +34,9 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
   const nameOf = (id: string) => members()?.find((m) => m.userId === id)?.name ?? id;
   const codes = useY(doc.getMap('codes'), () => getCodes(doc));
   const tree = createMemo(() => (codes(), codeTree(doc)));
+  // the same colour-and-line per code as the coding view (proposals count: they show there too)
+  const proposalsV = useY(doc.getMap(PROPOSALS_ROOT), () => ({}));
+  const marks = createMemo(() => (codes(), proposalsV(), assignMarks(codesInView(doc))));
   const groups = useY(doc.getMap('exclusiveSets'), () => listExclusiveSets(doc));
   const themes = useY(doc.getMap('themes'), () => listThemes(doc));
   const history = useY(doc.getArray('changes'), () => listChanges(doc));
@@ -91,7 +95,10 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
             </ul>
           </Show>
         </section>
-        <CodeTree nodes={tree()} chosen={chosenId()} onChoose={choose} />
+        <Show when={marks().overflow}>
+          <p class="warn" data-testid="marks-overflow">{marksOverflowWords(codesInView(doc).length)}</p>
+        </Show>
+        <CodeTree nodes={tree()} marks={marks().marks} chosen={chosenId()} onChoose={choose} />
         <Proposals codebook={doc} codes={codes()} canDecide={canEdit()} by={props.me.id} nameOf={nameOf} />
         <GroupList title="Themes" groups={themes()} codes={byId()} onChoose={choose} testid="themes" />
         <GroupList title="Mutually exclusive sets" groups={groups()} codes={byId()} onChoose={choose} testid="exclusive-sets" />
