@@ -11,9 +11,9 @@ test('coding view as coder, lead and observer', async ({ browser, baseURL }) => 
   await openText(coder, TEXT);
   await selectWords(coder.page, 'pot of tea');
   await coder.page.getByTestId('code-search').fill('');
-  await coder.page.getByRole('listbox', { name: 'Codes' }).getByRole('button').first().click();
+  await coder.page.getByRole('listbox', { name: 'Codes' }).getByRole('option').first().click();
   await selectWords(coder.page, 'Ray texts me if I miss a Friday');
-  await coder.page.getByRole('listbox', { name: 'Codes' }).getByRole('button').nth(3).click();
+  await coder.page.getByRole('listbox', { name: 'Codes' }).getByRole('option').nth(3).click();
   await expect(coder.page.getByTestId('coding-message')).toContainText('Coded');
   await shot(coder.page, `coding-look-${tag}-coder`);
 

@@ -73,6 +73,18 @@ test('a coder reads the codes of two passages from the page, no hovering', async
   await expect(page.getByTestId('selection-info')).toHaveText(/^Selected: “So I'm, um, I suppose you'd call me the technical side\. I'm an electrician/);
   await page.getByRole('toolbar', { name: 'Coding tools' }).getByRole('button', { name: 'Keys' }).click();
   await expect(page.getByRole('region', { name: 'Keys of the coding view' })).toContainText('select the sentence at the cursor');
+  // every key has a control to press instead: the list names it, and the toolbar's carry their key
+  await expect(page.getByRole('region', { name: 'Keys of the coding view' })).toContainText('or: Whole turn');
+  const tools = page.getByRole('toolbar', { name: 'Coding tools' });
+  for (const key of ['Control+Z', 'Control+Shift+Z', 'i', 'j', 't', 's', '[', ']', 'Escape', '?']) {
+    await expect(tools.locator(`button[aria-keyshortcuts="${key}"]`), key).toHaveCount(1);
+  }
+  await tools.getByRole('button', { name: 'Next segment' }).click();
+  await expect(page.getByTestId('coding-message')).toHaveText(/^Segment 1 of \d+: .+\.$/);
+  await expect(page.getByTestId('segment-panel')).toBeVisible();
+  await tools.getByRole('button', { name: 'Clear', exact: true }).click();
+  await expect(page.getByTestId('segment-panel')).toHaveCount(0);
+  await expect(page.getByTestId('selection-info')).toHaveText('Nothing selected: press ↓ or click the text to start');
 
   // and it is all still there after a reload (the server kept it)
   await page.reload();

@@ -111,7 +111,7 @@ export async function addCodes(lead: Person, labels: string[]): Promise<void> {
 /** Applies a code to the current selection through the type-ahead picker (mouse path). */
 export async function applyCode(page: Page, label: string): Promise<void> {
   await page.getByTestId('code-search').fill(label);
-  await page.getByRole('listbox', { name: 'Codes' }).getByRole('button', { name: label, exact: true }).click();
+  await page.getByRole('listbox', { name: 'Codes' }).getByRole('option', { name: label, exact: true }).click();
   // the message ends with what the server made of it: saved, or kept on this device while offline
   await expect(page.getByTestId('coding-message')).toHaveText(new RegExp(`^Coded “${label.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}”\\. (Saved\\.|Kept on this device)`));
 }

@@ -66,7 +66,7 @@ for (const role of ['owner', 'lead', 'coder', 'trainee'] as const) {
     await panel(p).getByRole('button', { name: 'Fit to selection' }).click();
     await expect(msg(p)).toHaveText('Segment fitted to the selection. Saved.');
     await panel(p).getByRole('button', { name: 'Recode…' }).click();
-    await applyCodeButton(p, RECODE);
+    await applyCodeOption(p, RECODE);
     await expect(msg(p)).toHaveText(`Recoded as “${RECODE}”. Saved.`);
     await expect(panel(p).getByRole('button', { name: 'Use as example' })).toHaveCount(writesCodebook ? 1 : 0);
     if (writesCodebook) {
@@ -125,9 +125,9 @@ for (const role of ['owner', 'lead', 'coder', 'trainee'] as const) {
   });
 }
 
-async function applyCodeButton(p: Person, label: string): Promise<void> {
+async function applyCodeOption(p: Person, label: string): Promise<void> {
   await p.page.getByTestId('code-search').fill(label);
-  await p.page.getByRole('listbox', { name: 'Codes' }).getByRole('button', { name: label, exact: true }).click();
+  await p.page.getByRole('listbox', { name: 'Codes' }).getByRole('option', { name: label, exact: true }).click();
 }
 
 test('observer: nothing to code with is offered, every key press is refused in words, nothing is left after reload', async ({ browser, baseURL }) => {
@@ -199,7 +199,7 @@ test('a change the server refuses is reported at once and taken back on the page
     expect((await api.patch(`/api/studies/${studyId}/members/${member.userId}`, { headers, data: { role: 'observer' } })).status()).toBe(200);
     await selectWords(coder.page, 'Does it ever go bang?');
     await coder.page.getByTestId('code-search').fill('Workload');
-    await coder.page.getByRole('listbox', { name: 'Codes' }).getByRole('button', { name: 'Workload', exact: true }).click();
+    await coder.page.getByRole('listbox', { name: 'Codes' }).getByRole('option', { name: 'Workload', exact: true }).click();
     await expect(msg(coder)).toHaveText('Not saved: the server refused it (you may now only read this document). It has been taken back here.');
     await expect(turn.locator('.turn-codes .code-chip')).toHaveCount(0);
     await coder.page.reload();

@@ -13,11 +13,6 @@ function hash(s: string): number {
   return h >>> 0;
 }
 
-export function codeColour(codeId: string, stored?: string): string {
-  if (stored && /^#[0-9a-f]{6}$/i.test(stored)) return stored;
-  return OKABE_ITO[hash(codeId) % OKABE_ITO.length]!;
-}
-
 export function personColour(userId: string): string {
   return TOL_BRIGHT[hash(userId) % TOL_BRIGHT.length]!;
 }

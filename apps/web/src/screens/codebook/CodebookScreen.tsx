@@ -1,6 +1,7 @@
 /** The codebook: tree, themes and exclusive sets on the left; the chosen entry and second-cycle actions on the right. */
 import { For, Show, createEffect, createMemo, createResource, createSignal, onCleanup } from 'solid-js';
-import { addCode, addExclusiveSet, addTheme, codeTree, getCodes, listChanges, listExclusiveSets, listThemes } from '@gloss/model';
+import { addCode, assignMarks, addExclusiveSet, addTheme, codeTree, getCodes, listChanges, listExclusiveSets, listThemes, PROPOSALS_ROOT } from '@gloss/model';
+import { codesInView, marksOverflowWords } from '../../doc/code-marks.js';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav } from '../study/StudyNav.js';
@@ -13,7 +14,8 @@ import { EntryEditor } from './EntryEditor.js';
 import { SecondCycle } from './SecondCycle.js';
 import { Proposals } from './Proposals.js';
 import { codebookLooked, useSeenCodes } from '../../ui/seen-codes.js';
-import { fieldWords } from './field-words.js';
+import { changeWords } from './field-words.js';
+import { personName } from '../../ui/person-name.js';
 import type { OpenDoc } from '../../sync/open-doc.js';
 
 export function CodebookScreen(props: { studyId: string; scope: StudyScope; me: Me }) {
@@ -30,9 +32,12 @@ export function CodebookScreen(props: { studyId: string; scope: StudyScope; me: 
 function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: Me }) {
   const doc = props.cb.doc;
   const [members] = createResource(() => props.studyId, (id) => api.members(id).catch(() => []));
-  const nameOf = (id: string) => members()?.find((m) => m.userId === id)?.name ?? id;
+  const nameOf = (id: string) => personName(members(), id);
   const codes = useY(doc.getMap('codes'), () => getCodes(doc));
   const tree = createMemo(() => (codes(), codeTree(doc)));
+  // the same colour-and-line per code as the coding view (proposals count: they show there too)
+  const proposalsV = useY(doc.getMap(PROPOSALS_ROOT), () => ({}));
+  const marks = createMemo(() => (codes(), proposalsV(), assignMarks(codesInView(doc))));
   const groups = useY(doc.getMap('exclusiveSets'), () => listExclusiveSets(doc));
   const themes = useY(doc.getMap('themes'), () => listThemes(doc));
   const history = useY(doc.getArray('changes'), () => listChanges(doc));
@@ -55,7 +60,10 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
   });
   const looked = codebookLooked(props.studyId, props.me.id);
   onCleanup(() => looked.now());
-  const sinceLast = createMemo(() => history().filter((h) => h.at > looked.at && h.by !== props.me.id && h.codeIds.length > 0));
+  // on a first look "since" has no start: the whole history (the seeded codebook included) would bury the
+  // one thing a coder needs, so only definition edits by others are listed then
+  const sinceLast = createMemo(() => history().filter((h) => h.at > looked.at && h.by !== props.me.id && h.codeIds.length > 0 && (looked.at > 0 || (h.kind === 'edit' && h.before !== undefined))));
+  const SHOWN = 20;
 
   return (
     <div class="codebook">
@@ -77,21 +85,25 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
           <Show when={message()}><p class="error" role="alert">{message()}</p></Show>
         </Show>
         <section aria-labelledby="since-h" data-testid="changed-since">
-          <h3 id="since-h">{looked.at ? 'Changed since you last looked' : 'Changes by others'} ({sinceLast().length})</h3>
+          <h3 id="since-h">{looked.at ? 'Changed since you last looked' : 'Definitions edited by others'} ({sinceLast().length})</h3>
           <Show when={sinceLast().length > 0} fallback={<p class="muted">Nothing new.</p>}>
             <ul class="since">
-              <For each={[...sinceLast()].reverse().slice(0, 20)}>
+              <For each={[...sinceLast()].reverse().slice(0, SHOWN)}>
                 {(h) => (
                   <li>
                     <button type="button" class="link" onClick={() => choose(h.codeIds[0]!)}>{byId().get(h.codeIds[0]!)?.label ?? 'a code'}</button>
-                    {' '}<span class="muted">{h.kind}{h.field ? ` (${fieldWords(h.field)})` : ''} by {nameOf(h.by)}, {new Date(h.at).toLocaleString()}</span>
+                    {' '}<span class="muted">{changeWords(h)} by {nameOf(h.by)}, {new Date(h.at).toLocaleString()}</span>
                   </li>
                 )}
               </For>
             </ul>
+            <Show when={sinceLast().length > SHOWN}><p class="muted">and {sinceLast().length - SHOWN} earlier; each code's history has them all.</p></Show>
           </Show>
         </section>
-        <CodeTree nodes={tree()} chosen={chosenId()} onChoose={choose} />
+        <Show when={marks().overflow}>
+          <p class="warn" data-testid="marks-overflow">{marksOverflowWords(codesInView(doc).length)}</p>
+        </Show>
+        <CodeTree nodes={tree()} marks={marks().marks} chosen={chosenId()} onChoose={choose} />
         <Proposals codebook={doc} codes={codes()} canDecide={canEdit()} by={props.me.id} nameOf={nameOf} />
         <GroupList title="Themes" groups={themes()} codes={byId()} onChoose={choose} testid="themes" />
         <GroupList title="Mutually exclusive sets" groups={groups()} codes={byId()} onChoose={choose} testid="exclusive-sets" />

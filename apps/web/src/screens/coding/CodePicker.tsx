@@ -1,13 +1,20 @@
 /**
  * Type-ahead over the whole codebook: its hierarchy (children indented under their parent) and themes,
- * recently used codes first; arrows choose, Enter applies; every code is also a button. The chosen
- * code's brief definition and when (not) to use it are shown in a card of our own, not a tooltip.
+ * recently used codes first. The WAI-ARIA Authoring Practices' combobox pattern (an editable combobox
+ * with a listbox popup, focus kept in the field through aria-activedescendant): arrows, Home/End with
+ * Ctrl, PageUp/PageDown choose, Enter applies, a click on an option applies. Options hold no controls
+ * (the listbox pattern forbids it); the one per-code action, "Seen" on an updated definition, lives in
+ * the card below the list. The chosen code's brief definition and when (not) to use it are shown in
+ * that card of our own, not a tooltip.
  */
 import { fieldWords } from '../codebook/field-words.js';
 import { For, Show, createMemo, createSignal } from 'solid-js';
 import type { ChangeEntry, CodeGroup, CodeMark, CodeView } from '@gloss/model';
 import { CodeSwatch } from '../../ui/CodeSwatch.js';
 import { codeList } from './code-list.js';
+
+/** Options moved by PageUp/PageDown (about a screenful of the list). */
+const PAGE = 10;
 
 export function CodePicker(props: {
   codes: readonly CodeView[];
@@ -40,8 +47,13 @@ export function CodePicker(props: {
     if (c) listEl?.querySelector(`#opt-${CSS.escape(c.code.id)}`)?.scrollIntoView({ block: 'nearest' });
   };
   const onKey = (e: KeyboardEvent) => {
-    if (e.key === 'ArrowDown') { e.preventDefault(); moveTo(Math.min(matches().length - 1, active() + 1)); }
+    const last = matches().length - 1;
+    if (e.key === 'ArrowDown') { e.preventDefault(); moveTo(Math.min(last, active() + 1)); }
     else if (e.key === 'ArrowUp') { e.preventDefault(); moveTo(Math.max(0, active() - 1)); }
+    else if (e.key === 'PageDown') { e.preventDefault(); moveTo(Math.min(last, active() + PAGE)); }
+    else if (e.key === 'PageUp') { e.preventDefault(); moveTo(Math.max(0, active() - PAGE)); }
+    else if (e.ctrlKey && e.key === 'End') { e.preventDefault(); moveTo(Math.max(0, last)); }
+    else if (e.ctrlKey && e.key === 'Home') { e.preventDefault(); moveTo(0); }
     else if (e.key === 'Enter') {
       e.preventDefault();
       const c = current();
@@ -79,21 +91,30 @@ export function CodePicker(props: {
         />
       </label>
       <ul id="code-options" role="listbox" aria-label="Codes" class="code-options" ref={listEl}>
-        <For each={matches()} fallback={<li class="muted">No code matches.</li>}>
+        <For each={matches()}>
           {(e, i) => (
-            <li id={`opt-${e.code.id}`} role="option" aria-selected={i() === active()} classList={{ active: i() === active() }}>
-              <button type="button" disabled={props.disabled} onClick={() => pick(e.code.id)} onMouseEnter={() => setActive(i())} onFocus={() => setActive(i())} tabindex="-1"
-                style={{ 'padding-left': `${8 + (query() || e.recent ? 0 : e.depth) * 16}px` }}>
-                <CodeSwatch mark={props.marks.get(e.code.id)} /> {e.code.label}
-                <Show when={e.code.status === 'draft'}> <span class="tag">draft</span></Show>
-                <Show when={props.unseenEdit(e.code.id)}> <span class="tag updated" data-testid="updated-mark" aria-hidden="true">updated</span></Show>
-                <Show when={(query() || e.recent) && e.path.length > 0}> <span class="muted code-where" aria-hidden="true">in {e.path.join(' › ')}</span></Show>
-                <Show when={e.themes.length > 0}> <span class="muted code-where" aria-hidden="true">· {e.themes.join(', ')}</span></Show>
-              </button>
+            <li
+              id={`opt-${e.code.id}`}
+              role="option"
+              aria-selected={i() === active()}
+              aria-disabled={props.disabled}
+              classList={{ active: i() === active() }}
+              style={{ 'padding-left': `${8 + (query() || e.recent ? 0 : e.depth) * 16}px` }}
+              // focus stays in the search field (the combobox), as the pattern asks; a click applies
+              onMouseDown={(ev) => ev.preventDefault()}
+              onClick={() => { setActive(i()); if (!props.disabled) pick(e.code.id); }}
+              onMouseEnter={() => setActive(i())}
+            >
+              <CodeSwatch mark={props.marks.get(e.code.id)} /> {e.code.label}
+              <Show when={e.code.status === 'draft'}> <span class="tag">draft</span></Show>
+              <Show when={props.unseenEdit(e.code.id)}> <span class="tag updated" data-testid="updated-mark" aria-hidden="true">updated</span></Show>
+              <Show when={(query() || e.recent) && e.path.length > 0}> <span class="muted code-where" aria-hidden="true">in {e.path.join(' › ')}</span></Show>
+              <Show when={e.themes.length > 0}> <span class="muted code-where" aria-hidden="true">· {e.themes.join(', ')}</span></Show>
             </li>
           )}
         </For>
       </ul>
+      <Show when={matches().length === 0}><p class="muted" data-testid="no-code-matches">No code matches.</p></Show>
       <Show when={current()} keyed>
         {(e) => (
           <div class="code-card" data-testid="code-card" aria-live="polite">

@@ -4,7 +4,7 @@ import * as Y from 'yjs';
 import {
   addCode, addExample, addInVivoCode, addMemo, addSegment, correctText, createUndoManager, getSegmentsMap,
   recheckSegment, recodeSegment, removeSegment, resizeSegment, setSegmentNote, listSegments, reconcileLayer, withOrigin, proposeCode,
-  getText, listMemos, MEMOS_ROOT, PROPOSALS_ROOT, DISTINCT_MARKS, turnIndexAt, passageAttachment, resolvePassage, getMemo,
+  getText, listMemos, MEMOS_ROOT, PROPOSALS_ROOT, turnIndexAt, passageAttachment, resolvePassage, getMemo,
 } from '@gloss/model';
 import type { Me } from '../../api/types.js';
 import type { StudyScope } from '../study/study-context.js';
@@ -26,6 +26,7 @@ import { useSeenCodes } from '../../ui/seen-codes.js';
 import { diff } from '../../ui/ytext-binding.js';
 import { api } from '../../api/client.js';
 import { NotesHere } from './NotesHere.js';
+import { marksOverflowWords } from '../../doc/code-marks.js';
 
 export interface CodingViewProps {
   studyId: string;
@@ -358,7 +359,7 @@ export function CodingView(props: CodingViewProps) {
       case 'note': { const d = can('note'); if (!d.allowed) { setMessage(d.message); break; } if (chosenIsMine()) noteInput?.focus(); break; }
       case 'undo': undoStep('undo'); break;
       case 'redo': undoStep('redo'); break;
-      case 'clear': setSelection(null); chooseSegment(null); setPickerMode('apply'); document.getSelection()?.removeAllRanges(); break;
+      case 'clear': setSelection(null); chooseSegment(null); setChosenNote(null); setPickerMode('apply'); document.getSelection()?.removeAllRanges(); break;
       case 'resize': { const d = can('resize'); if (!d.allowed) { setMessage(d.message); break; } resize(c.edge, c.dir); break; }
       case 'keys': setKeysOpen((o) => !o); break;
       case 'select-turn': case 'select-sentence': {
@@ -409,6 +410,9 @@ export function CodingView(props: CodingViewProps) {
           </Show>
           <button type="button" class="quiet" onClick={() => run({ do: 'select-turn' })} aria-keyshortcuts="t">Whole turn</button>
           <button type="button" class="quiet" onClick={() => run({ do: 'select-sentence' })} aria-keyshortcuts="s">Sentence</button>
+          <button type="button" class="quiet" disabled={state.segments().length === 0} onClick={() => run({ do: 'prev-segment' })} aria-keyshortcuts="[" aria-label="Previous segment">◂ Segment</button>
+          <button type="button" class="quiet" disabled={state.segments().length === 0} onClick={() => run({ do: 'next-segment' })} aria-keyshortcuts="]" aria-label="Next segment">Segment ▸</button>
+          <button type="button" class="quiet" disabled={!selection() && !chosen() && !chosenNote()} onClick={() => run({ do: 'clear' })} aria-keyshortcuts="Escape">Clear</button>
           <button type="button" class="quiet" aria-expanded={keysOpen()} aria-controls="coding-keys" onClick={() => run({ do: 'keys' })} aria-keyshortcuts="?">Keys</button>
           <span class="muted sel-info" data-testid="selection-info">
             {sel() ? `Selected: “${state.words().slice(sel()!.start, sel()!.end).slice(0, 80)}”` : cursorWords()}
@@ -416,7 +420,7 @@ export function CodingView(props: CodingViewProps) {
         </div>
         <section id="coding-keys" class="keys-panel" aria-label="Keys of the coding view" hidden={!keysOpen()}>
           <dl>
-            <For each={KEY_HELP}>{([k, v]) => <><dt><kbd>{k}</kbd></dt><dd>{v}</dd></>}</For>
+            <For each={KEY_HELP}>{(k) => <><dt><kbd>{k.keys}</kbd></dt><dd>{k.does}</dd><dd class="muted">or: {k.control}</dd></>}</For>
           </dl>
         </section>
         <p class="message" role="status" aria-live="polite" data-testid="coding-message">{message()}</p>
@@ -544,7 +548,7 @@ export function CodingView(props: CodingViewProps) {
           </ul>
           <Show when={state.marks().overflow}>
             <p class="warn" data-testid="marks-overflow">
-              This codebook has {state.codes().length} codes, more than the {DISTINCT_MARKS} colour-and-line pairs that can be told apart: some codes share one. Read the code names under each turn.
+              {marksOverflowWords(state.codes().length)} The names are under each turn.
             </p>
           </Show>
         </section>

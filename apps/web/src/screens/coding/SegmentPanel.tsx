@@ -47,10 +47,10 @@ export function SegmentPanel(props: {
           <button type="button" class="quiet" disabled={!props.hasSelection} onClick={props.onFit}>Fit to selection</button>
         </div>
         <div class="row" role="group" aria-label="Resize">
-          <button type="button" class="quiet" onClick={() => props.onResize('start', -1)} aria-label="Start one word earlier">⇤ start</button>
-          <button type="button" class="quiet" onClick={() => props.onResize('start', 1)} aria-label="Start one word later">start ⇥</button>
-          <button type="button" class="quiet" onClick={() => props.onResize('end', -1)} aria-label="End one word earlier">⇤ end</button>
-          <button type="button" class="quiet" onClick={() => props.onResize('end', 1)} aria-label="End one word later">end ⇥</button>
+          <button type="button" class="quiet" onClick={() => props.onResize('start', -1)} aria-label="Start one word earlier" aria-keyshortcuts="Shift+Alt+ArrowLeft">⇤ start</button>
+          <button type="button" class="quiet" onClick={() => props.onResize('start', 1)} aria-label="Start one word later" aria-keyshortcuts="Shift+Alt+ArrowRight">start ⇥</button>
+          <button type="button" class="quiet" onClick={() => props.onResize('end', -1)} aria-label="End one word earlier" aria-keyshortcuts="Alt+ArrowLeft">⇤ end</button>
+          <button type="button" class="quiet" onClick={() => props.onResize('end', 1)} aria-label="End one word later" aria-keyshortcuts="Alt+ArrowRight">end ⇥</button>
         </div>
         <label>
           Note on this segment <span class="muted">(kept with your coding; a jotting goes to the study's memos instead)</span>

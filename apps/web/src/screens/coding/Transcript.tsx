@@ -161,6 +161,10 @@ export function Transcript(props: TranscriptProps) {
     const seg = props.selectedSegment() ? segById().get(props.selectedSegment()!) : undefined;
     const r1 = seg ? rangeFor(root, seg.start, seg.end) : null;
     reg.set('gloss-segment', new H(...(r1 ? [r1] : [])));
+    // my selection stays marked when the page selection moves elsewhere (into the code search, say)
+    const own = props.selection();
+    const ro = own && own.anchor !== own.head ? rangeFor(root, ordered(own).start, ordered(own).end) : null;
+    reg.set('gloss-own', new H(...(ro ? [ro] : [])));
     // the chosen segment is tinted in its own code's colour (a highlight's colour can only come from CSS)
     const hex = seg ? props.state.marks().marks.get(seg.codeId)?.hex : undefined;
     chosenStyle.textContent = hex ? `::highlight(gloss-segment) { background-color: ${hex}59; }` : '';
@@ -180,6 +184,7 @@ export function Transcript(props: TranscriptProps) {
   };
   createEffect(() => {
     props.selectedSegment();
+    props.selection();
     props.remote();
     props.passages?.();
     props.chosenPassage?.();

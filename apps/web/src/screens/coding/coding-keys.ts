@@ -52,19 +52,23 @@ export function commandFor(e: KeyLike): Command | null {
   return null;
 }
 
-/** The key list shown on screen (and read by screen readers via aria-describedby). */
-export const KEY_HELP: Array<[string, string]> = [
-  ['→ / ←', 'select the next / previous word (Shift extends)'],
-  ['↓ / ↑', 'cursor to the next / previous turn (Shift extends by whole turns)'],
-  ['t', 'select the whole turn at the cursor'],
-  ['s', 'select the sentence at the cursor'],
-  ['c or /', 'find a code, Enter applies it'],
-  ['1–9', 'apply a recently used code'],
-  ['i', 'in vivo code from the selected words'],
-  ['j', 'jotting on the selection'],
-  ['[ / ]', 'previous / next segment'],
-  ['r, n, Delete', 'recode, note, remove the chosen segment'],
-  ['Alt+→ / Alt+←', 'move the chosen segment’s end (Shift: its start)'],
-  ['Ctrl+Z / Ctrl+Shift+Z', 'undo / redo your own coding'],
-  ['?', 'show or hide this list (the Keys button)'],
+/**
+ * The key list shown on screen (the Keys button), each key with the control that does the same by
+ * pointer, so the list itself says that nothing needs the keyboard.
+ */
+export const KEY_HELP: ReadonlyArray<{ keys: string; does: string; control: string }> = [
+  { keys: '→ / ←', does: 'select the next / previous word (Shift extends)', control: 'drag over the words' },
+  { keys: '↓ / ↑', does: 'cursor to the next / previous turn (Shift extends by whole turns)', control: 'click in a turn' },
+  { keys: 't', does: 'select the whole turn at the cursor', control: 'Whole turn' },
+  { keys: 's', does: 'select the sentence at the cursor', control: 'Sentence' },
+  { keys: 'c or /', does: 'find a code, Enter applies it', control: 'the Find a code field; click a code' },
+  { keys: '1–9', does: 'apply a recently used code', control: 'the numbered recent codes' },
+  { keys: 'i', does: 'in vivo code from the selected words', control: 'In vivo code' },
+  { keys: 'j', does: 'jotting on the selection', control: 'Jotting' },
+  { keys: '[ / ]', does: 'previous / next segment', control: '◂ Segment / Segment ▸, or a code name under a turn' },
+  { keys: 'r, n, Delete', does: 'recode, note, remove the chosen segment', control: 'Recode…, the note field, Remove' },
+  { keys: 'Alt+→ / Alt+←', does: 'move the chosen segment’s end (Shift: its start)', control: 'end ⇥ / ⇤ end (⇤ start / start ⇥)' },
+  { keys: 'Ctrl+Z / Ctrl+Shift+Z', does: 'undo / redo your own coding', control: 'Undo / Redo' },
+  { keys: 'Escape', does: 'clear the selection and the chosen segment', control: 'Clear' },
+  { keys: '?', does: 'show or hide this list', control: 'Keys' },
 ];

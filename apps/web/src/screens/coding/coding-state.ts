@@ -6,9 +6,10 @@
 import { createMemo, createSignal, onCleanup, type Accessor } from 'solid-js';
 import * as Y from 'yjs';
 import {
-  assignMarks, getCodes, getText, pendingProposalCodes, listExclusiveSets, listThemes, lastDefinitionEdits, listSegments, readTurns, resolveSegments,
+  assignMarks, getText, listExclusiveSets, listThemes, lastDefinitionEdits, listSegments, readTurns, resolveSegments,
   type ChangeEntry, type CodeGroup, type CodeView, type MarkAssignment, type ResolvedTurn,
 } from '@gloss/model';
+import { codesInView } from '../../doc/code-marks.js';
 import type { OpenDoc } from '../../sync/open-doc.js';
 import { useFlags } from './flags-source.js';
 import type { Segment } from '../../doc/flag-view.js';
@@ -82,7 +83,7 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
     return out.sort((a, b) => a.start - b.start || a.end - b.end);
   });
   // pending proposals (a coder's new or in vivo codes) show as "(proposed)" until the lead decides
-  const codes = createMemo(() => (cbV(), [...getCodes(codebook.doc), ...pendingProposalCodes(codebook.doc)]));
+  const codes = createMemo(() => (cbV(), codesInView(codebook.doc)));
   const codeById = createMemo(() => new Map(codes().map((c) => [c.id, c])));
   const marks = createMemo(() => assignMarks(codes()));
   const exclusiveSets = createMemo(() => (cbV(), listExclusiveSets(codebook.doc)));

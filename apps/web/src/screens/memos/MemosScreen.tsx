@@ -3,6 +3,7 @@
  * and reply: each memo's replies show as a thread under it (a reply is an entry of its writer's own).
  */
 import { For, Show, createMemo, createResource, createSignal, onCleanup, onMount } from 'solid-js';
+import { personName } from '../../ui/person-name.js';
 import {
   addMemo, getCodes, getMemoBody, listMemos, promoteJotting, removeMemo, searchMemos,
   type MemoAttachment, type MemoView,
@@ -37,7 +38,7 @@ function Memos(props: { mm: OpenDoc; cb: OpenDoc; studyId: string; scope: StudyS
   const codes = useY(props.cb.doc.getMap('codes'), () => getCodes(props.cb.doc));
   const [texts] = createResource(() => props.studyId, (id) => api.texts(id).catch(() => []));
   const [members] = createResource(() => props.studyId, (id) => api.members(id).catch(() => []));
-  const nameOf = (id: string) => (id === props.me.id ? 'you' : members()?.find((m) => m.userId === id)?.name ?? id);
+  const nameOf = (id: string) => (id === props.me.id ? 'you' : personName(members(), id));
   const [query, setQuery] = createSignal('');
   const [kind, setKind] = createSignal<'' | 'memo' | 'jotting'>('');
   const [open, setOpen] = createSignal<string | null>(null);

@@ -16,7 +16,7 @@ import type { StudyScope } from '../study/study-context.js';
 import { Loading } from '../../ui/Loading.js';
 import { createAttempt } from '../../ui/attempt.js';
 import { go, href } from '../../ui/router.js';
-import { codeColour } from '../../doc/palette.js';
+import { CodeSwatch } from '../../ui/CodeSwatch.js';
 import { useCodingState, type LayerHandle } from '../coding/coding-state.js';
 import { useTextPresence } from '../coding/text-presence.js';
 import { Transcript } from '../coding/Transcript.js';
@@ -267,7 +267,7 @@ function WalkView(props: Props & { text: OpenDoc; layers: Array<LayerHandle & { 
                                       if (e.currentTarget.checked) next.add(s.id); else next.delete(s.id);
                                       setTaken(next);
                                     }} />
-                                    <span class="swatch" style={{ background: codeColour(s.codeId, state.codeById().get(s.codeId)?.colour) }} aria-hidden="true" />
+                                    <CodeSwatch mark={state.marks().marks.get(s.codeId)} />
                                     Take {codeLabel(s.codeId)} <span class="sr-only">from {coderName(b.coderId)}</span>
                                   </label>
                                 )}
@@ -287,7 +287,7 @@ function WalkView(props: Props & { text: OpenDoc; layers: Array<LayerHandle & { 
                   <For each={consensusHere()} fallback={<li class="muted">Nothing adjudicated here yet.</li>}>
                     {(s) => (
                       <li>
-                        <span class="swatch" style={{ background: codeColour(s.codeId, state.codeById().get(s.codeId)?.colour) }} aria-hidden="true" /> {codeLabel(s.codeId)}
+                        <CodeSwatch mark={state.marks().marks.get(s.codeId)} /> {codeLabel(s.codeId)}
                         <Show when={s.note}><span class="muted"> — {s.note}</span></Show>
                         <Show when={canAdjudicate()}>
                           {' '}<button type="button" class="link" onClick={() => attempt(() => removeSegment(consensus!.doc.doc, s.id))} aria-label={`Remove consensus segment ${codeLabel(s.codeId)}`}>Remove</button>
