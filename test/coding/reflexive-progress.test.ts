@@ -32,7 +32,7 @@ describe.each(dbKinds())('reflexive progress over HTTP on %s', (db) => {
 
   it('a trainee’s point in a reflexive study has the comparison counts and no coefficient', async () => {
     const s = server.seeded;
-    const [owner, lead, coder, trainee] = await Promise.all((['owner', 'lead', 'coder', 'trainee'] as const).map((p) => clientFor(server.url, p)));
+    const [owner, lead, coder, trainee] = await Promise.all([clientFor(server.url, 'owner'), clientFor(server.url, 'lead'), clientFor(server.url, 'coder'), clientFor(server.url, 'trainee')]);
     expect((await owner.call('PATCH', `/api/studies/${s.studyId}`, { mode: 'reflexive' })).status).toBe(200);
     const started = await lead.call<RoundOut>('POST', `/api/studies/${s.studyId}/rounds`, {
       name: 'Reflexive round',

@@ -14,7 +14,7 @@ import { seedBasic, type BasicSeed } from '../support/seed.js';
 import { spawnServer, type SpawnedServer } from '../support/server.js';
 import { waitFor } from '../support/wait.js';
 import { tokensInDatabase } from './database-state.js';
-import { converged, Ledger, openStorm, pause, tokensIn, writeToken, type StormClient } from './storm.js';
+import { converged, Ledger, openStorm, pause, writeToken, type StormClient } from './storm.js';
 
 const enabled = Boolean(process.env.DATABASE_URL && process.env.REDIS_URL);
 // A cold start of a node on a shared 2-core machine under heavy load has taken over 60 s.
@@ -77,17 +77,11 @@ describe.runIf(enabled)('kill -9 of one of two nodes during a 50-client storm', 
       const missing = [...seenAtKill].filter((t) => !inLog.tokens.has(t));
       expect(missing, 'received by someone but not committed').toEqual([]);
 
-      // The survivor's room must hold everything committed before its new clients' sync step 2 arrives:
-      // the memos room checks each update against the room, and a resend carrying someone else's
-      // committed memo the room has not yet caught up with would be refused as "someone else's memo".
+      // The dead node's clients move at once, whether or not the survivor has caught up with the log: a
+      // resend carrying someone else's committed memo its room lacks is judged again after it reads the
+      // log (sync/connection.ts), not refused (test/faults/failover-behind.test.ts shows the case alone).
       await waitFor(() => clients.filter((c) => c.closes > 0).length >= onA, 'the killed node’s clients saw their sockets close', 30_000);
-      const stayed = clients.filter((c) => c.closes === 0);
-      expect(stayed.length).toBe(onB);
-      await waitFor(() => {
-        const held = tokensIn(stayed[0]!.doc);
-        for (const t of inLog.tokens) if (!held.has(t)) return false;
-        return true;
-      }, 'the surviving node has every committed token (relay or catch-up from the log)', 30_000);
+      expect(clients.filter((c) => c.closes === 0).length).toBe(onB);
       balancer.refuseNew = false;
       killed();
       await storm;

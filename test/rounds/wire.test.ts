@@ -3,8 +3,8 @@
  * y-websocket 3.1 clients. While a round is independent, every frame a participant receives (sync and
  * awareness, decoded with y-protocols' message layout and Yjs' decodeUpdate) and every answer of every
  * GET route in the OpenAPI description they call carry none of the unique markers planted in other
- * people's segments (notes, segment ids), their comments on them, or their pointing presence (caret,
- * hover). Another person's layer room is refused at the upgrade, whatever the id's casing. After the
+ * people's segments (notes, segment ids), their comments on them, their jottings on them (memos room),
+ * or their pointing presence (caret, hover). Another person's layer room is refused at the upgrade, whatever the id's casing. After the
  * reveal the same client receives them (so the scan can see a marker when there is one). An open
  * socket loses a room when a round starts or a membership is removed, also on the other node (two
  * processes on PostgreSQL and Redis when DATABASE_URL and REDIS_URL are set), pushed by the change with
@@ -19,7 +19,7 @@ import { WebSocket } from 'ws';
 import { WebsocketProvider } from 'y-websocket';
 import * as Y from 'yjs';
 import type { Db } from '@gloss/db';
-import { addSegment, listSegments } from '@gloss/model';
+import { addMemo, addSegment, listMemos, listSegments } from '@gloss/model';
 import { readZip } from '../../packages/interchange/src/refi/zip-read.js';
 import { apiClient, upgradeStatus, webSocketWithHeaders } from '../support/http.js';
 import type { Person } from '../support/seed.js';
@@ -42,6 +42,8 @@ const M = {
   hoverCoder2: `mk-hover-coder2-${tag}`,
   caretLead: `mk-caret-lead-${tag}`,
   commentCoder2: `mk-comment-coder2-${tag}`,
+  jottingCoder2: `mk-jotting-coder2-${tag}`,
+  studyMemo: `mk-study-memo-${tag}`,
   afterCaret: `mk-caret-after-${tag}`,
 };
 
@@ -151,7 +153,7 @@ describe(`independent coding at the wire (${twoNodes ? 'two nodes, PostgreSQL an
     const segs = who === 'coder' ? [M.roundCoder2, M.roundLead, M.baseCoder2] : [M.roundCoder2, M.roundCoder, M.baseCoder2];
     const ids = who === 'coder' ? ['coder2', 'lead', 'base2'] : ['coder2', 'coder', 'base2'];
     const pointing = who === 'coder' ? [M.caretCoder2, M.hoverCoder2, M.caretLead] : [M.caretCoder2, M.hoverCoder2];
-    return [...segs, ...ids.map((k) => segIds[k]!), ...pointing, M.commentCoder2];
+    return [...segs, ...ids.map((k) => segIds[k]!), ...pointing, M.commentCoder2, M.jottingCoder2];
   };
 
   it('independent phase: no frame and no API answer carries others’ segments, comments or pointing', async () => {
@@ -206,6 +208,14 @@ describe(`independent coding at the wire (${twoNodes ? 'two nodes, PostgreSQL an
     const own = await api(a, 'coder').call<{ comment: { id: string } }>('POST', `/api/texts/${s.codingTextId}/comments`, { layer: rooms.coder, segmentId: segIds.coder, body: 'my own note' });
     expect(own.status).toBe(201);
     await waitFor(() => sse.includes(own.body.comment.id), 'the coder’s own comment event');
+    // coder2 jots on their round segment, then writes a study memo: the coder's memos receive the second
+    // (the room relays in order), never the first (memo-view.ts: others' segment jottings, independent phase).
+    const c2Memos = connect(a, 'coder2', s.memosRoom);
+    await synced(c2Memos);
+    addMemo(c2Memos.doc, { author: s.users.coder2.id, kind: 'jotting', body: M.jottingCoder2, attachedTo: { kind: 'segment', textId: s.codingTextId, segmentId: segIds.coder2! } });
+    addMemo(c2Memos.doc, { author: s.users.coder2.id, body: M.studyMemo, attachedTo: { kind: 'study' } });
+    await waitFor(() => listMemos(coderMemos.doc).some((m) => m.body === M.studyMemo), 'coder2’s study memo reaches the coder');
+    expect(listMemos(coderMemos.doc).map((m) => m.body)).not.toContain(M.jottingCoder2);
     expect(sse).not.toContain(comment.body.comment.id);
     events.abort();
     // Presence: the others' states have reached the coder on both nodes (names stay).
@@ -318,6 +328,10 @@ describe(`independent coding at the wire (${twoNodes ? 'two nodes, PostgreSQL an
     expect(segs.body.map((x) => x.id)).toEqual(expect.arrayContaining([segIds.coder2, segIds.lead, segIds.coder]));
     const threads = await as.coder.call<string>('GET', `/api/texts/${s.codingTextId}/comments`);
     expect(JSON.stringify(threads.body)).toContain(M.commentCoder2);
+    // coder2's jotting is readable now: a fresh memos copy carries it (the one filtered before was closed with 4409)
+    const memos = connect(a, 'coder', s.memosRoom, coderFrames);
+    await synced(memos);
+    expect(listMemos(memos.doc).map((m) => m.body)).toContain(M.jottingCoder2);
   }, 60_000);
 
   it('removing a member closes their open sockets, pushed by the change, on both nodes', async () => {

@@ -8,12 +8,11 @@
  */
 import { createHash } from 'node:crypto';
 import * as Y from 'yjs';
-import { type Db, documents } from '@gloss/db';
-import { inArray } from 'drizzle-orm';
+import { type Db, documents, roundParticipants, roundTexts, rounds } from '@gloss/db';
+import { and, eq, inArray } from 'drizzle-orm';
 import { MEMOS_ROOT, type MemoAttachment } from '@gloss/model';
 import type { Role } from '../sync/contracts.js';
 import { can } from './policy.js';
-import { studyRounds } from './rounds.js';
 import { studySupervision } from './supervision.js';
 
 export interface MemoReaderView {
@@ -69,14 +68,23 @@ export function mayReadEntry(view: MemoReaderView, entry: EntryFacts): boolean {
 export async function memoReaderView(db: Db, studyId: string, userId: string, role: Role): Promise<MemoReaderView> {
   const readsAll = can(role, 'text.readUnassigned');
   const othersLayers = can(role, 'layer.readOthers');
-  const [supervision, rounds] = await Promise.all([readsAll && othersLayers ? null : studySupervision(db, studyId, userId), studyRounds(db, studyId)]);
+  const [supervision, independentRows] = await Promise.all([
+    readsAll && othersLayers ? null : studySupervision(db, studyId, userId),
+    // texts of the study's independent round(s) and their participants, in one query
+    db
+      .select({ textId: roundTexts.textId, userId: roundParticipants.userId })
+      .from(rounds)
+      .innerJoin(roundTexts, eq(roundTexts.roundId, rounds.id))
+      .innerJoin(roundParticipants, eq(roundParticipants.roundId, rounds.id))
+      .where(and(eq(rounds.studyId, studyId), eq(rounds.phase, 'independent'))),
+  ]);
   const sharedCoders: Record<string, string[]> = {};
   if (!othersLayers && supervision && supervision.shared.size > 0) {
     const layers = await db.select({ textId: documents.textId, coderId: documents.coderId }).from(documents).where(inArray(documents.id, [...supervision.shared]));
     for (const l of layers) if (l.textId && l.coderId) (sharedCoders[l.textId] ??= []).push(l.coderId);
   }
   const independent: Record<string, string[]> = {};
-  for (const [textId, round] of rounds.openByText) if (round.phase === 'independent') independent[textId] = [...round.participants];
+  for (const r of independentRows) (independent[r.textId] ??= []).push(r.userId);
   const view = { userId, texts: readsAll ? null : [...(supervision?.assignedTexts ?? [])], othersLayers, sharedCoders, independent };
   return { ...view, key: viewKey(view) };
 }

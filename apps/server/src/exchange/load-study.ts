@@ -21,7 +21,9 @@ import {
   resolveSegments,
 } from '@gloss/model';
 import { and, asc, eq, inArray } from 'drizzle-orm';
-import type * as Y from 'yjs';
+import * as Y from 'yjs';
+import { readableMemosState } from '../access/memo-readers.js';
+import type { MemoReaderView } from '../access/memo-view.js';
 import { notFound } from '../errors.js';
 import { loadDoc, withDocs, type DocLoader } from '../projection/load-doc.js';
 
@@ -32,6 +34,8 @@ export interface LoadOptions {
    * of its texts).
    */
   canReadLayer?: (layerDocId: string) => boolean;
+  /** Which memos entries may be read (access/memo-view.ts); default: all. An export over HTTP passes the caller's. */
+  memoView?: MemoReaderView;
   /**
    * Whose segments: coders' layers outside rounds (default), or the consensus layers of rounds that
    * are revealed or closed (before the reveal a consensus layer is read by nobody). Each consensus
@@ -124,7 +128,14 @@ export async function loadStudy(db: Db, store: DocLoader, studyId: string, opts:
   const cbDoc = docs.find((d) => d.kind === 'codebook');
   const memosDoc = docs.find((d) => d.kind === 'memos');
   const cb = cbDoc ? await loadDoc(store, cbDoc.id) : null;
-  const memos = memosDoc ? await loadDoc(store, memosDoc.id) : null;
+  let memos = memosDoc ? await loadDoc(store, memosDoc.id) : null;
+  if (memos && opts.memoView) {
+    // the entries the caller may read, as their memos socket would send them
+    const readable = new Y.Doc({ gc: false });
+    Y.applyUpdate(readable, readableMemosState(Y.encodeStateAsUpdate(memos), opts.memoView));
+    memos.destroy();
+    memos = readable;
+  }
   let frameParts: Pick<StudyFrame, 'codes' | 'groups' | 'attributes' | 'cases'>;
   let memoRows: ExMemo[];
   try {

@@ -10,6 +10,7 @@
  * A refused file is 422 `{error:{code, message}}` (code from ExchangeError: unsafe_path, bad_xml, …)
  * and nothing is written.
  */
+import { memoReaderView } from '../access/memo-view.js';
 import { ExchangeError, exportLosses, importLosses } from '@gloss/interchange';
 import type { Context } from 'hono';
 import { Hono } from 'hono';
@@ -71,7 +72,9 @@ export function exchangeRoutes(deps: AppDeps) {
     const me = c.get('session').user.id;
     // A lead coding a round independently exports no one else's layer of the round's texts.
     const readable = new Set((await readableLayers(deps.db, studyId, role, me)).map((l) => l.id));
-    const result = await runExport(deps.db, requireStore(deps), studyId, format, { actorId: me, via: 'http', layers, canReadLayer: (id) => readable.has(id), heavy: heavyOf(deps) });
+    // and of the memos only the entries they receive (a participant: no one else's jottings on round segments)
+    const memoView = await memoReaderView(deps.db, studyId, me, role);
+    const result = await runExport(deps.db, requireStore(deps), studyId, format, { actorId: me, via: 'http', layers, canReadLayer: (id) => readable.has(id), memoView, heavy: heavyOf(deps) });
     const iterator = result.body[Symbol.asyncIterator]();
     const stream = new ReadableStream<Uint8Array>({
       async pull(controller) {

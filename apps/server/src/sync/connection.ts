@@ -180,7 +180,8 @@ export class Connection implements RoomPeer {
 
   /** A change of the room's document, in the version this connection may read. */
   sendUpdate(update: Uint8Array, message: Uint8Array): void {
-    if (this.room === null) return;
+    // Before start: the memos wait for the answer to the client's first sync step, which covers them.
+    if (this.room === null) return void (this.grant.kind !== 'memos' && this.send(message));
     const filtered = this.readable(this.room, update);
     this.send(filtered === update ? message : encodeSyncUpdate(filtered));
   }
