@@ -80,9 +80,17 @@ function discardAllReplaced(first: OpenDoc): Promise<void> {
   discarding ??= (async () => {
     const handles = new Set([first, ...[...open.values()].map((e) => e.handle)]);
     await Promise.allSettled([...handles].map((h) => h.dropLocalCopy()));
+    await reloadHold;
     location.reload();
   })();
   return discarding;
+}
+
+/** Work the reload after a purge waits for (the purge's own request, whose answer must not be lost). */
+let reloadHold: Promise<unknown> = Promise.resolve();
+export function holdReloadWhile<T>(work: Promise<T>): Promise<T> {
+  reloadHold = Promise.allSettled([reloadHold, work]);
+  return work;
 }
 
 /** The origin of a state from the opening request (sync/opening.ts): the server's, not a change made here. */

@@ -1,11 +1,24 @@
 import { createSignal, For, Show } from 'solid-js';
 import { deidApi, type Candidate, type Scan } from '../../api/deid-api.js';
+import { holdReloadWhile } from '../../sync/open-doc.js';
 import { createSubmit } from '../../ui/forms.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav, allowed } from '../study/StudyNav.js';
 import { PseudonymKey } from './PseudonymKey.js';
 
 type Decision = 'accept' | 'reject';
+
+const purgedKey = (studyId: string) => `gloss-deid-purged:${studyId}`;
+/** The answer of a purge made in this tab before it reloaded, read once. */
+function takePurgeResult(studyId: string): { scan: Scan; keyEntries: number } | null {
+  const raw = sessionStorage.getItem(purgedKey(studyId));
+  sessionStorage.removeItem(purgedKey(studyId));
+  try {
+    return raw ? (JSON.parse(raw) as { scan: Scan; keyEntries: number }) : null;
+  } catch {
+    return null;
+  }
+}
 interface Row extends Candidate { decision: Decision; pseudonym: string }
 
 const KIND_WORDS: Record<string, string> = {
@@ -23,7 +36,7 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
   const [rows, setRows] = createSignal<Row[] | null>(null);
   const [textCount, setTextCount] = createSignal(0);
   const [applied, setApplied] = createSignal<string | null>(null);
-  const [scan, setScan] = createSignal<{ scan: Scan; keyEntries: number } | null>(null);
+  const [scan, setScan] = createSignal<{ scan: Scan; keyEntries: number } | null>(takePurgeResult(props.studyId));
   const [confirmPurge, setConfirmPurge] = createSignal(false);
   const [changes, setChanges] = createSignal(0);
   const submit = createSubmit();
@@ -58,7 +71,14 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
     });
   const purge = () =>
     void submit.run(async () => {
-      const res = await deidApi.purge(props.studyId);
+      // This tab's own open documents are rebuilt too, so it reloads once the purge has answered; the
+      // answer waits in sessionStorage and is shown after the reload.
+      const res = await holdReloadWhile(
+        deidApi.purge(props.studyId).then((r) => {
+          sessionStorage.setItem(purgedKey(props.studyId), JSON.stringify({ scan: r.scan, keyEntries: r.keyEntries }));
+          return r;
+        }),
+      );
       setConfirmPurge(false);
       setScan({ scan: res.scan, keyEntries: res.keyEntries });
     });
