@@ -71,6 +71,7 @@ test('an owner finds, accepts, applies and purges; an open copy is discarded and
   await expect(table.getByRole('row', { name: /^Dana Whitcombe\b/ })).toContainText('in 2 text(s), memos');
   // the reviewer edits one pseudonym
   await page.getByLabel('Pseudonym for Lowmere').fill('[Town A]');
+  await table.scrollIntoViewIfNeeded();
   await shot(page, 'deid-review-owner');
   await page.getByRole('button', { name: /^Apply \d+ replacement/ }).click();
   await expect(page.getByTestId('applied')).toContainText(/Replaced \d+ occurrence\(s\) in 2 text\(s\)/);
@@ -85,6 +86,7 @@ test('an owner finds, accepts, applies and purges; an open copy is discarded and
   // this tab had the codebook open too: it reloads once the purge has answered and still shows the answer
   await expect(page.getByTestId('reload-notice')).toContainText('rebuilt', { timeout: 60_000 });
   await expect(page.getByTestId('scan-result')).toContainText('0 occurrences left in the database', { timeout: 60_000 });
+  await page.getByTestId('scan-result').scrollIntoViewIfNeeded();
   await shot(page, 'deid-purged-owner');
 
   // the tab that held the old copy was told 4410: it dropped the copy, reloaded onto the new room and says why
