@@ -58,6 +58,14 @@ test('an owner finds, accepts, applies and purges; an open copy is discarded and
   await page.getByLabel('Memo', { exact: true }).fill('Dana Whitcombe drives half the participants; ask about Lowmere.');
   await page.getByRole('button', { name: 'Keep memo' }).click();
   await expect(page.locator('.memo-list')).toContainText('Who drives');
+  // the memo is typed into the browser's copy first: wait until the server has it (the finder reads the server's)
+  await expect
+    .poll(async () => {
+      const res = await api('POST', `/api/studies/${studyId}/deid/candidates`, { list: [] });
+      const found = ((await res.json()) as { candidates: Array<{ original: string; where: string[] }> }).candidates;
+      return found.find((c) => c.original === 'Dana Whitcombe')?.where ?? [];
+    }, { timeout: 30_000 })
+    .toContain('memos');
   const studyRooms = (await (await api('GET', `/api/studies/${studyId}`)).json()) as { codebookRoom: string; memosRoom: string };
 
   await page.goto(`/#/study/${studyId}/deid`);
