@@ -59,6 +59,15 @@ for (const role of ['owner', 'lead', 'coder', 'observer'] as const) {
       await expect(page.getByRole('heading', { name: 'De-identify the texts' })).toBeVisible();
       await expect(page.getByRole('heading', { name: /pseudonym key/ })).toHaveCount(role === 'owner' ? 1 : 0);
       await audit(page, `roles-deid-${role}`);
+      if (role === 'lead') {
+        // finding changes nothing: a lead reviews the demo's candidates and where each was found
+        await page.getByRole('button', { name: 'Find identifiers' }).click();
+        const found = page.getByRole('table', { name: 'Candidates' });
+        await expect(found.getByTestId('candidate').first()).toBeVisible({ timeout: 30_000 });
+        await expect(found.getByTestId('candidate').first()).toContainText(/in \d+ text\(s\)/);
+        await found.scrollIntoViewIfNeeded();
+        await shot(page, 'deid-candidates-lead');
+      }
       await tabs.getByRole('link', { name: 'Audit log' }).click();
       await expect(page.getByRole('table', { name: 'Log entries' })).toBeVisible();
       await audit(page, `roles-audit-${role}`);

@@ -42,4 +42,11 @@ describe('findCandidates', () => {
     const next = pseudonymSequence(['[Place A]']);
     expect([next('place'), next('place'), next('date')]).toEqual(['[Place B]', '[Place C]', '[date]']);
   });
+
+  it('does not run a name on across punctuation (words of the demo study that did)', () => {
+    const found = findCandidates([{ id: 't3', text: "P2: I haven't told Bernadette. I've been thinking. Ask Colin Marrick, Jennet Fairlow or Mrs Aldous." }], [], new Map());
+    const names = found.map((c) => c.original);
+    expect(names).toContain('Bernadette');
+    expect(names.filter((n) => /[.,]/.test(n))).toEqual([]);
+  });
 });

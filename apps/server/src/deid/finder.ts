@@ -60,8 +60,10 @@ function nlpNames(text: string): Array<{ original: string; kind: CandidateKind }
   type Hit = { text: string; offset: { start: number; length: number } };
   const take = (hits: Hit[], kind: CandidateKind) => {
     for (const h of hits) {
-      const end = kind === 'person' ? extendName(text, h.offset.start + h.offset.length) : h.offset.start + h.offset.length;
-      const original = cleanName(text.slice(h.offset.start, end));
+      const hitEnd = h.offset.start + h.offset.length;
+      // never across punctuation: "Bernadette. I've" or "Marrick, Jennet" are not one name
+      const end = kind === 'person' && !/[.,;:!?]$/.test(text.slice(h.offset.start, hitEnd)) ? extendName(text, hitEnd) : hitEnd;
+      const original = cleanName(text.slice(h.offset.start, end).split(/[.,;:!?]\s/u)[0]!);
       if (original.length > 1) out.push({ original, kind });
     }
   };

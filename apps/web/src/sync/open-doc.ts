@@ -63,6 +63,8 @@ export interface OpenDoc {
   dismissRefusal(): void;
   /** Drops this device's copy of the document (with the refused change in it) and reloads the page. */
   discardLocalCopy(): Promise<void>;
+  /** Stops syncing and deletes this device's copy, without reloading. */
+  dropLocalCopy(): Promise<void>;
   /** Resolves once the document holds either the server's state or the offline copy. */
   whenReady: Promise<void>;
   release(): void;
@@ -72,6 +74,29 @@ export interface OpenDoc {
 
 interface Entry { handle: OpenDoc; refs: number }
 const open = new Map<string, Entry>();
+
+/**
+ * A purge rebuilds every document of a study at once, so one 4410 means the others' copies are old too:
+ * every open document stops sending and drops its copy on this device, then the page reloads once
+ * (several reloads racing would leave some old copies, which still hold the removed words, behind).
+ */
+let discarding: Promise<void> | null = null;
+function discardAllReplaced(first: OpenDoc): Promise<void> {
+  discarding ??= (async () => {
+    const handles = new Set([first, ...[...open.values()].map((e) => e.handle)]);
+    await Promise.allSettled([...handles].map((h) => h.dropLocalCopy()));
+    await reloadHold;
+    location.reload();
+  })();
+  return discarding;
+}
+
+/** Work the reload after a purge waits for (the purge's own request, whose answer must not be lost). */
+let reloadHold: Promise<unknown> = Promise.resolve();
+export function holdReloadWhile<T>(work: Promise<T>): Promise<T> {
+  reloadHold = Promise.allSettled([reloadHold, work]);
+  return work;
+}
 
 /** The origin of a state from the opening request (sync/opening.ts): the server's, not a change made here. */
 export const PRIMED = Symbol('opening');
@@ -240,7 +265,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     }
     if (event?.code === REPLACED_CLOSE) {
       sessionStorage.setItem(RELOAD_NOTICE_KEY, `${opts.label}: ${event.reason || 'the text was rebuilt after de-identification'} This device’s copy was discarded and the page reloaded.`);
-      void handle.discardLocalCopy();
+      void discardAllReplaced(handle);
     }
     if (event?.code === VIEW_CHANGED_CLOSE) void handle.discardLocalCopy();
   });
@@ -365,9 +390,12 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     },
     dismissRefusal: () => setRefusedSig(null),
     async discardLocalCopy() {
+      await handle.dropLocalCopy();
+      location.reload();
+    },
+    async dropLocalCopy() {
       provider.disconnect();
       await local?.clearData();
-      location.reload();
     },
     whenReady,
     release() {

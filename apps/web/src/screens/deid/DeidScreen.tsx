@@ -1,11 +1,24 @@
 import { createSignal, For, Show } from 'solid-js';
 import { deidApi, type Candidate, type Scan } from '../../api/deid-api.js';
+import { holdReloadWhile } from '../../sync/open-doc.js';
 import { createSubmit } from '../../ui/forms.js';
 import type { StudyScope } from '../study/study-context.js';
 import { StudyNav, allowed } from '../study/StudyNav.js';
 import { PseudonymKey } from './PseudonymKey.js';
 
 type Decision = 'accept' | 'reject';
+
+const purgedKey = (studyId: string) => `gloss-deid-purged:${studyId}`;
+/** The answer of a purge made in this tab before it reloaded, read once. */
+function takePurgeResult(studyId: string): { scan: Scan; keyEntries: number } | null {
+  const raw = sessionStorage.getItem(purgedKey(studyId));
+  sessionStorage.removeItem(purgedKey(studyId));
+  try {
+    return raw ? (JSON.parse(raw) as { scan: Scan; keyEntries: number }) : null;
+  } catch {
+    return null;
+  }
+}
 interface Row extends Candidate { decision: Decision; pseudonym: string }
 
 const KIND_WORDS: Record<string, string> = {
@@ -23,7 +36,7 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
   const [rows, setRows] = createSignal<Row[] | null>(null);
   const [textCount, setTextCount] = createSignal(0);
   const [applied, setApplied] = createSignal<string | null>(null);
-  const [scan, setScan] = createSignal<{ scan: Scan; keyEntries: number } | null>(null);
+  const [scan, setScan] = createSignal<{ scan: Scan; keyEntries: number } | null>(takePurgeResult(props.studyId));
   const [confirmPurge, setConfirmPurge] = createSignal(false);
   const [changes, setChanges] = createSignal(0);
   const submit = createSubmit();
@@ -44,14 +57,28 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
   const apply = () =>
     void submit.run(async () => {
       const res = await deidApi.apply(props.studyId, accepted().map((r) => ({ original: r.original, pseudonym: r.pseudonym.trim(), kind: r.kind })));
-      setApplied(`Replaced ${res.occurrences} occurrence(s) in ${res.texts} text(s); ${res.segmentsMoved} segment boundary(ies) moved to stay on their words.`);
+      const e = res.elsewhere;
+      const others = [[e.codebook, 'the codebook'], [e.memos, 'memos and replies'], [e.notes, 'segment notes'], [e.comments, 'comments'], [e.titles, 'text titles']]
+        .filter(([n]) => (n as number) > 0)
+        .map(([n, where]) => `${n} in ${where}`);
+      setApplied(
+        `Replaced ${res.occurrences} occurrence(s) in ${res.texts} text(s); ${res.segmentsMoved} segment boundary(ies) moved to stay on their words.` +
+          (others.length > 0 ? ` Also replaced: ${others.join(', ')}.` : ''),
+      );
       setRows(null);
       setChanges((n) => n + 1);
       setScan(await deidApi.scan(props.studyId));
     });
   const purge = () =>
     void submit.run(async () => {
-      const res = await deidApi.purge(props.studyId);
+      // This tab's own open documents are rebuilt too, so it reloads once the purge has answered; the
+      // answer waits in sessionStorage and is shown after the reload.
+      const res = await holdReloadWhile(
+        deidApi.purge(props.studyId).then((r) => {
+          sessionStorage.setItem(purgedKey(props.studyId), JSON.stringify({ scan: r.scan, keyEntries: r.keyEntries }));
+          return r;
+        }),
+      );
       setConfirmPurge(false);
       setScan({ scan: res.scan, keyEntries: res.keyEntries });
     });
@@ -69,7 +96,9 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
           <form onSubmit={find} class="stacked" aria-label="Find identifiers">
             <p class="muted">
               Every text of the study is searched for names of people, places and organisations, dates, ages, phone numbers,
-              e-mail and street addresses. Add words only your study knows (a ward’s nickname, a village, a club), one per line.
+              e-mail and street addresses — and so are the codebook (definitions, examples), memos, jottings and their replies,
+              segment notes, comments and the texts’ titles. Add words only your study knows (a ward’s nickname, a village, a
+              club), one per line.
             </p>
             <label>
               Study-specific terms
@@ -97,7 +126,10 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
                       <tr classList={{ rejected: r.decision === 'reject' }} data-testid="candidate">
                         <th scope="row">{r.original}</th>
                         <td>{KIND_WORDS[r.kind] ?? r.kind}</td>
-                        <td><span class="muted">{r.occurrences}× in {r.textIds.length} text(s)</span><br /><small>{r.context}</small></td>
+                        <td>
+                          <span class="muted">{r.occurrences}× — in {r.where.map((w) => (w === 'texts' ? `${r.textIds.length} text(s)` : w)).join(', ')}</span>
+                          <br /><small>{r.context}</small>
+                        </td>
                         <td><input aria-label={`Pseudonym for ${r.original}`} value={r.pseudonym} disabled={r.decision === 'reject'} onInput={(e) => update(i(), { pseudonym: e.currentTarget.value })} /></td>
                         <td>
                           <label><input type="radio" name={`d${i()}`} checked={r.decision === 'accept'} onChange={() => update(i(), { decision: 'accept' })} /> accept</label>{' '}
@@ -115,18 +147,19 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
 
           <h3>3. Purge the originals</h3>
           <p>
-            Replacing a name is not removing it: the text’s edit history, its named versions and every device that opened the
-            text still hold the original words. The purge rebuilds each text from its current words only, moves every coder’s
-            segments onto the rebuilt text (their quotes do not change), and deletes the texts’ <strong>edit history and all
-            their named versions</strong>. Everyone who has a text open is asked to reload, and the copies their browsers kept
-            are discarded.
+            Replacing a name is not removing it: the edit history, the named versions and every device that opened the study
+            still hold the original words. The purge rebuilds every document of the study from its current words only — the
+            texts, each coder’s segments and notes, the codebook and the memos — keeps every segment, example and jotting on its
+            words (their quotes do not change), and deletes the <strong>edit history and all named versions</strong> of the
+            texts, the codebook and the memos. Everyone who has the study open is asked to reload, and the copies their browsers
+            kept are discarded.
           </p>
           <Show
             when={confirmPurge()}
             fallback={<button type="button" class="danger" disabled={submit.busy()} onClick={() => setConfirmPurge(true)}>Purge the originals…</button>}
           >
             <div role="alertdialog" aria-label="Purge the originals?" class="confirm">
-              <p>Purge every text of this study now? The named versions of its texts and their edit history are deleted for good.</p>
+              <p>Purge every document of this study now? The named versions of its texts, codebook and memos, and their edit history, are deleted for good.</p>
               <button type="button" class="danger" disabled={submit.busy()} onClick={purge}>Purge now</button>{' '}
               <button type="button" class="quiet" onClick={() => setConfirmPurge(false)}>Not now</button>
             </div>
@@ -158,7 +191,7 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
           <ul>
             <li>The finder misses things and finds too much: read every text yourself too.</li>
             <li>Indirect identifiers — a rare job, an age with a small village, a unique event — can identify a person without any name.</li>
-            <li>Memos, jottings, comments, segment notes, codebook examples and earlier exports are not changed here and can still identify people.</li>
+            <li>Memos, jottings, comments and codebook examples can still identify people through what they describe, not only by name; earlier exports and copies made outside Gloss are not changed here.</li>
             <li>The pseudonym key links pseudonyms to people: keep it apart from the texts, export it once to a safe place, then delete it here.</li>
             <li>Your study’s ethics approval, its consent terms and your data-protection officer decide what is enough; Gloss does not make a study compliant.</li>
           </ul>
