@@ -29,9 +29,33 @@ test('no serious or critical axe violations on the main screens', async ({ brows
   const lead = await signIn(browser, account('lead'), baseURL!);
   await addCodes(lead, ['Unpaid hours']);
   const page = lead.page;
-  await page.getByRole('tree', { name: 'Codes' }).getByRole('button', { name: 'Unpaid hours', exact: true }).click();
+  await page.getByRole('tree', { name: 'Codes' }).getByRole('treeitem', { name: 'Unpaid hours', exact: true }).click();
   await expect(page.getByTestId('entry-editor')).toBeVisible();
   await audit(page, 'codebook-entry');
+  // the code tree is one Tab stop; arrows move, ← / → close and open a parent, Enter opens a code's entry
+  // (the WAI-ARIA Authoring Practices' tree view pattern)
+  const tree = page.getByRole('tree', { name: 'Codes' });
+  const item = (name: string) => tree.getByRole('treeitem', { name, exact: true });
+  await expect(item('Unpaid hours')).toHaveAttribute('tabindex', '0');
+  await expect(tree.locator('[role="treeitem"][tabindex="0"]')).toHaveCount(1);
+  await item('Unpaid hours').focus();
+  await page.keyboard.press('Home');
+  await expect(tree.getByRole('treeitem').first()).toBeFocused();
+  await page.keyboard.press('ArrowDown');
+  await expect(tree.getByRole('treeitem').nth(1)).toBeFocused();
+  await page.keyboard.press('Enter');
+  await expect(tree.getByRole('treeitem').nth(1)).toHaveAttribute('aria-selected', 'true');
+  await item('Workload').focus();
+  await page.keyboard.press('ArrowLeft');
+  await expect(item('Workload')).toHaveAttribute('aria-expanded', 'false');
+  await expect(item('Stepping back')).toHaveCount(0);
+  await page.keyboard.press('ArrowRight');
+  await expect(item('Workload')).toHaveAttribute('aria-expanded', 'true');
+  await page.keyboard.press('ArrowRight');
+  await expect(item('Stepping back')).toBeFocused();
+  await page.keyboard.press('ArrowLeft');
+  await expect(item('Workload')).toBeFocused();
+  await audit(page, 'codebook-tree-keys');
 
   await page.getByRole('link', { name: 'Gloss' }).click();
   await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();

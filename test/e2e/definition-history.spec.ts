@@ -11,7 +11,7 @@ const ADDED = ' Includes cutting back hours.';
 test('a definition edit is recorded in the history and shows as updated in a coder\'s list', async ({ browser, baseURL }) => {
   const lead = await signIn(browser, account('lead'), baseURL!);
   await openCodebook(lead);
-  await lead.page.getByRole('tree', { name: 'Codes' }).getByRole('button', { name: CODE, exact: true }).click();
+  await lead.page.getByRole('tree', { name: 'Codes' }).getByRole('treeitem', { name: CODE, exact: true }).click();
   await lead.page.getByTestId('edit-reason').fill('coders asked where fewer hours go');
   const field = lead.page.getByLabel('Brief definition');
   await field.click();

@@ -7,7 +7,7 @@ test('lead rewrites a definition and the coder sees it live', async ({ browser, 
   await addCodes(lead, ['Being needed']);
   const coder = await signIn(browser, account('coder', 1), baseURL!);
   await openCodebook(coder);
-  await coder.page.getByRole('tree', { name: 'Codes' }).getByRole('button', { name: 'Being needed', exact: true }).click();
+  await coder.page.getByRole('tree', { name: 'Codes' }).getByRole('treeitem', { name: 'Being needed', exact: true }).click();
   const coderField = coder.page.getByLabel('Brief definition');
   await expect(coderField).toHaveJSProperty('readOnly', true);
 

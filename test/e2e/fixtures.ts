@@ -104,7 +104,7 @@ export async function addCodes(lead: Person, labels: string[]): Promise<void> {
   for (const label of labels) {
     await lead.page.getByRole('form', { name: 'Add a code' }).getByLabel('New code').fill(label);
     await lead.page.getByRole('form', { name: 'Add a code' }).getByRole('button', { name: 'Add' }).click();
-    await expect(lead.page.getByRole('tree', { name: 'Codes' }).getByRole('button', { name: label, exact: true })).toBeVisible();
+    await expect(lead.page.getByRole('tree', { name: 'Codes' }).getByRole('treeitem', { name: label, exact: true })).toBeVisible();
   }
 }
 

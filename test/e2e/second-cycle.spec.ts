@@ -13,7 +13,7 @@ test('merge with a preview of affected segments', async ({ browser, baseURL }) =
   await applyCode(coder.page, 'Late nights');
 
   await openCodebook(lead);
-  await lead.page.getByRole('tree', { name: 'Codes' }).getByRole('button', { name: 'Late nights', exact: true }).click();
+  await lead.page.getByRole('tree', { name: 'Codes' }).getByRole('treeitem', { name: 'Late nights', exact: true }).click();
   await lead.page.getByRole('radio', { name: 'merge' }).check();
   await lead.page.getByLabel(/Merge “Late nights” into/).selectOption({ label: 'Long hours' });
   await lead.page.getByLabel(/Why/).fill('Same idea, two names');
@@ -22,7 +22,7 @@ test('merge with a preview of affected segments', async ({ browser, baseURL }) =
   await expect(preview).toContainText('2 segments affected');
   await expect(preview).toContainText(`${coder.name} on “P01`);
   await lead.page.getByTestId('apply-second-cycle').click();
-  await expect(lead.page.getByRole('tree', { name: 'Codes' }).getByRole('button', { name: /Late nights\s+merged/ })).toBeVisible();
+  await expect(lead.page.getByRole('tree', { name: 'Codes' }).getByRole('treeitem', { name: /Late nights\s+merged/ })).toBeVisible();
 
   // the coder's open layer follows the merge: both segments now carry the code merged into
   await expect.poll(async () => (await coder.page.locator('.layers').textContent()) ?? '').toContain('(you)');

@@ -1,5 +1,6 @@
 /** Always-visible connection status, what is waiting to be sent, and the work-offline switch. */
 import { For, Show, createSignal } from 'solid-js';
+import { countOf } from './count-words.js';
 import { lostAccess, openDocs, overall, refusedChanges, waiting } from '../sync/status.js';
 import { isPaused, RELOAD_NOTICE_KEY, setPaused } from '../sync/open-doc.js';
 import { DataNotice } from './DataNotice.js';
@@ -55,7 +56,7 @@ export function StatusBar() {
         <Show when={waiting().length > 0} fallback={<span class="sent" data-testid="waiting">Nothing waiting to be sent.</span>}>
           <span class="waiting" data-testid="waiting">
             Waiting to be sent:{' '}
-            <For each={waiting()}>{(w, i) => <>{i() > 0 ? '; ' : ''}{w.count} change{w.count === 1 ? '' : 's'} to {w.label}</>}</For>
+            <For each={waiting()}>{(w, i) => <>{i() > 0 ? '; ' : ''}{countOf(w.count, 'change')} to {w.label}</>}</For>
           </span>
         </Show>
         <Show when={openDocs().length > 0 || paused()}>

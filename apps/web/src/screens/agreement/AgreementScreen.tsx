@@ -5,6 +5,7 @@
  * the units coded differently are laid side by side as prompts for discussion.
  */
 import { For, Show, createResource, createSignal, type JSX } from 'solid-js';
+import { countOf } from '../../ui/count-words.js';
 import { agreementApi, type AgreementReport, type CoefficientReport, type ReflexiveReport } from '../../api/agreement.js';
 import { Loading } from '../../ui/Loading.js';
 import { href } from '../../ui/router.js';
@@ -72,7 +73,7 @@ export function AgreementView(props: { scope: AgreementScope; heading: JSX.Eleme
 function Scope(props: { report: AgreementReport }) {
   return (
     <p class="muted" data-testid="agreement-scope">
-      {props.report.coders.length} coders ({props.report.coders.map((c) => c.name).join(', ')}), {props.report.texts.length} texts,
+      {countOf(props.report.coders.length, 'coder')} ({props.report.coders.map((c) => c.name).join(', ')}), {countOf(props.report.texts.length, 'text')},
       unit: {unitName(props.report.unit).toLowerCase()}.
     </p>
   );

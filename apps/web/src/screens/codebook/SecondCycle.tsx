@@ -4,6 +4,7 @@
  * this person can read), and applies only on confirmation.
  */
 import { For, Match, Show, Switch, createSignal, onCleanup } from 'solid-js';
+import { countOf } from '../../ui/count-words.js';
 import type * as Y from 'yjs';
 import {
   applyMergeToLayer, applySplitToLayer, mergeCodes, moveCode, previewMerge, previewRetire, previewSplit, retireCode, splitCode,
@@ -123,7 +124,7 @@ export function SecondCycle(props: { studyId: string; codebook: Y.Doc; code: Cod
       <Show when={preview()}>
         {(p) => (
           <div class="preview" data-testid="preview" aria-live="polite">
-            <p><strong>{p().count}</strong> segment{p().count === 1 ? '' : 's'} affected{p().unassigned.length ? `, ${p().unassigned.length} left needing a new code` : ''}.</p>
+            <p><strong>{countOf(p().count, 'segment')}</strong> affected{p().unassigned.length ? `, ${p().unassigned.length} left needing a new code` : ''}.</p>
             <ul>
               <For each={Object.entries(p().perLayer)}>{([room, n]) => <li>{loaded?.labels.get(room) ?? room}: {n}</li>}</For>
             </ul>

@@ -1,5 +1,6 @@
 /** The coding view proper, once every document is open. */
 import { For, Show, createMemo, createResource, createSignal, onCleanup, onMount } from 'solid-js';
+import { countOf } from '../../ui/count-words.js';
 import * as Y from 'yjs';
 import {
   addCode, addExample, addInVivoCode, addMemo, addSegment, correctText, createUndoManager, getSegmentsMap,
@@ -387,7 +388,6 @@ export function CodingView(props: CodingViewProps) {
 
   const layerCount = (coderId: string) => state.segments().filter((s) => s.coderId === coderId).length;
   const allCount = createMemo(() => new Map(props.layers.map((l) => [l.coderId, listSegments(l.doc.doc).length])));
-  const segmentsWord = (n: number) => `${n} ${n === 1 ? 'segment' : 'segments'}`;
   const codingAllowed = () => allowed('code');
 
   return (
@@ -540,7 +540,7 @@ export function CodingView(props: CodingViewProps) {
                       if (e.currentTarget.checked) next.delete(l.coderId); else next.add(l.coderId);
                       setHidden(next);
                     }} />
-                    {l.name} <span class="muted">({segmentsWord(hidden().has(l.coderId) ? allCount().get(l.coderId) ?? 0 : layerCount(l.coderId))})</span>
+                    {l.name} <span class="muted">({countOf(hidden().has(l.coderId) ? allCount().get(l.coderId) ?? 0 : layerCount(l.coderId), 'segment')})</span>
                   </label>
                 </li>
               )}

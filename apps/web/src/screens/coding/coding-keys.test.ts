@@ -1,7 +1,7 @@
 // Key bindings of the coding view (the project's own spec in coding-keys.ts; Ctrl+Z/Ctrl+Shift+Z/Ctrl+Y for
 // undo/redo are common practice across desktop programs).
 import { describe, expect, it } from 'vitest';
-import { commandFor } from './coding-keys.js';
+import { commandFor, KEY_HELP } from './coding-keys.js';
 
 const k = (key: string, mods: Partial<{ ctrlKey: boolean; metaKey: boolean; altKey: boolean; shiftKey: boolean }> = {}) =>
   commandFor({ key, ctrlKey: false, metaKey: false, altKey: false, shiftKey: false, ...mods });
@@ -23,5 +23,12 @@ describe('commandFor', () => {
   it('resizes with Alt+arrows: end by default, start with Shift', () => {
     expect(k('ArrowRight', { altKey: true })).toEqual({ do: 'resize', edge: 'end', dir: 1 });
     expect(k('ArrowLeft', { altKey: true, shiftKey: true })).toEqual({ do: 'resize', edge: 'start', dir: -1 });
+  });
+  it('lists every key it acts on, each with the control that does the same', () => {
+    for (const key of ['t', 's', 'c', '/', '1', 'i', 'j', '[', ']', 'r', 'n', 'Delete', 'Escape', '?']) {
+      expect(commandFor({ key, ctrlKey: false, metaKey: false, altKey: false, shiftKey: false }), key).not.toBeNull();
+      expect(KEY_HELP.some((h) => h.keys.split(/ or | \/ |, /).some((k) => k === key || (key === '1' && k === '1–9'))), key).toBe(true);
+    }
+    for (const h of KEY_HELP) expect(h.control.length, h.keys).toBeGreaterThan(0);
   });
 });

@@ -1,4 +1,5 @@
 /** What an import brought in, how end positions were read, and every warning. */
+import { countOf } from '../../ui/count-words.js';
 import { For, Show } from 'solid-js';
 import type { ImportReport } from '../../api/analysis.js';
 import { href } from '../../ui/router.js';
@@ -8,7 +9,7 @@ export function ImportReportView(props: { report: ImportReport; link?: boolean }
   return (
     <div class="import-report" role="status">
       <p>
-        Imported {r().texts} texts, {r().codes} codes, {r().segments} segments, {r().memos} memos and {r().cases} cases. End positions were read{' '}
+        Imported {countOf(r().texts, 'text')}, {countOf(r().codes, 'code')}, {countOf(r().segments, 'segment')}, {countOf(r().memos, 'memo')} and {countOf(r().cases, 'case')}. End positions were read{' '}
         {r().endReading === 'exclusive' ? 'as exclusive (end − start = length)' : 'as inclusive (the last character)'}.
         <Show when={props.link}>{' '}<a href={href({ name: 'study', studyId: r().studyId })}>Open the new study</a>.</Show>
       </p>

@@ -3,6 +3,7 @@
  * been on their screen), words coded, segments and "done". Progress only: which codes, and where, stay with each coder until the reveal.
  */
 import { For, Show, createSignal, onCleanup } from 'solid-js';
+import { countOf } from '../../ui/count-words.js';
 import { roundsApi, type ProgressCell, type Round } from '../../api/rounds.js';
 import { errorMessage } from '../../api/errors.js';
 
@@ -30,7 +31,7 @@ export function ProgressBoard(props: { round: Round; pollMs: number }) {
     <section aria-labelledby="progress-h" data-testid="progress-board">
       <h2 id="progress-h">Progress</h2>
       <p class="muted">
-        <Show when={rows()} fallback={error() ? '' : 'Counting… '}>{doneCount()} of {props.round.participantIds.length * props.round.textIds.length} texts marked done. </Show> Only progress is shown here:
+        <Show when={rows()} fallback={error() ? '' : 'Counting… '}>{doneCount()} of {countOf(props.round.participantIds.length * props.round.textIds.length, 'text')} marked done. </Show> Only progress is shown here:
         nobody, the lead included, sees anyone's codes before the reveal.
       </p>
       <Show when={error()}><p class="error" role="alert">The progress could not be fetched: {error()}</p></Show>
@@ -57,7 +58,7 @@ export function ProgressBoard(props: { round: Round; pollMs: number }) {
                               <span data-testid="words-read">{x().wordsRead ?? 0}{x().words ? ` of ${x().words}` : ''} words read</span>
                               <br />
                               <span>
-                                {x().wordsCoded ?? 0} words coded, {x().segments} segment{x().segments === 1 ? '' : 's'}
+                                {x().wordsCoded ?? 0} words coded, {countOf(x().segments, 'segment')}
                               </span>
                               <br />
                               <strong class={x().done ? 'done' : 'not-done'}>{x().done ? '✓ done' : 'not done yet'}</strong>

@@ -1,4 +1,5 @@
 import { createSignal, For, Index, Show } from 'solid-js';
+import { countOf } from '../../ui/count-words.js';
 import { createStore, produce } from 'solid-js/store';
 import { ImportRefusal, setupApi, type ImportedText, type Preview } from '../../api/setup-api.js';
 import { errorMessage } from '../../api/errors.js';
@@ -106,7 +107,7 @@ export function Upload(props: { studyId: string; scope: StudyScope }) {
                 </Show>
                 <Show when={it.state === 'done' && it.text}>
                   <p role="status">
-                    Imported as <a href={href({ name: 'coding', studyId: props.studyId, textId: it.text!.id })}>{it.text!.title}</a> ({it.text!.wordCount} words)
+                    Imported as <a href={href({ name: 'coding', studyId: props.studyId, textId: it.text!.id })}>{it.text!.title}</a> ({countOf(it.text!.wordCount, 'word')})
                     {it.linked ? `; linked to ${it.linked} case(s).` : '.'}
                   </p>
                 </Show>
@@ -120,7 +121,7 @@ export function Upload(props: { studyId: string; scope: StudyScope }) {
         <Show when={items.length === 0}><p class="muted">No files chosen yet.</p></Show>
         <div class="row">
           <button type="button" disabled={running() || ready() === 0} onClick={() => void importAll()}>
-            {running() ? 'Importing…' : `Import ${ready()} file${ready() === 1 ? '' : 's'}`}
+            {running() ? 'Importing…' : `Import ${countOf(ready(), 'file')}`}
           </button>
           <a href={href({ name: 'study', studyId: props.studyId })}>Back to the texts</a>
         </div>
@@ -152,9 +153,9 @@ function PreviewView(props: { item: Item; cases: Array<{ id: string; name: strin
   return (
     <div class="preview-box">
       <p>
-        {p().format.toUpperCase()} · {p().turnCount} turns · {p().wordCount} words
+        {p().format.toUpperCase()} · {countOf(p().turnCount, 'turn')} · {countOf(p().wordCount, 'word')}
         {p().timestamps ? ` · ${formatTime(p().timestamps!.firstMs)}–${formatTime(p().timestamps!.lastMs)}` : ' · no timestamps'}
-        {p().unlabelledTurns ? ` · ${p().unlabelledTurns} turns without a speaker` : ''}
+        {p().unlabelledTurns ? ` · ${countOf(p().unlabelledTurns, 'turn')} without a speaker` : ''}
       </p>
       <Show when={p().speakers.length > 0} fallback={<p class="muted">No speaker labels found: the text is imported as it is.</p>}>
         <table class="speakers">
