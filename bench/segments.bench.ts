@@ -3,9 +3,10 @@
  * corrections after coding, ~17,000 Yjs items) with 5 layers of 200, 2,000 and 10,000 segments each
  * (1k, 10k, 50k segments), stored on embedded PGlite behind the composed server.
  * - `segments.resolve.<n>`: `resolveSegments` over all segments, cold (anchors decoded afresh) and warm;
- *   reference: one-by-one `Y.createAbsolutePositionFromRelativePosition` on 1,000 of them, per segment.
- * - `segments.flags.<n>`: every flag from scratch (FlagEngine) and after one text correction;
- *   no outside reference.
+ *   references: the previous bulk resolver (resolve-by-item.ts) interleaved in the same run, and
+ *   one-by-one `Y.createAbsolutePositionFromRelativePosition` on 1,000 of them, per segment.
+ * - `segments.flags.<n>`: flags after one text correction (incremental FlagEngine); reference: every
+ *   flag from scratch.
  * - `segments.route.<n>`: `GET /api/texts/:id/segments` over HTTP: first request (documents loaded from
  *   the log), a repeat, after a new segment, after a text correction; reference: the route's work
  *   before the text cache (documents loaded afresh + `segmentsWithFlags`), in the same process.
@@ -23,6 +24,7 @@ import { admin, createPgUpdateStore, loadConfig, startServer } from '@gloss/serv
 import { loadDoc, withDocs } from '../apps/server/src/projection/load-doc.js';
 import { segmentsWithFlags } from '../apps/server/src/segments/with-flags.js';
 import type { UpdateStore } from '../apps/server/src/sync/contracts.js';
+import { resolveSegmentsByItem } from '../packages/model/src/resolve-by-item.js';
 
 const WORDS = ['the', 'ferry', 'winter', 'we', 'kept', 'going', 'because', 'my', 'mother', 'said', 'school', 'harbour', 'bread', 'neighbours', 'rota', 'council', 'bus', 'quiet', 'after', 'storm'];
 // SEGMENTS_SIZES=1000,10000 narrows the run (the 50k fixture takes minutes on a busy machine).
@@ -141,10 +143,15 @@ export async function run() {
       const fresh = (n = all.length) => all.slice(0, n).map((s) => ({ ...s, start: s.start.slice(), end: s.end.slice() }));
       const cold: number[] = [];
       const warm: number[] = [];
+      const prevCold: number[] = [];
+      const prevWarm: number[] = [];
       for (let r = 0; r < 7; r++) {
         const segs = fresh();
         cold.push(timeIt(() => resolveSegments(textDoc, segs)));
         warm.push(timeIt(() => resolveSegments(textDoc, segs)));
+        const prev = fresh();
+        prevCold.push(timeIt(() => resolveSegmentsByItem(textDoc, prev)));
+        prevWarm.push(timeIt(() => resolveSegmentsByItem(textDoc, prev)));
       }
       const refN = Math.min(1_000, all.length);
       const ref: number[] = [];
@@ -161,6 +168,9 @@ export async function run() {
         name: `segments.resolve.${size}`, ...shape, cold: coldStats, warm: stats(warm),
         reference: { name: 'one-by-one Y.createAbsolutePositionFromRelativePosition', segments: refN, ...refStats, perSegmentMs: r2(refStats.medianMs / refN) },
         ratioPerSegmentColdToReference: r2(coldStats.medianMs / all.length / (refStats.medianMs / refN)),
+        previous: { name: 'previous bulk resolver (resolve-by-item.ts), interleaved', cold: stats(prevCold), warm: stats(prevWarm) },
+        coldToPreviousCold: r2(coldStats.medianMs / stats(prevCold).medianMs),
+        warmToPreviousWarm: r2(stats(warm).medianMs / stats(prevWarm).medianMs),
         targetMs: size === 10_000 ? 10 : undefined, loadavg1: load1(),
       });
 
@@ -188,7 +198,13 @@ export async function run() {
         afterEdit.push(timeIt(() => engine.refresh()));
       }
       engine.destroy();
-      out.push({ name: `segments.flags.${size}`, ...shape, flags: flagCount, full: stats(full), afterOneCorrection: stats(afterEdit), loadavg1: load1() });
+      const fullStats = stats(full);
+      const editStats = stats(afterEdit);
+      out.push({
+        name: `segments.flags.${size}`, ...shape, flags: flagCount, afterOneCorrection: editStats,
+        reference: { name: 'every flag from scratch (new FlagEngine)', ...fullStats },
+        afterOneCorrectionToReference: r2(editStats.medianMs / fullStats.medianMs), loadavg1: load1(),
+      });
       // The corrections above were local: store them so the route sees the same text.
       await store.append(text.room, Y.encodeStateAsUpdate(textDoc, stored), null);
       await store.flush();

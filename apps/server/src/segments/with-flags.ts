@@ -6,7 +6,7 @@
  * layers and a consensus layer are flagged each among their own kind: a coder's round layer and their
  * own layer outside it are not two coders, nor duplicates of each other.
  */
-import { computeFlags, listSegments, readTurns, resolveSegments, type Flag, type LayerSource } from '@gloss/model';
+import { computeFlags, listSegments, resolveSegments, type Flag, type LayerSource, type SegmentRecord } from '@gloss/model';
 import type * as Y from 'yjs';
 import { countedOn, decideCoders, type CoderChoice } from '../agreement/coders.js';
 import { comparedAs, type VisibleLayer } from '../http/text-layers.js';
@@ -42,7 +42,6 @@ export function segmentsWithFlags(
   choice: CoderChoice = {},
   groupFlags: GroupFlags = (_group, sources) => computeFlags({ textDoc, codebook, layers: sources }),
 ): SegmentOut[] {
-  const turns = readTurns(textDoc);
   const records = new Map(layers.map((l) => [l, listSegments(l.doc)]));
   const groups = new Map<string, Array<VisibleLayer & { doc: Y.Doc }>>();
   for (const l of layers) {
@@ -54,30 +53,41 @@ export function segmentsWithFlags(
     const flagged = group.filter((l) => counted.includes(comparedAs(l)));
     return groupFlags(key, flagged.map((l) => ({ layerId: l.layerDocId, coder: comparedAs(l), doc: l.doc })));
   });
-  const kinds = new Map<string, Set<string>>();
+  // each segment's flag kinds, by layer then segment id (no composite string keys: 10,000s of them)
+  const kinds = new Map<string, Map<string, string[]>>();
   for (const f of flags) {
     for (const ref of f.segments) {
-      const key = `${ref.layerId}/${ref.segmentId}`;
-      let set = kinds.get(key);
-      if (!set) kinds.set(key, (set = new Set()));
-      set.add(f.kind);
+      let byId = kinds.get(ref.layerId);
+      if (!byId) kinds.set(ref.layerId, (byId = new Map()));
+      const list = byId.get(ref.segmentId);
+      if (!list) byId.set(ref.segmentId, [f.kind]);
+      else if (!list.includes(f.kind)) list.push(f.kind);
     }
   }
+  // every layer's segments in one resolution: one walk of the text for all of them (and its turns)
+  const all: SegmentRecord[] = [];
+  for (const l of layers) for (const r of records.get(l)!) all.push(r);
+  const resolved = resolveSegments(textDoc, all);
   const out: SegmentOut[] = [];
+  let k = 0;
   for (const l of layers) {
-    for (const s of resolveSegments(textDoc, records.get(l)!, turns)) {
+    const byId = kinds.get(l.layerDocId);
+    const kind = l.coderId === null ? 'consensus' : 'coder';
+    const round = l.roundId ?? null;
+    for (let end = k + records.get(l)!.length; k < end; k++) {
+      const s = resolved[k]!;
       if (s.unresolved) continue; // names text this server has not stored: nothing true to say about it
       out.push({
         id: s.id,
         coderId: l.coderId,
         layer: l.layerDocId,
-        round: l.roundId ?? null,
-        kind: l.coderId === null ? 'consensus' : 'coder',
+        round,
+        kind,
         codeId: s.codeId,
         start: s.start,
         end: s.end,
         quote: s.quote,
-        flags: [...(kinds.get(`${l.layerDocId}/${s.id}`) ?? [])].sort(),
+        flags: byId?.get(s.id)?.slice().sort() ?? [],
       });
     }
   }
