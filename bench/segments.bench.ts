@@ -62,16 +62,33 @@ function transcript(rand: () => number): Transcript {
  * due in the same turn, and the request met a closed socket (ECONNRESET). A loopback connect costs far
  * less than a millisecond.
  */
-function getFresh(url: string, cookie: string): Promise<{ status: number; body: string }> {
+function getFresh(url: string, cookie: string): Promise<{ status: number; body: string; timing: Record<string, number> }> {
   return new Promise((resolve, reject) => {
     const req = httpGet(url, { agent: false, headers: { cookie } }, (res) => {
       const chunks: Buffer[] = [];
       res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => resolve({ status: res.statusCode ?? 0, body: Buffer.concat(chunks).toString('utf8') }));
+      res.on('end', () => resolve({ status: res.statusCode ?? 0, body: Buffer.concat(chunks).toString('utf8'), timing: serverTiming(String(res.headers['server-timing'] ?? '')) }));
       res.on('error', reject);
     });
     req.on('error', (err) => reject(new Error(`segments request failed: ${String(err)}`)));
   });
+}
+
+/** `a;dur=1.5, b;dur=2` -> { a: 1.5, b: 2 } */
+function serverTiming(header: string): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const part of header.split(',')) {
+    const [name, ...params] = part.trim().split(';');
+    const dur = params.find((p) => p.trim().startsWith('dur='));
+    if (name && dur) out[name] = Number(dur.trim().slice(4));
+  }
+  return out;
+}
+
+/** Medians of each Server-Timing metric over requests. */
+function timingMedians(list: Array<Record<string, number>>): Record<string, number> {
+  const names = [...new Set(list.flatMap((t) => Object.keys(t)))];
+  return Object.fromEntries(names.map((n) => [n, stats(list.map((t) => t[n] ?? 0)).medianMs]));
 }
 
 async function change(store: UpdateStore, docId: string, doc: Y.Doc, fn: () => void): Promise<void> {
@@ -213,30 +230,41 @@ export async function run() {
       // The route over HTTP.
       const get = async () => {
         const t0 = performance.now();
-        const { status, body } = await getFresh(`${server.url}/api/texts/${text.id}/segments`, cookie);
+        const { status, body, timing } = await getFresh(`${server.url}/api/texts/${text.id}/segments`, cookie);
         const ms = performance.now() - t0; // the answer received; parsing it is the client's cost
         if (status !== 200) throw new Error(`segments: ${status}`);
-        return { ms, count: (JSON.parse(body) as unknown[]).length };
+        return { ms, count: (JSON.parse(body) as unknown[]).length, timing, bytes: body.length };
       };
       const first = await get();
       note(`${size}: first request ${Math.round(first.ms)} ms`);
       const repeat: number[] = [];
-      for (let r = 0; r < 9; r++) repeat.push((await get()).ms);
+      const repeatServer: Array<Record<string, number>> = [];
+      for (let r = 0; r < 9; r++) {
+        const g = await get();
+        repeat.push(g.ms);
+        repeatServer.push(g.timing);
+      }
       const afterSegment: number[] = [];
       const afterCorrection: number[] = [];
+      const segmentServer: Array<Record<string, number>> = [];
+      const correctionServer: Array<Record<string, number>> = [];
       for (let r = 0; r < 7; r++) {
         const i = r % LAYERS;
         const s = Math.floor(rand() * (t.length - 200));
         await change(store, layerIds[i]!, layers[i]!, () => void addSegment(layers[i]!, textDoc, { codeId: codes[r]!, start: s, end: s + 120 }));
         await store.flush();
-        afterSegment.push((await get()).ms);
+        const gs = await get();
+        afterSegment.push(gs.ms);
+        segmentServer.push(gs.timing);
         const at = Math.floor(rand() * (t.length - 10));
         await change(store, text.room, textDoc, () => textDoc.transact(() => {
           t.delete(at, 3);
           t.insert(at, 'fixed');
         }));
         await store.flush();
-        afterCorrection.push((await get()).ms);
+        const gc = await get();
+        afterCorrection.push(gc.ms);
+        correctionServer.push(gc.timing);
       }
       const before: number[] = [];
       for (let r = 0; r < 3; r++) {
@@ -249,7 +277,10 @@ export async function run() {
       }
       out.push({
         name: `segments.route.${size}`, ...shape, answered: first.count, db: 'pglite',
-        firstMs: r2(first.ms), repeat: stats(repeat), afterNewSegment: stats(afterSegment), afterCorrection: stats(afterCorrection),
+        bodyBytes: first.bytes, firstMs: r2(first.ms), firstServerMs: first.timing,
+        repeat: stats(repeat), afterNewSegment: stats(afterSegment), afterCorrection: stats(afterCorrection),
+        // the server's own time (Server-Timing medians), apart from carrying the body to this in-process client
+        serverMs: { repeat: timingMedians(repeatServer), afterNewSegment: timingMedians(segmentServer), afterCorrection: timingMedians(correctionServer) },
         reference: { name: 'route work before the text cache: load documents from the log + segmentsWithFlags, in process (no HTTP)', ...stats(before) },
         targetMs: 100, loadavg1: load1(),
       });

@@ -96,6 +96,8 @@ export interface SegmentsAnswer {
   count: number;
   /** How the answer was made: kept as it was, refreshed after changes, or built from the log. */
   source: 'kept' | 'refreshed' | 'loaded';
+  /** Milliseconds spent reading the log, computing the segments and flags, and writing the JSON. */
+  timings: { refresh: number; compute: number; json: number };
 }
 
 export interface TextCache {
@@ -160,11 +162,13 @@ export function createTextCache(o: TextCacheOptions): TextCache {
       }
       return d;
     });
+    const t0 = performance.now();
     await Promise.all(live.map((d) => d.refresh()));
+    const t1 = performance.now();
     const key = JSON.stringify([layers.map((l) => [l.layerDocId, l.coderId, l.roundId ?? null]), choice]);
     const versions = live.map((d) => d.version).join(',');
     const kept = e.answers.get(key);
-    if (kept && kept.versions === versions) return { body: kept.body, count: kept.count, source: 'kept' };
+    if (kept && kept.versions === versions) return { body: kept.body, count: kept.count, source: 'kept', timings: { refresh: t1 - t0, compute: 0, json: 0 } };
 
     const textDoc = e.docs.get(e.textDocId)!.doc;
     const codebook = e.codebookId ? e.docs.get(e.codebookId)!.doc : (e.emptyCodebook ??= createCodebookDoc());
@@ -192,12 +196,14 @@ export function createTextCache(o: TextCacheOptions): TextCache {
         e.engines.delete(group);
       }
     }
+    const t2 = performance.now();
     const body = JSON.stringify(out);
+    const t3 = performance.now();
     e.answers.delete(key);
     e.answers.set(key, { versions, body, count: out.length });
     // One answer per distinct view (role, layers, choice); a handful at most is worth keeping.
     while (e.answers.size > MAX_ANSWERS) e.answers.delete(e.answers.keys().next().value!);
-    return { body, count: out.length, source: fresh ? 'loaded' : 'refreshed' };
+    return { body, count: out.length, source: fresh ? 'loaded' : 'refreshed', timings: { refresh: t1 - t0, compute: t2 - t1, json: t3 - t2 } };
   }
 
   return {
