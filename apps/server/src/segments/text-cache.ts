@@ -16,7 +16,7 @@ import * as Y from 'yjs';
 import type { CoderChoice } from '../agreement/coders.js';
 import type { VisibleLayer } from '../http/text-layers.js';
 import type { UpdateStore } from '../sync/contracts.js';
-import { segmentsWithFlags, type SegmentOut } from './with-flags.js';
+import { resolveLayers, segmentsWithFlags, type LayerResolution, type ResolveLayers, type SegmentOut } from './with-flags.js';
 
 const MAX_ANSWERS = 8;
 
@@ -36,6 +36,8 @@ class LiveDoc {
   readonly doc = new Y.Doc({ gc: false });
   /** Bumped whenever something new was applied: part of the answer's key. */
   version = 0;
+  /** For a layer: its records and their resolution, as of this version and the text's version then. */
+  resolution: { version: number; textVersion: number; value: LayerResolution } | null = null;
   private cursor = 0;
   private lastHigh = 0;
   private readonly applied = new Set<number>();
@@ -173,6 +175,18 @@ export function createTextCache(o: TextCacheOptions): TextCache {
     const textDoc = e.docs.get(e.textDocId)!.doc;
     const codebook = e.codebookId ? e.docs.get(e.codebookId)!.doc : (e.emptyCodebook ??= createCodebookDoc());
     const used = new Set<string>();
+    // Each layer's records and resolution stay while neither the layer nor the text moved: a new segment
+    // re-reads and re-resolves one layer; a text correction re-resolves all of them, in one walk.
+    const textVersion = e.docs.get(e.textDocId)!.version;
+    const resolveKept: ResolveLayers = (td, ls) => {
+      const docs = ls.map((l) => e.docs.get(l.layerDocId)!);
+      const stale = docs.map((d, i) => [d, i] as const).filter(([d]) => d.resolution?.version !== d.version || d.resolution.textVersion !== textVersion);
+      if (stale.length > 0) {
+        const fresh = resolveLayers(td, stale.map(([, i]) => ls[i]!));
+        stale.forEach(([d], k) => (d.resolution = { version: d.version, textVersion, value: fresh[k]! }));
+      }
+      return docs.map((d) => d.resolution!.value);
+    };
     const out: SegmentOut[] = segmentsWithFlags(
       textDoc,
       codebook,
@@ -189,6 +203,7 @@ export function createTextCache(o: TextCacheOptions): TextCache {
         if (!g) e.engines.set(group, (g = { layers: names, engine: new FlagEngine({ textDoc, codebook, layers: sources }) }));
         return g.engine.flags();
       },
+      resolveKept,
     );
     for (const [group, g] of e.engines) {
       if (!used.has(group)) {

@@ -6,7 +6,7 @@
  * layers and a consensus layer are flagged each among their own kind: a coder's round layer and their
  * own layer outside it are not two coders, nor duplicates of each other.
  */
-import { computeFlags, listSegments, resolveSegments, type Flag, type LayerSource, type SegmentRecord } from '@gloss/model';
+import { computeFlags, listSegments, resolveSegments, type Flag, type LayerSource, type ResolvedSegment, type SegmentRecord } from '@gloss/model';
 import type * as Y from 'yjs';
 import { countedOn, decideCoders, type CoderChoice } from '../agreement/coders.js';
 import { comparedAs, type VisibleLayer } from '../http/text-layers.js';
@@ -33,6 +33,25 @@ export interface SegmentOut {
  */
 export type GroupFlags = (group: string, layers: LayerSource[]) => Flag[];
 
+/** Each layer's segment records and their resolution, in the same order. */
+export interface LayerResolution {
+  records: SegmentRecord[];
+  resolved: ResolvedSegment[];
+}
+
+/**
+ * Reads and resolves the layers' segments. The default reads every layer and resolves them all in one
+ * walk of the text; the text cache keeps each layer's result while neither it nor the text changed.
+ */
+export type ResolveLayers = (textDoc: Y.Doc, layers: ReadonlyArray<VisibleLayer & { doc: Y.Doc }>) => LayerResolution[];
+
+export const resolveLayers: ResolveLayers = (textDoc, layers) => {
+  const records = layers.map((l) => listSegments(l.doc));
+  const resolved = resolveSegments(textDoc, records.flat());
+  let k = 0;
+  return records.map((r) => ({ records: r, resolved: resolved.slice(k, (k += r.length)) }));
+};
+
 const cmp = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
 
 export function segmentsWithFlags(
@@ -41,8 +60,10 @@ export function segmentsWithFlags(
   layers: Array<VisibleLayer & { doc: Y.Doc }>,
   choice: CoderChoice = {},
   groupFlags: GroupFlags = (_group, sources) => computeFlags({ textDoc, codebook, layers: sources }),
+  resolve: ResolveLayers = resolveLayers,
 ): SegmentOut[] {
-  const records = new Map(layers.map((l) => [l, listSegments(l.doc)]));
+  const perLayer = resolve(textDoc, layers);
+  const records = new Map(layers.map((l, i) => [l, perLayer[i]!.records]));
   const groups = new Map<string, Array<VisibleLayer & { doc: Y.Doc }>>();
   for (const l of layers) {
     const key = l.coderId === null ? `consensus:${l.layerDocId}` : (l.roundId ?? '');
@@ -64,18 +85,12 @@ export function segmentsWithFlags(
       else if (!list.includes(f.kind)) list.push(f.kind);
     }
   }
-  // every layer's segments in one resolution: one walk of the text for all of them (and its turns)
-  const all: SegmentRecord[] = [];
-  for (const l of layers) for (const r of records.get(l)!) all.push(r);
-  const resolved = resolveSegments(textDoc, all);
   const out: SegmentOut[] = [];
-  let k = 0;
-  for (const l of layers) {
+  layers.forEach((l, i) => {
     const byId = kinds.get(l.layerDocId);
     const kind = l.coderId === null ? 'consensus' : 'coder';
     const round = l.roundId ?? null;
-    for (let end = k + records.get(l)!.length; k < end; k++) {
-      const s = resolved[k]!;
+    for (const s of perLayer[i]!.resolved) {
       if (s.unresolved) continue; // names text this server has not stored: nothing true to say about it
       out.push({
         id: s.id,
@@ -90,6 +105,6 @@ export function segmentsWithFlags(
         flags: byId?.get(s.id)?.slice().sort() ?? [],
       });
     }
-  }
+  });
   return out.sort((a, b) => a.start - b.start || a.end - b.end || cmp(a.coderId ?? '', b.coderId ?? '') || cmp(a.layer, b.layer) || cmp(a.id, b.id));
 }
