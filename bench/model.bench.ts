@@ -7,7 +7,8 @@
  * - all flags from scratch, and flags after one edit (text correction, new segment, definition edit);
  *   target < 16 ms after one edit.
  * Figures are medians over repeated runs, with the fastest alongside (the machine is shared). The bulk
- * figure is given cold (anchors decoded afresh) and warm (decoded anchors cached, as in a live client).
+ * figure is given cold (anchors decoded afresh) and warm (same anchors again), beside the previous bulk
+ * resolver (resolve-by-item.ts) interleaved in the same run: the machine is shared, ratios count.
  */
 import { mulberry32 } from '@gloss/agreement';
 import * as Y from 'yjs';
@@ -15,6 +16,7 @@ import {
   addCode, addExclusiveSet, addSegment, createCodebookDoc, createTextDoc, FlagEngine, getDefinitionText, getText,
   listSegments, newLayerDoc, resolveSegments, type SegmentRecord,
 } from '@gloss/model';
+import { resolveSegmentsByItem } from '../packages/model/src/resolve-by-item.js';
 
 const round = (x: number) => Math.round(x * 100) / 100;
 function stats(ms: number[]) {
@@ -84,10 +86,16 @@ function benchResolve(f: Fixture, label: string, referenceSegments: number): Rec
   const fresh = (n = all.length) => all.slice(0, n).map((s) => ({ ...s, start: s.start.slice(), end: s.end.slice() }));
   const cold: number[] = [];
   const warm: number[] = [];
+  const prevCold: number[] = [];
+  const prevWarm: number[] = [];
+  // the previous resolver interleaved in the same run, so both see the same machine load
   for (let r = 0; r < 11; r++) {
     const segs = fresh();
     cold.push(timeIt(() => resolveSegments(textDoc, segs)));
     warm.push(timeIt(() => resolveSegments(textDoc, segs)));
+    const prev = fresh();
+    prevCold.push(timeIt(() => resolveSegmentsByItem(textDoc, prev)));
+    prevWarm.push(timeIt(() => resolveSegmentsByItem(textDoc, prev)));
   }
   const ref: number[] = [];
   for (let r = 0; r < 3; r++) {
@@ -111,6 +119,9 @@ function benchResolve(f: Fixture, label: string, referenceSegments: number): Rec
     bulkCold: coldStats, bulkWarm: stats(warm),
     reference: { name: 'one-by-one createAbsolutePositionFromRelativePosition (followUndoneDeletions=false)', segments: referenceSegments, ...refStats },
     speedupPerSegment: round((refStats.medianMs / referenceSegments) / (coldStats.medianMs / all.length)),
+    previous: { name: 'previous bulk resolver (struct-store search per anchor, item cached on the anchor: resolve-by-item.ts)', cold: stats(prevCold), warm: stats(prevWarm) },
+    coldToPreviousCold: round(coldStats.medianMs / stats(prevCold).medianMs),
+    warmToPreviousWarm: round(stats(warm).medianMs / stats(prevWarm).medianMs),
     targetMs: 10,
   };
 }

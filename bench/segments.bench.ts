@@ -3,9 +3,10 @@
  * corrections after coding, ~17,000 Yjs items) with 5 layers of 200, 2,000 and 10,000 segments each
  * (1k, 10k, 50k segments), stored on embedded PGlite behind the composed server.
  * - `segments.resolve.<n>`: `resolveSegments` over all segments, cold (anchors decoded afresh) and warm;
- *   reference: one-by-one `Y.createAbsolutePositionFromRelativePosition` on 1,000 of them, per segment.
- * - `segments.flags.<n>`: every flag from scratch (FlagEngine) and after one text correction;
- *   no outside reference.
+ *   references: the previous bulk resolver (resolve-by-item.ts) interleaved in the same run, and
+ *   one-by-one `Y.createAbsolutePositionFromRelativePosition` on 1,000 of them, per segment.
+ * - `segments.flags.<n>`: flags after one text correction (incremental FlagEngine); reference: every
+ *   flag from scratch.
  * - `segments.route.<n>`: `GET /api/texts/:id/segments` over HTTP: first request (documents loaded from
  *   the log), a repeat, after a new segment, after a text correction; reference: the route's work
  *   before the text cache (documents loaded afresh + `segmentsWithFlags`), in the same process.
@@ -13,6 +14,7 @@
  * shared; each record carries the 1-minute load average).
  */
 import { mkdtempSync, rmSync } from 'node:fs';
+import { get as httpGet } from 'node:http';
 import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { mulberry32 } from '@gloss/agreement';
@@ -22,6 +24,7 @@ import { admin, createPgUpdateStore, loadConfig, startServer } from '@gloss/serv
 import { loadDoc, withDocs } from '../apps/server/src/projection/load-doc.js';
 import { segmentsWithFlags } from '../apps/server/src/segments/with-flags.js';
 import type { UpdateStore } from '../apps/server/src/sync/contracts.js';
+import { resolveSegmentsByItem } from '../packages/model/src/resolve-by-item.js';
 
 const WORDS = ['the', 'ferry', 'winter', 'we', 'kept', 'going', 'because', 'my', 'mother', 'said', 'school', 'harbour', 'bread', 'neighbours', 'rota', 'council', 'bus', 'quiet', 'after', 'storm'];
 // SEGMENTS_SIZES=1000,10000 narrows the run (the 50k fixture takes minutes on a busy machine).
@@ -51,6 +54,41 @@ function transcript(rand: () => number): Transcript {
       text: Array.from({ length: 100 }, () => WORDS[Math.floor(rand() * WORDS.length)]).join(' '),
     })),
   };
+}
+
+/**
+ * A GET on a connection of its own. The server runs in this process: while the bench builds a fixture
+ * synchronously, the server's keep-alive timer and the client's next request on the pooled socket come
+ * due in the same turn, and the request met a closed socket (ECONNRESET). A loopback connect costs far
+ * less than a millisecond.
+ */
+function getFresh(url: string, cookie: string): Promise<{ status: number; body: string; timing: Record<string, number> }> {
+  return new Promise((resolve, reject) => {
+    const req = httpGet(url, { agent: false, headers: { cookie } }, (res) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => resolve({ status: res.statusCode ?? 0, body: Buffer.concat(chunks).toString('utf8'), timing: serverTiming(String(res.headers['server-timing'] ?? '')) }));
+      res.on('error', reject);
+    });
+    req.on('error', (err) => reject(new Error(`segments request failed: ${String(err)}`)));
+  });
+}
+
+/** `a;dur=1.5, b;dur=2` -> { a: 1.5, b: 2 } */
+function serverTiming(header: string): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const part of header.split(',')) {
+    const [name, ...params] = part.trim().split(';');
+    const dur = params.find((p) => p.trim().startsWith('dur='));
+    if (name && dur) out[name] = Number(dur.trim().slice(4));
+  }
+  return out;
+}
+
+/** Medians of each Server-Timing metric over requests. */
+function timingMedians(list: Array<Record<string, number>>): Record<string, number> {
+  const names = [...new Set(list.flatMap((t) => Object.keys(t)))];
+  return Object.fromEntries(names.map((n) => [n, stats(list.map((t) => t[n] ?? 0)).medianMs]));
 }
 
 async function change(store: UpdateStore, docId: string, doc: Y.Doc, fn: () => void): Promise<void> {
@@ -122,10 +160,15 @@ export async function run() {
       const fresh = (n = all.length) => all.slice(0, n).map((s) => ({ ...s, start: s.start.slice(), end: s.end.slice() }));
       const cold: number[] = [];
       const warm: number[] = [];
+      const prevCold: number[] = [];
+      const prevWarm: number[] = [];
       for (let r = 0; r < 7; r++) {
         const segs = fresh();
         cold.push(timeIt(() => resolveSegments(textDoc, segs)));
         warm.push(timeIt(() => resolveSegments(textDoc, segs)));
+        const prev = fresh();
+        prevCold.push(timeIt(() => resolveSegmentsByItem(textDoc, prev)));
+        prevWarm.push(timeIt(() => resolveSegmentsByItem(textDoc, prev)));
       }
       const refN = Math.min(1_000, all.length);
       const ref: number[] = [];
@@ -142,6 +185,9 @@ export async function run() {
         name: `segments.resolve.${size}`, ...shape, cold: coldStats, warm: stats(warm),
         reference: { name: 'one-by-one Y.createAbsolutePositionFromRelativePosition', segments: refN, ...refStats, perSegmentMs: r2(refStats.medianMs / refN) },
         ratioPerSegmentColdToReference: r2(coldStats.medianMs / all.length / (refStats.medianMs / refN)),
+        previous: { name: 'previous bulk resolver (resolve-by-item.ts), interleaved', cold: stats(prevCold), warm: stats(prevWarm) },
+        coldToPreviousCold: r2(coldStats.medianMs / stats(prevCold).medianMs),
+        warmToPreviousWarm: r2(stats(warm).medianMs / stats(prevWarm).medianMs),
         targetMs: size === 10_000 ? 10 : undefined, loadavg1: load1(),
       });
 
@@ -169,7 +215,13 @@ export async function run() {
         afterEdit.push(timeIt(() => engine.refresh()));
       }
       engine.destroy();
-      out.push({ name: `segments.flags.${size}`, ...shape, flags: flagCount, full: stats(full), afterOneCorrection: stats(afterEdit), loadavg1: load1() });
+      const fullStats = stats(full);
+      const editStats = stats(afterEdit);
+      out.push({
+        name: `segments.flags.${size}`, ...shape, flags: flagCount, afterOneCorrection: editStats,
+        reference: { name: 'every flag from scratch (new FlagEngine)', ...fullStats },
+        afterOneCorrectionToReference: r2(editStats.medianMs / fullStats.medianMs), loadavg1: load1(),
+      });
       // The corrections above were local: store them so the route sees the same text.
       await store.append(text.room, Y.encodeStateAsUpdate(textDoc, stored), null);
       await store.flush();
@@ -178,33 +230,41 @@ export async function run() {
       // The route over HTTP.
       const get = async () => {
         const t0 = performance.now();
-        const r = await fetch(`${server.url}/api/texts/${text.id}/segments`, { headers: { cookie } }).catch((err: unknown) => {
-          throw new Error(`segments request failed: ${String((err as Error).cause ?? err)}`);
-        });
-        const body = await r.text();
+        const { status, body, timing } = await getFresh(`${server.url}/api/texts/${text.id}/segments`, cookie);
         const ms = performance.now() - t0; // the answer received; parsing it is the client's cost
-        if (r.status !== 200) throw new Error(`segments: ${r.status}`);
-        return { ms, count: (JSON.parse(body) as unknown[]).length };
+        if (status !== 200) throw new Error(`segments: ${status}`);
+        return { ms, count: (JSON.parse(body) as unknown[]).length, timing, bytes: body.length };
       };
       const first = await get();
       note(`${size}: first request ${Math.round(first.ms)} ms`);
       const repeat: number[] = [];
-      for (let r = 0; r < 9; r++) repeat.push((await get()).ms);
+      const repeatServer: Array<Record<string, number>> = [];
+      for (let r = 0; r < 9; r++) {
+        const g = await get();
+        repeat.push(g.ms);
+        repeatServer.push(g.timing);
+      }
       const afterSegment: number[] = [];
       const afterCorrection: number[] = [];
+      const segmentServer: Array<Record<string, number>> = [];
+      const correctionServer: Array<Record<string, number>> = [];
       for (let r = 0; r < 7; r++) {
         const i = r % LAYERS;
         const s = Math.floor(rand() * (t.length - 200));
         await change(store, layerIds[i]!, layers[i]!, () => void addSegment(layers[i]!, textDoc, { codeId: codes[r]!, start: s, end: s + 120 }));
         await store.flush();
-        afterSegment.push((await get()).ms);
+        const gs = await get();
+        afterSegment.push(gs.ms);
+        segmentServer.push(gs.timing);
         const at = Math.floor(rand() * (t.length - 10));
         await change(store, text.room, textDoc, () => textDoc.transact(() => {
           t.delete(at, 3);
           t.insert(at, 'fixed');
         }));
         await store.flush();
-        afterCorrection.push((await get()).ms);
+        const gc = await get();
+        afterCorrection.push(gc.ms);
+        correctionServer.push(gc.timing);
       }
       const before: number[] = [];
       for (let r = 0; r < 3; r++) {
@@ -217,7 +277,10 @@ export async function run() {
       }
       out.push({
         name: `segments.route.${size}`, ...shape, answered: first.count, db: 'pglite',
-        firstMs: r2(first.ms), repeat: stats(repeat), afterNewSegment: stats(afterSegment), afterCorrection: stats(afterCorrection),
+        bodyBytes: first.bytes, firstMs: r2(first.ms), firstServerMs: first.timing,
+        repeat: stats(repeat), afterNewSegment: stats(afterSegment), afterCorrection: stats(afterCorrection),
+        // the server's own time (Server-Timing medians), apart from carrying the body to this in-process client
+        serverMs: { repeat: timingMedians(repeatServer), afterNewSegment: timingMedians(segmentServer), afterCorrection: timingMedians(correctionServer) },
         reference: { name: 'route work before the text cache: load documents from the log + segmentsWithFlags, in process (no HTTP)', ...stats(before) },
         targetMs: 100, loadavg1: load1(),
       });

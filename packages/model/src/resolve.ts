@@ -1,104 +1,204 @@
 import * as Y from 'yjs';
-import { getText } from './text-doc.js';
 import { decodeAnchor, type AnchorFields } from './anchor-codec.js';
-import { readTurns, turnIndexAt, type ResolvedTurn } from './turns.js';
+import { getText, getTurnsArray } from './text-doc.js';
+import { turnIndexAt, turnsAt, type ResolvedTurn } from './turns.js';
 import type { SegmentRecord } from './layer-doc.js';
 
 /**
- * Bulk anchor resolution in one pass over the text's items (DESIGN §2: one-by-one
+ * Bulk anchor resolution in one pass over the text's item list (DESIGN §2: one-by-one
  * `createAbsolutePositionFromRelativePosition` walks left from every anchor, which is quadratic-ish).
  *
- * 1. Each anchor's item is found by binary search in the struct store (per-client clock order).
- * 2. One walk over the text's item list gives each needed item the count of visible characters before it.
- * 3. An anchor's index is then computed exactly as Yjs does with followUndoneDeletions = false:
+ * 1. Each anchor's (client, clock, assoc) is read from its bytes into typed arrays (no object per anchor).
+ * 2. One walk over the text's items, in document order, counts the visible characters before each item.
+ *    Many anchors: the walk writes, for every clock of an item of a client some anchor names, where that
+ *    clock stands (an Int32Array per client, as long as the client's clock), and each anchor then reads
+ *    its entry. Few anchors: their keys are sorted and each item looks for its own by binary search, so
+ *    the walk can stop once all are found.
+ * 3. An anchor's index is computed exactly as Yjs does with followUndoneDeletions = false:
  *    a deleted target resolves to where it stood; a live one to its offset (+1 when assoc < 0).
+ * An anchor naming an item of another type, a garbage-collected struct or a clock not received yet
+ * resolves to null: such a clock is never met on the text's list.
+ *
+ * Why not find each anchor's item in the struct store by binary search (the previous version,
+ * resolve-by-item.ts, kept as the oracle): each probe reads an Item scattered in memory, and 20,000
+ * anchors x ~15 probes of cold cache lines were most of a cold resolution (cpu profile, issue 11); it
+ * cached the item on each anchor, so only a warm resolution was fast.
  */
 
-// Decoding and locating an anchor's item cost more than the walk itself, so both are cached on the
-// anchor (the Uint8Array values read from a layer stay the same objects until the segment changes).
-// The cache is a symbol-keyed property: invisible to encoders, JSON and Object.keys, and much cheaper
-// to read than a WeakMap lookup, which mattered at 20,000 anchors. A cached item is re-checked
-// before use: an item split by a later edit keeps its object but may no longer hold the clock.
-interface Located {
-  f: AnchorFields;
-  store: unknown;
-  item: Y.Item | null | undefined;
-}
-const CACHE = Symbol('gloss.anchor');
-type Cached = Uint8Array & { [CACHE]?: Located };
+/** Below this many item anchors the sorted-keys walk (early exit) beats filling clock tables. */
+const TABLE_FROM = 256;
+/** Clock tables larger than this in total (entries) fall back to the sorted-keys walk. */
+const TABLE_MAX = 1 << 24;
 
-interface StoreLike {
-  clients: Map<number, Array<Y.Item | Y.GC>>;
+const MALFORMED: AnchorFields = { client: null, clock: 0, assoc: 0, tname: null };
+
+interface Walked {
+  positions: Array<number | null>;
+  /** `text.toString()` when asked for (gathered on the same walk), else ''. */
+  str: string;
 }
 
-/** The text item an anchor names: null = the anchor names the type's start/end; undefined = not resolvable here. */
-function locate(anchor: Uint8Array, textDoc: Y.Doc, text: Y.Text): Located {
-  let c = (anchor as Cached)[CACHE];
-  const store = textDoc.store;
-  if (c !== undefined && c.store === store) {
-    const it = c.item;
-    if (it === null || (it !== undefined && it.id.clock <= c.f.clock && c.f.clock < it.id.clock + it.length)) return c;
+/** The anchors that name an item, in typed arrays: their index among all anchors, client, clock, assoc < 0. */
+interface Named {
+  m: number;
+  index: Int32Array;
+  clients: Float64Array;
+  clocks: Float64Array;
+  before: Uint8Array;
+  /** Each named client's clock (state vector entry). */
+  states: Map<number, number>;
+}
+
+function walk(textDoc: Y.Doc, anchors: readonly Uint8Array[], wantString: boolean): Walked {
+  const text = getText(textDoc);
+  const n = anchors.length;
+  const positions: Array<number | null> = new Array<number | null>(n).fill(null);
+  const a: Named = { m: 0, index: new Int32Array(n), clients: new Float64Array(n), clocks: new Float64Array(n), before: new Uint8Array(n), states: new Map() };
+  for (let i = 0; i < n; i++) {
+    const anchor = anchors[i]!;
+    let client = 0;
+    let clock = 0;
+    let assoc = 0;
+    if (anchor[0] === 0) {
+      // tag 0 (an item id), read in place: varUint client, varUint clock, optional varInt assoc
+      // (anchor-codec.ts reads the same layout into an object)
+      let p = 1;
+      let r = 0x80;
+      for (let mult = 1; r & 0x80; mult *= 128) {
+        r = p < anchor.length ? anchor[p++]! : -1;
+        if (r < 0) break;
+        client += (r & 0x7f) * mult;
+      }
+      for (let mult = 1, more = r >= 0; more; mult *= 128) {
+        r = p < anchor.length ? anchor[p++]! : -1;
+        if (r < 0) break;
+        clock += (r & 0x7f) * mult;
+        more = (r & 0x80) !== 0;
+      }
+      if (r < 0) continue; // truncated bytes from a misbehaving peer: unresolved
+      assoc = p < anchor.length && (anchor[p]! & 0x40) !== 0 ? -1 : 0;
+    } else {
+      let f: AnchorFields;
+      try {
+        f = decodeAnchor(anchor);
+      } catch {
+        f = MALFORMED; // bytes from a misbehaving peer: unresolved rather than failing every resolution
+      }
+      if (f.client === null) {
+        // the start or end of the text itself
+        if (f !== MALFORMED && f.tname !== null && (textDoc.share.get(f.tname) as unknown) === text) positions[i] = f.assoc >= 0 ? text.length : 0;
+        continue;
+      }
+      client = f.client;
+      clock = f.clock;
+      assoc = f.assoc;
+    }
+    let state = a.states.get(client);
+    if (state === undefined) a.states.set(client, (state = Y.getState(textDoc.store, client)));
+    if (clock >= state) continue; // not received yet
+    a.index[a.m] = i;
+    a.clients[a.m] = client;
+    a.clocks[a.m] = clock;
+    a.before[a.m] = assoc < 0 ? 1 : 0;
+    a.m++;
   }
-  let f: AnchorFields;
-  try {
-    f = c?.f ?? decodeAnchor(anchor);
-  } catch {
-    // bytes from a misbehaving peer: the segment shows as unresolved rather than failing every resolution
-    return { f: { client: null, clock: 0, assoc: 0, tname: null }, store, item: undefined };
-  }
-  let item: Y.Item | null | undefined;
-  if (f.client === null) {
-    item = f.tname !== null && (textDoc.share.get(f.tname) as unknown) === text ? null : undefined;
-  } else {
-    const structs = (store as unknown as StoreLike).clients.get(f.client);
-    const last = structs?.[structs.length - 1];
-    if (structs === undefined || last === undefined || last.id.clock + last.length <= f.clock) item = undefined; // not received yet
-    else {
-      const struct = structs[Y.findIndexSS(structs as never, f.clock)]!;
-      item = struct instanceof Y.Item && struct.parent === text ? struct : undefined;
+  if (a.m === 0 && !wantString) return { positions, str: '' };
+  let tableSize = 0;
+  for (const s of a.states.values()) tableSize += s;
+  return a.m >= TABLE_FROM && tableSize <= TABLE_MAX ? walkTables(text, positions, a, wantString) : walkSorted(text, positions, a, wantString);
+}
+
+/** Many anchors: one walk fills where each clock of the named clients stands; each anchor reads its entry. */
+function walkTables(text: Y.Text, positions: Array<number | null>, a: Named, wantString: boolean): Walked {
+  // entry: 0 = not on this text's list; pos + offset + 1 for a live item; -(pos + 1) for a deleted one
+  const tables = new Map<number, Int32Array>();
+  for (const [client, state] of a.states) tables.set(client, new Int32Array(state));
+  let pos = 0;
+  let str = '';
+  let lastClient = -1;
+  let table: Int32Array | undefined;
+  for (let it = text._start; it !== null; it = it.right) {
+    const id = it.id;
+    if (id.client !== lastClient) {
+      lastClient = id.client;
+      table = tables.get(lastClient);
+    }
+    const live = !it.deleted && it.countable;
+    if (table !== undefined) {
+      const c0 = id.clock;
+      const len = it.length;
+      if (live) for (let j = 0; j < len; j++) table[c0 + j] = pos + j + 1;
+      else table.fill(-(pos + 1), c0, c0 + len);
+    }
+    if (live) {
+      pos += it.length;
+      if (wantString && it.content instanceof Y.ContentString) str += it.content.str;
     }
   }
-  if (item === undefined) return { f, store, item }; // may become resolvable later: not cached
-  c = { f, store, item };
-  // plain assignment: defineProperty cost ~0.4 µs per anchor here; symbol keys stay out of JSON and Object.keys
-  if (Object.isExtensible(anchor)) (anchor as Cached)[CACHE] = c;
-  return c;
+  for (let k = 0; k < a.m; k++) {
+    const v = tables.get(a.clients[k]!)![a.clocks[k]!]!;
+    if (v === 0) continue;
+    positions[a.index[k]!] = v > 0 ? v - 1 + a.before[k]! : -v - 1;
+  }
+  return { positions, str };
+}
+
+/**
+ * Few anchors: sorted keys (clock * m + k per client; exact while clocks stay below 2^53 / m, far
+ * beyond any document) and a binary search per item of a named client; stops once all are found.
+ */
+function walkSorted(text: Y.Text, positions: Array<number | null>, a: Named, wantString: boolean): Walked {
+  const m = a.m;
+  const lists = new Map<number, number[]>();
+  for (let k = 0; k < m; k++) {
+    let l = lists.get(a.clients[k]!);
+    if (l === undefined) lists.set(a.clients[k]!, (l = []));
+    l.push(a.clocks[k]! * m + k);
+  }
+  const sorted = new Map<number, Float64Array>();
+  for (const [client, l] of lists) sorted.set(client, Float64Array.from(l).sort());
+  let pos = 0;
+  let str = '';
+  let found = 0;
+  let lastClient = -1;
+  let keys: Float64Array | undefined;
+  for (let it = text._start; it !== null; it = it.right) {
+    if (found === m && !wantString) break;
+    const id = it.id;
+    if (id.client !== lastClient) {
+      lastClient = id.client;
+      keys = sorted.get(lastClient);
+    }
+    const live = !it.deleted && it.countable;
+    if (keys !== undefined && found < m) {
+      const lo = id.clock * m;
+      const hi = (id.clock + it.length) * m;
+      let x = 0;
+      let y = keys.length;
+      while (x < y) {
+        const mid = (x + y) >>> 1;
+        if (keys[mid]! < lo) x = mid + 1;
+        else y = mid;
+      }
+      for (; x < keys.length && keys[x]! < hi; x++) {
+        const key = keys[x]!;
+        const clock = Math.floor(key / m);
+        const k = key - clock * m;
+        positions[a.index[k]!] = live ? pos + (clock - id.clock) + a.before[k]! : pos;
+        found++;
+      }
+    }
+    if (live) {
+      pos += it.length;
+      if (wantString && it.content instanceof Y.ContentString) str += it.content.str;
+    }
+  }
+  return { positions, str };
 }
 
 /** Resolve many anchors against one text document; null where an anchor cannot be resolved here. */
 export function resolveAnchors(textDoc: Y.Doc, anchors: readonly Uint8Array[]): Array<number | null> {
-  const text = getText(textDoc);
-  const n = anchors.length;
-  const located: Located[] = new Array(n);
-  const offsets = new Map<Y.Item, number>();
-  for (let i = 0; i < n; i++) {
-    const l = locate(anchors[i]!, textDoc, text);
-    located[i] = l;
-    if (l.item) offsets.set(l.item, -1);
-  }
-  if (offsets.size > 0) {
-    let pos = 0;
-    let remaining = offsets.size;
-    for (let it = text._start; it !== null && remaining > 0; it = it.right) {
-      if (offsets.get(it) === -1) {
-        offsets.set(it, pos);
-        remaining--;
-      }
-      if (!it.deleted && it.countable) pos += it.length;
-    }
-  }
-  const out: Array<number | null> = new Array(n);
-  const length = text.length;
-  for (let i = 0; i < n; i++) {
-    const { f, item } = located[i]!;
-    if (item === undefined) out[i] = null;
-    else if (item === null) out[i] = f.assoc >= 0 ? length : 0; // the start or end of the text itself
-    else {
-      const before = offsets.get(item)!;
-      out[i] = item.deleted || !item.countable ? before : before + (f.clock - item.id.clock) + (f.assoc >= 0 ? 0 : 1);
-    }
-  }
-  return out;
+  return walk(textDoc, anchors, false).positions;
 }
 
 export interface ResolvedSegment {
@@ -115,16 +215,18 @@ export interface ResolvedSegment {
   createdAt: number;
 }
 
-/** Resolve segments (from `listSegments`) against their text document in one pass. */
+/** Resolve segments (from `listSegments`) against their text document in one pass (turns and quotes from the same walk). */
 export function resolveSegments(textDoc: Y.Doc, segments: readonly SegmentRecord[], turns?: readonly ResolvedTurn[]): ResolvedSegment[] {
-  const anchors: Uint8Array[] = new Array(segments.length * 2);
+  const turnMaps = turns ? [] : getTurnsArray(textDoc).toArray();
+  const m = segments.length * 2;
+  const anchors: Uint8Array[] = new Array(m + turnMaps.length);
   segments.forEach((s, i) => {
     anchors[2 * i] = s.start;
     anchors[2 * i + 1] = s.end;
   });
-  const idx = resolveAnchors(textDoc, anchors);
-  const str = getText(textDoc).toString();
-  const turnList = turns ?? readTurns(textDoc);
+  turnMaps.forEach((t, i) => (anchors[m + i] = t.get('start') as Uint8Array));
+  const { positions: idx, str } = walk(textDoc, anchors, true);
+  const turnList = turns ?? turnsAt(turnMaps, idx.slice(m), getText(textDoc).length);
   return segments.map((s, i) => {
     const a = idx[2 * i];
     const b = idx[2 * i + 1];

@@ -16,7 +16,11 @@ export interface ResolvedTurn {
 export function readTurns(textDoc: Y.Doc): ResolvedTurn[] {
   const maps = getTurnsArray(textDoc).toArray();
   const starts = resolveAnchors(textDoc, maps.map((m) => m.get('start') as Uint8Array));
-  const length = textDoc.getText('text').length;
+  return turnsAt(maps, starts, textDoc.getText('text').length);
+}
+
+/** The turns from their maps and their start anchors already resolved (`resolveSegments` does it in its own walk). */
+export function turnsAt(maps: readonly Y.Map<unknown>[], starts: ReadonlyArray<number | null>, length: number): ResolvedTurn[] {
   const out: ResolvedTurn[] = [];
   let prev = 0;
   maps.forEach((m, i) => {

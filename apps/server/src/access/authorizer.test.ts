@@ -162,6 +162,41 @@ describe('room authorizer', () => {
     await addMember(database.db, seed.studyId, seed.users.coder2.id, 'coder');
   });
 
+  it('grantsFor decides all of a page\'s rooms with as many statements for eight rooms as for four, and the same grants', async () => {
+    // measured when this was written: 21 statements for 4 rooms and 46 for 8 deciding room by room; 8 for either now
+    // every statement the authorizer issues, counted on the real database
+    let statements = 0;
+    const counted = new Proxy(database.db, {
+      get(target, key, receiver) {
+        const value = Reflect.get(target, key, receiver) as unknown;
+        if (typeof value !== 'function' || !['select', 'selectDistinct', 'insert', 'update', 'delete', 'execute'].includes(String(key))) return value;
+        return (...args: unknown[]) => {
+          statements++;
+          return (value as (...a: unknown[]) => unknown).apply(target, args);
+        };
+      },
+    });
+    const batched = createRoomAuthorizer({ db: counted, sessions, publicUrl: undefined });
+    const layers = [coderLayer];
+    for (const p of ['coder2', 'lead', 'owner'] as const) layers.push(await ensureLayer(database.db, seed.studyId, seed.textId, seed.users[p].id));
+    const session = (await sessions.validate(cookie.lead!.slice('gloss_session='.length), { extend: false }))!;
+    const page = (n: number) => [seed.textRoom, seed.codebookRoom, seed.memosRoom, ...layers.slice(0, n)];
+    const views = async () => (await database.db.select().from(auditLog).where(eq(auditLog.action, 'layer.view'))).length;
+
+    statements = 0;
+    const viewsBefore = await views();
+    const one = await batched.grantsFor(session, page(1));
+    const forFour = statements;
+    statements = 0;
+    const all = await batched.grantsFor(session, [...page(4), '6f1c1d2e-0000-4000-8000-000000000000', 'not-a-room']);
+    expect(statements).toBe(forFour);
+    expect(one.map((g) => g.room)).toEqual(page(1));
+    expect(all.map((g) => g.room)).toEqual(page(4));
+    for (const g of all) expect(g).toEqual(await grant('lead', g.room));
+    // the lead viewed three others' layers in the second page and one in the first (their own is not logged)
+    expect((await views()) - viewsBefore).toBe(1 + 3 + 3); // + the three upgrades just compared
+  });
+
   it('keeps every plain reason within a WebSocket close frame (123 bytes, RFC 6455 §5.5)', () => {
     for (const reason of Object.values(LOST_ACCESS)) expect(new TextEncoder().encode(reason).length).toBeLessThanOrEqual(123);
   });

@@ -6,18 +6,21 @@
  * changed, a session ended), from its session id instead of the HTTP request.
  */
 import type { IncomingMessage } from 'node:http';
-import type { Db } from '@gloss/db';
+import type { Db, documents } from '@gloss/db';
 import { isAllowedOrigin } from '../auth/origin.js';
 import { readSessionToken } from '../auth/cookies.js';
 import { looksLikeToken, sessionIdFromToken } from '../auth/tokens.js';
 import type { SessionService, ValidSession } from '../auth/sessions.js';
-import { recordAudit } from '../admin/audit.js';
+import { recordAudits } from '../admin/audit.js';
 import { HttpError, forbidden, notFound, unauthenticated } from '../errors.js';
-import type { Recheck, RoomAuthorizer, RoomGrant } from '../sync/contracts.js';
+import type { Recheck, Role, RoomAuthorizer, RoomGrant } from '../sync/contracts.js';
 import { AppCloseCode } from '../sync/errors.js';
-import { findDocument, findRetired, retiredClientsOf, roleIn } from './membership.js';
-import { decideDocument } from './rounds.js';
-import { memoReaderView } from './memo-view.js';
+import { isUuid } from '../ids.js';
+import { findDocuments, findRetiredMany, retiredClientsOfMany, rolesIn } from './membership.js';
+import { memoReaderView, type MemoReaderView } from './memo-view.js';
+import { documentAccess, type DocSupervision } from './policy.js';
+import { roundsForDocument, type DocRounds } from './rounds.js';
+import { supervisionFor } from './supervision.js';
 import type { TicketBook } from './tickets.js';
 
 export interface AuthorizerDeps {
@@ -46,7 +49,7 @@ export const LOST_ACCESS = {
   notMember: 'You are no longer a member of this study.',
   mayNotRead: 'Your role in this study no longer lets you open this document.',
   gone: 'This document was deleted.',
-  replaced: 'This document was rebuilt after de-identification: your copy on this device must be discarded.',
+  replaced: 'This text was rebuilt after de-identification: your copy on this device must be discarded.',
 } as const;
 
 /** `viewed`: someone else's layer (its coder and text), for the access log. */
@@ -57,63 +60,28 @@ type Decision =
 export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now, tickets }: AuthorizerDeps): SessionAuthorizer {
   /** The one rule: may this signed-in person open this room now, and may they write? */
   async function decide(session: ValidSession, room: string): Promise<Decision> {
-    // A purge retires the text's old room before it deletes it: connections to it must drop their copy.
-    const retired = await findRetired(db, room);
-    if (retired) {
-      const role = await roleIn(db, retired.studyId, session.user.id);
-      if (!role) return { ok: false, status: 403, reason: LOST_ACCESS.notMember };
-      return { ok: false, status: 410, reason: LOST_ACCESS.replaced, closeCode: AppCloseCode.replaced };
-    }
-    const doc = await findDocument(db, room);
-    if (!doc) return { ok: false, status: 404, reason: LOST_ACCESS.gone, closeCode: AppCloseCode.deleted };
-    const role = await roleIn(db, doc.studyId, session.user.id);
-    if (!role) return { ok: false, status: 403, reason: LOST_ACCESS.notMember };
-    // Rounds narrow the role table per document (an independent phase); `reason` says why in plain words.
-    const access = await decideDocument(db, doc, role, session.user.id);
-    if (!access.read) return { ok: false, status: 403, reason: access.reason ?? LOST_ACCESS.mayNotRead };
-    // A rebuilt room refuses structs of the documents it replaced: an old copy must not bring the originals back.
-    const retiredClients = await retiredClientsOf(db, doc.id);
-    return {
-      ok: true,
-      viewed: doc.kind === 'layer' && doc.coderId !== session.user.id ? { coderId: doc.coderId, textId: doc.textId } : null,
-      grant: {
-        // The stored id, not the URL's spelling: `/sync/<UPPER-CASE-ID>` joins the same room.
-        room: doc.id,
-        docId: doc.id,
-        studyId: doc.studyId,
-        kind: doc.kind,
-        userId: session.user.id,
-        userName: session.user.name,
-        sessionId: session.sessionId,
-        sessionExpiresAt: session.expiresAt,
-        role,
-        canWrite: access.write || access.writeRule !== undefined,
-        ...(access.writeRule ? { writeRule: access.writeRule } : {}),
-        hidePointing: access.hidePointing,
-        // the memos document is study-wide: which of its entries this reader receives (memo-view.ts)
-        ...(doc.kind === 'memos' ? { memoView: await memoReaderView(db, doc.studyId, session.user.id, role) } : {}),
-        ...(retiredClients.length > 0 ? { retiredClients } : {}),
-      },
-    };
+    return decideFrom(session, room, await roomFacts(db, session.user.id, [room]));
   }
 
   /** Who viewed whose layer is part of the access log (DESIGN §6). */
   async function audit(decision: Decision & { ok: true }): Promise<void> {
-    if (!decision.viewed) return;
-    const { grant } = decision;
-    await recordAudit(db, { userId: grant.userId, studyId: grant.studyId, action: 'layer.view', target: grant.docId, detail: decision.viewed });
+    await auditMany([decision]);
+  }
+  async function auditMany(decisions: ReadonlyArray<Decision & { ok: true }>): Promise<void> {
+    const entries = decisions.flatMap(({ grant, viewed }) =>
+      viewed ? [{ userId: grant.userId, studyId: grant.studyId, action: 'layer.view', target: grant.docId, detail: viewed }] : [],
+    );
+    if (entries.length > 0) await recordAudits(db, entries);
   }
 
   return {
     async grantsFor(session, rooms) {
-      const out: RoomGrant[] = [];
-      for (const room of rooms) {
-        const decision = await decide(session, room);
-        if (!decision.ok) continue;
-        await audit(decision);
-        out.push(decision.grant);
-      }
-      return out;
+      // One set of lookups for all of a page's rooms (they share a study and mostly a text), then the
+      // same decision per room as at the upgrade; the layer views go into the access log in one insert.
+      const facts = await roomFacts(db, session.user.id, rooms);
+      const granted = rooms.map((room) => decideFrom(session, room, facts)).filter((d): d is Decision & { ok: true } => d.ok);
+      await auditMany(granted);
+      return granted.map((d) => d.grant);
     },
 
     async authorize(req: IncomingMessage, room: string): Promise<RoomGrant> {
@@ -155,6 +123,88 @@ export function createRoomAuthorizer({ db, sessions, publicUrl, now = Date.now, 
       }
       const decision = await decide(session, grant.docId);
       return decision.ok ? { ok: true, grant: decision.grant } : { ok: false, reason: decision.reason, ...(decision.closeCode ? { closeCode: decision.closeCode } : {}) };
+    },
+  };
+}
+
+/** What deciding about some rooms needs to know, read for all of them at once. */
+interface RoomFacts {
+  retired: Map<string, { studyId: string }>;
+  docs: Map<string, DocRow>;
+  roles: Map<string, Role>;
+  rounds: Map<string, DocRounds>;
+  supervision: Map<string, DocSupervision>;
+  /** Per rebuilt document, the client ids of the documents it replaced. */
+  retiredClients: Map<string, number[]>;
+  /** Per study whose memos room is asked for: which of its entries this reader receives. */
+  memoViews: Map<string, MemoReaderView>;
+}
+type DocRow = typeof documents.$inferSelect;
+
+const key = (doc: { textId: string | null; roundId: string | null }) => `${doc.textId ?? ''}/${doc.roundId ?? ''}`;
+
+/**
+ * The rows every decision reads, for many rooms in a fixed number of statements: retired rooms,
+ * documents, the person's roles in their studies, and per text its rounds and supervision facts (the
+ * same functions the single decision used, called once per distinct text instead of once per room).
+ * Rounds and supervision are read only where the person is a member: a non-member is refused before.
+ */
+async function roomFacts(db: Db, userId: string, rooms: readonly string[]): Promise<RoomFacts> {
+  const ids = [...new Set(rooms.filter(isUuid).map((r) => r.toLowerCase()))];
+  const [retired, docs] = await Promise.all([findRetiredMany(db, ids), findDocuments(db, ids)]);
+  const roles = await rolesIn(db, [...new Set([...retired.values(), ...docs.values()].map((r) => r.studyId))], userId);
+  const member = [...docs.values()].filter((d) => roles.has(d.studyId));
+  const textBound = new Map(member.map((d) => [key(d), d]));
+  const [rounds, supervision, retiredClients, memoViews] = await Promise.all([
+    Promise.all([...textBound].map(async ([k, d]) => [k, await roundsForDocument(db, d)] as const)),
+    Promise.all([...new Set(member.map((d) => d.textId))].map(async (t) => [t ?? '', await supervisionFor(db, t, userId)] as const)),
+    retiredClientsOfMany(db, member.map((d) => d.id)),
+    Promise.all(
+      [...new Set(member.filter((d) => d.kind === 'memos').map((d) => d.studyId))].map(async (studyId) => [studyId, await memoReaderView(db, studyId, userId, roles.get(studyId)!)] as const),
+    ),
+  ]);
+  return { retired, docs, roles, rounds: new Map(rounds), supervision: new Map(supervision), retiredClients, memoViews: new Map(memoViews) };
+}
+
+/** The decision about one room from facts read ahead (pure): retired, unknown, not a member, then rounds and supervision. */
+function decideFrom(session: ValidSession, room: string, facts: RoomFacts): Decision {
+  const id = room.toLowerCase();
+  // A purge retires the text's old room before it deletes it: connections to it must drop their copy.
+  const retired = isUuid(room) ? facts.retired.get(id) : undefined;
+  if (retired) {
+    if (!facts.roles.get(retired.studyId)) return { ok: false, status: 403, reason: LOST_ACCESS.notMember };
+    return { ok: false, status: 410, reason: LOST_ACCESS.replaced, closeCode: AppCloseCode.replaced };
+  }
+  const doc = isUuid(room) ? facts.docs.get(id) : undefined;
+  if (!doc) return { ok: false, status: 404, reason: LOST_ACCESS.gone, closeCode: AppCloseCode.deleted };
+  const role = facts.roles.get(doc.studyId);
+  if (!role) return { ok: false, status: 403, reason: LOST_ACCESS.notMember };
+  // Rounds narrow the role table per document (an independent phase); `reason` says why in plain words.
+  const access = documentAccess(role, doc, session.user.id, facts.rounds.get(key(doc))!, facts.supervision.get(doc.textId ?? '')!);
+  if (!access.read) return { ok: false, status: 403, reason: access.reason ?? LOST_ACCESS.mayNotRead };
+  // A rebuilt room refuses structs of the documents it replaced: an old copy must not bring the originals back.
+  const retiredClients = facts.retiredClients.get(doc.id) ?? [];
+  const memoView = doc.kind === 'memos' ? facts.memoViews.get(doc.studyId) : undefined;
+  return {
+    ok: true,
+    viewed: doc.kind === 'layer' && doc.coderId !== session.user.id ? { coderId: doc.coderId, textId: doc.textId } : null,
+    grant: {
+      // The stored id, not the URL's spelling: `/sync/<UPPER-CASE-ID>` joins the same room.
+      room: doc.id,
+      docId: doc.id,
+      studyId: doc.studyId,
+      kind: doc.kind,
+      userId: session.user.id,
+      userName: session.user.name,
+      sessionId: session.sessionId,
+      sessionExpiresAt: session.expiresAt,
+      role,
+      canWrite: access.write || access.writeRule !== undefined,
+      ...(access.writeRule ? { writeRule: access.writeRule } : {}),
+      hidePointing: access.hidePointing,
+      // the memos document is study-wide: which of its entries this reader receives (memo-view.ts)
+      ...(memoView ? { memoView } : {}),
+      ...(retiredClients.length > 0 ? { retiredClients } : {}),
     },
   };
 }

@@ -10,11 +10,19 @@ export interface AuditEntry {
 }
 
 export async function recordAudit(db: Db, entry: AuditEntry): Promise<void> {
-  await db.insert(auditLog).values({
-    userId: entry.userId,
-    studyId: entry.studyId,
-    action: entry.action,
-    target: entry.target ?? null,
-    detail: entry.detail ?? null,
-  });
+  await recordAudits(db, [entry]);
+}
+
+/** Several entries in one insert (a page's opening request records every layer it hands out). */
+export async function recordAudits(db: Db, entries: readonly AuditEntry[]): Promise<void> {
+  if (entries.length === 0) return;
+  await db.insert(auditLog).values(
+    entries.map((entry) => ({
+      userId: entry.userId,
+      studyId: entry.studyId,
+      action: entry.action,
+      target: entry.target ?? null,
+      detail: entry.detail ?? null,
+    })),
+  );
 }

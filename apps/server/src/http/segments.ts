@@ -31,14 +31,17 @@ export function segmentRoutes(deps: AppDeps) {
   const cache = deps.store && 'since' in deps.store ? createTextCache({ store: deps.store as TextCacheStore }) : null;
 
   app.get('/:textId/segments', async (c) => {
+    const started = performance.now();
     const store = requireStore(deps);
     const { text, me, role } = await textRole(deps, c);
     const textId = text.id;
     const { textDocId, layers } = await textDocuments(deps.db, textId, role, me);
     const cbId = await codebookDocId(deps.db, text.studyId);
     const ids = [textDocId, ...layers.map((l) => l.layerDocId), ...(cbId ? [cbId] : [])];
-    const body = cache
-      ? (await cache.segments({ textId, textDocId, codebookId: cbId, layers })).body
+    const lookedUp = performance.now();
+    const cached = cache ? await cache.segments({ textId, textDocId, codebookId: cbId, layers }) : null;
+    const body = cached
+      ? cached.body
       : JSON.stringify(
           await withDocs(store, ids, ([textDoc, ...rest]) => {
             const codebook = cbId ? rest.pop()! : createCodebookDoc();
@@ -54,7 +57,12 @@ export function segmentRoutes(deps: AppDeps) {
       // Who read whose coding is part of the access log (DESIGN §6), as when a layer room is opened.
       await recordAudit(deps.db, { userId: me, studyId: text.studyId, action: 'segments.view', target: textId, detail: { coderIds: others } });
     }
-    return c.body(body, 200, { 'content-type': 'application/json' });
+    // where the server's time went (Server-Timing, W3C): the bench and a browser's network panel read it
+    const ms = (x: number) => x.toFixed(1);
+    const timing = [`access;dur=${ms(lookedUp - started)}`];
+    if (cached) timing.push(`refresh;dur=${ms(cached.timings.refresh)}`, `compute;dur=${ms(cached.timings.compute)}`, `json;dur=${ms(cached.timings.json)}`);
+    timing.push(`total;dur=${ms(performance.now() - started)}`);
+    return c.body(body, 200, { 'content-type': 'application/json', 'server-timing': timing.join(', ') });
   });
 
   return app;

@@ -16,7 +16,7 @@ import * as Y from 'yjs';
 import type { CoderChoice } from '../agreement/coders.js';
 import type { VisibleLayer } from '../http/text-layers.js';
 import type { UpdateStore } from '../sync/contracts.js';
-import { segmentsWithFlags, type SegmentOut } from './with-flags.js';
+import { resolveLayers, segmentsWithFlags, type LayerResolution, type ResolveLayers, type SegmentOut } from './with-flags.js';
 
 const MAX_ANSWERS = 8;
 
@@ -36,6 +36,8 @@ class LiveDoc {
   readonly doc = new Y.Doc({ gc: false });
   /** Bumped whenever something new was applied: part of the answer's key. */
   version = 0;
+  /** For a layer: its records and their resolution, as of this version and the text's version then. */
+  resolution: { version: number; textVersion: number; value: LayerResolution } | null = null;
   private cursor = 0;
   private lastHigh = 0;
   private readonly applied = new Set<number>();
@@ -96,6 +98,8 @@ export interface SegmentsAnswer {
   count: number;
   /** How the answer was made: kept as it was, refreshed after changes, or built from the log. */
   source: 'kept' | 'refreshed' | 'loaded';
+  /** Milliseconds spent reading the log, computing the segments and flags, and writing the JSON. */
+  timings: { refresh: number; compute: number; json: number };
 }
 
 export interface TextCache {
@@ -160,15 +164,29 @@ export function createTextCache(o: TextCacheOptions): TextCache {
       }
       return d;
     });
+    const t0 = performance.now();
     await Promise.all(live.map((d) => d.refresh()));
+    const t1 = performance.now();
     const key = JSON.stringify([layers.map((l) => [l.layerDocId, l.coderId, l.roundId ?? null]), choice]);
     const versions = live.map((d) => d.version).join(',');
     const kept = e.answers.get(key);
-    if (kept && kept.versions === versions) return { body: kept.body, count: kept.count, source: 'kept' };
+    if (kept && kept.versions === versions) return { body: kept.body, count: kept.count, source: 'kept', timings: { refresh: t1 - t0, compute: 0, json: 0 } };
 
     const textDoc = e.docs.get(e.textDocId)!.doc;
     const codebook = e.codebookId ? e.docs.get(e.codebookId)!.doc : (e.emptyCodebook ??= createCodebookDoc());
     const used = new Set<string>();
+    // Each layer's records and resolution stay while neither the layer nor the text moved: a new segment
+    // re-reads and re-resolves one layer; a text correction re-resolves all of them, in one walk.
+    const textVersion = e.docs.get(e.textDocId)!.version;
+    const resolveKept: ResolveLayers = (td, ls) => {
+      const docs = ls.map((l) => e.docs.get(l.layerDocId)!);
+      const stale = docs.map((d, i) => [d, i] as const).filter(([d]) => d.resolution?.version !== d.version || d.resolution.textVersion !== textVersion);
+      if (stale.length > 0) {
+        const fresh = resolveLayers(td, stale.map(([, i]) => ls[i]!));
+        stale.forEach(([d], k) => (d.resolution = { version: d.version, textVersion, value: fresh[k]! }));
+      }
+      return docs.map((d) => d.resolution!.value);
+    };
     const out: SegmentOut[] = segmentsWithFlags(
       textDoc,
       codebook,
@@ -185,6 +203,7 @@ export function createTextCache(o: TextCacheOptions): TextCache {
         if (!g) e.engines.set(group, (g = { layers: names, engine: new FlagEngine({ textDoc, codebook, layers: sources }) }));
         return g.engine.flags();
       },
+      resolveKept,
     );
     for (const [group, g] of e.engines) {
       if (!used.has(group)) {
@@ -192,12 +211,14 @@ export function createTextCache(o: TextCacheOptions): TextCache {
         e.engines.delete(group);
       }
     }
+    const t2 = performance.now();
     const body = JSON.stringify(out);
+    const t3 = performance.now();
     e.answers.delete(key);
     e.answers.set(key, { versions, body, count: out.length });
     // One answer per distinct view (role, layers, choice); a handful at most is worth keeping.
     while (e.answers.size > MAX_ANSWERS) e.answers.delete(e.answers.keys().next().value!);
-    return { body, count: out.length, source: fresh ? 'loaded' : 'refreshed' };
+    return { body, count: out.length, source: fresh ? 'loaded' : 'refreshed', timings: { refresh: t1 - t0, compute: t2 - t1, json: t3 - t2 } };
   }
 
   return {

@@ -6,7 +6,7 @@
  * layers and a consensus layer are flagged each among their own kind: a coder's round layer and their
  * own layer outside it are not two coders, nor duplicates of each other.
  */
-import { computeFlags, listSegments, readTurns, resolveSegments, type Flag, type LayerSource } from '@gloss/model';
+import { computeFlags, listSegments, resolveSegments, type Flag, type LayerSource, type ResolvedSegment, type SegmentRecord } from '@gloss/model';
 import type * as Y from 'yjs';
 import { countedOn, decideCoders, type CoderChoice } from '../agreement/coders.js';
 import { comparedAs, type VisibleLayer } from '../http/text-layers.js';
@@ -33,6 +33,25 @@ export interface SegmentOut {
  */
 export type GroupFlags = (group: string, layers: LayerSource[]) => Flag[];
 
+/** Each layer's segment records and their resolution, in the same order. */
+export interface LayerResolution {
+  records: SegmentRecord[];
+  resolved: ResolvedSegment[];
+}
+
+/**
+ * Reads and resolves the layers' segments. The default reads every layer and resolves them all in one
+ * walk of the text; the text cache keeps each layer's result while neither it nor the text changed.
+ */
+export type ResolveLayers = (textDoc: Y.Doc, layers: ReadonlyArray<VisibleLayer & { doc: Y.Doc }>) => LayerResolution[];
+
+export const resolveLayers: ResolveLayers = (textDoc, layers) => {
+  const records = layers.map((l) => listSegments(l.doc));
+  const resolved = resolveSegments(textDoc, records.flat());
+  let k = 0;
+  return records.map((r) => ({ records: r, resolved: resolved.slice(k, (k += r.length)) }));
+};
+
 const cmp = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
 
 export function segmentsWithFlags(
@@ -41,9 +60,10 @@ export function segmentsWithFlags(
   layers: Array<VisibleLayer & { doc: Y.Doc }>,
   choice: CoderChoice = {},
   groupFlags: GroupFlags = (_group, sources) => computeFlags({ textDoc, codebook, layers: sources }),
+  resolve: ResolveLayers = resolveLayers,
 ): SegmentOut[] {
-  const turns = readTurns(textDoc);
-  const records = new Map(layers.map((l) => [l, listSegments(l.doc)]));
+  const perLayer = resolve(textDoc, layers);
+  const records = new Map(layers.map((l, i) => [l, perLayer[i]!.records]));
   const groups = new Map<string, Array<VisibleLayer & { doc: Y.Doc }>>();
   for (const l of layers) {
     const key = l.coderId === null ? `consensus:${l.layerDocId}` : (l.roundId ?? '');
@@ -54,32 +74,37 @@ export function segmentsWithFlags(
     const flagged = group.filter((l) => counted.includes(comparedAs(l)));
     return groupFlags(key, flagged.map((l) => ({ layerId: l.layerDocId, coder: comparedAs(l), doc: l.doc })));
   });
-  const kinds = new Map<string, Set<string>>();
+  // each segment's flag kinds, by layer then segment id (no composite string keys: 10,000s of them)
+  const kinds = new Map<string, Map<string, string[]>>();
   for (const f of flags) {
     for (const ref of f.segments) {
-      const key = `${ref.layerId}/${ref.segmentId}`;
-      let set = kinds.get(key);
-      if (!set) kinds.set(key, (set = new Set()));
-      set.add(f.kind);
+      let byId = kinds.get(ref.layerId);
+      if (!byId) kinds.set(ref.layerId, (byId = new Map()));
+      const list = byId.get(ref.segmentId);
+      if (!list) byId.set(ref.segmentId, [f.kind]);
+      else if (!list.includes(f.kind)) list.push(f.kind);
     }
   }
   const out: SegmentOut[] = [];
-  for (const l of layers) {
-    for (const s of resolveSegments(textDoc, records.get(l)!, turns)) {
+  layers.forEach((l, i) => {
+    const byId = kinds.get(l.layerDocId);
+    const kind = l.coderId === null ? 'consensus' : 'coder';
+    const round = l.roundId ?? null;
+    for (const s of perLayer[i]!.resolved) {
       if (s.unresolved) continue; // names text this server has not stored: nothing true to say about it
       out.push({
         id: s.id,
         coderId: l.coderId,
         layer: l.layerDocId,
-        round: l.roundId ?? null,
-        kind: l.coderId === null ? 'consensus' : 'coder',
+        round,
+        kind,
         codeId: s.codeId,
         start: s.start,
         end: s.end,
         quote: s.quote,
-        flags: [...(kinds.get(`${l.layerDocId}/${s.id}`) ?? [])].sort(),
+        flags: byId?.get(s.id)?.slice().sort() ?? [],
       });
     }
-  }
+  });
   return out.sort((a, b) => a.start - b.start || a.end - b.end || cmp(a.coderId ?? '', b.coderId ?? '') || cmp(a.layer, b.layer) || cmp(a.id, b.id));
 }
