@@ -126,6 +126,12 @@ export async function startServer(
     );
 
     const server = serve({ fetch: app.fetch, port: config.port, hostname: config.host }) as Server;
+    // Node closes an idle kept-alive socket after 5 s, and a client that picks that socket for its next
+    // request in the same instant gets a reset instead of an answer (seen on a loaded machine in tests).
+    // A long idle window, longer than a reverse proxy's (nginx keeps upstream sockets 60 s), makes that
+    // race rare for browsers, scripts and proxies alike; headersTimeout must exceed it.
+    server.keepAliveTimeout = 65_000;
+    server.headersTimeout = 66_000;
     await new Promise<void>((resolve, reject) => {
       server.once('listening', resolve);
       server.once('error', reject);
