@@ -55,10 +55,10 @@ describe.each(dbKinds())('PgUpdateStore on %s', (kind) => {
   it('refuses an append to a document that is gone, alone: the rest of its batch is stored (small, literal and unnest batches)', async () => {
     // A purge deletes the retired document's row; an append arriving later must not fail everyone's batch (insert-batch.ts).
     const store = createPgUpdateStore(database, { compactMinBytes: 0 });
-    const { docIds: [gone] } = await seedDocuments(database, 1);
+    const { docIds: [gone, live] } = await seedDocuments(database, 2); // its own: the bytes below are not Yjs updates
     await database.db.execute(sql`delete from documents where id = ${gone!}::uuid`);
     for (const n of [2, 40, 300]) {
-      const results = await Promise.allSettled(Array.from({ length: n }, (_, i) => store.append(i % 2 === 0 ? gone! : docIds[3]!, Uint8Array.of(n, i % 256), null)));
+      const results = await Promise.allSettled(Array.from({ length: n }, (_, i) => store.append(i % 2 === 0 ? gone! : live!, Uint8Array.of(n, i % 256), null)));
       expect(results.filter((r) => r.status === 'fulfilled')).toHaveLength(Math.floor(n / 2));
       for (const r of results.filter((x) => x.status === 'rejected')) expect((r as PromiseRejectedResult).reason).toMatchObject({ code: 'document-gone' });
     }
