@@ -14,7 +14,8 @@ const toSchema = (s: z.ZodType) => {
   const { $schema: _drop, ...rest } = z.toJSONSchema(s, { target: 'draft-2020-12', io: 'input' }) as Record<string, unknown>;
   return rest;
 };
-const body = (s: z.ZodType) => ({ required: true, ...json(toSchema(s)) });
+/** A required JSON request body from a zod schema (also used by the other openapi-*.ts files). */
+export const body = (s: z.ZodType) => ({ required: true, ...json(toSchema(s)) });
 const obj = (properties: Record<string, object>) => ({ type: 'object', properties });
 const str = { type: 'string' };
 const when = { type: 'string', format: 'date-time' };

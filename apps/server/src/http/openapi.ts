@@ -9,6 +9,7 @@ import * as S from './schemas.js';
 import { codingPaths } from './openapi-coding.js';
 import { exchangePaths } from './openapi-exchange.js';
 import { peoplePaths } from './openapi-people.js';
+import { deidPaths } from './openapi-deid.js';
 import { roundPaths, roundSchemas } from './openapi-rounds.js';
 import { supervisionPaths } from './openapi-supervision.js';
 
@@ -204,6 +205,7 @@ export function buildOpenApi() {
       ...codingPaths,
       ...exchangePaths,
       ...peoplePaths,
+      ...deidPaths,
       ...roundPaths,
       ...supervisionPaths,
     },
