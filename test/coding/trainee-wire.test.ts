@@ -23,8 +23,8 @@ import type { Db } from '@gloss/db';
 import { addMemo, addReply, addSegment, listMemos, newLayerDoc, removeMemo } from '@gloss/model';
 import { addTextFromTranscript, transcriptFromPlainText } from '../../apps/server/src/admin/index.js';
 import { ensureLayer } from '../../apps/server/src/admin/texts.js';
-import { readZip } from '../../packages/interchange/src/refi/zip-read.js';
 import { upgradeStatus, webSocketWithHeaders } from '../support/http.js';
+import { sweepGetRoutes } from '../support/route-sweep.js';
 import { spawnServer, type SpawnedServer } from '../support/server.js';
 import { waitFor } from '../support/wait.js';
 import { decodeFrame, markersIn, recordingWebSocket, type Frame } from '../rounds/frames.js';
@@ -190,25 +190,12 @@ describe(`a trainee at the wire (one node, ${kind})`, () => {
     const elsewhere = ['/api/studies/{studyId}/comments/events', '/api/studies/{studyId}/events', '/api/invitations/{token}', '/api/password-resets/{token}'];
     let calls = 0;
     const seen = new Set<string>();
-    for (const [path, item] of Object.entries(spec.paths)) {
-      if (!item.get || elsewhere.includes(path)) continue;
-      const params = [...path.matchAll(/\{(\w+)\}/g)].map((m) => m[1]!);
-      for (const p of params) expect(values[p], `a value for {${p}} of ${path}`).toBeDefined();
-      let urls = [path];
-      for (const p of params) urls = urls.flatMap((u) => values[p]!.map((v) => u.replace(`{${p}}`, v)));
-      for (const u of urls) {
-        for (const q of queries[path] ?? ['']) {
-          // fetch undoes the opening's brotli or gzip, so its Yjs states are scanned as sent
-          const res = await fetch(`${server.url}${u}${q}`, { headers: { cookie: trainee.cookie, origin: server.url } });
-          const bytes = new Uint8Array(await res.arrayBuffer());
-          calls++;
-          if (u.includes(s.hiddenTextId)) expect(res.status, `GET ${u}${q}`).toBeGreaterThanOrEqual(400);
-          const parts = bytes[0] === 0x50 && bytes[1] === 0x4b ? [...readZip(bytes, () => true).values()] : [bytes];
-          for (const part of parts) {
-            expect(markersIn(part, hidden), `GET ${u}${q} (${res.status})`).toEqual([]);
-            for (const m of markersIn(part, Object.values(SEEN))) seen.add(`${path}:${m}`);
-          }
-        }
+    for await (const { path, url, status, parts } of sweepGetRoutes(server.url, trainee.cookie, { spec, values, queries, skip: elsewhere })) {
+      calls++;
+      if (url.includes(s.hiddenTextId)) expect(status, `GET ${url}`).toBeGreaterThanOrEqual(400);
+      for (const part of parts) {
+        expect(markersIn(part, hidden), `GET ${url} (${status})`).toEqual([]);
+        for (const m of markersIn(part, Object.values(SEEN))) seen.add(`${path}:${m}`);
       }
     }
     // The opening of the assigned text carries the memos the trainee may read: the scan sees memos there.

@@ -20,10 +20,10 @@ import { WebsocketProvider } from 'y-websocket';
 import * as Y from 'yjs';
 import type { Db } from '@gloss/db';
 import { addMemo, addSegment, listMemos, listSegments } from '@gloss/model';
-import { readZip } from '../../packages/interchange/src/refi/zip-read.js';
 import { apiClient, upgradeStatus, webSocketWithHeaders } from '../support/http.js';
 import type { Person } from '../support/seed.js';
 import { spawnServer, type SpawnedServer } from '../support/server.js';
+import { sweepGetRoutes } from '../support/route-sweep.js';
 import { waitFor } from '../support/wait.js';
 import { decodeFrame, markersIn, recordingWebSocket, type Frame } from './frames.js';
 import { clientsFor, seedRoundsWithCoder2Base, startRoundOfThree, type Client, type Coder2Seed, type RoundOut } from './support.js';
@@ -286,23 +286,11 @@ describe(`independent coding at the wire (${twoNodes ? 'two nodes, PostgreSQL an
     const own = segIds[who]!;
     let calls = 0;
     let sawOwn = false;
-    for (const [path, item] of Object.entries(spec.paths)) {
-      if (!item.get || elsewhere.includes(path)) continue;
-      const params = [...path.matchAll(/\{(\w+)\}/g)].map((m) => m[1]!);
-      for (const p of params) expect(values[p], `a value for {${p}} of ${path}`).toBeDefined();
-      let urls = [path];
-      for (const p of params) urls = urls.flatMap((u) => values[p]!.map((v) => u.replace(`{${p}}`, v)));
-      for (const u of urls) {
-        for (const q of queries[path] ?? ['']) {
-          const res = await fetch(`${a.url}${u}${q}`, { headers: { cookie: as[who].cookie, origin: a.url } });
-          const bytes = new Uint8Array(await res.arrayBuffer());
-          calls++;
-          const parts = bytes[0] === 0x50 && bytes[1] === 0x4b ? [...readZip(bytes, () => true).values()] : [bytes];
-          for (const part of parts) {
-            expect(markersIn(part, markers), `${who}: GET ${u}${q} (${res.status})`).toEqual([]);
-            if (path === '/api/texts/{textId}/segments' && markersIn(part, [own]).length) sawOwn = true;
-          }
-        }
+    for await (const { path, url, status, parts } of sweepGetRoutes(a.url, as[who].cookie, { spec, values, queries, skip: elsewhere })) {
+      calls++;
+      for (const part of parts) {
+        expect(markersIn(part, markers), `${who}: GET ${url} (${status})`).toEqual([]);
+        if (path === '/api/texts/{textId}/segments' && markersIn(part, [own]).length) sawOwn = true;
       }
     }
     expect(sawOwn, `${who}'s own round segment is served to them`).toBe(true);
