@@ -17,7 +17,7 @@ import { entryFacts, mayReadEntry, seesEverything, type MemoReaderView } from '.
 import { MEMOS_ROOT } from '@gloss/model';
 import { readableMemos } from '../access/memo-readers.js';
 
-/** Why a memos connection closes with 4409 (the web app discards its copy and reloads). */
+/** Why a memos connection closes with 4409 (the web app deletes its copy and opens a fresh one for the new view). */
 export const MEMOS_VIEW_CHANGED = 'What you may read in the memos changed: this device’s copy is replaced with a fresh one.';
 import { DEFAULT_BUDGETS, TokenBucket } from './budgets.js';
 

@@ -28,7 +28,8 @@ export const DELETED_CLOSE = 4404;
 export const REPLACED_CLOSE = 4410;
 /**
  * What this person may read of the memos changed so that this copy lacks entries they may now read
- * (it was filtered for the old view): it is discarded, never sent back, and the page reloads with a fresh one.
+ * (it was filtered for the old view): it is discarded and never sent back; whoever opened it is told
+ * (`onViewChanged`) and opens a fresh copy for the new view, without reloading the page.
  */
 export const VIEW_CHANGED_CLOSE = 4409;
 const NO_RECONNECT = new Set([LOST_ACCESS_CLOSE, DELETED_CLOSE, REPLACED_CLOSE, VIEW_CHANGED_CLOSE]);
@@ -65,6 +66,8 @@ export interface OpenDoc {
   discardLocalCopy(): Promise<void>;
   /** Stops syncing and deletes this device's copy, without reloading. */
   dropLocalCopy(): Promise<void>;
+  /** Called once this copy was refused as made for another view (4409) and deleted: open a fresh one. */
+  onViewChanged(listener: () => void): () => void;
   /** Resolves once the document holds either the server's state or the offline copy. */
   whenReady: Promise<void>;
   release(): void;
@@ -253,6 +256,7 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     const timer = setTimeout(start, BACKGROUND_AFTER_MS);
     waitingBackground.add(start);
   }
+  const viewChanged = new Set<() => void>();
   const [state, setState] = createSignal<DocState>('loading');
   const [link, setLink] = createSignal<LinkState>(paused ? 'paused' : 'connecting');
   const [pending, setPendingSig] = createSignal(readPending(room));
@@ -267,7 +271,12 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
       sessionStorage.setItem(RELOAD_NOTICE_KEY, `${opts.label}: ${event.reason || 'the text was rebuilt after de-identification'} This device’s copy was discarded and the page reloaded.`);
       void discardAllReplaced(handle);
     }
-    if (event?.code === VIEW_CHANGED_CLOSE) void handle.discardLocalCopy();
+    if (event?.code === VIEW_CHANGED_CLOSE) {
+      // the copy is stopped and deleted first, so nothing of it can reach the server again
+      void handle.dropLocalCopy().then(() => {
+        for (const listener of viewChanged) listener();
+      });
+    }
   });
   const [refused, setRefusedSig] = createSignal<string | null>(null);
   const [refusals, setRefusals] = createSignal(0);
@@ -392,6 +401,10 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     async discardLocalCopy() {
       await handle.dropLocalCopy();
       location.reload();
+    },
+    onViewChanged(listener) {
+      viewChanged.add(listener);
+      return () => viewChanged.delete(listener);
     },
     async dropLocalCopy() {
       provider.disconnect();

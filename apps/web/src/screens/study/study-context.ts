@@ -43,9 +43,33 @@ export function useStudy(studyId: () => string, me: () => Me): StudyScope {
     const cb = openDoc(s.codebookRoom, { label: 'the codebook' });
     // the memos wait for the documents a screen is opening (see openDoc's `background`)
     // the memos copy is kept per view: the server sends each reader only the memos they may read
-    const mm = openDoc(s.memosRoom, { label: 'the memos', background: true, ...(s.memosView ? { view: s.memosView } : {}) });
+    let mm: OpenDoc | undefined;
+    let ended = false;
+    let lastView = s.memosView;
+    const openMemos = (view: string | undefined) => {
+      const handle = openDoc(s.memosRoom, { label: 'the memos', background: true, ...(view ? { view } : {}) });
+      // What this person may read widened (a text assigned, a round revealed): the server refused this
+      // copy (4409) and it is deleted; ask for the new view and open a fresh copy in its place. The
+      // screens follow the `memos` signal, so the page is not reloaded and nothing else is lost.
+      const stop = handle.onViewChanged(() => {
+        stop();
+        void (async () => {
+          const fresh = await api.study(s.id).catch(() => null);
+          if (ended || mm !== handle) return;
+          const view = fresh?.memosView ?? lastView;
+          // the same key again would only be refused again: give the server's change a moment
+          if (view === lastView) await new Promise((r) => setTimeout(r, 2_000));
+          if (ended || mm !== handle) return;
+          lastView = view;
+          handle.release();
+          openMemos(view);
+        })();
+      });
+      mm = handle;
+      setMemos(handle);
+    };
     setCodebook(cb);
-    setMemos(mm);
+    openMemos(s.memosView);
     const user = me();
     cb.provider.awareness.setLocalStateField('user', { id: user.id, name: user.name, colour: personColour(user.id) });
     cb.provider.awareness.setLocalStateField('where', where);
@@ -58,8 +82,9 @@ export function useStudy(studyId: () => string, me: () => Me): StudyScope {
     onCleanup(() => {
       stopRecording();
       cb.provider.awareness.off('change', on);
+      ended = true;
       cb.release();
-      mm.release();
+      mm?.release();
     });
   };
 
