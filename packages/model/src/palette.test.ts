@@ -75,4 +75,19 @@ describe('assignMarks', () => {
       expect(a.overflow).toBe(false);
     }
   });
+
+  it('overflows exactly when there are more codes than the pairs it reports (random sizes past the palette)', () => {
+    let seed = 777;
+    const rnd = () => ((seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32);
+    for (let run = 0; run < 200; run++) {
+      const n = 1 + Math.floor(rnd() * DISTINCT_MARKS * 2);
+      const codes = Array.from({ length: n }, (_, i) => {
+        const r = rnd();
+        return { id: `s${i}`, colour: r < 0.4 ? OKABE_ITO[Math.floor(rnd() * 8)]!.hex : r < 0.5 ? '#123456' : undefined };
+      });
+      const a = assignMarks(codes);
+      expect(a.overflow).toBe(n > a.pairs);
+      if (!a.overflow) expect(new Set(pairs(a)).size).toBe(n);
+    }
+  });
 });

@@ -54,6 +54,12 @@ export interface MarkAssignment {
   marks: Map<string, CodeMark>;
   /** More codes than colour-and-mark pairs: some codes necessarily share one. */
   overflow: boolean;
+  /**
+   * How many colour-and-mark pairs these codes can be told apart by: the palette's, plus those of stored
+   * colours outside it (black, say), which only the codes storing that colour use (up to four each).
+   * Overflow means more codes than this; it is what an overflow warning should quote.
+   */
+  pairs: number;
 }
 
 /**
@@ -96,5 +102,8 @@ export function assignMarks(codes: ReadonlyArray<{ id: string; colour?: string |
     usedOf(hex).add(free);
     marks.set(c.id, { hex, mark: free });
   }
-  return { marks, overflow: shared };
+  const palette = new Set(ASSIGNABLE.map(key));
+  let offPalette = 0;
+  for (const [hex, taken] of used) if (!palette.has(hex)) offPalette += taken.size;
+  return { marks, overflow: shared, pairs: DISTINCT_MARKS + offPalette };
 }

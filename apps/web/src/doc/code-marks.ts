@@ -3,14 +3,17 @@
  * proposals, in codebook order. Both screens give this list to model `assignMarks`, so a code has
  * the same colour-and-line swatch on each.
  */
-import { DISTINCT_MARKS, getCodes, pendingProposalCodes, type CodeView } from '@gloss/model';
+import { getCodes, pendingProposalCodes, type CodeView } from '@gloss/model';
 import type * as Y from 'yjs';
 
 export function codesInView(codebook: Y.Doc): CodeView[] {
   return [...getCodes(codebook), ...pendingProposalCodes(codebook)];
 }
 
-/** The warning when codes outnumber the colour-and-line pairs that can be told apart (one wording for every screen). */
-export function marksOverflowWords(codeCount: number): string {
-  return `This codebook has ${codeCount} codes, more than the ${DISTINCT_MARKS} colour-and-line pairs that can be told apart: some codes share one, so read the code names rather than the colours.`;
+/**
+ * The warning when codes outnumber the colour-and-line pairs that can be told apart (one wording for
+ * every screen); `pairs` is model `assignMarks`' count for these codes.
+ */
+export function marksOverflowWords(codeCount: number, pairs: number): string {
+  return `This codebook has ${codeCount} codes, more than the ${pairs} colour-and-line pairs that can be told apart: some codes share one, so read the code names rather than the colours.`;
 }

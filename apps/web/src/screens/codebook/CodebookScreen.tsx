@@ -101,7 +101,7 @@ function Codebook(props: { cb: OpenDoc; studyId: string; scope: StudyScope; me: 
           </Show>
         </section>
         <Show when={marks().overflow}>
-          <p class="warn" data-testid="marks-overflow">{marksOverflowWords(codesInView(doc).length)}</p>
+          <p class="warn" data-testid="marks-overflow">{marksOverflowWords(codesInView(doc).length, marks().pairs)}</p>
         </Show>
         <CodeTree nodes={tree()} marks={marks().marks} chosen={chosenId()} onChoose={choose} />
         <Proposals codebook={doc} codes={codes()} canDecide={canEdit()} by={props.me.id} nameOf={nameOf} />

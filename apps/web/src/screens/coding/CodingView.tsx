@@ -548,7 +548,7 @@ export function CodingView(props: CodingViewProps) {
           </ul>
           <Show when={state.marks().overflow}>
             <p class="warn" data-testid="marks-overflow">
-              {marksOverflowWords(state.codes().length)} The names are under each turn.
+              {marksOverflowWords(state.codes().length, state.marks().pairs)} The names are under each turn.
             </p>
           </Show>
         </section>
