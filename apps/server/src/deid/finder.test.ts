@@ -49,4 +49,11 @@ describe('findCandidates', () => {
     expect(names).toContain('Bernadette');
     expect(names.filter((n) => /[.,]/.test(n))).toEqual([]);
   });
+
+  it('takes a street that the name tagger calls a person for a place (a line of the demo study)', () => {
+    const found = findCandidates([{ id: 't4', text: "P4: Mrs Aldous from Tanner's Row, she's ninety-one, she comes every time." }], [], new Map());
+    const row = found.find((c) => c.original.startsWith('Tanner'));
+    expect(row?.kind).toBe('place');
+    expect(found.find((c) => c.original === 'Aldous')?.kind ?? 'person').toBe('person');
+  });
 });

@@ -39,6 +39,11 @@ const RULES: Array<{ kind: CandidateKind; re: RegExp }> = [
 ];
 
 const TITLES = /^(?:(?:Dr|Mr|Mrs|Ms|Miss|Prof|Professor|Sister|Father|Auntie|Uncle)\.? )+/;
+/**
+ * Last words that make a "person" a street ("Tanner's Row" in the demo's memos): only those that are
+ * rarely surnames (Hill, Way, Court and Close are, so they are left to the reviewer).
+ */
+const STREET_END = /\s(?:Street|Road|Avenue|Lane|Row|Terrace|Crescent|Gardens|Drive)$/u;
 
 /** A name as compromise returns it, trimmed to its capitalised words ("sister Priya" → "Priya"). */
 function cleanName(raw: string): string {
@@ -64,7 +69,7 @@ function nlpNames(text: string): Array<{ original: string; kind: CandidateKind }
       // never across punctuation: "Bernadette. I've" or "Marrick, Jennet" are not one name
       const end = kind === 'person' && !/[.,;:!?]$/.test(text.slice(h.offset.start, hitEnd)) ? extendName(text, hitEnd) : hitEnd;
       const original = cleanName(text.slice(h.offset.start, end).split(/[.,;:!?]\s/u)[0]!);
-      if (original.length > 1) out.push({ original, kind });
+      if (original.length > 1) out.push({ original, kind: kind === 'person' && STREET_END.test(original) ? 'place' : kind });
     }
   };
   take(doc.people().json({ offset: true }) as Hit[], 'person');
