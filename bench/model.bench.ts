@@ -16,17 +16,12 @@ import {
   addCode, addExclusiveSet, addSegment, createCodebookDoc, createTextDoc, FlagEngine, getDefinitionText, getText,
   listSegments, newLayerDoc, resolveSegments, type SegmentRecord,
 } from '@gloss/model';
-import { resolveSegmentsByItem } from '../packages/model/src/resolve-by-item.js';
+import { freshAnchors, timeIt, timeResolvers } from './resolve-timing.js';
 
 const round = (x: number) => Math.round(x * 100) / 100;
 function stats(ms: number[]) {
   const s = [...ms].sort((a, b) => a - b);
   return { medianMs: round(s[Math.floor(s.length / 2)]!), minMs: round(s[0]!), runs: s.length };
-}
-function timeIt(fn: () => void): number {
-  const t0 = performance.now();
-  fn();
-  return performance.now() - t0;
 }
 
 const WORDS = ['the', 'ferry', 'winter', 'we', 'kept', 'going', 'because', 'my', 'mother', 'said', 'school', 'harbour', 'bread', 'neighbours', 'rota', 'council', 'bus', 'quiet', 'after', 'storm'];
@@ -82,21 +77,10 @@ function fixture(corrections: number): Fixture {
 
 function benchResolve(f: Fixture, label: string, referenceSegments: number): Record<string, unknown> & { name: string } {
   const { textDoc, all } = f;
-  // fresh anchor arrays defeat the decode cache, so "cold" includes decoding as a first resolution does
-  const fresh = (n = all.length) => all.slice(0, n).map((s) => ({ ...s, start: s.start.slice(), end: s.end.slice() }));
-  const cold: number[] = [];
-  const warm: number[] = [];
-  const prevCold: number[] = [];
-  const prevWarm: number[] = [];
+  // fresh anchor arrays defeat the decode cache, so "cold" includes decoding as a first resolution does;
   // the previous resolver interleaved in the same run, so both see the same machine load
-  for (let r = 0; r < 11; r++) {
-    const segs = fresh();
-    cold.push(timeIt(() => resolveSegments(textDoc, segs)));
-    warm.push(timeIt(() => resolveSegments(textDoc, segs)));
-    const prev = fresh();
-    prevCold.push(timeIt(() => resolveSegmentsByItem(textDoc, prev)));
-    prevWarm.push(timeIt(() => resolveSegmentsByItem(textDoc, prev)));
-  }
+  const fresh = (n?: number) => freshAnchors(all, n);
+  const { cold, warm, prevCold, prevWarm } = timeResolvers(textDoc, all, 11);
   const ref: number[] = [];
   for (let r = 0; r < 3; r++) {
     const segs = fresh(referenceSegments);

@@ -18,13 +18,13 @@ import { get as httpGet } from 'node:http';
 import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { mulberry32 } from '@gloss/agreement';
-import { addCode, addExclusiveSet, addSegment, FlagEngine, getText, listSegments, resolveSegments, type Transcript } from '@gloss/model';
+import { addCode, addExclusiveSet, addSegment, FlagEngine, getText, listSegments, type Transcript } from '@gloss/model';
 import * as Y from 'yjs';
 import { admin, createPgUpdateStore, loadConfig, startServer } from '@gloss/server';
 import { loadDoc, withDocs } from '../apps/server/src/projection/load-doc.js';
 import { segmentsWithFlags } from '../apps/server/src/segments/with-flags.js';
 import type { UpdateStore } from '../apps/server/src/sync/contracts.js';
-import { resolveSegmentsByItem } from '../packages/model/src/resolve-by-item.js';
+import { freshAnchors, timeIt, timeResolvers } from './resolve-timing.js';
 
 const WORDS = ['the', 'ferry', 'winter', 'we', 'kept', 'going', 'because', 'my', 'mother', 'said', 'school', 'harbour', 'bread', 'neighbours', 'rota', 'council', 'bus', 'quiet', 'after', 'storm'];
 // SEGMENTS_SIZES=1000,10000 narrows the run (the 50k fixture takes minutes on a busy machine).
@@ -37,11 +37,6 @@ const r2 = (x: number) => Math.round(x * 100) / 100;
 function stats(ms: number[]) {
   const s = [...ms].sort((a, b) => a - b);
   return { medianMs: r2(s[Math.floor(s.length / 2)]!), minMs: r2(s[0]!), maxMs: r2(s.at(-1)!), runs: s.length };
-}
-function timeIt(fn: () => unknown): number {
-  const t0 = performance.now();
-  fn();
-  return performance.now() - t0;
 }
 const load1 = () => r2(loadavg()[0]!);
 
@@ -157,19 +152,8 @@ export async function run() {
       const shape = { segments: all.length, words: 30_000, characters: t.length, textItems: items };
 
       // Resolution: cold anchors are fresh copies (as a first read from the log gives).
-      const fresh = (n = all.length) => all.slice(0, n).map((s) => ({ ...s, start: s.start.slice(), end: s.end.slice() }));
-      const cold: number[] = [];
-      const warm: number[] = [];
-      const prevCold: number[] = [];
-      const prevWarm: number[] = [];
-      for (let r = 0; r < 7; r++) {
-        const segs = fresh();
-        cold.push(timeIt(() => resolveSegments(textDoc, segs)));
-        warm.push(timeIt(() => resolveSegments(textDoc, segs)));
-        const prev = fresh();
-        prevCold.push(timeIt(() => resolveSegmentsByItem(textDoc, prev)));
-        prevWarm.push(timeIt(() => resolveSegmentsByItem(textDoc, prev)));
-      }
+      const fresh = (n?: number) => freshAnchors(all, n);
+      const { cold, warm, prevCold, prevWarm } = timeResolvers(textDoc, all, 7);
       const refN = Math.min(1_000, all.length);
       const ref: number[] = [];
       for (let r = 0; r < 3; r++) {

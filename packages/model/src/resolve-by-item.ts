@@ -1,10 +1,10 @@
 import * as Y from 'yjs';
 import { getText } from './text-doc.js';
 import { decodeAnchor, type AnchorFields } from './anchor-codec.js';
-import { turnIndexAt, turnsAt, type ResolvedTurn } from './turns.js';
+import { turnsAt, type ResolvedTurn } from './turns.js';
 import { getTurnsArray } from './text-doc.js';
 import type { SegmentRecord } from './layer-doc.js';
-import type { ResolvedSegment } from './resolve.js';
+import { segmentsAt, type ResolvedSegment } from './resolve.js';
 
 /**
  * The previous bulk resolver (until issue 11's cold-resolution work), kept as the oracle that
@@ -118,17 +118,5 @@ export function resolveSegmentsByItem(textDoc: Y.Doc, segments: readonly Segment
   const str = getText(textDoc).toString();
   const maps = getTurnsArray(textDoc).toArray();
   const turnList = turns ?? turnsAt(maps, resolveAnchorsByItem(textDoc, maps.map((m) => m.get('start') as Uint8Array)), getText(textDoc).length);
-  return segments.map((s, i) => {
-    const a = idx[2 * i];
-    const b = idx[2 * i + 1];
-    if (a == null || b == null) {
-      return { id: s.id, codeId: s.codeId, start: 0, end: 0, quote: '', orphaned: false, unresolved: true, turn: null, createdAt: s.createdAt };
-    }
-    // Concurrent moves can in principle cross the bounds; clamp so a range is never reversed.
-    const start = Math.min(a, b);
-    const end = b;
-    const t = turnIndexAt(turnList, start);
-    const turn = t < 0 ? null : { speaker: turnList[t]!.speaker, startMs: turnList[t]!.startMs };
-    return { id: s.id, codeId: s.codeId, start, end, quote: str.slice(start, end), orphaned: start === end, unresolved: false, turn, createdAt: s.createdAt };
-  });
+  return segmentsAt(segments, idx, str, turnList);
 }

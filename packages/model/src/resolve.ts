@@ -227,6 +227,15 @@ export function resolveSegments(textDoc: Y.Doc, segments: readonly SegmentRecord
   turnMaps.forEach((t, i) => (anchors[m + i] = t.get('start') as Uint8Array));
   const { positions: idx, str } = walk(textDoc, anchors, true);
   const turnList = turns ?? turnsAt(turnMaps, idx.slice(m), getText(textDoc).length);
+  return segmentsAt(segments, idx, str, turnList);
+}
+
+/**
+ * Segments from their anchors' positions (start at 2i, end at 2i+1, null: not received yet), with
+ * quotes from the text `str` and the turn each starts in. Shared with the previous resolver (the
+ * oracle), whose anchor walk, not this shaping, is what the property test compares.
+ */
+export function segmentsAt(segments: readonly SegmentRecord[], idx: ReadonlyArray<number | null>, str: string, turnList: readonly ResolvedTurn[]): ResolvedSegment[] {
   return segments.map((s, i) => {
     const a = idx[2 * i];
     const b = idx[2 * i + 1];

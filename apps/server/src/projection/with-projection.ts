@@ -1,35 +1,29 @@
 /** An UpdateStore that tells the projector about every committed change (after the commit). */
 import type { UpdateStore } from '../sync/contracts.js';
 import type { Projector } from './projector.js';
+import { createPendingByKey } from '../store/pending-by-key.js';
 
 export function withProjection<S extends UpdateStore>(store: S, projector: Pick<Projector, 'notify' | 'flush' | 'close' | 'settleDoc'>): S {
   /** Appends not through yet, per document, including the projector's notice after the commit. */
-  const inFlight = new Map<string, Set<Promise<unknown>>>();
+  const inFlight = createPendingByKey();
   const wrapped: UpdateStore = {
     load: (docId) => store.load(docId),
     since: (docId, seq) => store.since(docId, seq),
     append(docId, update, userId) {
-      const appended = store.append(docId, update, userId).then((seq) => {
-        projector.notify(docId);
-        return seq;
-      });
-      let own = inFlight.get(docId);
-      if (own === undefined) inFlight.set(docId, (own = new Set()));
-      own.add(appended);
-      const settled = () => {
-        own.delete(appended);
-        if (own.size === 0 && inFlight.get(docId) === own) inFlight.delete(docId);
-      };
-      appended.then(settled, settled);
-      return appended;
+      return inFlight.track(
+        docId,
+        store.append(docId, update, userId).then((seq) => {
+          projector.notify(docId);
+          return seq;
+        }),
+      );
     },
     async flush() {
       await store.flush();
       await projector.flush();
     },
     async flushDoc(docId) {
-      const own = inFlight.get(docId);
-      if (own !== undefined) await Promise.allSettled([...own]);
+      await inFlight.settled(docId);
       await (store.flushDoc ? store.flushDoc(docId) : store.flush());
       await projector.settleDoc(docId);
     },

@@ -11,6 +11,7 @@ import { GroupCommit } from './group-commit.js';
 import { insertBatch, pgliteClientOf, type LogRow } from './insert-batch.js';
 import { isUuid } from '../ids.js';
 import { FULL_READ, flatten, readLog } from './log-rows.js';
+import { createPendingByKey } from './pending-by-key.js';
 
 export interface PgUpdateStoreOptions {
   /** Most rows in one INSERT (default 2,000). */
@@ -48,7 +49,7 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
   const sizes = new Map<string, Sizes>();
   const compacting = new Map<string, Promise<unknown>>();
   /** Appends submitted and not settled yet, per document (queued or in the batch being written). */
-  const inFlight = new Map<string, Set<Promise<number>>>();
+  const inFlight = createPendingByKey();
   let closed = false;
   const counts = { batches: 0, rows: 0, compactions: 0 };
 
@@ -103,28 +104,19 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
       if (!isUuid(docId) || (userId !== null && !isUuid(userId))) {
         return Promise.reject(new StoreError('append-failed', `not a UUID: ${docId} / ${userId}`));
       }
-      const committed = commits.submit({ docId, data: update, userId }).then((seq) => {
-        if (seq === null) throw new StoreError('document-gone', `document ${docId} was deleted or replaced; the update was not stored`);
-        return seq;
-      });
-      let own = inFlight.get(docId);
-      if (own === undefined) inFlight.set(docId, (own = new Set()));
-      own.add(committed);
-      const settled = () => {
-        own.delete(committed);
-        if (own.size === 0 && inFlight.get(docId) === own) inFlight.delete(docId);
-      };
-      committed.then(settled, settled);
-      return committed;
+      return inFlight.track(
+        docId,
+        commits.submit({ docId, data: update, userId }).then((seq) => {
+          if (seq === null) throw new StoreError('document-gone', `document ${docId} was deleted or replaced; the update was not stored`);
+          return seq;
+        }),
+      );
     },
     async since(docId, seq) {
       return flatten(await readLog(database.db, docId, seq), seq);
     },
     flush: () => commits.flush(),
-    async flushDoc(docId) {
-      const own = inFlight.get(docId);
-      if (own !== undefined) await Promise.allSettled([...own]);
-    },
+    flushDoc: (docId) => inFlight.settled(docId),
     compact,
     stats: () => ({ ...counts }),
     async compactionsIdle() {
