@@ -68,7 +68,7 @@ describe.runIf(enabled)('PostgreSQL restarted mid-edit', () => {
       }
       await waitFor(() => clients.every((c) => c.closes >= 1), 'every sender closed after its commit failed', 60_000);
       // The servers answer (health says the database is not there) rather than crash.
-      for (const node of [a, b]) expect((await fetch(`${node.url}/api/health`)).status).toBe(503);
+      for (const node of [a, b]) expect(await healthStatus(node)).toBe(503);
       // More edits while the clients are shut out: they stay in the clients' documents.
       for (const c of clients) {
         const token = `offline${c.index}`;
@@ -90,7 +90,7 @@ describe.runIf(enabled)('PostgreSQL restarted mid-edit', () => {
       expect(final.tokens.size).toBe(ledger.written.size);
       for (const t of ledger.written.keys()) expect(final.tokens.has(t), t).toBe(true);
       for (const node of [a, b]) {
-        expect((await fetch(`${node.url}/api/health`)).status).toBe(200);
+        expect(await healthStatus(node)).toBe(200);
         expect(node.stderr).not.toMatch(/uncaught|unhandled/i);
       }
       console.log(
@@ -114,3 +114,12 @@ describe.runIf(enabled)('PostgreSQL restarted mid-edit', () => {
     }
   }, 600_000);
 });
+
+/** A node's health status; a node that does not answer fails the test with the end of what it printed (a crash's stack). */
+async function healthStatus(node: SpawnedServer<unknown>): Promise<number> {
+  try {
+    return (await fetch(`${node.url}/api/health`)).status;
+  } catch (error) {
+    throw new Error(`${node.url} did not answer (${String(error)}); the end of what it printed:\n${node.stderr.slice(-4000)}`);
+  }
+}
