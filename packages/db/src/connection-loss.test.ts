@@ -5,7 +5,10 @@
  * socket on the next tick: an uncaught TypeError that ended the whole server process (seen in CI,
  * test/faults/postgres-restart.test.ts). Vitest fails a run on any uncaught error, so this test also
  * fails if that crash comes back. Needs DATABASE_URL (CI sets it: then this runs, never skips).
+ * The second case: the driver reads the server's array types on every new connection, and that read
+ * had no rejection handler, so a connection lost during it ended the process too.
  */
+import { connect, createServer, type AddressInfo, type Socket } from 'node:net';
 import postgres from 'postgres';
 import { afterAll, describe, expect, it } from 'vitest';
 
@@ -37,5 +40,44 @@ describe.runIf(Boolean(url))('a connection ended by the server mid-transaction',
     await expect(lateStatement).rejects.toMatchObject({ code: 'CONNECTION_CLOSED' });
     const [after] = await sql<{ answer: number }[]>`select 41 + 1 as answer`;
     expect(after!.answer).toBe(42);
+  });
+});
+
+describe.runIf(Boolean(url))('a connection lost while the driver reads its array types', () => {
+  it('does not end the process: the waiting query fails with the connection error, the next one goes through', async () => {
+    const target = new URL(url!);
+    let cut = 0;
+    // A TCP relay to PostgreSQL that resets the first connection whose client sends the driver's types query.
+    const relay = createServer((client: Socket) => {
+      const server = connect(Number(target.port || 5432), target.hostname);
+      client.on('error', () => server.destroy());
+      server.on('error', () => client.destroy());
+      server.pipe(client);
+      client.on('data', (chunk: Buffer) => {
+        if (cut === 0 && chunk.includes('typcategory')) {
+          cut++;
+          client.resetAndDestroy(); // a reset, as a server that went away mid-read gives (ECONNRESET)
+          server.destroy();
+          return;
+        }
+        server.write(chunk);
+      });
+    });
+    await new Promise<void>((resolve) => relay.listen(0, '127.0.0.1', resolve));
+    const via = new URL(url!);
+    via.hostname = '127.0.0.1';
+    via.port = String((relay.address() as AddressInfo).port);
+    const sql = postgres(via.toString(), { max: 1, onnotice: () => undefined });
+    try {
+      // The query that opened the connection fails with the connection's error, told to its caller...
+      await expect(sql`select 1`).rejects.toMatchObject({ code: 'ECONNRESET' });
+      expect(cut).toBe(1);
+      // ...and the next one goes through on a new connection.
+      const [row] = await sql<{ answer: number }[]>`select 41 + 1 as answer`;
+      expect(row!.answer).toBe(42);
+    } finally {
+      await sql.end({ timeout: 5 });
+      await new Promise<void>((resolve) => relay.close(() => resolve()));
+    }
   });
 });
