@@ -16,9 +16,10 @@ export interface Row {
   start: number;
   end: number;
   quote: string;
-  quoteJson: string;
-  /** `{"id":…,"quote":…,"flags":` as UTF-8 — the flags and the closing brace follow. */
-  stem: Buffer;
+  /** `{"id":…,"codeId":…,"start":` as UTF-8: the offsets follow. */
+  head: Buffer;
+  /** `,"quote":…,"flags":` as UTF-8: the flags and the closing brace follow. */
+  tail: Buffer;
 }
 
 export interface LayerRows {
@@ -45,9 +46,10 @@ function layerRows(layer: VisibleLayer, resolved: readonly ResolvedSegment[], pr
     let row: Row;
     if (old !== undefined && old.start === s.start && old.end === s.end && old.codeId === s.codeId && old.quote === s.quote) row = old;
     else {
-      const quoteJson = old !== undefined && old.quote === s.quote ? old.quoteJson : J(s.quote);
-      const stem = Buffer.from(`{"id":${J(s.id)}${middle}${J(s.codeId)},"start":${s.start},"end":${s.end},"quote":${quoteJson},"flags":`, 'utf8');
-      row = { id: s.id, codeId: s.codeId, start: s.start, end: s.end, quote: s.quote, quoteJson, stem };
+      // a correction elsewhere moves offsets only: the id, code and quote bytes stay
+      const head = old !== undefined && old.codeId === s.codeId ? old.head : Buffer.from(`{"id":${J(s.id)}${middle}${J(s.codeId)},"start":`, 'utf8');
+      const tail = old !== undefined && old.quote === s.quote ? old.tail : Buffer.from(`,"quote":${J(s.quote)},"flags":`, 'utf8');
+      row = { id: s.id, codeId: s.codeId, start: s.start, end: s.end, quote: s.quote, head, tail };
     }
     if (sorted && rows.length > 0 && byOffsets(rows[rows.length - 1]!, row) > 0) sorted = false;
     rows.push(row);
@@ -66,7 +68,6 @@ const sameShape = (a: VisibleLayer, b: VisibleLayer) => a.layerDocId === b.layer
 
 const byOffsets = (a: Row, b: Row) => a.start - b.start || a.end - b.end || cmp(a.id, b.id);
 
-const OPEN = Buffer.from('[');
 
 /**
  * The answer as UTF-8: every layer's rows merged in the route's order (start, end, coder, layer, id),
@@ -80,7 +81,7 @@ export function joinRows(layers: readonly LayerRows[], flagsOf: (layerId: string
   const order = [...layers].sort((a, b) => cmp(a.layer.coderId ?? '', b.layer.coderId ?? '') || cmp(a.layer.layerDocId, b.layer.layerDocId));
   const at = new Array<number>(order.length).fill(0);
   const flagMaps = order.map((l) => flagsOf(l.layer.layerDocId));
-  const stems: Buffer[] = [];
+  const picked: Row[] = [];
   const flags: Buffer[] = [];
   const flagBytes = new Map<string, Buffer>();
   let size = 1;
@@ -100,21 +101,48 @@ export function joinRows(layers: readonly LayerRows[], flagsOf: (layerId: string
     const json = flagMaps[best]?.get(bestRow.id) ?? '[]';
     let f = flagBytes.get(json);
     if (f === undefined) flagBytes.set(json, (f = Buffer.from(json, 'utf8')));
-    stems.push(bestRow.stem);
+    picked.push(bestRow);
     flags.push(f);
-    size += bestRow.stem.length + f.length + 2;
+    size += bestRow.head.length + digits(bestRow.start) + END.length + digits(bestRow.end) + bestRow.tail.length + f.length + 2;
     at[best]!++;
   }
-  if (stems.length === 0) size++;
+  if (picked.length === 0) size++;
   const body = Buffer.allocUnsafe(size);
-  OPEN.copy(body, 0);
+  body[0] = 0x5b; // [
   let p = 1;
-  for (let i = 0; i < stems.length; i++) {
-    p += stems[i]!.copy(body, p);
+  for (let i = 0; i < picked.length; i++) {
+    const r = picked[i]!;
+    p += r.head.copy(body, p);
+    p = writeDigits(body, p, r.start);
+    p += END.copy(body, p);
+    p = writeDigits(body, p, r.end);
+    p += r.tail.copy(body, p);
     p += flags[i]!.copy(body, p);
     body[p++] = 0x7d; // }
-    if (i < stems.length - 1) body[p++] = 0x2c; // ,
+    if (i < picked.length - 1) body[p++] = 0x2c; // ,
   }
   body[p++] = 0x5d; // ]
-  return { body, count: stems.length };
+  return { body, count: picked.length };
+}
+
+const END = Buffer.from(',"end":');
+
+/** Decimal digits of a non-negative integer (an offset), as JSON writes it. */
+function digits(n: number): number {
+  let d = 1;
+  while (n >= 10) {
+    n = Math.floor(n / 10);
+    d++;
+  }
+  return d;
+}
+
+function writeDigits(buf: Buffer, at: number, n: number): number {
+  const end = at + digits(n);
+  let p = end;
+  do {
+    buf[--p] = 0x30 + (n % 10);
+    n = Math.floor(n / 10);
+  } while (n > 0);
+  return end;
 }

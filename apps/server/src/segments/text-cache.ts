@@ -11,14 +11,14 @@
  * fresh on every node. Sequence numbers are taken at insert, not commit, so the read cursor trails by
  * one read, as the sync rooms' catch-up does (sync/room.ts).
  */
-import { createCodebookDoc, FlagEngine, type LayerSource } from '@gloss/model';
+import { createCodebookDoc, FlagEngine, listSegments, type LayerSource, type SegmentRecord } from '@gloss/model';
 import * as Y from 'yjs';
 import type { CoderChoice } from '../agreement/coders.js';
 import type { VisibleLayer } from '../http/text-layers.js';
 import type { UpdateStore } from '../sync/contracts.js';
 import { joinRows, rowsFor, type LayerRows } from './answer-rows.js';
 import { FlagKinds } from './flag-kinds.js';
-import { flagGroups, resolveLayers, segmentsWithFlags, type LayerResolution } from './with-flags.js';
+import { flagGroups, resolveRecords, segmentsWithFlags, type LayerResolution } from './with-flags.js';
 
 const MAX_ANSWERS = 8;
 
@@ -45,6 +45,8 @@ class LiveDoc {
   version = 0;
   /** For a layer: its records and their resolution, as of this version and the text's version then. */
   resolution: { version: number; textVersion: number; value: LayerResolution } | null = null;
+  /** For a layer: its segment records as of this version (a text correction does not change them). */
+  records: { version: number; value: SegmentRecord[] } | null = null;
   /** For a layer: the answer's rows made from that resolution (answer-rows.ts). */
   rows: LayerRows | null = null;
   private cursor = 0;
@@ -183,14 +185,15 @@ export function createTextCache(o: TextCacheOptions): TextCache {
 
     const textDoc = e.docs.get(e.textDocId)!.doc;
     const codebook = e.codebookId ? e.docs.get(e.codebookId)!.doc : (e.emptyCodebook ??= createCodebookDoc());
-    // Each layer's records and resolution stay while neither the layer nor the text moved: a new segment
-    // re-reads and re-resolves one layer; a text correction re-resolves all of them, in one walk.
+    // Each layer's records stay while it did not move, its resolution while neither it nor the text did:
+    // a new segment re-reads and re-resolves one layer; a text correction re-resolves them all, in one walk.
     const textVersion = e.docs.get(e.textDocId)!.version;
     const withDocs = layers.map((l) => ({ ...l, doc: e.docs.get(l.layerDocId)!.doc }));
     const docs = layers.map((l) => e.docs.get(l.layerDocId)!);
     const stale = docs.map((d, i) => [d, i] as const).filter(([d]) => d.resolution?.version !== d.version || d.resolution.textVersion !== textVersion);
     if (stale.length > 0) {
-      const fresh = resolveLayers(textDoc, stale.map(([, i]) => withDocs[i]!));
+      const records = stale.map(([d]) => (d.records?.version === d.version ? d.records : (d.records = { version: d.version, value: listSegments(d.doc) })).value);
+      const fresh = resolveRecords(textDoc, records);
       stale.forEach(([d], k) => (d.resolution = { version: d.version, textVersion, value: fresh[k]! }));
     }
     const perLayer = docs.map((d) => d.resolution!.value);

@@ -45,12 +45,15 @@ export interface LayerResolution {
  */
 export type ResolveLayers = (textDoc: Y.Doc, layers: ReadonlyArray<VisibleLayer & { doc: Y.Doc }>) => LayerResolution[];
 
-export const resolveLayers: ResolveLayers = (textDoc, layers) => {
-  const records = layers.map((l) => listSegments(l.doc));
-  const resolved = resolveSegments(textDoc, records.flat());
+export const resolveLayers: ResolveLayers = (textDoc, layers) => resolveRecords(textDoc, layers.map((l) => listSegments(l.doc)));
+
+/** Resolves layers' records (from `listSegments`) in one walk of the text. */
+export function resolveRecords(textDoc: Y.Doc, records: readonly SegmentRecord[][]): LayerResolution[] {
+  // No turns: the answer does not carry them, and finding each segment's turn cost a search per segment.
+  const resolved = resolveSegments(textDoc, records.flat(), []);
   let k = 0;
   return records.map((r) => ({ records: r, resolved: resolved.slice(k, (k += r.length)) }));
-};
+}
 
 /**
  * The groups of layers flagged together (`group` as in GroupFlags) and, in each, the layers of those
