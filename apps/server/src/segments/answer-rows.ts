@@ -112,12 +112,16 @@ export function joinRows(layers: readonly LayerRows[], flagsOf: (layerId: string
   let p = 1;
   for (let i = 0; i < picked.length; i++) {
     const r = picked[i]!;
-    p += r.head.copy(body, p);
-    p = writeDigits(body, p, r.start);
-    p += END.copy(body, p);
-    p = writeDigits(body, p, r.end);
-    p += r.tail.copy(body, p);
-    p += flags[i]!.copy(body, p);
+    // TypedArray set, not Buffer copy: the same bytes without copy()'s argument checks, 60,000 times
+    body.set(r.head, p);
+    p = writeDigits(body, p + r.head.length, r.start);
+    body.set(END, p);
+    p = writeDigits(body, p + END.length, r.end);
+    body.set(r.tail, p);
+    p += r.tail.length;
+    const f = flags[i]!;
+    body.set(f, p);
+    p += f.length;
     body[p++] = 0x7d; // }
     if (i < picked.length - 1) body[p++] = 0x2c; // ,
   }
