@@ -108,11 +108,33 @@ function walk(textDoc: Y.Doc, anchors: readonly Uint8Array[], wantString: boolea
   return a.m >= TABLE_FROM && tableSize <= TABLE_MAX ? walkTables(text, positions, a, wantString) : walkSorted(text, positions, a, wantString);
 }
 
+/**
+ * The clock tables' memory, kept between resolutions up to SCRATCH_MAX entries and zeroed before each
+ * use: a fresh 1 MB table per resolution was mostly page faults on first touch (the 2-core bench
+ * machine paid ~40 us per 4 kB page), while zeroing memory already touched costs a few microseconds.
+ */
+const SCRATCH_MAX = 1 << 20;
+let kept = new Int32Array(0);
+
+function scratch(n: number): Int32Array {
+  if (n > SCRATCH_MAX) return new Int32Array(n);
+  if (kept.length < n) kept = new Int32Array(Math.min(SCRATCH_MAX, Math.max(n, 2 * kept.length)));
+  else kept.fill(0, 0, n);
+  return kept;
+}
+
 /** Many anchors: one walk fills where each clock of the named clients stands; each anchor reads its entry. */
 function walkTables(text: Y.Text, positions: Array<number | null>, a: Named, wantString: boolean): Walked {
   // entry: 0 = not on this text's list; pos + offset + 1 for a live item; -(pos + 1) for a deleted one
+  let total = 0;
+  for (const state of a.states.values()) total += state;
+  const space = scratch(total);
   const tables = new Map<number, Int32Array>();
-  for (const [client, state] of a.states) tables.set(client, new Int32Array(state));
+  let at = 0;
+  for (const [client, state] of a.states) {
+    tables.set(client, space.subarray(at, at + state));
+    at += state;
+  }
   let pos = 0;
   let str = '';
   let lastClient = -1;
