@@ -10,9 +10,9 @@ import type { SegmentRecord } from './layer-doc.js';
  *
  * 1. Each anchor's (client, clock, assoc) is read from its bytes into typed arrays (no object per anchor).
  * 2. One walk over the text's items, in document order, counts the visible characters before each item.
- *    Many anchors: the walk fills, for every clock of an item of a client some anchor names, what says
- *    where that clock stands (one fill per item into an Int32Array per client, as long as the client's
- *    clock), and each anchor then reads its entry. Few anchors: their keys are sorted and each item looks for its own by binary search, so
+ *    Many anchors: the walk writes, for every clock of an item of a client some anchor names, where that
+ *    clock stands (an Int32Array per client, as long as the client's clock), and each anchor then reads
+ *    its entry. Few anchors: their keys are sorted and each item looks for its own by binary search, so
  *    the walk can stop once all are found.
  * 3. An anchor's index is computed exactly as Yjs does with followUndoneDeletions = false:
  *    a deleted target resolves to where it stood; a live one to its offset (+1 when assoc < 0).
@@ -29,12 +29,6 @@ import type { SegmentRecord } from './layer-doc.js';
 const TABLE_FROM = 256;
 /** Clock tables larger than this in total (entries) fall back to the sorted-keys walk. */
 const TABLE_MAX = 1 << 24;
-/**
- * Added to a live item's base (position - first clock, which may be negative) so every live entry is
- * positive: clocks stay below TABLE_MAX (2^24) and a text's positions far below 2^30, so a live entry
- * lies in (0, 2^31).
- */
-const LIVE = 1 << 30;
 
 const MALFORMED: AnchorFields = { client: null, clock: 0, assoc: 0, tname: null };
 
@@ -114,34 +108,11 @@ function walk(textDoc: Y.Doc, anchors: readonly Uint8Array[], wantString: boolea
   return a.m >= TABLE_FROM && tableSize <= TABLE_MAX ? walkTables(text, positions, a, wantString) : walkSorted(text, positions, a, wantString);
 }
 
-/**
- * The clock tables' memory, kept between resolutions up to SCRATCH_MAX entries and zeroed before each
- * use: a fresh 1 MB table per resolution was mostly page faults on first touch (the 2-core bench
- * machine paid ~40 us per 4 kB page), while zeroing memory already touched costs a few microseconds.
- */
-const SCRATCH_MAX = 1 << 20;
-let kept = new Int32Array(0);
-
-function scratch(n: number): Int32Array {
-  if (n > SCRATCH_MAX) return new Int32Array(n);
-  if (kept.length < n) kept = new Int32Array(Math.min(SCRATCH_MAX, Math.max(n, 2 * kept.length)));
-  else kept.fill(0, 0, n);
-  return kept;
-}
-
 /** Many anchors: one walk fills where each clock of the named clients stands; each anchor reads its entry. */
 function walkTables(text: Y.Text, positions: Array<number | null>, a: Named, wantString: boolean): Walked {
-  // entry: 0 = not on this text's list; for a live item, LIVE + its position minus its first clock
-  // (the clock's position is the entry - LIVE + clock); -(pos + 1) for a deleted one
-  let total = 0;
-  for (const state of a.states.values()) total += state;
-  const space = scratch(total);
+  // entry: 0 = not on this text's list; pos + offset + 1 for a live item; -(pos + 1) for a deleted one
   const tables = new Map<number, Int32Array>();
-  let at = 0;
-  for (const [client, state] of a.states) {
-    tables.set(client, space.subarray(at, at + state));
-    at += state;
-  }
+  for (const [client, state] of a.states) tables.set(client, new Int32Array(state));
   let pos = 0;
   let str = '';
   let lastClient = -1;
@@ -154,9 +125,10 @@ function walkTables(text: Y.Text, positions: Array<number | null>, a: Named, wan
     }
     const live = !it.deleted && it.countable;
     if (table !== undefined) {
-      // one fill per item, not a write per character: a live item's clocks all hold its base
       const c0 = id.clock;
-      table.fill(live ? pos - c0 + LIVE : -(pos + 1), c0, c0 + it.length);
+      const len = it.length;
+      if (live) for (let j = 0; j < len; j++) table[c0 + j] = pos + j + 1;
+      else table.fill(-(pos + 1), c0, c0 + len);
     }
     if (live) {
       pos += it.length;
@@ -164,10 +136,9 @@ function walkTables(text: Y.Text, positions: Array<number | null>, a: Named, wan
     }
   }
   for (let k = 0; k < a.m; k++) {
-    const clock = a.clocks[k]!;
-    const v = tables.get(a.clients[k]!)![clock]!;
+    const v = tables.get(a.clients[k]!)![a.clocks[k]!]!;
     if (v === 0) continue;
-    positions[a.index[k]!] = v > 0 ? v - LIVE + clock + a.before[k]! : -v - 1;
+    positions[a.index[k]!] = v > 0 ? v - 1 + a.before[k]! : -v - 1;
   }
   return { positions, str };
 }
