@@ -7,6 +7,8 @@
  *   one-by-one `Y.createAbsolutePositionFromRelativePosition` on 1,000 of them, per segment.
  * - `segments.flags.<n>`: flags after one text correction (incremental FlagEngine); reference: every
  *   flag from scratch.
+ * - `segments.cache.<n>`: the route's text cache in process after a new segment and after a correction;
+ *   reference: its previous way of answering (objects, sort, JSON.stringify), interleaved, same changes.
  * - `segments.route.<n>`: `GET /api/texts/:id/segments` over HTTP: first request (documents loaded from
  *   the log), a repeat, after a new segment, after a text correction; reference: the route's work
  *   before the text cache (documents loaded afresh + `segmentsWithFlags`), in the same process.
@@ -22,6 +24,7 @@ import { addCode, addExclusiveSet, addSegment, FlagEngine, getText, listSegments
 import * as Y from 'yjs';
 import { admin, createPgUpdateStore, loadConfig, startServer } from '@gloss/server';
 import { loadDoc, withDocs } from '../apps/server/src/projection/load-doc.js';
+import { createTextCache } from '../apps/server/src/segments/text-cache.js';
 import { segmentsWithFlags } from '../apps/server/src/segments/with-flags.js';
 import type { UpdateStore } from '../apps/server/src/sync/contracts.js';
 import { freshAnchors, timeIt, timeResolvers } from './resolve-timing.js';
@@ -259,6 +262,47 @@ export async function run() {
         });
         before.push(performance.now() - t0);
       }
+      // The text cache itself, in process, against its previous way of answering (objects flagged,
+      // sorted and stringified afresh, then encoded as sending a string does), interleaved on the same
+      // changes; each answer checked equal. The server's own work, without access checks or HTTP.
+      const q = { textId: text.id, textDocId: text.room, codebookId: study.codebookRoom, layers: layerIds.map((id, i) => ({ layerDocId: id, coderId: coders[i]!.id, roundId: null })) };
+      const caches = { now: createTextCache({ store }), previous: createTextCache({ store, previous: true }) };
+      await caches.now.segments(q);
+      await caches.previous.segments(q);
+      const ab = { segment: { now: [] as number[], previous: [] as number[] }, correction: { now: [] as number[], previous: [] as number[] } };
+      const both = async (into: { now: number[]; previous: number[] }, r: number) => {
+        const bodies: string[] = [];
+        for (const which of r % 2 === 0 ? (['now', 'previous'] as const) : (['previous', 'now'] as const)) {
+          const t0 = performance.now();
+          const a = await caches[which].segments(q);
+          into[which].push(performance.now() - t0);
+          bodies.push(a.body.toString('utf8'));
+        }
+        if (bodies[0] !== bodies[1]) throw new Error('segments: the kept rows and the previous answer differ');
+      };
+      for (let r = 0; r < 9; r++) {
+        const i = r % LAYERS;
+        const s = Math.floor(rand() * (t.length - 200));
+        await change(store, layerIds[i]!, layers[i]!, () => void addSegment(layers[i]!, textDoc, { codeId: codes[r]!, start: s, end: s + 120 }));
+        await store.flush();
+        await both(ab.segment, r);
+        const at = Math.floor(rand() * (t.length - 10));
+        await change(store, text.room, textDoc, () => textDoc.transact(() => {
+          t.delete(at, 3);
+          t.insert(at, 'fixed');
+        }));
+        await store.flush();
+        await both(ab.correction, r);
+      }
+      caches.now.clear();
+      caches.previous.clear();
+      const abStats = (x: { now: number[]; previous: number[] }) => ({ now: stats(x.now), previous: stats(x.previous), ratio: r2(stats(x.now).medianMs / stats(x.previous).medianMs) });
+      out.push({
+        name: `segments.cache.${size}`, ...shape, db: 'pglite',
+        afterNewSegment: abStats(ab.segment), afterCorrection: abStats(ab.correction),
+        reference: { name: 'previous text cache answer (segmentsWithFlags objects + JSON.stringify + UTF-8 encoding), interleaved' },
+        targetMs: 100, loadavg1: load1(),
+      });
       out.push({
         name: `segments.route.${size}`, ...shape, answered: first.count, db: 'pglite',
         bodyBytes: first.bytes, firstMs: r2(first.ms), firstServerMs: first.timing,

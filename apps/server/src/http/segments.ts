@@ -33,10 +33,10 @@ export function segmentRoutes(deps: AppDeps) {
   app.get('/:textId/segments', async (c) => {
     const started = performance.now();
     const store = requireStore(deps);
-    const { text, me, role } = await textRole(deps, c);
+    const { text, me, role, supervision } = await textRole(deps, c);
     const textId = text.id;
-    const { textDocId, layers } = await textDocuments(deps.db, textId, role, me);
-    const cbId = await codebookDocId(deps.db, text.studyId);
+    // the supervision facts textRole read are the ones textDocuments would read again: passed on
+    const [{ textDocId, layers }, cbId] = await Promise.all([textDocuments(deps.db, textId, role, me, supervision), codebookDocId(deps.db, text.studyId)]);
     const ids = [textDocId, ...layers.map((l) => l.layerDocId), ...(cbId ? [cbId] : [])];
     const lookedUp = performance.now();
     const cached = cache ? await cache.segments({ textId, textDocId, codebookId: cbId, layers }) : null;

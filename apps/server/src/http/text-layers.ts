@@ -5,7 +5,7 @@
  */
 import { type Db, documents } from '@gloss/db';
 import { and, eq, isNull, or } from 'drizzle-orm';
-import { documentAccess } from '../access/policy.js';
+import { documentAccess, type DocSupervision } from '../access/policy.js';
 import { supervisionFor } from '../access/supervision.js';
 import { openRoundOfText, type RoundFacts } from '../access/rounds.js';
 import { notFound } from '../errors.js';
@@ -21,7 +21,8 @@ export interface VisibleLayer {
 /** The coder a layer's segments are compared as: its coder, or one pseudo-coder for a consensus layer. */
 export const comparedAs = (l: { coderId: string | null; layerDocId: string }) => l.coderId ?? `consensus:${l.layerDocId}`;
 
-export async function textDocuments(db: Db, textId: string, role: Role, userId: string): Promise<{ textDocId: string; layers: VisibleLayer[]; openRound: RoundFacts | null }> {
+/** `known`: the person's supervision facts for this text when the caller has read them already (textRoleOf does). */
+export async function textDocuments(db: Db, textId: string, role: Role, userId: string, known?: DocSupervision): Promise<{ textDocId: string; layers: VisibleLayer[]; openRound: RoundFacts | null }> {
   const openRound = await openRoundOfText(db, textId);
   const docs = await db
     .select()
@@ -29,7 +30,7 @@ export async function textDocuments(db: Db, textId: string, role: Role, userId: 
     .where(and(eq(documents.textId, textId), openRound ? or(isNull(documents.roundId), eq(documents.roundId, openRound.id)) : isNull(documents.roundId)));
   const text = docs.find((d) => d.kind === 'text');
   if (!text) throw notFound('Text document');
-  const supervision = await supervisionFor(db, textId, userId);
+  const supervision = known ?? (await supervisionFor(db, textId, userId));
   // A text the person may not read (a trainee's unassigned text) shows them no layer at all.
   if (!documentAccess(role, text, userId, { openRound, layerRound: null }, supervision).read) return { textDocId: text.id, layers: [], openRound };
   const layers: VisibleLayer[] = docs

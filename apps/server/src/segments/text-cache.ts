@@ -2,7 +2,9 @@
  * Live copies of recently read texts for `GET /api/texts/:id/segments` (issue 11 item 4): the text,
  * codebook and layer documents stay loaded, each request first applies what the log gained since (one
  * indexed read per document), the flags come from one FlagEngine per group of layers that refreshes
- * only what the change touched, and the answer's JSON is kept as long as no document moved. Loading
+ * only what the change touched (its changes patch each segment's flag kinds: flag-kinds.ts), each
+ * layer keeps its rows of JSON bytes (answer-rows.ts: a change remakes the touched layers' rows and
+ * merges all of them into one buffer), and the answer is kept as long as no document moved. Loading
  * the documents and computing every flag afresh cost ~0.6 s on a 30,000-word text with 10,000
  * segments; a repeat costs the freshness reads, a change the incremental refresh.
  *
@@ -11,12 +13,14 @@
  * fresh on every node. Sequence numbers are taken at insert, not commit, so the read cursor trails by
  * one read, as the sync rooms' catch-up does (sync/room.ts).
  */
-import { createCodebookDoc, FlagEngine, type LayerSource } from '@gloss/model';
+import { createCodebookDoc, FlagEngine, listSegments, type LayerSource, type SegmentRecord } from '@gloss/model';
 import * as Y from 'yjs';
 import type { CoderChoice } from '../agreement/coders.js';
 import type { VisibleLayer } from '../http/text-layers.js';
 import type { UpdateStore } from '../sync/contracts.js';
-import { resolveLayers, segmentsWithFlags, type LayerResolution, type ResolveLayers, type SegmentOut } from './with-flags.js';
+import { joinRows, rowsFor, type LayerRows } from './answer-rows.js';
+import { FlagKinds } from './flag-kinds.js';
+import { flagGroups, resolveRecords, segmentsWithFlags, type LayerResolution } from './with-flags.js';
 
 const MAX_ANSWERS = 8;
 
@@ -29,6 +33,11 @@ export interface TextCacheOptions {
   /** A text unread this long is dropped (default 5 minutes). */
   idleMs?: number;
   now?: () => number;
+  /**
+   * Answer as before the kept rows (segmentsWithFlags' objects, sorted and stringified on every change):
+   * the in-run reference of `pnpm bench segments`, and nothing else.
+   */
+  previous?: boolean;
 }
 
 /** One document kept current from the log. */
@@ -38,6 +47,10 @@ class LiveDoc {
   version = 0;
   /** For a layer: its records and their resolution, as of this version and the text's version then. */
   resolution: { version: number; textVersion: number; value: LayerResolution } | null = null;
+  /** For a layer: its segment records as of this version (a text correction does not change them). */
+  records: { version: number; value: SegmentRecord[] } | null = null;
+  /** For a layer: the answer's rows made from that resolution (answer-rows.ts). */
+  rows: LayerRows | null = null;
   private cursor = 0;
   private lastHigh = 0;
   private readonly applied = new Set<number>();
@@ -83,9 +96,9 @@ interface Entry {
   textDocId: string;
   codebookId: string | null;
   docs: Map<string, LiveDoc>;
-  /** One engine per group of flagged layers; rebuilt when the group's layers change. */
-  engines: Map<string, { layers: string; engine: FlagEngine }>;
-  answers: Map<string, { versions: string; body: string; count: number }>;
+  /** One engine (and its segments' kinds) per group of flagged layers; rebuilt when the group's layers change. */
+  engines: Map<string, { layers: string; kinds: FlagKinds }>;
+  answers: Map<string, { versions: string; body: Buffer<ArrayBuffer>; count: number }>;
   emptyCodebook: Y.Doc | null;
   lastUsed: number;
   /** Requests for one text take turns: the documents are shared. */
@@ -93,8 +106,8 @@ interface Entry {
 }
 
 export interface SegmentsAnswer {
-  /** The JSON array of SegmentOut. */
-  body: string;
+  /** The JSON array of SegmentOut, as UTF-8 (kept answers are sent as they are, never re-encoded). */
+  body: Buffer<ArrayBuffer>;
   count: number;
   /** How the answer was made: kept as it was, refreshed after changes, or built from the log. */
   source: 'kept' | 'refreshed' | 'loaded';
@@ -120,7 +133,7 @@ export function createTextCache(o: TextCacheOptions): TextCache {
     const e = entries.get(textId);
     if (!e) return;
     entries.delete(textId);
-    for (const { engine } of e.engines.values()) engine.destroy();
+    for (const { kinds } of e.engines.values()) kinds.engine.destroy();
     for (const d of e.docs.values()) d.destroy();
     e.emptyCodebook?.destroy();
   };
@@ -174,51 +187,62 @@ export function createTextCache(o: TextCacheOptions): TextCache {
 
     const textDoc = e.docs.get(e.textDocId)!.doc;
     const codebook = e.codebookId ? e.docs.get(e.codebookId)!.doc : (e.emptyCodebook ??= createCodebookDoc());
-    const used = new Set<string>();
-    // Each layer's records and resolution stay while neither the layer nor the text moved: a new segment
-    // re-reads and re-resolves one layer; a text correction re-resolves all of them, in one walk.
+    // Each layer's records stay while it did not move, its resolution while neither it nor the text did:
+    // a new segment re-reads and re-resolves one layer; a text correction re-resolves them all, in one walk.
     const textVersion = e.docs.get(e.textDocId)!.version;
-    const resolveKept: ResolveLayers = (td, ls) => {
-      const docs = ls.map((l) => e.docs.get(l.layerDocId)!);
-      const stale = docs.map((d, i) => [d, i] as const).filter(([d]) => d.resolution?.version !== d.version || d.resolution.textVersion !== textVersion);
-      if (stale.length > 0) {
-        const fresh = resolveLayers(td, stale.map(([, i]) => ls[i]!));
-        stale.forEach(([d], k) => (d.resolution = { version: d.version, textVersion, value: fresh[k]! }));
+    const withDocs = layers.map((l) => ({ ...l, doc: e.docs.get(l.layerDocId)!.doc }));
+    const docs = layers.map((l) => e.docs.get(l.layerDocId)!);
+    const stale = docs.map((d, i) => [d, i] as const).filter(([d]) => d.resolution?.version !== d.version || d.resolution.textVersion !== textVersion);
+    if (stale.length > 0) {
+      const records = stale.map(([d]) => (d.records?.version === d.version ? d.records : (d.records = { version: d.version, value: listSegments(d.doc) })).value);
+      const fresh = resolveRecords(textDoc, records);
+      stale.forEach(([d], k) => (d.resolution = { version: d.version, textVersion, value: fresh[k]! }));
+    }
+    const perLayer = docs.map((d) => d.resolution!.value);
+    const used = new Set<string>();
+    const engineOf = (key: string, sources: LayerSource[]): FlagKinds => {
+      used.add(key);
+      const names = sources.map((s) => `${s.layerId}=${s.coder}`).join(',');
+      let g = e.engines.get(key);
+      if (g && g.layers !== names) {
+        g.kinds.engine.destroy();
+        g = undefined;
       }
-      return docs.map((d) => d.resolution!.value);
+      if (!g) e.engines.set(key, (g = { layers: names, kinds: new FlagKinds(new FlagEngine({ textDoc, codebook, layers: sources })) }));
+      return g.kinds;
     };
-    const out: SegmentOut[] = segmentsWithFlags(
-      textDoc,
-      codebook,
-      layers.map((l) => ({ ...l, doc: e.docs.get(l.layerDocId)!.doc })),
-      choice,
-      (group, sources: LayerSource[]) => {
-        used.add(group);
-        const names = sources.map((s) => `${s.layerId}=${s.coder}`).join(',');
-        let g = e.engines.get(group);
-        if (g && g.layers !== names) {
-          g.engine.destroy();
-          g = undefined;
-        }
-        if (!g) e.engines.set(group, (g = { layers: names, engine: new FlagEngine({ textDoc, codebook, layers: sources }) }));
-        return g.engine.flags();
-      },
-      resolveKept,
-    );
+    let made: { body: Buffer<ArrayBuffer>; count: number };
+    let t2: number;
+    if (o.previous) {
+      // the previous answer: objects, flagged, sorted and stringified afresh; encoded as sending a string does
+      const out = segmentsWithFlags(textDoc, codebook, withDocs, choice, (key, sources) => engineOf(key, sources).engine.flags(), () => perLayer);
+      t2 = performance.now();
+      made = { body: Buffer.from(JSON.stringify(out), 'utf8'), count: out.length };
+    } else {
+      // The rows of a layer whose resolution is new are remade, lending what did not change.
+      const rows = docs.map((d, i) => (d.rows = rowsFor(d.rows, layers[i]!, perLayer[i]!.resolved)));
+      const kindsOf = new Map<string, FlagKinds>();
+      for (const { key, sources } of flagGroups(withDocs, perLayer, choice)) {
+        const kinds = engineOf(key, sources);
+        kinds.update();
+        for (const s of sources) kindsOf.set(s.layerId, kinds);
+      }
+      t2 = performance.now();
+      made = joinRows(rows, (layerId) => kindsOf.get(layerId)?.layer(layerId));
+    }
     for (const [group, g] of e.engines) {
       if (!used.has(group)) {
-        g.engine.destroy();
+        g.kinds.engine.destroy();
         e.engines.delete(group);
       }
     }
-    const t2 = performance.now();
-    const body = JSON.stringify(out);
+    const { body, count } = made;
     const t3 = performance.now();
     e.answers.delete(key);
-    e.answers.set(key, { versions, body, count: out.length });
+    e.answers.set(key, { versions, body, count });
     // One answer per distinct view (role, layers, choice); a handful at most is worth keeping.
     while (e.answers.size > MAX_ANSWERS) e.answers.delete(e.answers.keys().next().value!);
-    return { body, count: out.length, source: fresh ? 'loaded' : 'refreshed', timings: { refresh: t1 - t0, compute: t2 - t1, json: t3 - t2 } };
+    return { body, count, source: fresh ? 'loaded' : 'refreshed', timings: { refresh: t1 - t0, compute: t2 - t1, json: t3 - t2 } };
   }
 
   return {

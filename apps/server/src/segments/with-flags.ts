@@ -45,14 +45,35 @@ export interface LayerResolution {
  */
 export type ResolveLayers = (textDoc: Y.Doc, layers: ReadonlyArray<VisibleLayer & { doc: Y.Doc }>) => LayerResolution[];
 
-export const resolveLayers: ResolveLayers = (textDoc, layers) => {
-  const records = layers.map((l) => listSegments(l.doc));
-  const resolved = resolveSegments(textDoc, records.flat());
+export const resolveLayers: ResolveLayers = (textDoc, layers) => resolveRecords(textDoc, layers.map((l) => listSegments(l.doc)));
+
+/** Resolves layers' records (from `listSegments`) in one walk of the text. */
+export function resolveRecords(textDoc: Y.Doc, records: readonly SegmentRecord[][]): LayerResolution[] {
+  // No turns: the answer does not carry them, and finding each segment's turn cost a search per segment.
+  const resolved = resolveSegments(textDoc, records.flat(), []);
   let k = 0;
   return records.map((r) => ({ records: r, resolved: resolved.slice(k, (k += r.length)) }));
-};
+}
 
-const cmp = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
+/**
+ * The groups of layers flagged together (`group` as in GroupFlags) and, in each, the layers of those
+ * counted as coders (agreement/coders.ts). `perLayer` gives each layer's records (their count decides
+ * who counts by default).
+ */
+export function flagGroups(layers: ReadonlyArray<VisibleLayer & { doc: Y.Doc }>, perLayer: readonly LayerResolution[], choice: CoderChoice = {}): Array<{ key: string; sources: LayerSource[] }> {
+  const groups = new Map<string, Array<[VisibleLayer & { doc: Y.Doc }, number]>>();
+  layers.forEach((l, i) => {
+    const key = l.coderId === null ? `consensus:${l.layerDocId}` : (l.roundId ?? '');
+    groups.set(key, [...(groups.get(key) ?? []), [l, perLayer[i]!.records.length]]);
+  });
+  return [...groups.entries()].map(([key, group]) => {
+    const counted = countedOn(decideCoders([{ textId: '', layers: group.map(([l, segments]) => ({ coderId: comparedAs(l), segments })) }], key === '' ? choice : {}), '');
+    const flagged = group.filter(([l]) => counted.includes(comparedAs(l)));
+    return { key, sources: flagged.map(([l]) => ({ layerId: l.layerDocId, coder: comparedAs(l), doc: l.doc })) };
+  });
+}
+
+export const cmp = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
 
 export function segmentsWithFlags(
   textDoc: Y.Doc,
@@ -63,17 +84,7 @@ export function segmentsWithFlags(
   resolve: ResolveLayers = resolveLayers,
 ): SegmentOut[] {
   const perLayer = resolve(textDoc, layers);
-  const records = new Map(layers.map((l, i) => [l, perLayer[i]!.records]));
-  const groups = new Map<string, Array<VisibleLayer & { doc: Y.Doc }>>();
-  for (const l of layers) {
-    const key = l.coderId === null ? `consensus:${l.layerDocId}` : (l.roundId ?? '');
-    groups.set(key, [...(groups.get(key) ?? []), l]);
-  }
-  const flags = [...groups.entries()].flatMap(([key, group]) => {
-    const counted = countedOn(decideCoders([{ textId: '', layers: group.map((l) => ({ coderId: comparedAs(l), segments: records.get(l)!.length })) }], key === '' ? choice : {}), '');
-    const flagged = group.filter((l) => counted.includes(comparedAs(l)));
-    return groupFlags(key, flagged.map((l) => ({ layerId: l.layerDocId, coder: comparedAs(l), doc: l.doc })));
-  });
+  const flags = flagGroups(layers, perLayer, choice).flatMap(({ key, sources }) => groupFlags(key, sources));
   // each segment's flag kinds, by layer then segment id (no composite string keys: 10,000s of them)
   const kinds = new Map<string, Map<string, string[]>>();
   for (const f of flags) {
