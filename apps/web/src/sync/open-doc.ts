@@ -242,6 +242,11 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     connect: !paused && !defer && !early && !opts.holdUntil,
     params: { ...(viewOf.get(room) ?? {}), ...(ticket ? { ticket } : {}) },
     maxBackoffTime: 2500,
+    // No BroadcastChannel between this device's tabs: on every connect it encoded each document's whole
+    // state for tabs that mostly are not there (seven full encodes, hundreds of ms, while a long text
+    // opened: issue 11). Tabs still meet through the server, which is also the one to decide whether a
+    // change is kept before another tab shows it.
+    disableBc: true,
     // Access taken away is not a network problem: reconnecting would only be refused again.
     shouldReconnect: (event: CloseEvent) => !NO_RECONNECT.has(event.code),
   });

@@ -50,9 +50,10 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
       let live = true;
       performance.mark('gloss:docs-opening');
       // the text first (its words can be read at once); layers draw as they arrive
+      // (in a task of its own: the one that applied the text's state is long already)
       void text.whenReady.then(() => {
         performance.mark('gloss:text-ready');
-        if (live) setLoaded(true);
+        setTimeout(() => live && setLoaded(true), 0);
       });
       props.scope.setWhere(props.textId, d.title);
       onCleanup(() => {
