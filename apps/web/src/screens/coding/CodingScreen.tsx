@@ -9,7 +9,7 @@ import { StudyNav } from '../study/StudyNav.js';
 import { api } from '../../api/client.js';
 import { Loading } from '../../ui/Loading.js';
 import { href } from '../../ui/router.js';
-import { openDoc, unprime, type OpenDoc } from '../../sync/open-doc.js';
+import { nextInOwnTask, openDoc, unprime, type OpenDoc } from '../../sync/open-doc.js';
 import { openText } from '../../sync/opening.js';
 import { CodingView } from './CodingView.js';
 import type { LayerHandle } from './coding-state.js';
@@ -53,7 +53,7 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
       // (in a task of its own: the one that applied the text's state is long already)
       void text.whenReady.then(() => {
         performance.mark('gloss:text-ready');
-        setTimeout(() => live && setLoaded(true), 0);
+        nextInOwnTask(() => live && setLoaded(true));
       });
       props.scope.setWhere(props.textId, d.title);
       onCleanup(() => {

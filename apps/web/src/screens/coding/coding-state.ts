@@ -10,7 +10,7 @@ import {
   type ChangeEntry, type CodeGroup, type CodeView, type MarkAssignment, type ResolvedTurn,
 } from '@gloss/model';
 import { codesInView } from '../../doc/code-marks.js';
-import { PRIMED, type OpenDoc } from '../../sync/open-doc.js';
+import { PRIMED, nextInOwnTask, type OpenDoc } from '../../sync/open-doc.js';
 import { useFlags } from './flags-source.js';
 import type { Segment } from '../../doc/flag-view.js';
 import type { FlagSet } from '../../doc/flag-pack.js';
@@ -53,7 +53,7 @@ function version(types: Array<Y.AbstractType<any>>): Accessor<number> {
   const bump = (_events: unknown, transaction: Y.Transaction) => {
     if (queued) return;
     queued = true;
-    if (transaction.origin === PRIMED) setTimeout(run, 0);
+    if (transaction.origin === PRIMED) nextInOwnTask(run);
     else queueMicrotask(run);
   };
   for (const t of types) t.observeDeep(bump);
