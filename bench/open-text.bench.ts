@@ -12,11 +12,16 @@
  *   second_*        the same page loaded again in the same browser profile (its IndexedDB copies and
  *                   HTTP cache kept), after the last cold load
  * Skipped with a record when /usr/bin/chromium is absent.
+ * Each record names its reference: with BENCH_REFERENCE_DIST (another build of apps/web, say the one
+ * before a change) both builds are loaded in the same run, turn about, against the same server and
+ * text, and the record carries the reference's figures (`reference_*`) and the ratios; without it, the
+ * figures issue 11 quotes for 30,000 words on the code before the opening request.
  * Knobs: BENCH_RUNS (cold page loads per size, default 2), BENCH_WORDS (sizes, default 10000,30000,100000), BENCH_WEB_DIST (another build, for side-by-side runs),
+ * BENCH_REFERENCE_DIST (a reference build loaded alongside, as above),
  * BENCH_DEBUG (per load: marks, resources, long tasks, and from the DevTools protocol when each
  * WebSocket handshake was asked and answered and when each frame arrived), BENCH_PROFILE (CPU profile).
  */
-import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, symlinkSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -95,7 +100,19 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
   if (!existsSync(join(webDist, 'index.html'))) throw new Error('apps/web/dist is missing: run `pnpm --filter @gloss/web build` first');
 
   const dataDir = mkdtempSync(join(tmpdir(), 'gloss-bench-open-'));
-  const env: NodeJS.ProcessEnv = { ...process.env, PORT: '0', DATA_DIR: dataDir, LOG_LEVEL: 'warn', WEB_DIST: webDist };
+  // BENCH_REFERENCE_DIST: the build to compare with, loaded turn about with this one in the same run
+  const referenceDist = process.env.BENCH_REFERENCE_DIST;
+  if (referenceDist && !existsSync(join(referenceDist, 'index.html'))) throw new Error(`BENCH_REFERENCE_DIST has no index.html: ${referenceDist}`);
+  const builds = [{ name: 'candidate', dist: webDist }, ...(referenceDist ? [{ name: 'reference', dist: referenceDist }] : [])];
+  // the server serves a symlink, pointed at one build before each load (it reads its files per request)
+  const servedDir = mkdtempSync(join(tmpdir(), 'gloss-bench-web-'));
+  const served = join(servedDir, 'dist');
+  const serve = (dist: string) => {
+    rmSync(served, { force: true });
+    symlinkSync(dist, served);
+  };
+  serve(webDist);
+  const env: NodeJS.ProcessEnv = { ...process.env, PORT: '0', DATA_DIR: dataDir, LOG_LEVEL: 'warn', WEB_DIST: served };
   delete env.DATABASE_URL;
   delete env.REDIS_URL;
   delete env.PUBLIC_URL;
@@ -143,20 +160,50 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
         await db.insert(updates).values({ docId: layerId, data: u, bytes: u.byteLength, userId: c.id });
       }
       const seeded_s = (performance.now() - t0) / 1000;
-      const cold: Figures[] = [];
-      let warm: Figures | undefined;
+      const cold = new Map<string, Figures[]>(builds.map((b) => [b.name, []]));
+      const warm = new Map<string, Figures>();
       for (let r = 0; r < RUNS; r++) {
-        const context = await browser.newContext({ baseURL: server.url, viewport: { width: 1400, height: 900 } });
-        const res = await context.request.post('/api/session', { data: { email: 'bench0@example.org', password: 'bench-password-1' }, headers: { origin: server.url } });
-        if (!res.ok()) throw new Error(`sign-in failed: ${res.status()}`);
-        await context.addInitScript(OBSERVE_LONG_TASKS);
-        const page = await context.newPage();
-        cold.push(await load(context, page, `/#/study/${study.id}/text/${text.id}`, `${words} words, cold load ${r + 1}`));
-        // the second open on this device: the same profile, its IndexedDB copies and HTTP cache kept
-        if (r === RUNS - 1) warm = await load(context, page, 'reload', `${words} words, second open`);
-        await context.close();
+        for (const build of builds) {
+          serve(build.dist);
+          const context = await browser.newContext({ baseURL: server.url, viewport: { width: 1400, height: 900 } });
+          const res = await context.request.post('/api/session', { data: { email: 'bench0@example.org', password: 'bench-password-1' }, headers: { origin: server.url } });
+          if (!res.ok()) throw new Error(`sign-in failed: ${res.status()}`);
+          await context.addInitScript(OBSERVE_LONG_TASKS);
+          const page = await context.newPage();
+          cold.get(build.name)!.push(await load(context, page, `/#/study/${study.id}/text/${text.id}`, `${build.name}, ${words} words, cold load ${r + 1}`));
+          // the second open on this device: the same profile, its IndexedDB copies and HTTP cache kept
+          if (r === RUNS - 1) warm.set(build.name, await load(context, page, 'reload', `${build.name}, ${words} words, second open`));
+          await context.close();
+        }
       }
-      const median = (k: 'first' | 'full' | 'interactive' | 'longest') => [...cold.map((s) => s[k])].sort((a, b) => a - b)[Math.floor(cold.length / 2)]!;
+      const figures = (build: string, prefix: string) => {
+        const runs = cold.get(build)!;
+        const median = (k: 'first' | 'full' | 'interactive' | 'longest') => [...runs.map((s) => s[k])].sort((a, b) => a - b)[Math.floor(runs.length / 2)]!;
+        const w = warm.get(build)!;
+        return {
+          [`${prefix}first_text_ms`]: Math.round(median('first')),
+          [`${prefix}full_render_ms`]: Math.round(median('full')),
+          [`${prefix}interactive_ms`]: Math.round(median('interactive')),
+          [`${prefix}longest_task_ms`]: Math.round(median('longest')),
+          [`${prefix}second_first_text_ms`]: Math.round(w.first),
+          [`${prefix}second_interactive_ms`]: Math.round(w.interactive),
+          [`${prefix}second_longest_task_ms`]: Math.round(w.longest),
+        } as Record<string, number>;
+      };
+      const mine = figures('candidate', '');
+      const reference: Record<string, unknown> = referenceDist
+        ? (() => {
+            const ref = figures('reference', 'reference_');
+            const ratio = (k: string) => Math.round((mine[k]! / Math.max(1, ref[`reference_${k}`]!)) * 100) / 100;
+            return {
+              reference: `the build at ${referenceDist}, loaded turn about in this run`,
+              ...ref,
+              ratio_interactive: ratio('interactive_ms'),
+              ratio_longest_task: ratio('longest_task_ms'),
+              ratio_second_interactive: ratio('second_interactive_ms'),
+            };
+          })()
+        : { reference: 'issue 11, 30,000 words, before the opening request: first text 1200 ms, interactive 3300 ms, longest task 345 ms', reference_interactive_ms_30k: 3300, reference_first_text_ms_30k: 1200, reference_longest_task_ms_30k: 345 };
       records.push({
         name: `open-text-${Math.round(words / 1000)}k-words-5x2000-segments`,
         words,
@@ -165,16 +212,11 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
         segments_per_layer: SEGMENTS,
         layer_state_kb: Math.round(layerBytes / 1024),
         runs: RUNS,
-        first_text_ms: Math.round(median('first')),
-        full_render_ms: Math.round(median('full')),
-        interactive_ms: Math.round(median('interactive')),
-        longest_task_ms: Math.round(median('longest')),
-        second_first_text_ms: Math.round(warm!.first),
-        second_interactive_ms: Math.round(warm!.interactive),
-        second_longest_task_ms: Math.round(warm!.longest),
+        ...mine,
         target_ms: 1000,
         target_second_ms: 300,
         target_longest_task_ms: 50,
+        ...reference,
         setup_s: Math.round(seeded_s * 10) / 10,
       });
     }
@@ -183,6 +225,7 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
     await browser.close();
     await server.close();
     rmSync(dataDir, { recursive: true, force: true });
+    rmSync(servedDir, { recursive: true, force: true });
   }
 }
 
@@ -225,7 +268,7 @@ async function load(context: BrowserContext, page: Page, url: string, what: stri
       const key = `${n.callFrame.functionName || '(anon)'} ${n.callFrame.url.split('/').pop()}:${n.callFrame.lineNumber}`;
       self.set(key, (self.get(key) ?? 0) + (profile.timeDeltas[i] ?? 0) / 1000);
     });
-    process.stderr.write(`-- CPU profile, ${what} (self time, top 25)\n` + [...self].sort((a, b) => b[1] - a[1]).slice(0, 25).map(([k, v]) => `${v.toFixed(0).padStart(6)} ms  ${k}`).join('\n') + '\n');
+    process.stderr.write(`-- CPU profile, ${what} (self time, top)\n` + [...self].sort((a, b) => b[1] - a[1]).slice(0, Number(process.env.BENCH_PROFILE_TOP) || 25).map(([k, v]) => `${v.toFixed(0).padStart(6)} ms  ${k}`).join('\n') + '\n');
   }
   if (process.env.BENCH_DEBUG) process.stderr.write(JSON.stringify({ what, ...figures, frames: frames.join(' ') }) + '\n');
   await cdp?.detach();

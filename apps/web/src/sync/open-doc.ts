@@ -114,6 +114,8 @@ const primeOpen = new Map<string, (state: Uint8Array) => void>();
  * answer between them.
  */
 const applyQueue: Array<() => void> = [];
+/** applyQueue[0] is running (it is taken off the queue once done). */
+let running = false;
 function inOwnTask(work: () => void): void {
   applyQueue.push(work);
   if (applyQueue.length === 1) setTimeout(runNext, 0);
@@ -121,12 +123,24 @@ function inOwnTask(work: () => void): void {
 function runNext(): void {
   const work = applyQueue[0];
   if (!work) return; // emptied meanwhile (sign-out)
+  running = true;
   try {
     work();
   } finally {
+    running = false;
     applyQueue.shift();
     if (applyQueue.length > 0) setTimeout(runNext, 0);
   }
+}
+
+/**
+ * Runs `work` in a task of its own ahead of the states still waiting to be applied: what follows an
+ * applied state (drawing the text, laying out a layer's segments) then shows before the next state is
+ * applied, instead of after all of them.
+ */
+export function nextInOwnTask(work: () => void): void {
+  if (applyQueue.length === 0) return inOwnTask(work);
+  applyQueue.splice(running ? 1 : 0, 0, work);
 }
 
 /**
@@ -242,6 +256,11 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     connect: !paused && !defer && !early && !opts.holdUntil,
     params: { ...(viewOf.get(room) ?? {}), ...(ticket ? { ticket } : {}) },
     maxBackoffTime: 2500,
+    // No BroadcastChannel between this device's tabs: on every connect it encoded each document's whole
+    // state for tabs that mostly are not there (seven full encodes, hundreds of ms, while a long text
+    // opened: issue 11). Tabs still meet through the server, which is also the one to decide whether a
+    // change is kept before another tab shows it.
+    disableBc: true,
     // Access taken away is not a network problem: reconnecting would only be refused again.
     shouldReconnect: (event: CloseEvent) => !NO_RECONNECT.has(event.code),
   });

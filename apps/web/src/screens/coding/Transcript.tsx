@@ -4,7 +4,7 @@
  * thousands of segments opens without freezing. Each turn's words are a single text node, which keeps
  * offset mapping trivial; highlights use the CSS Custom Highlight API instead of wrapping spans.
  */
-import { For, Index, Show, createEffect, createMemo, createSignal, onCleanup, onMount, type Accessor } from 'solid-js';
+import { For, Index, Show, createEffect, createMemo, createSignal, onCleanup, onMount, untrack, type Accessor } from 'solid-js';
 import type { CodeView } from '@gloss/model';
 import { formatTime } from '../../doc/time.js';
 import { turnIndexAt, type CodeMark } from '@gloss/model';
@@ -199,6 +199,12 @@ export function Transcript(props: TranscriptProps) {
     const list = props.remote();
     shown();
     props.state.words();
+    // nobody else's caret: no layout to read (each batch of turns drawn while a long text opens would
+    // otherwise force a layout of the whole transcript here)
+    if (list.length === 0) {
+      if (untrack(carets).length > 0) setCarets([]);
+      return;
+    }
     queueMicrotask(() => {
       const base = root.getBoundingClientRect();
       const out = [];

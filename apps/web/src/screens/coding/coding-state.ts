@@ -10,7 +10,7 @@ import {
   type ChangeEntry, type CodeGroup, type CodeView, type MarkAssignment, type ResolvedTurn,
 } from '@gloss/model';
 import { codesInView } from '../../doc/code-marks.js';
-import type { OpenDoc } from '../../sync/open-doc.js';
+import { PRIMED, nextInOwnTask, type OpenDoc } from '../../sync/open-doc.js';
 import { useFlags } from './flags-source.js';
 import type { Segment } from '../../doc/flag-view.js';
 import type { FlagSet } from '../../doc/flag-pack.js';
@@ -37,17 +37,24 @@ export interface CodingState {
   flags: Accessor<FlagSet>;
 }
 
-/** A signal bumped (at most once per animation frame) whenever `type` or anything inside it changes. */
+/**
+ * A signal bumped (once per batch of changes) whenever `type` or anything inside it changes. A whole
+ * document's state from the opening request (origin PRIMED) bumps it in a task of its own: applying a
+ * layer and re-resolving and laying out its segments are each long, and one task doing both blocked the
+ * page for longer than the 50 ms a person notices (issue 11).
+ */
 function version(types: Array<Y.AbstractType<any>>): Accessor<number> {
   const [v, setV] = createSignal(0);
   let queued = false;
-  const bump = () => {
+  const run = () => {
+    queued = false;
+    setV((n) => n + 1);
+  };
+  const bump = (_events: unknown, transaction: Y.Transaction) => {
     if (queued) return;
     queued = true;
-    queueMicrotask(() => {
-      queued = false;
-      setV((n) => n + 1);
-    });
+    if (transaction.origin === PRIMED) nextInOwnTask(run);
+    else queueMicrotask(run);
   };
   for (const t of types) t.observeDeep(bump);
   onCleanup(() => types.forEach((t) => t.unobserveDeep(bump)));

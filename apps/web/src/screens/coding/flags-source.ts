@@ -11,6 +11,9 @@ import type { OpenDoc } from '../../sync/open-doc.js';
 import type { LayerHandle } from './coding-state.js';
 import type { FlagsReply, FlagsRequest } from './flags-protocol.js';
 
+/** A valid update that changes nothing (a layer's state is sent after the worker starts). */
+const EMPTY_STATE = Y.encodeStateAsUpdate(new Y.Doc());
+
 export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, independent: Accessor<boolean>): { flags: Accessor<FlagSet>; error: Accessor<string> } {
   const [flags, setFlags] = createSignal<FlagSet>(EMPTY_FLAGS);
   const [error, setError] = createSignal('');
@@ -35,14 +38,28 @@ export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly L
     if (e.data.type === 'flags') setFlags(unpackFlags(e.data.flags));
     else setError(e.data.message);
   };
+  // The text goes with the first message (the engine reads every later change as an edit of it); each
+  // layer's state follows in a task of its own, as encoding five layers with the text in one task held
+  // the page for hundreds of milliseconds while a text opened (issue 11). A change a layer makes
+  // meanwhile is forwarded as it happens; Yjs applies it in the worker whichever arrives first.
   send({
     type: 'init',
     text: Y.encodeStateAsUpdate(text.doc),
     codebook: Y.encodeStateAsUpdate(codebook.doc),
-    layers: allLayers.map((l) => ({ layerId: l.doc.room, coder: l.coderId, update: Y.encodeStateAsUpdate(l.doc.doc) })),
+    layers: allLayers.map((l) => ({ layerId: l.doc.room, coder: l.coderId, update: EMPTY_STATE })),
     visible: ids(),
     independentCoding: independent(),
   });
+  const states = allLayers.filter((l) => l.doc.doc.store.clients.size > 0);
+  let stopped = false;
+  let timer = 0;
+  const sendNextState = () => {
+    const l = states.shift();
+    if (stopped || !l) return;
+    send({ type: 'update', doc: l.doc.room, update: Y.encodeStateAsUpdate(l.doc.doc) });
+    if (states.length > 0) timer = window.setTimeout(sendNextState, 0);
+  };
+  if (states.length > 0) timer = window.setTimeout(sendNextState, 0);
   const forward = (key: string) => (update: Uint8Array) => send({ type: 'update', doc: key, update });
   const pairs: Array<[Y.Doc, (u: Uint8Array) => void]> = [
     [text.doc, forward('text')],
@@ -53,6 +70,8 @@ export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly L
   createEffect(() => send({ type: 'visible', layerIds: ids() }));
   createEffect(() => send({ type: 'independent', on: independent() }));
   onCleanup(() => {
+    stopped = true;
+    clearTimeout(timer);
     for (const [d, f] of pairs) d.off('update', f);
     worker.terminate();
   });
