@@ -42,7 +42,7 @@ export interface OpenOptions {
  * operating system caches the files. Later (issue 11, /proc/<pid>/smaps at rest): of the 128 MB
  * WebAssembly memory only ~31 MB is resident; most of the rest was a new folder's initdb (garbage of a
  * second PostgreSQL instance, and allocator memory it left behind), now run in a child process
- * (pglite-first-start.ts): demo at rest after a fresh start 391-455 MB -> 244-345 MB over nine runs
+ * (pglite-first-start.ts): demo at rest after a fresh start 391-455 MB -> 270-345 MB over four runs
  * (the spread is glibc keeping freed memory: malloc_trim through gdb gave back 30-90 MB each time).
  */
 export const PGLITE_MEMORY_SETTINGS: readonly string[] = ['shared_buffers=16MB', 'work_mem=1MB', 'maintenance_work_mem=8MB', 'temp_buffers=1MB'];
