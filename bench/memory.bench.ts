@@ -2,14 +2,18 @@
  * Server memory (issue 11 items 3 and 6, issue 13): resident memory of `gloss serve` as `pnpm start`
  * runs it (a child process, VmRSS from /proc), at rest and with documents loaded.
  * - `memory.rest.pglite-demo`: a fresh embedded database seeded with the demo, nobody connected, once
- *   the demo is seeded and the projection has caught up (target <= 300 MB; 887 MB measured before);
+ *   the demo is seeded and the projection has caught up (target <= 300 MB; 887 MB in issue 11, 391-455 MB
+ *   before a new folder's initdb moved to a child process, packages/db/src/pglite-first-start.ts);
+ *   `hwmMb` is the peak since start;
  * - `memory.rest.pglite-empty` and `memory.rest.postgres` (when DATABASE_URL is set): no demo;
  * - `memory.loaded-documents.pglite`: 1,000 small texts (one 200-word turn each), one WebSocket per
  *   text's room opened until the room answered (loaded), RSS sampled at 0, 10, 100 and 1,000 rooms:
  *   memory per loaded document is the growth from 0 to 1,000 divided by 1,000.
+ * - `memory.load.pglite` and `memory.load.postgres` (when DATABASE_URL is set): the relay bench's load
+ *   (50 clients x 5 edits/s on one text, its server) and the server's RSS at the end of the measured window.
  * No outside reference is run here (bench/relay.bench.ts runs the y-websocket server for relay).
  * BENCH_MEMORY_DOCUMENTS (default 1000) makes the loaded-documents part smaller for a quick check;
- * BENCH_MEMORY_PARTS (demo, loaded-documents, postgres; default all) picks parts.
+ * BENCH_MEMORY_PARTS (demo, loaded-documents, postgres, load; default all) picks parts.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { readFileSync, mkdtempSync, rmSync } from 'node:fs';
@@ -20,7 +24,7 @@ import { openDatabase } from '@gloss/db';
 import { admin } from '@gloss/server';
 import { freshPostgresDatabase } from '../test/support/postgres.js';
 import WebSocket from 'ws';
-import { BENCH_SYNC_LIMITS } from './relay.bench.js';
+import { BENCH_SYNC_LIMITS, measure } from './relay.bench.js';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const mb = (kb: number) => Math.round(kb / 1024);
@@ -95,7 +99,7 @@ async function atRest(child: Child) {
 export async function run() {
   const out: Array<Record<string, unknown> & { name: string }> = [];
   const parts = process.env.BENCH_MEMORY_PARTS?.split(',').filter(Boolean);
-  for (const [name, part] of [['memory.demo', demoAtRest], ['memory.loaded-documents', loadedDocuments], ['memory.postgres', postgresAtRest]] as const) {
+  for (const [name, part] of [['memory.demo', demoAtRest], ['memory.loaded-documents', loadedDocuments], ['memory.postgres', postgresAtRest], ['memory.load', underLoad]] as const) {
     if (parts && !parts.includes(name.replace('memory.', ''))) continue;
     // One part failing (a busy machine, no PostgreSQL) keeps the others' figures.
     await part(out).catch((err: unknown) => out.push({ name, error: String((err as Error)?.stack ?? err) }));
@@ -110,7 +114,16 @@ async function demoAtRest(out: Out) {
     const dir = mkdtempSync(join(tmpdir(), 'gloss-bench-mem-'));
     const child = await serve({ DATA_DIR: dir });
     try {
-      out.push({ name: 'memory.rest.pglite-demo', ...(await atRest(child)), targetMb: 300, before: { rssMb: 887, note: 'issue 11, measured after pnpm start on a fresh clone' }, loadavg1: load1() });
+      out.push({
+        name: 'memory.rest.pglite-demo',
+        ...(await atRest(child)),
+        targetMb: 300,
+        before: [
+          { rssMb: 887, note: 'issue 11, measured after pnpm start on a fresh clone' },
+          { rssMb: 414, rangeMb: [391, 455], note: 'initdb in the server process; 745-846 MB while its garbage was not yet collected' },
+        ],
+        loadavg1: load1(),
+      });
     } finally {
       await child.stop();
       rmSync(dir, { recursive: true, force: true });
@@ -204,5 +217,23 @@ async function postgresAtRest(out: Out) {
     } finally {
       await fresh.drop();
     }
+  }
+}
+
+const LOAD_CLIENTS = 50;
+
+async function underLoad(out: Out) {
+  for (const kind of ['gloss-pglite', 'gloss-postgres'] as const) {
+    if (kind === 'gloss-postgres' && !process.env.DATABASE_URL) continue;
+    const relay = await measure(kind, LOAD_CLIENTS);
+    out.push({
+      name: `memory.load.${kind.replace('gloss-', '')}`,
+      rssMb: relay.serverRssMb,
+      clients: LOAD_CLIENTS,
+      editsPerSecPerClient: relay.editsPerSecPerClient,
+      updatesSent: relay.updatesSent,
+      before: kind === 'gloss-pglite' ? { rssMb: [530, 570], note: 'issue 11, 50 clients, gloss as pnpm start runs it' } : null,
+      loadavg1: load1(),
+    });
   }
 }

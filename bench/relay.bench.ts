@@ -66,7 +66,8 @@ export interface BenchServer {
   wsBase: string;
   room: string;
   headers: Record<string, string>;
-  cpu(): Promise<{ user: number; system: number; socketWrites: number }>;
+  /** CPU time so far, and resident memory now (the memory bench reads it under load). */
+  cpu(): Promise<{ user: number; system: number; socketWrites: number; rssMb: number }>;
   stop(): Promise<void>;
 }
 
@@ -144,7 +145,7 @@ async function childMain(kind: string): Promise<void> {
   process.stdout.write(JSON.stringify({ event: 'ready', ...info }) + '\n');
   // Answers "cpu" with this process's CPU time so far (microseconds).
   createInterface({ input: process.stdin }).on('line', (line) => {
-    if (line === 'cpu') process.stdout.write(JSON.stringify({ event: 'cpu', ...process.cpuUsage(), socketWrites }) + '\n');
+    if (line === 'cpu') process.stdout.write(JSON.stringify({ event: 'cpu', ...process.cpuUsage(), socketWrites, rssMb: Math.round(process.memoryUsage.rss() / 1048576) }) + '\n');
   });
   process.stdin.on('end', () => {
     cleanup().then(
@@ -212,7 +213,7 @@ export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
       const reply = next('cpu');
       child.stdin!.write('cpu\n');
       const msg = await reply;
-      return { user: msg.user as number, system: msg.system as number, socketWrites: (msg.socketWrites as number | undefined) ?? NaN };
+      return { user: msg.user as number, system: msg.system as number, socketWrites: (msg.socketWrites as number | undefined) ?? NaN, rssMb: (msg.rssMb as number | undefined) ?? NaN };
     },
     async stop() {
       const exited = new Promise((resolve) => child.once('exit', resolve));
@@ -331,6 +332,8 @@ export async function measure(kind: ServerKind, clients: number): Promise<Record
       serverCpuPercent: round((cpuUs / 1000 / MEASURE_MS) * 100, 1),
       // Load-independent: write system calls the server made per update relayed (peers + database).
       serverSocketWritesPerUpdate: round((cpu1.socketWrites - cpu0.socketWrites) / Math.max(1, sent), 1),
+      // Resident memory of the server process at the end of the measured window.
+      serverRssMb: cpu1.rssMb,
     };
   } finally {
     await server.stop();

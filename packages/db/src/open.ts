@@ -14,6 +14,7 @@ import { drizzle as drizzlePostgres } from 'drizzle-orm/postgres-js';
 import { migrate as migratePostgres } from 'drizzle-orm/postgres-js/migrator';
 import postgres from 'postgres';
 import { DatabaseError } from './errors.js';
+import { firstStartInChild, needsFirstStart } from './pglite-first-start.js';
 import * as schema from './schema.js';
 
 export type Schema = typeof schema;
@@ -37,8 +38,12 @@ export interface OpenOptions {
  * WebAssembly memory of this process, which never shrinks. Measured on the demo right after start
  * (issue 11): resident 491 MB with the defaults, 381 MB with these; `relaxedDurability` (532 MB),
  * glibc's MALLOC_ARENA_MAX=2 (513 MB), lazy WebAssembly compilation (488 MB) and shared_buffers 8 MB
- * (386 MB) gave nothing more; the rest is mostly PGlite's initial 128 MB WebAssembly memory and code. A
- * study's working set is far smaller than 16 MB of pages, and the operating system caches the files.
+ * (386 MB) gave nothing more. A study's working set is far smaller than 16 MB of pages, and the
+ * operating system caches the files. Later (issue 11, /proc/<pid>/smaps at rest): of the 128 MB
+ * WebAssembly memory only ~31 MB is resident; most of the rest was a new folder's initdb (garbage of a
+ * second PostgreSQL instance, and allocator memory it left behind), now run in a child process
+ * (pglite-first-start.ts): demo at rest after a fresh start 391-455 MB -> 270-345 MB over four runs
+ * (the spread is glibc keeping freed memory: malloc_trim through gdb gave back 30-90 MB each time).
  */
 export const PGLITE_MEMORY_SETTINGS: readonly string[] = ['shared_buffers=16MB', 'work_mem=1MB', 'maintenance_work_mem=8MB', 'temp_buffers=1MB'];
 
@@ -70,9 +75,15 @@ export async function openDatabase(options: OpenOptions = {}): Promise<Database>
 
 async function openPglite(dataDir: string | undefined, settings: readonly string[]): Promise<Database> {
   let client: PGlite;
+  const startParams = [...PGlite.defaultStartParams, ...settings.flatMap((s) => ['-c', s])];
   try {
     if (dataDir) mkdirSync(dataDir, { recursive: true });
-    const startParams = [...PGlite.defaultStartParams, ...settings.flatMap((s) => ['-c', s])];
+  } catch (cause) {
+    throw new DatabaseError('db_open_failed', `cannot create PGlite data folder ${dataDir}: ${String(cause)}`, { cause });
+  }
+  // A new folder's initdb and first migrations run in a child process (pglite-first-start.ts).
+  if (dataDir && needsFirstStart(dataDir)) await firstStartInChild(dataDir, migrationsFolder, startParams);
+  try {
     client = await PGlite.create({ ...(dataDir ? { dataDir } : {}), startParams });
   } catch (cause) {
     throw new DatabaseError('db_open_failed', `cannot open PGlite data folder ${dataDir ?? '(memory)'}: ${String(cause)}`, { cause });
