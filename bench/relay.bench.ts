@@ -17,6 +17,9 @@
  * machine load. Windows: BENCH_RELAY_WARMUP_MS (1 s) warm-up, then BENCH_RELAY_MEASURE_MS (4 s) measured.
  * Each record gives the server's resident memory (RSS) at the end of its window and the 1-minute load
  * average of the machine, which is shared: CPU time per update is the steadier figure, p99 swings with load.
+ * At 100 and 200 clients every server relays 50,000 and 200,000 messages a second, all received by this
+ * one measuring process: a server (or this process) that falls behind answers the CPU reading late, so
+ * a saturated window reads over 100 % CPU and its CPU per update is not comparable (serverCpuPercent shows it).
  * BENCH_RELAY_CLIENTS=50 and BENCH_RELAY_SERVERS=reference,gloss-pglite narrow a run (profiling).
  * Run as a child with BENCH_SERVER=gloss|reference|reference-leveldb it is the server under test instead.
  */
