@@ -24,7 +24,7 @@ import { openDatabase } from '@gloss/db';
 import { admin } from '@gloss/server';
 import { freshPostgresDatabase } from '../test/support/postgres.js';
 import WebSocket from 'ws';
-import { BENCH_SYNC_LIMITS, measure } from './relay.bench.js';
+import { BENCH_SYNC_LIMITS, measure, startBenchServer } from './relay.bench.js';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const mb = (kb: number) => Math.round(kb / 1024);
@@ -225,7 +225,13 @@ const LOAD_CLIENTS = 50;
 async function underLoad(out: Out) {
   for (const kind of ['gloss-pglite', 'gloss-postgres'] as const) {
     if (kind === 'gloss-postgres' && !process.env.DATABASE_URL) continue;
-    const relay = await measure(kind, LOAD_CLIENTS);
+    const server = await startBenchServer(kind);
+    let relay;
+    try {
+      relay = await measure(server, LOAD_CLIENTS, server.room);
+    } finally {
+      await server.stop();
+    }
     out.push({
       name: `memory.load.${kind.replace('gloss-', '')}`,
       rssMb: relay.serverRssMb,

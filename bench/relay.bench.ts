@@ -10,7 +10,16 @@
  * update committed to the log before it is relayed. Target (issue 11): p99 and CPU per update within
  * 1.2x of the in-memory reference at every size; each record gives its ratio to both references.
  *
- * Windows: 1 s warm-up, then MEASURE_MS (4 s) measured, per server and size.
+ * Each server starts once and serves every size, each size in a room of its own (a fresh text layer
+ * for Gloss), so start-up (tens of seconds of transpiling on a loaded machine) is paid once per server.
+ * Sizes run one after another; within a size the servers take turns in the order listed, and
+ * BENCH_RELAY_ROUNDS (1) repeats the turns, each round in a fresh room, for A/B figures under the same
+ * machine load. Windows: BENCH_RELAY_WARMUP_MS (1 s) warm-up, then BENCH_RELAY_MEASURE_MS (4 s) measured.
+ * Each record gives the server's resident memory (RSS) at the end of its window and the 1-minute load
+ * average of the machine, which is shared: CPU time per update is the steadier figure, p99 swings with load.
+ * At 100 and 200 clients every server relays 50,000 and 200,000 messages a second, all received by this
+ * one measuring process: a server (or this process) that falls behind answers the CPU reading late, so
+ * a saturated window reads over 100 % CPU and its CPU per update is not comparable (serverCpuPercent shows it).
  * BENCH_RELAY_CLIENTS=50 and BENCH_RELAY_SERVERS=reference,gloss-pglite narrow a run (profiling).
  * Run as a child with BENCH_SERVER=gloss|reference|reference-leveldb it is the server under test instead.
  */
@@ -22,7 +31,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { createInterface } from 'node:readline';
-import { fileURLToPath } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import * as decoding from 'lib0/decoding';
 import * as encoding from 'lib0/encoding';
 import { WebSocket, WebSocketServer } from 'ws';
@@ -40,8 +49,10 @@ const EDITS_PER_SEC = 5;
  * per-address (500) connection limits a real deployment keeps (sync/budgets.ts): raised here only.
  */
 export const BENCH_SYNC_LIMITS = { MAX_CONNECTIONS_PER_USER: '100000', MAX_CONNECTIONS_PER_ADDRESS: '100000' } as const;
-const WARMUP_MS = 1_000;
-const MEASURE_MS = 4_000;
+const WARMUP_MS = Number(process.env.BENCH_RELAY_WARMUP_MS ?? 1_000);
+const MEASURE_MS = Number(process.env.BENCH_RELAY_MEASURE_MS ?? 4_000);
+/** Rooms each server makes ready: one per size and round (BENCH_RELAY_ROOMS, set by the parent). */
+const ROOM_COUNT = Number(process.env.BENCH_RELAY_ROOMS ?? 1);
 
 export type ServerKind = 'reference' | 'reference-leveldb' | 'gloss-pglite' | 'gloss-postgres' | 'gloss-pglite-before' | 'gloss-postgres-before';
 
@@ -64,16 +75,19 @@ export interface BenchServer {
   kind: ServerKind;
   /** ws://host:port/<prefix>: append the room. */
   wsBase: string;
+  /** The first of `rooms`. */
   room: string;
+  /** Rooms ready to use, each empty (BENCH_RELAY_ROOMS of them). */
+  rooms: string[];
   headers: Record<string, string>;
-  /** CPU time so far, and resident memory now (the memory bench reads it under load). */
-  cpu(): Promise<{ user: number; system: number; socketWrites: number; rssMb: number }>;
+  /** CPU time so far, and resident memory now in bytes (the memory bench reads it under load). */
+  cpu(): Promise<{ user: number; system: number; socketWrites: number; rss: number }>;
   stop(): Promise<void>;
 }
 
 // ---------------------------------------------------------------------------------------------- child
 
-async function serveReference(): Promise<{ port: number; room: string; wsPath: string }> {
+async function serveReference(): Promise<{ port: number; rooms: string[]; wsPath: string }> {
   const require = createRequire(join(here, 'package.json'));
   const { setupWSConnection } = require('y-websocket/bin/utils') as {
     setupWSConnection: (ws: WebSocket, req: unknown, opts: { docName: string }) => void;
@@ -84,16 +98,22 @@ async function serveReference(): Promise<{ port: number; room: string; wsPath: s
     wss.handleUpgrade(req, socket, head, (ws) => setupWSConnection(ws, req, { docName: (req.url ?? '/').slice(1).split('?')[0]! }));
   });
   await new Promise<void>((resolve) => http.listen(0, '127.0.0.1', resolve));
-  return { port: (http.address() as AddressInfo).port, room: 'bench-room', wsPath: '' };
+  return { port: (http.address() as AddressInfo).port, rooms: Array.from({ length: ROOM_COUNT }, (_, i) => `bench-room-${i}`), wsPath: '' };
 }
 
-async function serveGloss(): Promise<{ port: number; room: string; wsPath: string; email: string; password: string; cleanup: () => Promise<void> }> {
-  const { startServer } = await import('../apps/server/src/server.js');
-  const { loadConfig } = await import('../apps/server/src/config.js');
-  const admin = await import('../apps/server/src/admin/index.js');
+/**
+ * BENCH_GLOSS_ROOT: the checkout whose server this child runs (default this one): the "-before" kinds
+ * run an earlier commit's server under this file's harness, so both sides are driven the same way.
+ */
+async function serveGloss(): Promise<{ port: number; rooms: string[]; wsPath: string; email: string; password: string; cleanup: () => Promise<void> }> {
+  const root = process.env.BENCH_GLOSS_ROOT ?? repoRoot;
+  const from = (path: string) => import(pathToFileURL(join(root, path)).href);
+  const { startServer } = (await from('apps/server/src/server.ts')) as typeof import('../apps/server/src/server.js');
+  const { loadConfig } = (await from('apps/server/src/config.ts')) as typeof import('../apps/server/src/config.js');
+  const admin = (await from('apps/server/src/admin/index.ts')) as typeof import('../apps/server/src/admin/index.js');
   // Its own database either way: a fresh PostgreSQL database, or a copy of the migrated PGlite template.
-  const { freshPgliteDir } = await import('../test/support/pglite-template.js');
-  const { freshPostgresDatabase } = await import('../test/support/postgres.js');
+  const { freshPgliteDir } = (await from('test/support/pglite-template.ts')) as typeof import('../test/support/pglite-template.js');
+  const { freshPostgresDatabase } = (await from('test/support/postgres.ts')) as typeof import('../test/support/postgres.js');
   const pg = process.env.DATABASE_URL ? await freshPostgresDatabase() : null;
   const folder = pg ? null : await freshPgliteDir();
   const config = loadConfig({
@@ -111,19 +131,22 @@ async function serveGloss(): Promise<{ port: number; room: string; wsPath: strin
   const user = await admin.createUser(server.db, { email, name: 'Bench Coder', password });
   const study = await admin.createStudy(server.db, { title: 'Bench study', createdBy: user.id });
   // The coder's own layer of a text: a room written without a per-update write rule, as coding is.
-  const text = await admin.addTextFromTranscript(server.db, study.id, {
-    title: 'Bench text',
-    sourceFormat: 'txt',
-    createdBy: user.id,
-    transcript: admin.transcriptFromPlainText('Interviewer: How did the week go?\n\nParticipant: Long, but we managed.'),
-  });
-  const layerRoom = await admin.ensureLayer(server.db, study.id, text.id, user.id);
+  const rooms: string[] = [];
+  for (let i = 0; i < ROOM_COUNT; i++) {
+    const text = await admin.addTextFromTranscript(server.db, study.id, {
+      title: `Bench text ${i + 1}`,
+      sourceFormat: 'txt',
+      createdBy: user.id,
+      transcript: admin.transcriptFromPlainText('Interviewer: How did the week go?\n\nParticipant: Long, but we managed.'),
+    });
+    rooms.push(await admin.ensureLayer(server.db, study.id, text.id, user.id));
+  }
   const cleanup = async () => {
     await server.close();
     folder?.remove();
     await pg?.drop();
   };
-  return { port: server.port, room: layerRoom, wsPath: '/sync', email, password, cleanup };
+  return { port: server.port, rooms, wsPath: '/sync', email, password, cleanup };
 }
 
 /** Socket writes made by this process (one write system call each, corked or not): counted by wrapping net.Socket. */
@@ -145,7 +168,7 @@ async function childMain(kind: string): Promise<void> {
   process.stdout.write(JSON.stringify({ event: 'ready', ...info }) + '\n');
   // Answers "cpu" with this process's CPU time so far (microseconds).
   createInterface({ input: process.stdin }).on('line', (line) => {
-    if (line === 'cpu') process.stdout.write(JSON.stringify({ event: 'cpu', ...process.cpuUsage(), socketWrites, rssMb: Math.round(process.memoryUsage.rss() / 1048576) }) + '\n');
+    if (line === 'cpu') process.stdout.write(JSON.stringify({ event: 'cpu', ...process.cpuUsage(), socketWrites, rss: process.memoryUsage.rss() }) + '\n');
   });
   process.stdin.on('end', () => {
     cleanup().then(
@@ -161,8 +184,8 @@ async function childMain(kind: string): Promise<void> {
 // --------------------------------------------------------------------------------------------- parent
 
 /** Starts a server of `kind` in a child process (tsx via --import, so the pid is the server's own). */
-export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
-  const env: NodeJS.ProcessEnv = { ...process.env, BENCH_SERVER: kind.startsWith('reference') ? kind : 'gloss' };
+export async function startBenchServer(kind: ServerKind, roomCount = 1): Promise<BenchServer> {
+  const env: NodeJS.ProcessEnv = { ...process.env, BENCH_SERVER: kind.startsWith('reference') ? kind : 'gloss', BENCH_RELAY_ROOMS: String(roomCount) };
   if (kind === 'gloss-pglite' || kind === 'gloss-pglite-before') delete env.DATABASE_URL;
   // y-websocket's utils switch their LevelDB persistence on when YPERSISTENCE names a folder.
   let leveldbDir: string | null = null;
@@ -170,10 +193,9 @@ export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
   else delete env.YPERSISTENCE;
   // BENCH_SERVER_NODE_ARGS: extra node flags for the server only (e.g. --cpu-prof when looking into a figure).
   const nodeArgs = (process.env.BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean);
-  const before = kind.endsWith('-before');
-  const root = before ? BEFORE_ROOT! : repoRoot;
-  const script = before ? join(root, 'bench', 'relay.bench.ts') : fileURLToPath(import.meta.url);
-  const child: ChildProcess = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', script], {
+  const root = kind.endsWith('-before') ? BEFORE_ROOT! : repoRoot;
+  env.BENCH_GLOSS_ROOT = root;
+  const child: ChildProcess = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', fileURLToPath(import.meta.url)], {
     cwd: root,
     env,
     stdio: ['pipe', 'pipe', 'inherit'],
@@ -207,13 +229,14 @@ export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
   return {
     kind,
     wsBase: `ws://127.0.0.1:${ready.port as number}${ready.wsPath as string}`,
-    room: ready.room as string,
+    room: (ready.rooms as string[])[0]!,
+    rooms: ready.rooms as string[],
     headers,
     async cpu() {
       const reply = next('cpu');
       child.stdin!.write('cpu\n');
       const msg = await reply;
-      return { user: msg.user as number, system: msg.system as number, socketWrites: (msg.socketWrites as number | undefined) ?? NaN, rssMb: (msg.rssMb as number | undefined) ?? NaN };
+      return { user: msg.user as number, system: msg.system as number, socketWrites: (msg.socketWrites as number | undefined) ?? NaN, rss: msg.rss as number };
     },
     async stop() {
       const exited = new Promise((resolve) => child.once('exit', resolve));
@@ -225,8 +248,8 @@ export async function startBenchServer(kind: ServerKind): Promise<BenchServer> {
 }
 
 /** A bare protocol client: answers nothing, decodes only what it is asked to time. */
-export function openSocket(server: BenchServer, onMessage?: (data: Uint8Array) => void): Promise<WebSocket> {
-  const ws = new WebSocket(`${server.wsBase}/${server.room}`, { headers: server.headers });
+export function openSocket(server: BenchServer, onMessage?: (data: Uint8Array) => void, room = server.room): Promise<WebSocket> {
+  const ws = new WebSocket(`${server.wsBase}/${room}`, { headers: server.headers });
   ws.binaryType = 'nodebuffer';
   if (onMessage) ws.on('message', (data: Buffer) => onMessage(new Uint8Array(data.buffer, data.byteOffset, data.byteLength)));
   return new Promise((resolve, reject) => {
@@ -262,16 +285,20 @@ export function percentile(sorted: number[], p: number): number {
 }
 
 const round = (n: number, digits = 2) => Math.round(n * 10 ** digits) / 10 ** digits;
+const round2 = (n: number) => round(n);
 
-export async function measure(kind: ServerKind, clients: number): Promise<Record<string, unknown> & { name: string }> {
+/** One window: `clients` editors and a listener in `room` of a running server. */
+export async function measure(server: BenchServer, clients: number, room: string): Promise<Record<string, unknown> & { name: string }> {
   Y = await import('yjs');
-  const server = await startBenchServer(kind);
-  try {
+  const kind = server.kind;
+  {
     // Send time of each update sent inside the measured window (only those are timed).
     const sentAt = new Map<string, number>();
     const latencies: number[] = [];
     let measuring = false;
-    const listener = await openSocket(server, (message) => {
+    const listener = await openSocket(
+      server,
+      (message) => {
       const now = performance.now();
       for (const id of updateIds(message)) {
         const t = sentAt.get(id);
@@ -280,9 +307,11 @@ export async function measure(kind: ServerKind, clients: number): Promise<Record
           latencies.push(now - t);
         }
       }
-    });
+      },
+      room,
+    );
     listener.send(syncMessage(0, Y.encodeStateVector(new Y.Doc())));
-    const editors = await Promise.all(Array.from({ length: clients }, () => openSocket(server)));
+    const editors = await Promise.all(Array.from({ length: clients }, () => openSocket(server, undefined, room)));
     let sent = 0;
     const timers = editors.map((ws, i) => {
       const doc = new Y.Doc();
@@ -332,11 +361,8 @@ export async function measure(kind: ServerKind, clients: number): Promise<Record
       serverCpuPercent: round((cpuUs / 1000 / MEASURE_MS) * 100, 1),
       // Load-independent: write system calls the server made per update relayed (peers + database).
       serverSocketWritesPerUpdate: round((cpu1.socketWrites - cpu0.socketWrites) / Math.max(1, sent), 1),
-      // Resident memory of the server process at the end of the measured window.
-      serverRssMb: cpu1.rssMb,
+      serverRssMb: round(cpu1.rss / 2 ** 20, 0),
     };
-  } finally {
-    await server.stop();
   }
 }
 
@@ -348,32 +374,51 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
   const kinds = ALL_KINDS.filter((k) => (wantedKinds ? wantedKinds.includes(k) : true)).filter((k) => !k.startsWith('gloss-postgres') || process.env.DATABASE_URL)
     .filter((k) => !k.endsWith('-before') || BEFORE_ROOT);
   const sizes = (process.env.BENCH_RELAY_CLIENTS ?? '10,50,100,200').split(',').map(Number);
+  const rounds = Number(process.env.BENCH_RELAY_ROUNDS ?? 1);
   const records: Array<Record<string, unknown> & { name: string }> = [];
-  for (const clients of sizes) {
-    const byKind = new Map<ServerKind, Record<string, unknown>>();
-    for (const kind of kinds) {
-      const record = await measure(kind, clients);
-      byKind.set(kind, record);
-      records.push({ ...record, loadAverage1m: round(loadavg()[0]!) });
-      // Progress on stderr: a long curve run that fails late still shows what it measured.
-      process.stderr.write(JSON.stringify(records.at(-1)) + '\n');
-    }
-    for (const kind of kinds.filter((k) => !REFERENCES.includes(k))) {
-      const r = byKind.get(kind)!;
-      for (const refKind of REFERENCES) {
-        const ref = byKind.get(refKind);
-        if (ref === undefined) continue;
-        records.push({
-          name: 'relay-vs-reference',
-          server: kind,
-          reference: SERVER_NAMES[refKind],
-          clients,
-          p99Ratio: round((r.p99Ms as number) / (ref.p99Ms as number)),
-          cpuPerUpdateRatio: round((r.serverCpuUsPerUpdate as number) / (ref.serverCpuUsPerUpdate as number)),
-          target: refKind === 'reference' ? '<= 1.2' : 'informative',
-        });
+  const servers = new Map<ServerKind, BenchServer>();
+  try {
+    // Started side by side: start-up is not measured, and one after another it took minutes on a loaded machine.
+    const started = await Promise.allSettled(kinds.map(async (kind) => servers.set(kind, await startBenchServer(kind, sizes.length * rounds))));
+    for (const result of started) if (result.status === 'rejected') throw result.reason;
+    let nextRoom = 0;
+    for (const clients of sizes) {
+      for (let round = 1; round <= rounds; round++) {
+        const room = nextRoom++;
+        const byKind = new Map<ServerKind, Record<string, unknown>>();
+        // Alternate rounds take turns in reverse, so neither side of an A/B pair always goes first.
+        for (const kind of round % 2 === 1 ? kinds : [...kinds].reverse()) {
+          const server = servers.get(kind)!;
+          const record = await measure(server, clients, server.rooms[room]!);
+          byKind.set(kind, record);
+          records.push({ ...record, ...(rounds > 1 ? { round } : {}), loadAverage1m: round2(loadavg()[0]!) });
+          // Progress on stderr: a long curve run that fails late still shows what it measured.
+          process.stderr.write(JSON.stringify(records.at(-1)) + '\n');
+        }
+        for (const kind of kinds.filter((k) => !REFERENCES.includes(k))) {
+          const r = byKind.get(kind)!;
+          for (const refKind of REFERENCES) {
+            const ref = byKind.get(refKind);
+            if (ref === undefined) continue;
+            records.push({
+              name: 'relay-vs-reference',
+              server: SERVER_NAMES[kind],
+              reference: SERVER_NAMES[refKind],
+              clients,
+              ...(rounds > 1 ? { round } : {}),
+              p50Ratio: round2((r.p50Ms as number) / (ref.p50Ms as number)),
+              p99Ratio: round2((r.p99Ms as number) / (ref.p99Ms as number)),
+              cpuPerUpdateRatio: round2((r.serverCpuUsPerUpdate as number) / (ref.serverCpuUsPerUpdate as number)),
+              rssRatio: round2((r.serverRssMb as number) / (ref.serverRssMb as number)),
+              target: refKind === 'reference' ? 'p99 and CPU per update <= 1.2' : 'informative',
+              loadAverage1m: round2(loadavg()[0]!),
+            });
+          }
+        }
       }
     }
+  } finally {
+    for (const server of servers.values()) await server.stop();
   }
   return records;
 }

@@ -39,6 +39,12 @@ export function createProjector(o: ProjectorOptions): Projector {
   const delay = o.delayMs ?? 200;
   const project = o.project ?? ((id: string) => projectDocument(o.db, o.store, id));
   const timers = new Map<string, NodeJS.Timeout>();
+  /**
+   * When each waiting document's quiet time ends. A change moves this only; its timer, when it fires
+   * early, waits out the rest. One timer per burst instead of a clearTimeout and a setTimeout per
+   * committed update, which were on the relay's hot path (issue 11 profile).
+   */
+  const dueAt = new Map<string, number>();
   const queued = new Set<string>();
   /** Each document's latest run in the queue, until it has finished. */
   const runs = new Map<string, Promise<void>>();
@@ -50,6 +56,7 @@ export function createProjector(o: ProjectorOptions): Projector {
     const t = timers.get(docId);
     if (t) clearTimeout(t);
     timers.delete(docId);
+    dueAt.delete(docId);
     // Already waiting in the queue: that run will read the newest state anyway.
     if (queued.has(docId)) return;
     queued.add(docId);
@@ -69,14 +76,21 @@ export function createProjector(o: ProjectorOptions): Projector {
     });
   };
 
+  const arm = (docId: string, ms: number) => {
+    const timer = setTimeout(() => {
+      const left = (dueAt.get(docId) ?? 0) - performance.now();
+      if (left > 0) arm(docId, left);
+      else enqueue(docId);
+    }, ms);
+    timer.unref();
+    timers.set(docId, timer);
+  };
+
   return {
     notify(docId) {
       if (closed) return;
-      const t = timers.get(docId);
-      if (t) clearTimeout(t);
-      const timer = setTimeout(() => enqueue(docId), delay);
-      timer.unref();
-      timers.set(docId, timer);
+      dueAt.set(docId, performance.now() + delay);
+      if (!timers.has(docId)) arm(docId, delay);
     },
     async flush() {
       // A change may arrive while we wait: loop until nothing is pending or queued.
