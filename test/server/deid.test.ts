@@ -13,7 +13,7 @@
 import * as Y from 'yjs';
 import WebSocket from 'ws';
 import { WebsocketProvider } from 'y-websocket';
-import { and, asc, auditLog, documents, eq, updates, pseudonyms, segmentComments, type Db } from '@gloss/db';
+import { and, asc, auditLog, documents, eq, rounds, studies, updates, pseudonyms, segmentComments, type Db } from '@gloss/db';
 import { addCode, addExample, addMemo, addReply, addSegment, exampleFromSegment, getCode, getMemo, listMemos, listReplies, listSegments, newLayerDoc, readText, resolveExample, setSegmentNote } from '@gloss/model';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig, startServer, type RunningServer } from '../../apps/server/src/index.js';
@@ -108,6 +108,10 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
       addReply(m, memoId, { author: seed.users.coder.id, body: 'Dana drove.' });
     });
     await server.db.insert(segmentComments).values({ studyId: seed.studyId, textId: texts[0]!.id, layerDocId: coded.layerId, segmentId: coded.first, authorId: seed.users.lead.id, body: 'Is Dana the same person?' });
+    // the study's own words and a past round's (closed, so it restricts no one), and the audit entry that kept the round's name
+    await server.db.update(studies).set({ description: 'Who helps whom around Lowmere.' }).where(eq(studies.id, seed.studyId));
+    const [round] = await server.db.insert(rounds).values({ studyId: seed.studyId, number: 1, name: 'Lowmere pilot', purpose: 'Calibrate on the Lowmere interviews', unit: 'turn', statistic: 'cohen', phase: 'closed' }).returning();
+    await server.db.insert(auditLog).values({ userId: seed.users.lead.id, studyId: seed.studyId, action: 'round.close', target: round!.id, detail: { name: 'Lowmere pilot', number: 1 } });
     lead = apiClient(server.url, await signIn(server.url, PEOPLE.lead.email, PASSWORD));
     owner = apiClient(server.url, await signIn(server.url, PEOPLE.owner.email, PASSWORD));
     coderCookie = await signIn(server.url, PEOPLE.coder.email, PASSWORD);
@@ -136,7 +140,9 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     expect(by.get('Dana')!.where.sort()).toEqual(['comments', 'memos', 'segment notes', 'texts']);
     expect(by.get('Dana Whitcombe')!.textIds.sort()).toEqual(texts.map((t) => t.id).sort());
     expect(by.get('Dana')!.suggestion).toBe(by.get('Dana Whitcombe')!.suggestion);
-    expect(by.get('Lowmere')).toMatchObject({ kind: 'listed', occurrences: 4 }); // two in the texts, the definition, the memo
+    // two in the texts, the definition, the memo, the study's description, the round's name and purpose
+    expect(by.get('Lowmere')).toMatchObject({ kind: 'listed', occurrences: 7 });
+    expect(by.get('Lowmere')!.where.sort()).toEqual(['codebook', 'memos', 'round names', 'study details', 'texts']);
     expect(by.get('07700 900123')?.kind).toBe('phone');
 
     const before = await Promise.all(texts.map((t) => quotes(t.id)));
@@ -151,7 +157,11 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     const applied = await lead.call<{ occurrences: number; texts: number }>('POST', `/api/studies/${seed.studyId}/deid/apply`, { replacements: accepted });
     expect(applied.body).toMatchObject({ occurrences: 6, texts: 2 }); // text 1: four, text 2: two
     // codebook: definition 2, example quote 1, change log 1; memos: memo 1, reply 1; the note; the comment
-    expect(applied.body).toMatchObject({ elsewhere: { codebook: 4, memos: 2, notes: 1, comments: 1, titles: 0 } });
+    // the study's description, the round's name and purpose, the audit entry's copy of the name
+    expect(applied.body).toMatchObject({ elsewhere: { codebook: 4, memos: 2, notes: 1, comments: 1, titles: 0, study: 1, rounds: 2, audit: 1 } });
+    const [details] = await server.db.select().from(studies).where(eq(studies.id, seed.studyId));
+    expect(details!.description).toBe('Who helps whom around [Town A].');
+    expect((await server.db.select().from(rounds).where(eq(rounds.studyId, seed.studyId))).map((r) => [r.name, r.purpose])).toEqual([['[Town A] pilot', 'Calibrate on the [Town A] interviews']]);
     const replace = (q: string) => q.replace(/Dana Whitcombe/g, person).replace(/\bDana\b/g, person).replace(/Lowmere/g, '[Town A]');
     await waitFor(async () => JSON.stringify(await quotes(texts[0]!.id)) === JSON.stringify(before[0]!.map(replace).sort()), 'quotes of text 1 follow the replacement', 90_000);
     expect(await quotes(texts[0]!.id)).toEqual([person, `${person} drove me to [Town A]`, 'Who helped you at first?', 'every week'].sort());

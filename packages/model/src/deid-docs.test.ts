@@ -7,7 +7,7 @@
 import * as Y from 'yjs';
 import { describe, expect, it } from 'vitest';
 import { addCode, addExample, createCodebookDoc, getCode, getDefinitionText, recordDefinitionEdit } from './codebook-doc.js';
-import { captureAnchors, docClients, docStrings, moveDocAnchors, rebuildDoc, replaceInDoc, replaceInString, restoreAnchors, updateClients } from './deid-docs.js';
+import { captureAnchors, docClients, docStrings, moveDocAnchors, rebuildDoc, replaceInDoc, replaceInPlain, replaceInString, restoreAnchors, updateClients } from './deid-docs.js';
 import { applyEdits, planEdits, rebuildTextDoc } from './deid.js';
 import { exampleFromSegment, resolveExample } from './examples.js';
 import { addSegment, getSegment, newLayerDoc, setSegmentNote } from './layer-doc.js';
@@ -119,5 +119,21 @@ describe('captureAnchors / restoreAnchors', () => {
     expect(ex.map((e) => resolveExample(d.text, e).current)).toEqual(['drove me', '[Person 1]']);
     const p = resolvePassage(d.text, 't1', getMemo(d.memos, jot).attachedTo)!;
     expect(getText(d.text).toString().slice(p.start, p.end)).toBe('[Person 1] drove');
+  });
+});
+
+describe('replaceInPlain (audit details)', () => {
+  const replacements = [{ original: 'Lowmere', pseudonym: '[Town A]' }];
+  it('replaces whole words in nested strings, counts them, and leaves ids alone', () => {
+    const detail = { name: 'Lowmere pilot', id: 'Lowmere', parts: ['in Lowmere', { note: 'Lowmere, Lowmere' }], number: 1 };
+    const r = replaceInPlain(detail, replacements);
+    expect(r.count).toBe(4);
+    expect(r.value).toEqual({ name: '[Town A] pilot', id: 'Lowmere', parts: ['in [Town A]', { note: '[Town A], [Town A]' }], number: 1 });
+    expect(detail.name).toBe('Lowmere pilot'); // the input is not changed in place
+  });
+  it('gives back the same object when nothing matched', () => {
+    const detail = { name: 'Lowmereside' };
+    expect(replaceInPlain(detail, replacements)).toEqual({ value: detail, count: 0 });
+    expect(replaceInPlain(null, replacements)).toEqual({ value: null, count: 0 });
   });
 });

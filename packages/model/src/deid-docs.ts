@@ -94,7 +94,16 @@ export function replaceInString(s: string, replacements: readonly Replacement[])
   return { text, count: edits.length };
 }
 
-/** A plain (JSON-like) value with its strings replaced; the same object when nothing changed. */
+/**
+ * A plain (JSON-like) value, such as an audit entry's detail, with its strings replaced: the same object
+ * when nothing changed. Keys that name ids and anchors are left alone, as in documents.
+ */
+export function replaceInPlain(value: unknown, replacements: readonly Replacement[]): { value: unknown; count: number } {
+  const tally = { n: 0 };
+  const next = replacePlain(value, replacements, tally);
+  return { value: next, count: tally.n };
+}
+
 function replacePlain(value: unknown, replacements: readonly Replacement[], tally: { n: number }): unknown {
   if (typeof value === 'string') {
     const r = replaceInString(value, replacements);

@@ -8,13 +8,13 @@
  * the study's pseudonym key; the audit log gets kinds, pseudonyms and counts, never the original words.
  */
 import * as Y from 'yjs';
-import { pseudonyms, segmentComments, texts, type Db } from '@gloss/db';
-import { applyEdits, captureAnchors, planEdits, readText, replaceInDoc, replaceInString, restoreAnchors, type Replacement } from '@gloss/model';
+import { auditLog, pseudonyms, rounds, segmentComments, studies, texts, type Db } from '@gloss/db';
+import { applyEdits, captureAnchors, planEdits, readText, replaceInDoc, replaceInPlain, replaceInString, restoreAnchors, type Replacement } from '@gloss/model';
 import { eq, sql } from 'drizzle-orm';
 import { recordAudit } from '../admin/audit.js';
 import { loadDoc, type DocLoader } from '../projection/load-doc.js';
 import type { DocWriter } from '../rounds/doc-change.js';
-import { studyComments, studySharedDocs, studyTitles } from './study-docs.js';
+import { studyAuditDetails, studyComments, studyDetails, studyRounds, studySharedDocs, studyTitles } from './study-docs.js';
 import { studyTexts } from './study-texts.js';
 
 export interface AcceptedReplacement extends Replacement {
@@ -27,7 +27,7 @@ export interface ApplyResult {
   texts: number;
   segmentsMoved: number;
   /** Occurrences replaced outside the transcripts, by place. */
-  elsewhere: { codebook: number; memos: number; notes: number; comments: number; titles: number };
+  elsewhere: { codebook: number; memos: number; notes: number; comments: number; titles: number; study: number; rounds: number; audit: number };
 }
 
 async function writeDiff(docs: DocWriter, docId: string, doc: Y.Doc, before: Uint8Array, by: string): Promise<void> {
@@ -45,7 +45,7 @@ export async function applyReplacements(
   let occurrences = 0;
   let changedTexts = 0;
   let segmentsMoved = 0;
-  const elsewhere = { codebook: 0, memos: 0, notes: 0, comments: 0, titles: 0 };
+  const elsewhere = { codebook: 0, memos: 0, notes: 0, comments: 0, titles: 0, study: 0, rounds: 0, audit: 0 };
   const perOriginal = new Map<string, number>();
   // The codebook and memos hold anchors into the texts (examples, jotting passages): loaded first, so
   // those anchors follow each text's edits as segments do, then rewritten and written once.
@@ -98,6 +98,29 @@ export async function applyReplacements(
     if (r.count === 0) continue;
     await deps.db.update(texts).set({ title: r.text }).where(eq(texts.id, t.id));
     elsewhere.titles += r.count;
+  }
+  const details = await studyDetails(deps.db, studyId);
+  if (details) {
+    const title = replaceInString(details.title, replacements);
+    const description = replaceInString(details.description, replacements);
+    const ethicsNote = replaceInString(details.ethicsNote, replacements);
+    const n = title.count + description.count + ethicsNote.count;
+    if (n > 0) await deps.db.update(studies).set({ title: title.text, description: description.text, ethicsNote: ethicsNote.text }).where(eq(studies.id, studyId));
+    elsewhere.study += n;
+  }
+  for (const r of await studyRounds(deps.db, studyId)) {
+    const name = replaceInString(r.name, replacements);
+    const purpose = replaceInString(r.purpose, replacements);
+    if (name.count + purpose.count === 0) continue;
+    await deps.db.update(rounds).set({ name: name.text, purpose: purpose.text }).where(eq(rounds.id, r.id));
+    elsewhere.rounds += name.count + purpose.count;
+  }
+  // Before this call's own entries are written: they carry pseudonyms and counts only.
+  for (const entry of await studyAuditDetails(deps.db, studyId, replacements.map((r) => r.original))) {
+    const r = replaceInPlain(entry.detail, replacements);
+    if (r.count === 0) continue;
+    await deps.db.update(auditLog).set({ detail: r.value as Record<string, unknown> }).where(eq(auditLog.id, entry.id));
+    elsewhere.audit += r.count;
   }
   for (const r of replacements) {
     await deps.db

@@ -17,7 +17,7 @@ export interface Candidate {
   occurrences: number;
   /** Ids of the texts it occurs in. */
   textIds: string[];
-  /** Where it was found: 'texts' and the study's other places (codebook, memos, segment notes, comments, text titles). */
+  /** Where it was found: 'texts' and the study's other places (codebook, memos, segment notes, comments, text titles, study details, round names). */
   where: string[];
   /** The words around its first occurrence, for the reviewer. */
   context: string;

@@ -3,7 +3,7 @@ import type { Db } from '@gloss/db';
 import { docStrings, readText } from '@gloss/model';
 import { loadDoc, type DocLoader } from '../projection/load-doc.js';
 import type { Source } from './finder.js';
-import { PLACES, studyComments, studySharedDocs, studyTitles } from './study-docs.js';
+import { PLACES, studyComments, studyDetails, studyRounds, studySharedDocs, studyTitles } from './study-docs.js';
 import { studyTexts } from './study-texts.js';
 
 export async function readStudyWords(db: Db, store: DocLoader, studyId: string): Promise<Array<Source & { title: string }>> {
@@ -16,7 +16,7 @@ export async function readStudyWords(db: Db, store: DocLoader, studyId: string):
   return out;
 }
 
-/** Every string of the codebook, memos and layers (notes), comments' bodies and text titles, each named by its place. */
+/** Every string of the codebook, memos and layers (notes), comments' bodies, text titles, the study's details and its rounds' names, each named by its place. */
 export async function otherWords(db: Db, store: DocLoader, studyId: string): Promise<Source[]> {
   const out: Source[] = [];
   const fromDoc = async (docId: string, where: string) => {
@@ -31,5 +31,11 @@ export async function otherWords(db: Db, store: DocLoader, studyId: string): Pro
   for (const t of await studyTexts(db, studyId)) for (const layer of t.layerIds) await fromDoc(layer, PLACES.notes);
   for (const c of await studyComments(db, studyId)) out.push({ id: c.id, text: c.body, where: PLACES.comments });
   for (const t of await studyTitles(db, studyId)) out.push({ id: `title:${t.id}`, text: t.title, where: PLACES.titles });
+  const details = await studyDetails(db, studyId);
+  if (details) for (const [field, text] of Object.entries(details)) if (text) out.push({ id: `study:${field}`, text, where: PLACES.study });
+  for (const r of await studyRounds(db, studyId)) {
+    out.push({ id: `round:${r.id}:name`, text: r.name, where: PLACES.rounds });
+    if (r.purpose) out.push({ id: `round:${r.id}:purpose`, text: r.purpose, where: PLACES.rounds });
+  }
   return out;
 }

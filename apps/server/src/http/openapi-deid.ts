@@ -21,14 +21,14 @@ const ERRORS: Record<number, string> = {
 };
 
 const scan = obj({ occurrences: int, byTable: { type: 'object', additionalProperties: int }, tablesScanned: int });
-const candidate = obj({ original: str, kind: str, occurrences: int, textIds: strs, where: { ...strs, description: "'texts', 'codebook', 'memos', 'segment notes', 'comments', 'text titles'" }, context: str, suggestion: str });
-const counts = obj({ codebook: int, memos: int, notes: int, comments: int, titles: int });
+const candidate = obj({ original: str, kind: str, occurrences: int, textIds: strs, where: { ...strs, description: "'texts', 'codebook', 'memos', 'segment notes', 'comments', 'text titles', 'study details', 'round names'" }, context: str, suggestion: str });
+const counts = obj({ codebook: int, memos: int, notes: int, comments: int, titles: int, study: int, rounds: int, audit: int });
 const room = obj({ kind: str, textId: { type: ['string', 'null'] }, oldRoom: str, newRoom: str });
 
 export const deidPaths = {
   '/api/studies/{studyId}/deid/candidates': {
     post: {
-      summary: 'Candidate identifiers in every text, the codebook, memos and replies, segment notes, comments and text titles, each with where it was found and a pseudonym',
+      summary: 'Candidate identifiers in every text, the codebook, memos and replies, segment notes, comments, text titles, the study’s details and its rounds’ names, each with where it was found and a pseudonym',
       security: secured,
       parameters: studyId,
       requestBody: body(CandidatesBody),

@@ -2,7 +2,7 @@
 import { call, enc } from './client.js';
 import { ApiError, NetworkError } from './errors.js';
 
-/** `where`: 'texts' and the other places it was found (codebook, memos, segment notes, comments, text titles). */
+/** `where`: 'texts' and the other places it was found (codebook, memos, segment notes, comments, text titles, study details, round names). */
 export interface Candidate { original: string; kind: string; occurrences: number; textIds: string[]; where: string[]; context: string; suggestion: string }
 export interface Scan { occurrences: number; byTable: Record<string, number>; tablesScanned: number }
 export interface KeyEntry { kind: string; original: string; pseudonym: string; createdAt: string }
@@ -12,7 +12,7 @@ const base = (studyId: string) => `/api/studies/${enc(studyId)}`;
 export const deidApi = {
   candidates: async (studyId: string, list: string[]): Promise<{ texts: Array<{ id: string; title: string }>; candidates: Candidate[] }> =>
     (await call('POST', `${base(studyId)}/deid/candidates`, { list })) as never,
-  apply: async (studyId: string, replacements: Array<{ original: string; pseudonym: string; kind: string }>): Promise<{ occurrences: number; texts: number; segmentsMoved: number; elsewhere: { codebook: number; memos: number; notes: number; comments: number; titles: number } }> =>
+  apply: async (studyId: string, replacements: Array<{ original: string; pseudonym: string; kind: string }>): Promise<{ occurrences: number; texts: number; segmentsMoved: number; elsewhere: { codebook: number; memos: number; notes: number; comments: number; titles: number; study: number; rounds: number; audit: number } }> =>
     (await call('POST', `${base(studyId)}/deid/apply`, { replacements })) as never,
   purge: async (studyId: string): Promise<{ texts: Array<{ textId: string }>; scan: Scan; keyEntries: number }> => (await call('POST', `${base(studyId)}/deid/purge`, {})) as never,
   scan: async (studyId: string): Promise<{ scan: Scan; keyEntries: number }> => (await call('GET', `${base(studyId)}/deid/scan`)) as never,

@@ -58,7 +58,7 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
     void submit.run(async () => {
       const res = await deidApi.apply(props.studyId, accepted().map((r) => ({ original: r.original, pseudonym: r.pseudonym.trim(), kind: r.kind })));
       const e = res.elsewhere;
-      const others = [[e.codebook, 'the codebook'], [e.memos, 'memos and replies'], [e.notes, 'segment notes'], [e.comments, 'comments'], [e.titles, 'text titles']]
+      const others = [[e.codebook, 'the codebook'], [e.memos, 'memos and replies'], [e.notes, 'segment notes'], [e.comments, 'comments'], [e.titles, 'text titles'], [e.study, 'the study’s title, description and ethics note'], [e.rounds, 'round names and purposes'], [e.audit, 'earlier audit entries']]
         .filter(([n]) => (n as number) > 0)
         .map(([n, where]) => `${n} in ${where}`);
       setApplied(
@@ -97,7 +97,7 @@ export function DeidScreen(props: { studyId: string; scope: StudyScope }) {
             <p class="muted">
               Every text of the study is searched for names of people, places and organisations, dates, ages, phone numbers,
               e-mail and street addresses — and so are the codebook (definitions, examples), memos, jottings and their replies,
-              segment notes, comments and the texts’ titles. Add words only your study knows (a ward’s nickname, a village, a
+              segment notes, comments, the texts’ titles, the study’s title, description and ethics note, and the rounds’ names and purposes. Add words only your study knows (a ward’s nickname, a village, a
               club), one per line.
             </p>
             <label>
