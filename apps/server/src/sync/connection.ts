@@ -59,7 +59,7 @@ export class Connection implements RoomPeer {
   private closed = false;
   private corked = false;
   /** Cleared by each keepalive ping, set again by the pong. */
-  alive = true;
+  private alive = true;
 
   constructor(
     readonly ws: WebSocket,
@@ -157,7 +157,22 @@ export class Connection implements RoomPeer {
   resumeReads(): void {
     if (!this.readsPaused) return;
     this.readsPaused = false;
+    // A pong that arrived while paused is still unread: a full interval to read it.
+    this.alive = true;
     if (!this.closed) this.ws.resume();
+  }
+
+  /**
+   * One keepalive round: a connection that did not answer the previous ping ends, the others are pinged.
+   * While its reads are paused (the node's commit queue is deep) a client's pong cannot be read either
+   * (control frames come on the same stream), so it is not judged then: the node's own backlog must not
+   * end live clients.
+   */
+  keepalive(): void {
+    if (this.readsPaused || this.closed) return;
+    if (!this.alive) return void this.ws.terminate();
+    this.alive = false;
+    this.ws.ping();
   }
 
   /**

@@ -209,14 +209,7 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
   }
 
   const keepalive = setInterval(() => {
-    for (const connection of connections) {
-      if (!connection.alive) {
-        connection.ws.terminate();
-        continue;
-      }
-      connection.alive = false;
-      connection.ws.ping();
-    }
+    for (const connection of connections) connection.keepalive();
   }, options.pingIntervalMs);
   keepalive.unref();
 
