@@ -13,7 +13,7 @@
 import * as Y from 'yjs';
 import WebSocket from 'ws';
 import { WebsocketProvider } from 'y-websocket';
-import { and, asc, auditLog, documents, eq, rounds, studies, updates, pseudonyms, segmentComments, type Db } from '@gloss/db';
+import { and, asc, auditLog, documents, eq, rounds, studies, updates, pseudonyms, segmentComments, versions, type Db } from '@gloss/db';
 import { addCode, addExample, addMemo, addReply, addSegment, exampleFromSegment, getCode, getMemo, listMemos, listReplies, listSegments, newLayerDoc, readText, resolveExample, setSegmentNote } from '@gloss/model';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig, startServer, type RunningServer } from '../../apps/server/src/index.js';
@@ -110,7 +110,9 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     await server.db.insert(segmentComments).values({ studyId: seed.studyId, textId: texts[0]!.id, layerDocId: coded.layerId, segmentId: coded.first, authorId: seed.users.lead.id, body: 'Is Dana the same person?' });
     // the study's own words and a past round's (closed, so it restricts no one), and the audit entry that kept the round's name
     await server.db.update(studies).set({ description: 'Who helps whom around Lowmere.' }).where(eq(studies.id, seed.studyId));
-    const [round] = await server.db.insert(rounds).values({ studyId: seed.studyId, number: 1, name: 'Lowmere pilot', purpose: 'Calibrate on the Lowmere interviews', unit: 'turn', statistic: 'cohen', phase: 'closed' }).returning();
+    // the round kept the codebook in force when it started as a named version (as rounds/records.ts does)
+    const [kept] = await server.db.insert(versions).values({ docId: seed.codebookRoom, name: 'At the start of round 1', snapshot: Y.encodeSnapshot(Y.snapshot(await stored(server.db, seed.codebookRoom))) }).returning();
+    const [round] = await server.db.insert(rounds).values({ studyId: seed.studyId, number: 1, name: 'Lowmere pilot', purpose: 'Calibrate on the Lowmere interviews', unit: 'turn', statistic: 'cohen', phase: 'closed', codebookVersionId: kept!.id }).returning();
     await server.db.insert(auditLog).values({ userId: seed.users.lead.id, studyId: seed.studyId, action: 'round.close', target: round!.id, detail: { name: 'Lowmere pilot', number: 1 } });
     lead = apiClient(server.url, await signIn(server.url, PEOPLE.lead.email, PASSWORD));
     owner = apiClient(server.url, await signIn(server.url, PEOPLE.owner.email, PASSWORD));
@@ -208,6 +210,8 @@ describe.each(dbKinds())('de-identification on %s', (kind) => {
     // the server's scan visits every table of the schema that can hold words (but accounts and the key)
     const wordy = allTables().filter((t) => !['users', 'sessions', 'pseudonyms'].includes(t.name) && t.columns.some((c) => ['text', 'jsonb', 'bytea'].includes(c.type)));
     expect(purge.body.scan.tablesScanned).toBe(wordy.length);
+    // named versions went with the old documents: the round no longer points at one that is gone
+    expect((await server.db.select().from(rounds).where(eq(rounds.studyId, seed.studyId))).map((r) => r.codebookVersionId)).toEqual([null]);
     await waitFor(() => closes.includes(4410), 'old client closed with 4410', 60_000);
     // y-websocket 3 treats 4400–4499 as permanent and stops; a client that tries again anyway (raw
     // socket, the old room) completes the upgrade only to be closed with 4410 before any sync message.

@@ -11,7 +11,7 @@
  * 3. One transaction records the old documents' client ids on their retired rows (the rebuilt rooms
  *    refuse structs of those clients), saves the rows that point at the old documents (comments,
  *    reference layers), deletes the old documents — their update log, snapshots and named versions go
- *    by cascade — inserts the rebuilt ones with their state as first log row and restores the saved rows.
+ *    by cascade, and rounds stop pointing at the codebook version they started with — inserts the rebuilt ones with their state as first log row and restores the saved rows.
  *
  * An append still in flight to an old document cannot land afterwards: the log's insert checks under
  * a lock that its document exists (store/insert-batch.ts), so it either commits before the delete and
@@ -20,7 +20,7 @@
  */
 import { randomUUID } from 'node:crypto';
 import * as Y from 'yjs';
-import { documents, inArray, retiredDocuments, updates, type Db, type DocumentRow } from '@gloss/db';
+import { documents, inArray, retiredDocuments, rounds, updates, type Db, type DocumentRow } from '@gloss/db';
 import { docClients, moveDocAnchors, rebuildDoc, rebuildTextDoc, reanchorLayer, type TextMove } from '@gloss/model';
 import { asc, eq } from 'drizzle-orm';
 import { recordAudit } from '../admin/audit.js';
@@ -97,6 +97,9 @@ export async function purgeStudy(deps: PurgeDeps, studyId: string, by: string): 
         await t.update(retiredDocuments).set({ clients: [...clients] }).where(eq(retiredDocuments.id, r.id));
       }
       const saved = await saveReferences(t, oldIds);
+      // Every named version of the study goes with its document (their snapshots name the old
+      // histories); a round's pointer to the codebook it started with would point at nothing.
+      await t.update(rounds).set({ codebookVersionId: null }).where(eq(rounds.studyId, studyId));
       await t.delete(documents).where(inArray(documents.id, oldIds));
       await t.insert(documents).values(rows.map((r) => ({ ...r, id: newIdOf.get(r.id)! })));
       for (const r of rows) {
