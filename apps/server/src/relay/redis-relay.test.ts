@@ -6,6 +6,7 @@
  */
 import { Redis } from 'ioredis';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startPrivateRedis, type PrivateRedis } from '../../../../test/support/private-services.js';
 import { waitFor } from '../../../../test/support/wait.js';
 import { createRedisRelay, RelayError, type RedisRelay } from './redis-relay.js';
 
@@ -71,6 +72,52 @@ describe.runIf(url)('Redis relay between two nodes', () => {
     } finally {
       off();
       admin.disconnect();
+    }
+  });
+});
+
+// A Redis of its own (redis-server on a free port) so it can be stopped: the shared one is never touched.
+describe.runIf(url)('Redis relay while Redis is down', () => {
+  let redis: PrivateRedis;
+  let one: RedisRelay;
+  let two: RedisRelay;
+
+  beforeAll(async () => {
+    redis = await startPrivateRedis();
+    one = await createRedisRelay(redis.url);
+    two = await createRedisRelay(redis.url);
+  });
+  afterAll(async () => {
+    await one?.close();
+    await two?.close();
+    await redis?.stop();
+  });
+
+  it('subscribes and unsubscribes without waiting for Redis, and renews exactly the wanted channels before reporting the reconnect', async () => {
+    const numsub = async (room: string) => Number((await redis.cli('pubsub', 'numsub', `gloss:room:${room}`)).split('\n').at(-1));
+    const got: number[] = [];
+    await two.subscribe('left', () => {});
+    await waitFor(async () => (await numsub('left')) === 1, 'subscribed before the outage');
+    let reconnects = 0;
+    let seenAtReconnect: Promise<[number, number]> | null = null;
+    const off = two.onReconnect(() => {
+      reconnects++;
+      seenAtReconnect ??= Promise.all([numsub('joined'), numsub('left')]);
+    });
+    try {
+      await redis.kill();
+      // Each resolves with Redis down (before: queued in ioredis's offline queue, then refused after its retries).
+      await two.unsubscribe('left');
+      await two.subscribe('joined', (p) => got.push(p[0]!));
+      await redis.start();
+      await waitFor(() => reconnects > 0, 'reconnect reported');
+      // Listeners are told once the wanted channel is subscribed again, and the one left meanwhile is not.
+      expect(await seenAtReconnect).toEqual([1, 0]);
+      await one.publish('joined', new Uint8Array([5]));
+      await waitFor(() => got.length === 1, 'message through the renewed subscription');
+      expect(got).toEqual([5]);
+    } finally {
+      off();
     }
   });
 });

@@ -4,7 +4,7 @@
  * Redis pub/sub is at-most-once: whatever it loses, rooms recover from the PostgreSQL log.
  */
 import { randomBytes } from 'node:crypto';
-import { Redis } from 'ioredis';
+import { Redis, ReplyError } from 'ioredis';
 import type { Relay } from '../sync/contracts.js';
 
 const NODE_ID_BYTES = 8;
@@ -35,7 +35,16 @@ export async function createRedisRelay(redisUrl: string, options: RedisRelayOpti
   const redisOptions = { lazyConnect: true, connectTimeout, maxRetriesPerRequest: 3 };
   // Named so operators (and tests) can tell the connections apart in CLIENT LIST.
   const pub = new Redis(redisUrl, { ...redisOptions, connectionName: `gloss-pub-${nodeId.toString('hex')}` });
-  const sub = new Redis(redisUrl, { ...redisOptions, connectionName: `gloss-sub-${nodeId.toString('hex')}` });
+  // The subscriber keeps no queue of its own: while Redis is away a subscribe or unsubscribe is not
+  // sent at all (it would wait in ioredis's offline queue, and a room's load or unload with it), and
+  // each reconnect subscribes exactly the channels wanted then (`wanted`), before telling listeners.
+  const sub = new Redis(redisUrl, {
+    ...redisOptions,
+    connectionName: `gloss-sub-${nodeId.toString('hex')}`,
+    enableOfflineQueue: false,
+    autoResubscribe: false,
+    autoResendUnfulfilledCommands: false,
+  });
   for (const client of [pub, sub]) client.on('error', () => {}); // reconnects by itself; failures surface as rejections
   try {
     await Promise.all([pub.connect(), sub.connect()]);
@@ -45,17 +54,47 @@ export async function createRedisRelay(redisUrl: string, options: RedisRelayOpti
     throw new RelayError(`cannot reach Redis at ${redactUrl(redisUrl)}`, { cause });
   }
 
-  const handlers = new Map<string, (payload: Uint8Array) => void>();
+  /** The channels this node wants, with their handlers: subscribed now, or at the next reconnect. */
+  const wanted = new Map<string, (payload: Uint8Array) => void>();
   const reconnectListeners = new Set<() => void>();
-  // Registered after the first connect, so every 'ready' here is a reconnect. ioredis resubscribes by
-  // itself, but whatever was published meanwhile is gone: rooms re-read the log.
+  // Resolved when the subscriber connection closes: a command sent on it may then never be answered
+  // (unanswered commands are not resent), so nothing waits for one past that.
+  let lost = deferred();
+  sub.on('close', () => {
+    lost.resolve();
+    lost = deferred();
+  });
+  /** Sends a (un)subscribe if connected; resolves when Redis answered it or the connection is gone. */
+  const whileConnected = async (send: () => Promise<unknown>): Promise<boolean> => {
+    if (sub.status !== 'ready') return false;
+    const gone = lost.promise.then(() => false);
+    const answered = send().then(
+      () => true,
+      (error: unknown) => {
+        if (error instanceof ReplyError) throw error; // Redis itself refused it
+        return false; // the connection went away (or was going): the next reconnect puts things right
+      },
+    );
+    return Promise.race([answered, gone]);
+  };
+  // Registered after the first connect, so every 'ready' here is a reconnect: a fresh connection with
+  // no subscriptions. Whatever was published meanwhile is gone, so listeners (rooms) re-read the log,
+  // once the wanted channels are subscribed again (a read before that could miss a later publish).
   sub.on('ready', () => {
-    for (const listener of reconnectListeners) listener();
+    const channels = [...wanted.keys()];
+    const renewed = channels.length === 0 ? Promise.resolve(true) : whileConnected(() => sub.subscribe(...channels));
+    renewed.then(
+      (ok) => {
+        if (ok) for (const listener of reconnectListeners) listener();
+        // else lost again before Redis answered: the next 'ready' renews them.
+      },
+      () => {}, // refused while connected: nothing to do but wait for the next reconnect
+    );
   });
 
   sub.on('messageBuffer', (channel: Buffer, message: Buffer) => {
     if (message.length < NODE_ID_BYTES || message.subarray(0, NODE_ID_BYTES).equals(nodeId)) return;
-    const handler = handlers.get(channel.toString('utf8'));
+    const handler = wanted.get(channel.toString('utf8'));
     handler?.(new Uint8Array(message.buffer, message.byteOffset + NODE_ID_BYTES, message.length - NODE_ID_BYTES));
   });
 
@@ -64,13 +103,13 @@ export async function createRedisRelay(redisUrl: string, options: RedisRelayOpti
     lossy: true,
     async subscribe(room, onMessage) {
       const channel = CHANNEL_PREFIX + room;
-      handlers.set(channel, onMessage);
-      await sub.subscribe(channel);
+      wanted.set(channel, onMessage);
+      await whileConnected(() => sub.subscribe(channel));
     },
     async unsubscribe(room) {
       const channel = CHANNEL_PREFIX + room;
-      handlers.delete(channel);
-      await sub.unsubscribe(channel);
+      wanted.delete(channel);
+      await whileConnected(() => sub.unsubscribe(channel));
     },
     async publish(room, payload) {
       await pub.publish(CHANNEL_PREFIX + room, Buffer.concat([nodeId, payload]));
@@ -80,10 +119,18 @@ export async function createRedisRelay(redisUrl: string, options: RedisRelayOpti
       return () => reconnectListeners.delete(listener);
     },
     async close() {
-      handlers.clear();
-      await Promise.allSettled([pub.quit(), sub.quit()]);
+      wanted.clear();
+      // QUIT needs a live connection here (no offline queue): a subscriber waiting to reconnect just stops.
+      const quitSub = sub.status === 'ready' ? sub.quit() : Promise.resolve(sub.disconnect());
+      await Promise.allSettled([pub.quit(), quitSub]);
     },
   };
+}
+
+function deferred(): { promise: Promise<void>; resolve: () => void } {
+  let resolve!: () => void;
+  const promise = new Promise<void>((r) => (resolve = r));
+  return { promise, resolve };
 }
 
 function redactUrl(url: string): string {

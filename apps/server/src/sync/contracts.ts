@@ -91,13 +91,21 @@ export interface UpdateStore {
 
 /** Fan-out of room messages across nodes (Redis). One node: NoRelay. */
 export interface Relay {
-  /** Subscribe to a room; resolves once the subscription is active (catch up from the log after this). */
+  /**
+   * Subscribe to a room; resolves once the subscription is active (catch up from the log after this).
+   * While the relay cannot be reached it resolves at once, never waiting for it: the subscription is
+   * made when the relay is back, before the `onReconnect` listeners are called (catch up then).
+   */
   subscribe(room: string, onMessage: (payload: Uint8Array) => void): Promise<void>;
+  /** Leaves a room; while the relay cannot be reached, resolves at once (the subscription is not renewed). */
   unsubscribe(room: string): Promise<void>;
   publish(room: string, payload: Uint8Array): Promise<void>;
   close(): Promise<void>;
   /** True when messages can be lost (pub/sub), so open rooms re-read the log now and then. Absent: false. */
   readonly lossy?: boolean;
-  /** Optional: calls `listener` after the relay reconnected (messages may have been lost); returns an unsubscribe. */
+  /**
+   * Optional: calls `listener` after the relay reconnected and every wanted subscription is active again
+   * (messages may have been lost meanwhile); returns an unsubscribe.
+   */
   onReconnect?(listener: () => void): () => void;
 }

@@ -213,7 +213,7 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
   }, options.pingIntervalMs);
   keepalive.unref();
 
-  const offReconnect = options.relay.onReconnect?.(() => registry.forEachReady((room) => void room.catchUp()));
+  const offReconnect = options.relay.onReconnect?.(() => registry.relayReconnected());
   httpServer.on('upgrade', onUpgrade);
 
   return {

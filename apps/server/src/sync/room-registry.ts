@@ -75,9 +75,9 @@ export class RoomRegistry {
     return room?.state === 'open' ? room : undefined;
   }
 
-  /** Runs `fn` for each open room (periodic or reconnect catch-up). */
-  forEachReady(fn: (room: Room) => void): void {
-    for (const room of this.rooms.values()) if (room.state === 'open') fn(room);
+  /** The relay reconnected with its subscriptions renewed: every room loading or open re-reads the log. */
+  relayReconnected(): void {
+    for (const room of this.rooms.values()) room.relayReconnected();
   }
 
   stats(): { rooms: number; byState: Record<RoomState, number> } {

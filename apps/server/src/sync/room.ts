@@ -69,6 +69,8 @@ export class Room {
   private lastHigh = 0;
   private catchingUp = false;
   private catching: Promise<void> | null = null;
+  /** The relay came back while this room loaded: catch up once open (the load may have read before that). */
+  private catchUpOnOpen = false;
   /** Seqs above the cursor already applied here (own commits, relayed updates): catch-up skips them. */
   private readonly applied = new Set<number>();
   private timer: NodeJS.Timeout | null = null;
@@ -109,6 +111,9 @@ export class Room {
 
   private async load(): Promise<void> {
     try {
+      // Active once this resolves, so the log read below misses nothing the relay does not carry; or,
+      // with the relay away, pending: the room loads and serves from the log alone, and catches up
+      // when the relay is back (relayReconnected).
       await this.deps.relay.subscribe(this.name, (payload) => this.onRelay(payload));
       const { updates, seq } = await this.deps.store.load(this.docId);
       if (this.machine.state !== 'loading') return; // timed out meanwhile; the caller releases
@@ -120,6 +125,7 @@ export class Room {
     }
     this.machine.to('open');
     for (const payload of this.relayBacklog.splice(0)) this.onRelay(payload);
+    if (this.catchUpOnOpen) void this.catchUp();
     if (this.deps.catchUpIntervalMs > 0) {
       this.timer = setInterval(() => void this.catchUp(), this.deps.catchUpIntervalMs);
       this.timer.unref();
@@ -272,6 +278,16 @@ export class Room {
     const run = this.readSinceCursor();
     this.catching = run;
     return run;
+  }
+
+  /**
+   * The relay reconnected and renewed its subscriptions (this room's too, if it subscribed while the
+   * relay was away): whatever other nodes committed meanwhile was never relayed, so re-read the log,
+   * after any read already in flight (which may have started before the subscription was active).
+   */
+  relayReconnected(): void {
+    if (this.machine.state === 'loading') this.catchUpOnOpen = true;
+    else void this.catchUpNow();
   }
 
   /**
