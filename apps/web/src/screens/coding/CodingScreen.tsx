@@ -9,7 +9,7 @@ import { StudyNav } from '../study/StudyNav.js';
 import { api } from '../../api/client.js';
 import { Loading } from '../../ui/Loading.js';
 import { href } from '../../ui/router.js';
-import { nextInOwnTask, openDoc, unprime, type OpenDoc } from '../../sync/open-doc.js';
+import { openDoc, unprime, type OpenDoc } from '../../sync/open-doc.js';
 import { openText } from '../../sync/opening.js';
 import { CodingView } from './CodingView.js';
 import type { LayerHandle } from './coding-state.js';
@@ -50,10 +50,9 @@ export function CodingScreen(props: { studyId: string; textId: string; scope: St
       let live = true;
       performance.mark('gloss:docs-opening');
       // the text first (its words can be read at once); layers draw as they arrive
-      // (in a task of its own: the one that applied the text's state is long already)
       void text.whenReady.then(() => {
         performance.mark('gloss:text-ready');
-        nextInOwnTask(() => live && setLoaded(true));
+        if (live) setLoaded(true);
       });
       props.scope.setWhere(props.textId, d.title);
       onCleanup(() => {
