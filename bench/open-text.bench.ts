@@ -19,9 +19,10 @@
  * Knobs: BENCH_RUNS (cold page loads per size, default 2), BENCH_WORDS (sizes, default 10000,30000,100000), BENCH_WEB_DIST (another build, for side-by-side runs),
  * BENCH_REFERENCE_DIST (a reference build loaded alongside, as above),
  * BENCH_DEBUG (per load: marks, resources, long tasks, and from the DevTools protocol when each
- * WebSocket handshake was asked and answered and when each frame arrived), BENCH_PROFILE (CPU profile).
+ * WebSocket handshake was asked and answered and when each frame arrived), BENCH_PROFILE (CPU profile;
+ * BENCH_PROFILE_OUT=<folder> also writes each load's whole profile there).
  */
-import { existsSync, mkdtempSync, rmSync, symlinkSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -261,6 +262,8 @@ async function load(context: BrowserContext, page: Page, url: string, what: stri
   const figures = (await page.evaluate(MEASURE)) as Figures;
   if (cdp && process.env.BENCH_PROFILE) {
     const { profile } = (await cdp.send('Profiler.stop')) as { profile: { nodes: Array<{ id: number; callFrame: { functionName: string; url: string; lineNumber: number } }>; samples: number[]; timeDeltas: number[] } };
+    // BENCH_PROFILE_OUT: a folder for the whole profile (.cpuprofile, opens in Chromium's DevTools)
+    if (process.env.BENCH_PROFILE_OUT) writeFileSync(join(process.env.BENCH_PROFILE_OUT, `${what.replace(/[^a-z0-9]+/gi, '-')}.cpuprofile`), JSON.stringify(profile));
     const self = new Map<string, number>();
     const byId = new Map(profile.nodes.map((n) => [n.id, n]));
     profile.samples.forEach((id, i) => {

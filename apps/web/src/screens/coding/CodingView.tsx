@@ -386,7 +386,11 @@ export function CodingView(props: CodingViewProps) {
     onCleanup(() => document.removeEventListener('keydown', onKeyDown));
   });
 
-  const layerCount = (coderId: string) => state.segments().filter((s) => s.coderId === coderId).length;
+  // each layer's own resolved list (filtering every visible layer's segments for each count redid it all per layer)
+  // from each layer's own list: the sorted list of all visible segments is then built only when asked for
+  // (by stepping through segments), not again each time a layer lands while a text opens
+  const noSegments = createMemo(() => visibleLayers().every((l) => (state.layerSegments.get(l.coderId)?.().length ?? 0) === 0));
+  const layerCount = (coderId: string) => state.layerSegments.get(coderId)?.().length ?? 0;
   const allCount = createMemo(() => new Map(props.layers.map((l) => [l.coderId, listSegments(l.doc.doc).length])));
   const codingAllowed = () => allowed('code');
 
@@ -410,8 +414,8 @@ export function CodingView(props: CodingViewProps) {
           </Show>
           <button type="button" class="quiet" onClick={() => run({ do: 'select-turn' })} aria-keyshortcuts="t">Whole turn</button>
           <button type="button" class="quiet" onClick={() => run({ do: 'select-sentence' })} aria-keyshortcuts="s">Sentence</button>
-          <button type="button" class="quiet" disabled={state.segments().length === 0} onClick={() => run({ do: 'prev-segment' })} aria-keyshortcuts="[" aria-label="Previous segment">◂ Segment</button>
-          <button type="button" class="quiet" disabled={state.segments().length === 0} onClick={() => run({ do: 'next-segment' })} aria-keyshortcuts="]" aria-label="Next segment">Segment ▸</button>
+          <button type="button" class="quiet" disabled={noSegments()} onClick={() => run({ do: 'prev-segment' })} aria-keyshortcuts="[" aria-label="Previous segment">◂ Segment</button>
+          <button type="button" class="quiet" disabled={noSegments()} onClick={() => run({ do: 'next-segment' })} aria-keyshortcuts="]" aria-label="Next segment">Segment ▸</button>
           <button type="button" class="quiet" disabled={!selection() && !chosen() && !chosenNote()} onClick={() => run({ do: 'clear' })} aria-keyshortcuts="Escape">Clear</button>
           <button type="button" class="quiet" aria-expanded={keysOpen()} aria-controls="coding-keys" onClick={() => run({ do: 'keys' })} aria-keyshortcuts="?">Keys</button>
           <span class="muted sel-info" data-testid="selection-info">

@@ -110,14 +110,22 @@ export function Transcript(props: TranscriptProps) {
     });
   };
 
-  // one layout per layer, redone only when that layer (or the text) changed; joined per turn in lane order
-  const layerBars = [...props.state.layerSegments].map(([layer, segs]) => [layer, createMemo(() =>
-    layoutBars(
-      props.state.turns(),
-      segs().map((s) => ({ id: s.id, layer, codeId: s.codeId, start: s.start, end: s.end, orphaned: s.orphaned })),
-      [layer],
-    ),
-  )] as const);
+  // one layout per layer, redone only when that layer (or the text, or its lane) changed; joined per turn
+  // in lane order. Laid out at its own lane, a layer that did not change keeps its bar objects through
+  // the join, so when another layer lands the turns keep their code chips instead of building them anew.
+  const NO_BARS: Bar[][] = [];
+  const layerBars = [...props.state.layerSegments].map(([layer, segs]) => {
+    const lane = createMemo(() => props.lanes().indexOf(layer));
+    return [layer, createMemo(() => {
+      if (lane() < 0) return NO_BARS;
+      return layoutBars(
+        props.state.turns(),
+        segs().map((s) => ({ id: s.id, layer, codeId: s.codeId, start: s.start, end: s.end, orphaned: s.orphaned })),
+        [layer],
+        lane(),
+      );
+    })] as const;
+  });
   const bars = createMemo(() => {
     const lanes = props.lanes();
     return mergeLanes(props.state.turns().length, lanes, new Map(layerBars.filter(([l]) => lanes.includes(l)).map(([l, b]) => [l, b()])));
@@ -137,7 +145,17 @@ export function Transcript(props: TranscriptProps) {
     }
     return m;
   });
-  const segById = createMemo(() => new Map(props.state.segments().map((s) => [s.id, s])));
+  // a segment of a drawn layer by id: one map per layer, so a layer landing builds its own map only
+  // (one map of every visible segment was built again, and every visible segment sorted, per layer)
+  const layerById = [...props.state.layerSegments].map(([layer, segs]) => [layer, createMemo(() => new Map(segs().map((s) => [s.id, s])))] as const);
+  const segmentById = (id: string) => {
+    const lanes = props.lanes();
+    for (const [layer, byId] of layerById) {
+      const s = byId().get(id);
+      if (s) return lanes.includes(layer) ? s : undefined;
+    }
+    return undefined;
+  };
   // anchored jottings, listed under the turn where their words begin
   const passagesByTurn = createMemo(() => {
     const m = new Map<number, Passage[]>();
@@ -158,7 +176,7 @@ export function Transcript(props: TranscriptProps) {
     const reg = (globalThis as { CSS?: { highlights?: Map<string, unknown> } }).CSS?.highlights;
     const H = (globalThis as { Highlight?: new (...r: Range[]) => unknown }).Highlight;
     if (!reg || !H || !root) return;
-    const seg = props.selectedSegment() ? segById().get(props.selectedSegment()!) : undefined;
+    const seg = props.selectedSegment() ? segmentById(props.selectedSegment()!) : undefined;
     const r1 = seg ? rangeFor(root, seg.start, seg.end) : null;
     reg.set('gloss-segment', new H(...(r1 ? [r1] : [])));
     // my selection stays marked when the page selection moves elsewhere (into the code search, say)
@@ -285,7 +303,7 @@ export function Transcript(props: TranscriptProps) {
     }
   };
 
-  const tipSegment = () => (tip() ? segById().get(tip()!.id) : undefined);
+  const tipSegment = () => (tip() ? segmentById(tip()!.id) : undefined);
 
   return (
     <div
@@ -321,7 +339,7 @@ export function Transcript(props: TranscriptProps) {
             coderTag={(layer) => (props.lanes().length > 1 ? initials(props.laneName(layer)) : '')}
             selected={props.selectedSegment}
             cursor={() => cursorTurn() === i}
-            notesOf={(id) => ({ note: !!segById().get(id)?.note, jottings: props.jottings?.().get(id) ?? 0 })}
+            notesOf={(id) => ({ note: !!segmentById(id)?.note, jottings: props.jottings?.().get(id) ?? 0 })}
             passages={() => passagesByTurn().get(i) ?? NO_PASSAGES}
             chosenPassage={() => props.chosenPassage?.() ?? null}
             wordsOf={(p) => props.state.words().slice(p.start, p.end)}
@@ -363,6 +381,8 @@ export function Transcript(props: TranscriptProps) {
   );
 }
 
+type TurnStrip = Strip & { id: string; codeId: string };
+
 function TurnRow(props: {
   turn: Accessor<ViewTurn>;
   bars: Accessor<Bar[]>;
@@ -386,7 +406,12 @@ function TurnRow(props: {
   // Underlines: once a turn is near the viewport, measure the line boxes of its segments' words.
   let rowEl!: HTMLDivElement;
   let wordsEl!: HTMLParagraphElement;
-  const [strips, setStrips] = createSignal<Array<Strip & { id: string; codeId: string }>>([]);
+  const [strips, setStrips] = createSignal<TurnStrip[]>([]);
+  // Strips measured last time, by bar (segment, code, words, depth): when a layer lands, only its own
+  // bars are measured, and the others keep their objects (and so their lines' DOM).
+  let kept = new Map<string, TurnStrip[]>();
+  let measuredWords = '';
+  let measuredWidth = -1;
   createEffect(() => {
     const list = near() ? bars() : [];
     props.turn().words;
@@ -400,15 +425,31 @@ function TurnRow(props: {
       const node = wordsEl.firstChild;
       if (!node) return;
       const base = wordsEl.getBoundingClientRect();
-      const len = node.textContent?.length ?? 0;
-      const out: Array<Strip & { id: string; codeId: string }> = [];
-      const r = document.createRange();
+      const text = node.textContent ?? '';
+      // what was measured holds while the words and the width of their box stay the same
+      if (text !== measuredWords || base.width !== measuredWidth) {
+        measuredWords = text;
+        measuredWidth = base.width;
+        kept.clear();
+      }
+      const len = text.length;
+      const out: TurnStrip[] = [];
+      const seen = new Map<string, TurnStrip[]>();
+      let r: Range | undefined;
       for (const b of list) {
         if (b.orphaned || b.to <= b.from) continue;
-        r.setStart(node, Math.min(b.from, len));
-        r.setEnd(node, Math.min(b.to, len));
-        for (const st of stripsFor([...r.getClientRects()], base, depths.get(b.id) ?? 0)) out.push({ ...st, id: b.id, codeId: b.codeId });
+        const key = `${b.id}\u0000${b.codeId}\u0000${b.from}\u0000${b.to}\u0000${depths.get(b.id) ?? 0}`;
+        let strips = seen.get(key) ?? kept.get(key);
+        if (!strips) {
+          r ??= document.createRange();
+          r.setStart(node, Math.min(b.from, len));
+          r.setEnd(node, Math.min(b.to, len));
+          strips = stripsFor([...r.getClientRects()], base, depths.get(b.id) ?? 0).map((st) => ({ ...st, id: b.id, codeId: b.codeId }));
+        }
+        seen.set(key, strips);
+        for (const st of strips) out.push(st);
       }
+      kept = seen;
       return () => setStrips(out);
     });
   });
@@ -425,7 +466,7 @@ function TurnRow(props: {
     <div class="turn" classList={{ 'cursor-turn': props.cursor() }} ref={(el) => { rowEl = el; props.watch(el, setNear); }}>
       <div class="margin" aria-hidden="true">
         <Show when={props.flags().count > 0}>
-          <span class="flag-mark" data-id={props.flags().first[0]!.segmentIds[0]} title={props.flags().first.map((f) => describeFlag(f, props.codes())).join('\n')}>
+          <span class="flag-mark" data-id={props.flags().first[0]!.segmentIds[0]} title={near() ? props.flags().first.map((f) => describeFlag(f, props.codes())).join('\n') : undefined}>
             {props.flags().count > 1 ? props.flags().count : '!'}
           </span>
         </Show>

@@ -3,7 +3,7 @@
  * the codebook's codes and exclusive sets, and the flags they give. Yjs changes bump a version signal;
  * derived values are recomputed once per batch of changes, in bulk (one resolution pass per layer).
  */
-import { createMemo, createSignal, onCleanup, type Accessor } from 'solid-js';
+import { createComputed, createMemo, createSignal, onCleanup, untrack, type Accessor } from 'solid-js';
 import * as Y from 'yjs';
 import {
   assignMarks, getText, listExclusiveSets, listThemes, lastDefinitionEdits, listSegments, readTurns, resolveSegments,
@@ -43,22 +43,47 @@ export interface CodingState {
  * layer and re-resolving and laying out its segments are each long, and one task doing both blocked the
  * page for longer than the 50 ms a person notices (issue 11).
  */
-function version(types: Array<Y.AbstractType<any>>): Accessor<number> {
+function version(types: Array<Y.AbstractType<any>>): Accessor<number> & { primed: () => boolean } {
   const [v, setV] = createSignal(0);
   let queued = false;
+  let primed = false;
   const run = () => {
     queued = false;
     setV((n) => n + 1);
+    // (what the bump recomputed has run by now: only it reads the bump as primed)
+    primed = false;
   };
   const bump = (_events: unknown, transaction: Y.Transaction) => {
     if (queued) return;
     queued = true;
-    if (transaction.origin === PRIMED) nextInOwnTask(run);
+    primed = transaction.origin === PRIMED;
+    if (primed) nextInOwnTask(run);
     else queueMicrotask(run);
   };
   for (const t of types) t.observeDeep(bump);
   onCleanup(() => types.forEach((t) => t.unobserveDeep(bump)));
-  return v;
+  /** The latest bump came from a whole state of the opening request. */
+  return Object.assign(v, { primed: () => primed });
+}
+
+/**
+ * What a layer's view draws: its resolved segments as they are, except after a whole state from the
+ * opening request, when they follow in a task of their own (ahead of the states still waiting): resolving
+ * 2,000 segments and then laying them out over every turn in one task took longer than 50 ms (issue 11).
+ * Changes made while coding show in the same task, as before.
+ */
+function drawnLater(resolved: Accessor<Segment[]>, primed: () => boolean): Accessor<Segment[]> {
+  const [drawn, setDrawn] = createSignal<Segment[]>([]);
+  let live = true;
+  onCleanup(() => (live = false));
+  createComputed(() => {
+    const list = resolved();
+    if (!primed()) return void setDrawn(() => list);
+    nextInOwnTask(() => {
+      if (live && untrack(resolved) === list) setDrawn(() => list);
+    });
+  });
+  return drawn;
 }
 
 /**
@@ -68,13 +93,13 @@ function version(types: Array<Y.AbstractType<any>>): Accessor<number> {
 export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, codebook: OpenDoc, opts: { showDisagreement: Accessor<boolean> }): CodingState {
   const textV = version([getText(text.doc), text.doc.getArray('turns')]);
   const cbV = version([codebook.doc.getMap('codes'), codebook.doc.getMap('exclusiveSets'), codebook.doc.getMap('proposals'), codebook.doc.getMap('themes'), codebook.doc.getArray('changes')]);
-  const layerVersions = new Map<string, Accessor<number>>(allLayers.map((l) => [l.doc.room, version([l.doc.doc.getMap('segments')])]));
+  const layerVersions = new Map(allLayers.map((l) => [l.doc.room, version([l.doc.doc.getMap('segments')])]));
   const layerV = (l: LayerHandle) => layerVersions.get(l.doc.room)?.();
 
   const words = createMemo(() => (textV(), getText(text.doc).toString()));
   const turns = createMemo(() => viewTurns(readTurns(text.doc), words()));
   // one resolution per layer, redone only when that layer or the text changed
-  const perLayer = new Map(allLayers.map((l) => [l.doc.room, createMemo(() => {
+  const perLayer = new Map(allLayers.map((l) => [l.doc.room, drawnLater(createMemo(() => {
     textV();
     layerV(l);
     const t = turns();
@@ -83,7 +108,7 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
       const note = records[i]!.note;
       return note === undefined ? { ...s, coderId: l.coderId } : { ...s, coderId: l.coderId, note };
     });
-  })]));
+  }), () => layerVersions.get(l.doc.room)!.primed())]));
   const segments = createMemo(() => {
     const out: Segment[] = [];
     for (const l of visible()) for (const s of perLayer.get(l.doc.room)?.() ?? []) out.push(s);

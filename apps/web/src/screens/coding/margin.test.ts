@@ -65,6 +65,16 @@ describe('mergeLanes', () => {
     expect(merged[0]!.find((b) => b.id === 'a')).toBe(alone.get('L1')![0]!.find((b) => b.id === 'a'));
   });
 
+  it('keeps the objects of every layer laid out at its own lane (firstLane)', () => {
+    const segs = [seg('a', 'L1', 2, 8), seg('b', 'L2', 5, 35), seg('d', 'L3', 12, 14)];
+    const lanes = ['L1', 'L2', 'L3'];
+    const alone = new Map(lanes.map((l, i) => [l, layoutBars(turns, segs.filter((s) => s.layer === l), [l], i)]));
+    const merged = mergeLanes(turns.length, lanes, alone);
+    for (const l of lanes) for (const [t, row] of alone.get(l)!.entries()) for (const b of row) expect(merged[t]).toContain(b);
+    expect(merged[1]!.find((b) => b.id === 'b')).toMatchObject({ lane: 1 });
+    expect(merged[1]!.find((b) => b.id === 'd')).toMatchObject({ lane: 2 });
+  });
+
   it('renumbers lanes when a layer is hidden and leaves hidden layers out', () => {
     const alone = new Map([['L1', layoutBars(turns, [seg('a', 'L1', 0, 5)], ['L1'])], ['L2', layoutBars(turns, [seg('b', 'L2', 0, 5)], ['L2'])]]);
     const merged = mergeLanes(turns.length, ['L2'], alone);

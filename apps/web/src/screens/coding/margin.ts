@@ -59,9 +59,13 @@ function firstTurnFrom(turns: readonly TurnSpan[], offset: number): number {
   return lo;
 }
 
-export function layoutBars(turns: readonly TurnSpan[], segments: readonly MarginSegment[], lanes: readonly string[]): Bar[][] {
+/**
+ * `firstLane` numbers the lanes from there: a layer laid out alone at the lane it is drawn in keeps its
+ * bars (the same objects) through `mergeLanes`, so turns whose bars did not change keep their DOM.
+ */
+export function layoutBars(turns: readonly TurnSpan[], segments: readonly MarginSegment[], lanes: readonly string[], firstLane = 0): Bar[][] {
   const out: Bar[][] = turns.map(() => []);
-  const laneOf = new Map(lanes.map((l, i) => [l, i]));
+  const laneOf = new Map(lanes.map((l, i) => [l, firstLane + i]));
   const cols = assignColumns(segments);
   for (const s of segments) {
     const lane = laneOf.get(s.layer);
@@ -109,7 +113,8 @@ export function sameBars(a: readonly Bar[], b: readonly Bar[]): boolean {
 /**
  * Joins per-layer layouts (each made by `layoutBars` with that layer as its only lane) into one list per
  * turn, lanes numbered in `lanes` order. Columns are per layer already, so a layer that did not change
- * keeps its bars: when one layer lands, only that layer is laid out again.
+ * keeps its bars: when one layer lands, only that layer is laid out again. A bar already at its lane is
+ * passed on as it is (a copy otherwise): laid out at their lanes, unchanged layers keep their objects.
  */
 export function mergeLanes(turnCount: number, lanes: readonly string[], byLayer: ReadonlyMap<string, readonly Bar[][]>): Bar[][] {
   const out: Bar[][] = [];
