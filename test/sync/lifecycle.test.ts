@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { WebSocket } from 'ws';
 import * as Y from 'yjs';
-import type { UpdateStore } from '../../apps/server/src/sync/contracts.js';
+import type { Relay, UpdateStore } from '../../apps/server/src/sync/contracts.js';
 import { createMemoryUpdateStore } from '../../apps/server/src/store/index.js';
 import { noRelay } from '../../apps/server/src/relay/index.js';
 import { connectClient, startSyncServer, testAuthorizer, waitFor } from './support/harness.js';
@@ -180,7 +180,7 @@ describe('unload timeouts (issue 13)', () => {
     const g = gatedStore();
     let release!: () => void;
     const stuck = new Promise<void>((resolve) => (release = resolve));
-    const relay = { ...noRelay(), unsubscribe: () => stuck }; // leaving the relay hangs until released
+    const relay: Relay = { ...noRelay(), subscribe: async () => ({ unsubscribe: () => stuck }) }; // leaving the relay hangs until released
     const server = await startSyncServer({ store: g.store, relay, authorizer: testAuthorizer(new Set(['r7']), 'u1'), budgets: { roomUnloadTimeoutMs: 100 } });
     try {
       const a = connectClient(server.url, 'r7');

@@ -5,7 +5,7 @@
  */
 import { randomBytes } from 'node:crypto';
 import { Redis, ReplyError } from 'ioredis';
-import type { Relay } from '../sync/contracts.js';
+import type { Relay, RelaySubscription } from '../sync/contracts.js';
 
 const NODE_ID_BYTES = 8;
 const CHANNEL_PREFIX = 'gloss:room:';
@@ -54,8 +54,12 @@ export async function createRedisRelay(redisUrl: string, options: RedisRelayOpti
     throw new RelayError(`cannot reach Redis at ${redactUrl(redisUrl)}`, { cause });
   }
 
-  /** The channels this node wants, with their handlers: subscribed now, or at the next reconnect. */
-  const wanted = new Map<string, (payload: Uint8Array) => void>();
+  /**
+   * The channels this node wants, each with its subscribers: subscribed now, or at the next reconnect.
+   * A channel stays subscribed in Redis while it has any subscriber here (several rooms of one name may
+   * hold it: a room whose load outlived its timeout, and the newer room), and is unsubscribed when the last leaves.
+   */
+  const wanted = new Map<string, Set<(payload: Uint8Array) => void>>();
   const reconnectListeners = new Set<() => void>();
   // Resolved when the subscriber connection closes: a command sent on it may then never be answered
   // (unanswered commands are not resent), so nothing waits for one past that.
@@ -94,22 +98,42 @@ export async function createRedisRelay(redisUrl: string, options: RedisRelayOpti
 
   sub.on('messageBuffer', (channel: Buffer, message: Buffer) => {
     if (message.length < NODE_ID_BYTES || message.subarray(0, NODE_ID_BYTES).equals(nodeId)) return;
-    const handler = wanted.get(channel.toString('utf8'));
-    handler?.(new Uint8Array(message.buffer, message.byteOffset + NODE_ID_BYTES, message.length - NODE_ID_BYTES));
+    const subscribers = wanted.get(channel.toString('utf8'));
+    if (subscribers === undefined) return;
+    const payload = new Uint8Array(message.buffer, message.byteOffset + NODE_ID_BYTES, message.length - NODE_ID_BYTES);
+    for (const subscriber of [...subscribers]) subscriber(payload);
   });
 
   return {
     nodeId: nodeId.toString('hex'),
     lossy: true,
-    async subscribe(room, onMessage) {
+    async subscribe(room, onMessage): Promise<RelaySubscription> {
       const channel = CHANNEL_PREFIX + room;
-      wanted.set(channel, onMessage);
-      await whileConnected(() => sub.subscribe(channel));
-    },
-    async unsubscribe(room) {
-      const channel = CHANNEL_PREFIX + room;
-      wanted.delete(channel);
-      await whileConnected(() => sub.unsubscribe(channel));
+      // A wrapper of its own: the same handler subscribed twice is still two subscribers.
+      const subscriber = (payload: Uint8Array) => onMessage(payload);
+      let subscribers = wanted.get(channel);
+      if (subscribers === undefined) wanted.set(channel, (subscribers = new Set()));
+      subscribers.add(subscriber);
+      /** Takes this subscriber out; true when it was the channel's last. */
+      const remove = (): boolean => {
+        const current = wanted.get(channel);
+        if (!current?.delete(subscriber) || current.size > 0) return false;
+        wanted.delete(channel);
+        return true;
+      };
+      // Sent for every subscriber, also when the channel is subscribed already (SUBSCRIBE is idempotent):
+      // its answer follows any earlier (un)subscribe of the channel, so this resolves once it is active.
+      try {
+        await whileConnected(() => sub.subscribe(channel));
+      } catch (error) {
+        remove();
+        throw error;
+      }
+      return {
+        async unsubscribe() {
+          if (remove()) await whileConnected(() => sub.unsubscribe(channel));
+        },
+      };
     },
     async publish(room, payload) {
       await pub.publish(CHANNEL_PREFIX + room, Buffer.concat([nodeId, payload]));

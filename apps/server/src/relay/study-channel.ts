@@ -4,7 +4,7 @@
  * changed, never its words: a listener reads the data through the routes, which apply the reader's rights.
  * One channel per study and purpose (`<purpose>:<studyId>`); comments and study changes each use one.
  */
-import type { Relay } from '../sync/contracts.js';
+import type { Relay, RelaySubscription } from '../sync/contracts.js';
 
 export interface StudyChannel<E extends { studyId: string }> {
   publish(event: E): Promise<void>;
@@ -15,11 +15,17 @@ export interface StudyChannel<E extends { studyId: string }> {
 const encoder = new TextEncoder();
 const decoder = new TextDecoder();
 
+/** A study's listeners on this node, and the one relay subscription they share. */
+interface Listened<E> {
+  listeners: Set<(event: E) => void>;
+  subscription: Promise<RelaySubscription>;
+}
+
 export function createStudyChannel<E extends { studyId: string }>(relay: Relay, purpose: string, onBadMessage: (err: unknown) => void = () => undefined): StudyChannel<E> {
   const channel = (studyId: string) => `${purpose}:${studyId}`;
-  const listeners = new Map<string, Set<(event: E) => void>>();
+  const studies = new Map<string, Listened<E>>();
   const deliver = (event: E) => {
-    for (const l of listeners.get(event.studyId) ?? []) l(event);
+    for (const l of studies.get(event.studyId)?.listeners ?? []) l(event);
   };
   return {
     async publish(event) {
@@ -27,10 +33,9 @@ export function createStudyChannel<E extends { studyId: string }>(relay: Relay, 
       await relay.publish(channel(event.studyId), encoder.encode(JSON.stringify(event)));
     },
     async listen(studyId, listener) {
-      let set = listeners.get(studyId);
-      if (!set) {
-        listeners.set(studyId, (set = new Set()));
-        await relay.subscribe(channel(studyId), (payload) => {
+      let study = studies.get(studyId);
+      if (study === undefined) {
+        const subscription = relay.subscribe(channel(studyId), (payload) => {
           try {
             const event = JSON.parse(decoder.decode(payload)) as E;
             if (event.studyId === studyId) deliver(event);
@@ -38,13 +43,21 @@ export function createStudyChannel<E extends { studyId: string }>(relay: Relay, 
             onBadMessage(err);
           }
         });
+        studies.set(studyId, (study = { listeners: new Set(), subscription }));
       }
-      set.add(listener);
+      const joined = study;
+      joined.listeners.add(listener);
+      try {
+        await joined.subscription;
+      } catch (error) {
+        joined.listeners.delete(listener);
+        if (joined.listeners.size === 0 && studies.get(studyId) === joined) studies.delete(studyId);
+        throw error;
+      }
       return async () => {
-        const current = listeners.get(studyId);
-        if (!current?.delete(listener) || current.size > 0) return;
-        listeners.delete(studyId);
-        await relay.unsubscribe(channel(studyId));
+        if (!joined.listeners.delete(listener) || joined.listeners.size > 0) return;
+        if (studies.get(studyId) === joined) studies.delete(studyId);
+        await (await joined.subscription).unsubscribe();
       };
     },
   };

@@ -89,16 +89,25 @@ export interface UpdateStore {
   close(): Promise<void>;
 }
 
-/** Fan-out of room messages across nodes (Redis). One node: NoRelay. */
+/**
+ * One subscriber's hold on a room's channel. Several may hold the same room on one node (a room whose
+ * load outlived its timeout, and the newer room of that name): each leaves only its own, and the node
+ * stays subscribed while any is held.
+ */
+export interface RelaySubscription {
+  /** Leaves: this subscriber hears nothing more. Idempotent; while the relay cannot be reached, resolves at once. */
+  unsubscribe(): Promise<void>;
+}
+
+/** Fan-out of room messages across nodes (Redis: relay/redis-relay.ts; in one process: relay/memory-relay.ts). One node: noRelay. */
 export interface Relay {
   /**
    * Subscribe to a room; resolves once the subscription is active (catch up from the log after this).
    * While the relay cannot be reached it resolves at once, never waiting for it: the subscription is
    * made when the relay is back, before the `onReconnect` listeners are called (catch up then).
+   * Every subscriber of the room on this node receives each message from another node.
    */
-  subscribe(room: string, onMessage: (payload: Uint8Array) => void): Promise<void>;
-  /** Leaves a room; while the relay cannot be reached, resolves at once (the subscription is not renewed). */
-  unsubscribe(room: string): Promise<void>;
+  subscribe(room: string, onMessage: (payload: Uint8Array) => void): Promise<RelaySubscription>;
   publish(room: string, payload: Uint8Array): Promise<void>;
   close(): Promise<void>;
   /** True when messages can be lost (pub/sub), so open rooms re-read the log now and then. Absent: false. */

@@ -286,7 +286,7 @@ function headerOf(req: IncomingMessage, name: string): string | undefined {
 }
 
 export { DEFAULT_BUDGETS, type SyncBudgets } from './budgets.js';
-export type { Relay, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
+export type { Relay, RelaySubscription, RoomAuthorizer, RoomGrant, UpdateStore } from './contracts.js';
 export { SyncError, CloseCode, AppCloseCode } from './errors.js';
 export { createLiveAccess, ACCESS_CHANNEL, type AccessChange, type LiveAccess, type LiveAccessService } from './live-access.js';
 export type { SyncLogger } from './logger.js';

@@ -7,7 +7,7 @@
  * Connections also never outlive their session: each is re-checked when its session expires.
  */
 import { z } from 'zod';
-import type { Relay, Recheck, RoomAuthorizer, RoomGrant } from './contracts.js';
+import type { Relay, RelaySubscription, Recheck, RoomAuthorizer, RoomGrant } from './contracts.js';
 import type { SyncLogger } from './logger.js';
 
 /**
@@ -93,7 +93,7 @@ export function createLiveAccess(options: LiveAccessOptions): LiveAccessService 
   let changes = 0;
   let sweep: NodeJS.Timeout | null = null;
   let offReconnect: (() => void) | undefined;
-  let subscribed = false;
+  let subscription: RelaySubscription | null = null;
 
   function matches(grant: RoomGrant, change: AccessChange): boolean {
     if (change.studyId !== undefined && grant.studyId !== change.studyId.toLowerCase()) return false;
@@ -197,8 +197,7 @@ export function createLiveAccess(options: LiveAccessOptions): LiveAccessService 
     },
 
     async start() {
-      await relay.subscribe(ACCESS_CHANNEL, onRemote);
-      subscribed = true;
+      subscription = await relay.subscribe(ACCESS_CHANNEL, onRemote);
       // Whatever was published while the relay was away is lost: re-check everyone.
       offReconnect = relay.onReconnect?.(() => void evaluate({}));
       if (options.sweepMs !== undefined && options.sweepMs > 0) {
@@ -211,7 +210,7 @@ export function createLiveAccess(options: LiveAccessOptions): LiveAccessService 
       if (sweep !== null) clearInterval(sweep);
       offReconnect?.();
       for (const connection of [...followed.keys()]) untrack(connection);
-      if (subscribed) await relay.unsubscribe(ACCESS_CHANNEL).catch((error: unknown) => logger.warn({ err: error }, 'leaving the access channel failed'));
+      await subscription?.unsubscribe().catch((error: unknown) => logger.warn({ err: error }, 'leaving the access channel failed'));
     },
 
     size: () => followed.size,

@@ -4,7 +4,7 @@
  * store before they are applied (and so broadcast) or relayed; applies keep arrival order per room.
  */
 import * as Y from 'yjs';
-import type { Relay, UpdateStore } from './contracts.js';
+import type { Relay, RelaySubscription, UpdateStore } from './contracts.js';
 import { AwarenessTable, decodeAwarenessUpdate, encodeAwarenessUpdate, type AwarenessEntry } from './awareness-table.js';
 import { AppCloseCode, CloseCode, SyncError } from './errors.js';
 import type { SyncLogger } from './logger.js';
@@ -74,6 +74,11 @@ export class Room {
   /** Seqs above the cursor already applied here (own commits, relayed updates): catch-up skips them. */
   private readonly applied = new Set<number>();
   private timer: NodeJS.Timeout | null = null;
+  /**
+   * This room's own hold on the relay: its release ends only this one, so a room whose load ended after
+   * its timeout leaves a newer room of the same name subscribed.
+   */
+  private subscription: RelaySubscription | null = null;
   /** Updates accepted from local peers and not applied yet (their commit is in flight), in order. */
   private readonly inFlight: Uint8Array[] = [];
 
@@ -114,7 +119,7 @@ export class Room {
       // Active once this resolves, so the log read below misses nothing the relay does not carry; or,
       // with the relay away, pending: the room loads and serves from the log alone, and catches up
       // when the relay is back (relayReconnected).
-      await this.deps.relay.subscribe(this.name, (payload) => this.onRelay(payload));
+      this.subscription = await this.deps.relay.subscribe(this.name, (payload) => this.onRelay(payload));
       const { updates, seq } = await this.deps.store.load(this.docId);
       if (this.machine.state !== 'loading') return; // timed out meanwhile; the caller releases
       applyAll(this.doc, updates, FROM_STORE, this.deps.logger, this.docId);
@@ -343,10 +348,15 @@ export class Room {
     return this.unloading;
   }
 
-  /** Leaves the relay and frees the document (unload, or a load that failed or ended after its timeout). */
+  /**
+   * Leaves the relay (this room's subscription only: another room of the name may hold one too) and frees
+   * the document (unload, or a load that failed or ended after its timeout).
+   */
   private async release(): Promise<void> {
+    const subscription = this.subscription;
+    this.subscription = null;
     try {
-      await this.deps.relay.unsubscribe(this.name);
+      await subscription?.unsubscribe();
     } catch (error) {
       this.deps.logger.warn({ err: error, room: this.name }, 'room: relay unsubscribe failed');
     }
