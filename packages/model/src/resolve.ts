@@ -10,10 +10,11 @@ import type { SegmentRecord } from './layer-doc.js';
  *
  * 1. Each anchor's (client, clock, assoc) is read from its bytes into typed arrays (no object per anchor).
  * 2. One walk over the text's items, in document order, counts the visible characters before each item.
- *    Many anchors: the walk writes, for every clock of an item of a client some anchor names, where that
- *    clock stands (an Int32Array per client, as long as the client's clock), and each anchor then reads
- *    its entry. Few anchors: their keys are sorted and each item looks for its own by binary search, so
- *    the walk can stop once all are found.
+ *    Many anchors: the walk fills, for every clock of an item of a client some anchor names, one value
+ *    per item from which each of its clocks' offsets follows (tables as long as the clients' clocks,
+ *    laid end to end in one Int32Array kept between resolutions), and each anchor then reads its entry.
+ *    Few anchors: their keys are sorted and each item looks for its own by binary search, so the walk can
+ *    stop once all are found.
  * 3. An anchor's index is computed exactly as Yjs does with followUndoneDeletions = false:
  *    a deleted target resolves to where it stood; a live one to its offset (+1 when assoc < 0).
  * An anchor naming an item of another type, a garbage-collected struct or a clock not received yet
@@ -29,6 +30,17 @@ import type { SegmentRecord } from './layer-doc.js';
 const TABLE_FROM = 256;
 /** Clock tables larger than this in total (entries) fall back to the sorted-keys walk. */
 const TABLE_MAX = 1 << 24;
+/** Clock tables up to this many entries (8 MB) are kept for the next resolution (`tableOf`). */
+const TABLE_KEEP = 1 << 21;
+/**
+ * A live item's table entries hold `pos - clock0 + LIVE` (its first character's offset less its first
+ * clock, so one value fills the whole item); a deleted item's `-(pos + 1)`; 0: not on the text's list.
+ * Clocks stay below TABLE_MAX (2^24) and offsets below V8's longest string (2^29), so a live entry
+ * is always in (0, 2^31).
+ */
+const LIVE = 1 << 30;
+/** Items shorter than this are filled by a loop; longer ones by `TypedArray.fill` (a call costs more than a few writes). */
+const FILL_CALL_FROM = 16;
 
 const MALFORMED: AnchorFields = { client: null, clock: 0, assoc: 0, tname: null };
 
@@ -44,16 +56,44 @@ interface Named {
   index: Int32Array;
   clients: Float64Array;
   clocks: Float64Array;
+  /** Each anchor's entry in the clock tables laid end to end: its client's base + its clock. */
+  slots: Int32Array;
   before: Uint8Array;
   /** Each named client's clock (state vector entry). */
   states: Map<number, number>;
+  /** Each named client's first entry in the tables laid end to end (clients in order of first mention). */
+  bases: Map<number, number>;
+  /** Entries of all the tables: the sum of the named clients' clocks. */
+  total: number;
+}
+
+/**
+ * The clock tables' memory, zeroed over `[0, size)`. One buffer is kept between resolutions: a fresh
+ * 0.8 MB array on every resolution of a 30,000-word text was a fault-in of new pages and garbage.
+ * Resolution is synchronous, so no two callers ever hold it at once.
+ */
+let kept: Int32Array | null = null;
+function tableOf(size: number): Int32Array {
+  if (kept !== null && kept.length >= size) {
+    kept.fill(0, 0, size);
+    return kept;
+  }
+  const t = new Int32Array(size);
+  if (size <= TABLE_KEEP) kept = t;
+  return t;
 }
 
 function walk(textDoc: Y.Doc, anchors: readonly Uint8Array[], wantString: boolean): Walked {
   const text = getText(textDoc);
   const n = anchors.length;
   const positions: Array<number | null> = new Array<number | null>(n).fill(null);
-  const a: Named = { m: 0, index: new Int32Array(n), clients: new Float64Array(n), clocks: new Float64Array(n), before: new Uint8Array(n), states: new Map() };
+  const a: Named = {
+    m: 0, index: new Int32Array(n), clients: new Float64Array(n), clocks: new Float64Array(n), slots: new Int32Array(n), before: new Uint8Array(n),
+    states: new Map(), bases: new Map(), total: 0,
+  };
+  let lastClient = -1;
+  let lastState = 0;
+  let lastBase = 0;
   for (let i = 0; i < n; i++) {
     const anchor = anchors[i]!;
     let client = 0;
@@ -93,52 +133,64 @@ function walk(textDoc: Y.Doc, anchors: readonly Uint8Array[], wantString: boolea
       clock = f.clock;
       assoc = f.assoc;
     }
-    let state = a.states.get(client);
-    if (state === undefined) a.states.set(client, (state = Y.getState(textDoc.store, client)));
-    if (clock >= state) continue; // not received yet
+    if (client !== lastClient) {
+      // anchors of one layer mostly name one client: look it up only when it changes
+      let state = a.states.get(client);
+      if (state === undefined) {
+        a.states.set(client, (state = Y.getState(textDoc.store, client)));
+        a.bases.set(client, a.total);
+        a.total += state;
+      }
+      lastClient = client;
+      lastState = state;
+      lastBase = a.bases.get(client)!;
+    }
+    if (clock >= lastState) continue; // not received yet
     a.index[a.m] = i;
     a.clients[a.m] = client;
     a.clocks[a.m] = clock;
+    a.slots[a.m] = lastBase + clock;
     a.before[a.m] = assoc < 0 ? 1 : 0;
     a.m++;
   }
   if (a.m === 0 && !wantString) return { positions, str: '' };
-  let tableSize = 0;
-  for (const s of a.states.values()) tableSize += s;
-  return a.m >= TABLE_FROM && tableSize <= TABLE_MAX ? walkTables(text, positions, a, wantString) : walkSorted(text, positions, a, wantString);
+  return a.m >= TABLE_FROM && a.total <= TABLE_MAX ? walkTables(text, positions, a, wantString) : walkSorted(text, positions, a, wantString);
 }
 
 /** Many anchors: one walk fills where each clock of the named clients stands; each anchor reads its entry. */
 function walkTables(text: Y.Text, positions: Array<number | null>, a: Named, wantString: boolean): Walked {
-  // entry: 0 = not on this text's list; pos + offset + 1 for a live item; -(pos + 1) for a deleted one
-  const tables = new Map<number, Int32Array>();
-  for (const [client, state] of a.states) tables.set(client, new Int32Array(state));
+  // the named clients' tables laid end to end in one buffer, each from its base (a.bases)
+  const table = tableOf(a.total);
   let pos = 0;
   let str = '';
   let lastClient = -1;
-  let table: Int32Array | undefined;
+  let base = -1;
   for (let it = text._start; it !== null; it = it.right) {
     const id = it.id;
     if (id.client !== lastClient) {
       lastClient = id.client;
-      table = tables.get(lastClient);
+      base = a.bases.get(lastClient) ?? -1;
     }
     const live = !it.deleted && it.countable;
-    if (table !== undefined) {
+    const len = it.length;
+    if (base >= 0) {
       const c0 = id.clock;
-      const len = it.length;
-      if (live) for (let j = 0; j < len; j++) table[c0 + j] = pos + j + 1;
-      else table.fill(-(pos + 1), c0, c0 + len);
+      const v = live ? pos - c0 + LIVE : -(pos + 1);
+      const from = base + c0;
+      if (len < FILL_CALL_FROM) for (let j = from, to = from + len; j < to; j++) table[j] = v;
+
+      else table.fill(v, from, from + len);
     }
     if (live) {
-      pos += it.length;
+      pos += len;
       if (wantString && it.content instanceof Y.ContentString) str += it.content.str;
     }
   }
+  const { slots, clocks, before, index } = a;
   for (let k = 0; k < a.m; k++) {
-    const v = tables.get(a.clients[k]!)![a.clocks[k]!]!;
+    const v = table[slots[k]!]!;
     if (v === 0) continue;
-    positions[a.index[k]!] = v > 0 ? v - 1 + a.before[k]! : -v - 1;
+    positions[index[k]!] = v > 0 ? v - LIVE + clocks[k]! + before[k]! : -v - 1;
   }
   return { positions, str };
 }
@@ -236,6 +288,8 @@ export function resolveSegments(textDoc: Y.Doc, segments: readonly SegmentRecord
  * oracle), whose anchor walk, not this shaping, is what the property test compares.
  */
 export function segmentsAt(segments: readonly SegmentRecord[], idx: ReadonlyArray<number | null>, str: string, turnList: readonly ResolvedTurn[]): ResolvedSegment[] {
+  // one `turn` object per turn, shared by the segments starting in it (read only), not one per segment
+  const turnOf = turnList.map((t) => ({ speaker: t.speaker, startMs: t.startMs }));
   return segments.map((s, i) => {
     const a = idx[2 * i];
     const b = idx[2 * i + 1];
@@ -246,7 +300,7 @@ export function segmentsAt(segments: readonly SegmentRecord[], idx: ReadonlyArra
     const start = Math.min(a, b);
     const end = b;
     const t = turnIndexAt(turnList, start);
-    const turn = t < 0 ? null : { speaker: turnList[t]!.speaker, startMs: turnList[t]!.startMs };
+    const turn = t < 0 ? null : turnOf[t]!;
     return { id: s.id, codeId: s.codeId, start, end, quote: str.slice(start, end), orphaned: start === end, unresolved: false, turn, createdAt: s.createdAt };
   });
 }
