@@ -12,7 +12,7 @@ import fc from 'fast-check';
 import * as Y from 'yjs';
 import { anchorAt } from './anchor.js';
 import { resolveAnchorsByItem, resolveSegmentsByItem } from './resolve-by-item.js';
-import { resolveAnchors, resolveSegments } from './resolve.js';
+import { concatDecoded, decodeAnchors, resolveAnchors, resolveDecodedSegments, resolveSegments, segmentAnchors } from './resolve.js';
 import { getText, getTurnsArray, newTextDoc } from './text-doc.js';
 import type { SegmentRecord } from './layer-doc.js';
 
@@ -90,7 +90,14 @@ describe('resolveAnchors (one walk) against the previous resolver', () => {
         const { docs, anchors } = history(replicas, initial, ops);
         // many: the same anchors repeated well past the table walk's threshold (256 item anchors), as fresh copies
         const many = Array.from({ length: Math.ceil(700 / anchors.length) }, () => anchors.map((a) => a.slice())).flat();
+        // anchors read once and resolved against every replica (documents differ as a text after a correction does),
+        // in two parts laid end to end as the text cache joins its layers
+        const all: SegmentRecord[] = [];
+        for (let i = 0; i + 1 < many.length; i += 2) all.push({ id: `s${i}`, codeId: 'c', start: many[i]!, end: many[i + 1]!, createdAt: i });
+        const half = Math.floor(all.length / 2);
+        const decoded = concatDecoded([decodeAnchors(segmentAnchors(all.slice(0, half))), decodeAnchors(segmentAnchors(all.slice(half)))]);
         for (const doc of docs) {
+          expect(resolveDecodedSegments(doc, all, decoded, [])).toEqual(resolveSegmentsByItem(doc, all, []));
           expect(resolveAnchors(doc, anchors)).toEqual(resolveAnchorsByItem(doc, anchors));
           // every clock of every client, both sides: each character's first and last clock of every item,
           // deleted ones, other types' items, and clocks the previous resolution's kept table held

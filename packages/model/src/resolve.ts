@@ -8,7 +8,8 @@ import type { SegmentRecord } from './layer-doc.js';
  * Bulk anchor resolution in one pass over the text's item list (DESIGN §2: one-by-one
  * `createAbsolutePositionFromRelativePosition` walks left from every anchor, which is quadratic-ish).
  *
- * 1. Each anchor's (client, clock, assoc) is read from its bytes into typed arrays (no object per anchor).
+ * 1. Each anchor's (client, clock, assoc) is read from its bytes into typed arrays (no object per anchor;
+ *    `decodeAnchors`, which a caller may keep: `resolveDecodedSegments`).
  * 2. One walk over the text's items, in document order, counts the visible characters before each item.
  *    Many anchors: the walk fills, for every clock of an item of a client some anchor names, one value
  *    per item from which each of its clocks' offsets follows (tables as long as the clients' clocks,
@@ -50,7 +51,7 @@ interface Walked {
   str: string;
 }
 
-/** The anchors that name an item, in typed arrays: their index among all anchors, client, clock, assoc < 0. */
+/** The anchors that name an item this document has received: their index among all anchors, client, clock, assoc < 0. */
 interface Named {
   m: number;
   index: Int32Array;
@@ -83,25 +84,42 @@ function tableOf(size: number): Int32Array {
   return t;
 }
 
-function walk(textDoc: Y.Doc, anchors: readonly Uint8Array[], wantString: boolean): Walked {
-  const text = getText(textDoc);
+/**
+ * Anchors read from their bytes, apart from any document: what an anchor names does not change, so a
+ * caller that resolves the same anchors again after the text changed (the segments route's text cache,
+ * after a correction) reads their bytes once (`decodeAnchors`). For anchor i: kind 0 names an item
+ * (client, clock, assoc < 0 in `before`), 1 the start or end of a root type (`ends`), 2 nothing
+ * resolvable (malformed or truncated bytes).
+ */
+export interface DecodedAnchors {
+  readonly n: number;
+  readonly kind: Uint8Array;
+  readonly clients: Float64Array;
+  readonly clocks: Float64Array;
+  readonly before: Uint8Array;
+  /** For kind 1: the root type's name and whether the anchor stands at its end (assoc >= 0). */
+  readonly ends: ReadonlyMap<number, { tname: string | null; end: boolean }>;
+}
+
+const ITEM = 0;
+const TYPE = 1;
+const NONE = 2;
+
+/** Reads each anchor's (client, clock, assoc) from its bytes into typed arrays (no object per anchor). */
+export function decodeAnchors(anchors: readonly Uint8Array[]): DecodedAnchors {
   const n = anchors.length;
-  const positions: Array<number | null> = new Array<number | null>(n).fill(null);
-  const a: Named = {
-    m: 0, index: new Int32Array(n), clients: new Float64Array(n), clocks: new Float64Array(n), slots: new Int32Array(n), before: new Uint8Array(n),
-    states: new Map(), bases: new Map(), total: 0,
-  };
-  let lastClient = -1;
-  let lastState = 0;
-  let lastBase = 0;
+  const kind = new Uint8Array(n);
+  const clients = new Float64Array(n);
+  const clocks = new Float64Array(n);
+  const before = new Uint8Array(n);
+  const ends = new Map<number, { tname: string | null; end: boolean }>();
   for (let i = 0; i < n; i++) {
     const anchor = anchors[i]!;
-    let client = 0;
-    let clock = 0;
-    let assoc = 0;
     if (anchor[0] === 0) {
       // tag 0 (an item id), read in place: varUint client, varUint clock, optional varInt assoc
       // (anchor-codec.ts reads the same layout into an object)
+      let client = 0;
+      let clock = 0;
       let p = 1;
       let r = 0x80;
       for (let mult = 1; r & 0x80; mult *= 128) {
@@ -115,24 +133,71 @@ function walk(textDoc: Y.Doc, anchors: readonly Uint8Array[], wantString: boolea
         clock += (r & 0x7f) * mult;
         more = (r & 0x80) !== 0;
       }
-      if (r < 0) continue; // truncated bytes from a misbehaving peer: unresolved
-      assoc = p < anchor.length && (anchor[p]! & 0x40) !== 0 ? -1 : 0;
-    } else {
-      let f: AnchorFields;
-      try {
-        f = decodeAnchor(anchor);
-      } catch {
-        f = MALFORMED; // bytes from a misbehaving peer: unresolved rather than failing every resolution
-      }
-      if (f.client === null) {
-        // the start or end of the text itself
-        if (f !== MALFORMED && f.tname !== null && (textDoc.share.get(f.tname) as unknown) === text) positions[i] = f.assoc >= 0 ? text.length : 0;
+      if (r < 0) {
+        kind[i] = NONE; // truncated bytes from a misbehaving peer: unresolved
         continue;
       }
-      client = f.client;
-      clock = f.clock;
-      assoc = f.assoc;
+      clients[i] = client;
+      clocks[i] = clock;
+      before[i] = p < anchor.length && (anchor[p]! & 0x40) !== 0 ? 1 : 0;
+      continue;
     }
+    let f: AnchorFields;
+    try {
+      f = decodeAnchor(anchor);
+    } catch {
+      f = MALFORMED; // bytes from a misbehaving peer: unresolved rather than failing every resolution
+    }
+    if (f === MALFORMED) kind[i] = NONE;
+    else if (f.client === null) {
+      kind[i] = TYPE;
+      ends.set(i, { tname: f.tname, end: f.assoc >= 0 });
+    } else {
+      clients[i] = f.client;
+      clocks[i] = f.clock;
+      before[i] = f.assoc < 0 ? 1 : 0;
+    }
+  }
+  return { n, kind, clients, clocks, before, ends };
+}
+
+/** Decoded anchors laid end to end (several layers' anchors resolved in one walk). */
+export function concatDecoded(parts: readonly DecodedAnchors[]): DecodedAnchors {
+  if (parts.length === 1) return parts[0]!;
+  const n = parts.reduce((x, p) => x + p.n, 0);
+  const out = { n, kind: new Uint8Array(n), clients: new Float64Array(n), clocks: new Float64Array(n), before: new Uint8Array(n), ends: new Map<number, { tname: string | null; end: boolean }>() };
+  let at = 0;
+  for (const p of parts) {
+    out.kind.set(p.kind, at);
+    out.clients.set(p.clients, at);
+    out.clocks.set(p.clocks, at);
+    out.before.set(p.before, at);
+    for (const [i, e] of p.ends) out.ends.set(at + i, e);
+    at += p.n;
+  }
+  return out;
+}
+
+function walk(textDoc: Y.Doc, d: DecodedAnchors, wantString: boolean): Walked {
+  const text = getText(textDoc);
+  const n = d.n;
+  const positions: Array<number | null> = new Array<number | null>(n).fill(null);
+  const a: Named = {
+    m: 0, index: new Int32Array(n), clients: new Float64Array(n), clocks: new Float64Array(n), slots: new Int32Array(n), before: new Uint8Array(n),
+    states: new Map(), bases: new Map(), total: 0,
+  };
+  for (const [i, e] of d.ends) {
+    // the start or end of the text itself
+    if (e.tname !== null && (textDoc.share.get(e.tname) as unknown) === text) positions[i] = e.end ? text.length : 0;
+  }
+  const { kind, clients, clocks, before } = d;
+  let lastClient = -1;
+  let lastState = 0;
+  let lastBase = 0;
+  for (let i = 0; i < n; i++) {
+    if (kind[i] !== ITEM) continue;
+    const client = clients[i]!;
+    const clock = clocks[i]!;
     if (client !== lastClient) {
       // anchors of one layer mostly name one client: look it up only when it changes
       let state = a.states.get(client);
@@ -150,7 +215,7 @@ function walk(textDoc: Y.Doc, anchors: readonly Uint8Array[], wantString: boolea
     a.clients[a.m] = client;
     a.clocks[a.m] = clock;
     a.slots[a.m] = lastBase + clock;
-    a.before[a.m] = assoc < 0 ? 1 : 0;
+    a.before[a.m] = before[i]!;
     a.m++;
   }
   if (a.m === 0 && !wantString) return { positions, str: '' };
@@ -250,7 +315,7 @@ function walkSorted(text: Y.Text, positions: Array<number | null>, a: Named, wan
 
 /** Resolve many anchors against one text document; null where an anchor cannot be resolved here. */
 export function resolveAnchors(textDoc: Y.Doc, anchors: readonly Uint8Array[]): Array<number | null> {
-  return walk(textDoc, anchors, false).positions;
+  return walk(textDoc, decodeAnchors(anchors), false).positions;
 }
 
 export interface ResolvedSegment {
@@ -271,15 +336,31 @@ export interface ResolvedSegment {
 export function resolveSegments(textDoc: Y.Doc, segments: readonly SegmentRecord[], turns?: readonly ResolvedTurn[]): ResolvedSegment[] {
   const turnMaps = turns ? [] : getTurnsArray(textDoc).toArray();
   const m = segments.length * 2;
-  const anchors: Uint8Array[] = new Array(m + turnMaps.length);
+  const anchors = segmentAnchors(segments, m + turnMaps.length);
+  turnMaps.forEach((t, i) => (anchors[m + i] = t.get('start') as Uint8Array));
+  const { positions: idx, str } = walk(textDoc, decodeAnchors(anchors), true);
+  const turnList = turns ?? turnsAt(turnMaps, idx.slice(m), getText(textDoc).length);
+  return segmentsAt(segments, idx, str, turnList);
+}
+
+/** The segments' anchors in the order `segmentsAt` reads their positions: start at 2i, end at 2i+1 (`size` leaves room after them). */
+export function segmentAnchors(segments: readonly SegmentRecord[], size = segments.length * 2): Uint8Array[] {
+  const anchors: Uint8Array[] = new Array(size);
   segments.forEach((s, i) => {
     anchors[2 * i] = s.start;
     anchors[2 * i + 1] = s.end;
   });
-  turnMaps.forEach((t, i) => (anchors[m + i] = t.get('start') as Uint8Array));
-  const { positions: idx, str } = walk(textDoc, anchors, true);
-  const turnList = turns ?? turnsAt(turnMaps, idx.slice(m), getText(textDoc).length);
-  return segmentsAt(segments, idx, str, turnList);
+  return anchors;
+}
+
+/**
+ * `resolveSegments` with the segments' anchors already read (`decodeAnchors(segmentAnchors(segments))`,
+ * kept by the caller while the segments are the same) and the turns given (`[]`: none wanted).
+ */
+export function resolveDecodedSegments(textDoc: Y.Doc, segments: readonly SegmentRecord[], decoded: DecodedAnchors, turns: readonly ResolvedTurn[]): ResolvedSegment[] {
+  if (decoded.n !== segments.length * 2) throw new RangeError('decoded anchors are not these segments\' anchors');
+  const { positions: idx, str } = walk(textDoc, decoded, true);
+  return segmentsAt(segments, idx, str, turns);
 }
 
 /**

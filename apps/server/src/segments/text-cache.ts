@@ -13,7 +13,7 @@
  * fresh on every node. Sequence numbers are taken at insert, not commit, so the read cursor trails by
  * one read, as the sync rooms' catch-up does (sync/room.ts).
  */
-import { createCodebookDoc, FlagEngine, listSegments, type LayerSource, type SegmentRecord } from '@gloss/model';
+import { createCodebookDoc, decodeAnchors, FlagEngine, listSegments, segmentAnchors, type DecodedAnchors, type LayerSource, type SegmentRecord } from '@gloss/model';
 import * as Y from 'yjs';
 import type { CoderChoice } from '../agreement/coders.js';
 import type { VisibleLayer } from '../http/text-layers.js';
@@ -47,8 +47,8 @@ class LiveDoc {
   version = 0;
   /** For a layer: its records and their resolution, as of this version and the text's version then. */
   resolution: { version: number; textVersion: number; value: LayerResolution } | null = null;
-  /** For a layer: its segment records as of this version (a text correction does not change them). */
-  records: { version: number; value: SegmentRecord[] } | null = null;
+  /** For a layer: its segment records and their anchors read, as of this version (a text correction changes neither). */
+  records: { version: number; value: SegmentRecord[]; decoded: DecodedAnchors } | null = null;
   /** For a layer: the answer's rows made from that resolution (answer-rows.ts). */
   rows: LayerRows | null = null;
   private cursor = 0;
@@ -194,8 +194,12 @@ export function createTextCache(o: TextCacheOptions): TextCache {
     const docs = layers.map((l) => e.docs.get(l.layerDocId)!);
     const stale = docs.map((d, i) => [d, i] as const).filter(([d]) => d.resolution?.version !== d.version || d.resolution.textVersion !== textVersion);
     if (stale.length > 0) {
-      const records = stale.map(([d]) => (d.records?.version === d.version ? d.records : (d.records = { version: d.version, value: listSegments(d.doc) })).value);
-      const fresh = resolveRecords(textDoc, records);
+      const held = stale.map(([d]) => {
+        if (d.records?.version === d.version) return d.records;
+        const value = listSegments(d.doc);
+        return (d.records = { version: d.version, value, decoded: decodeAnchors(segmentAnchors(value)) });
+      });
+      const fresh = resolveRecords(textDoc, held.map((r) => r.value), held.map((r) => r.decoded));
       stale.forEach(([d], k) => (d.resolution = { version: d.version, textVersion, value: fresh[k]! }));
     }
     const perLayer = docs.map((d) => d.resolution!.value);
