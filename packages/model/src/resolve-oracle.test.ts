@@ -107,6 +107,13 @@ describe('resolveAnchors (one walk) against the previous resolver', () => {
           const segs: SegmentRecord[] = [];
           for (let i = 0; i + 1 < many.length; i += 2) segs.push({ id: `s${i}`, codeId: 'c', start: many[i]!, end: many[i + 1]!, createdAt: i });
           expect(resolveSegments(doc, segs)).toEqual(resolveSegmentsByItem(doc, segs));
+          // the same list again (its anchors read once), then with segments' anchors swapped for others
+          expect(resolveSegments(doc, segs)).toEqual(resolveSegmentsByItem(doc, segs));
+          if (segs.length > 1) {
+            segs[0] = { ...segs[0]!, end: segs[1]!.end };
+            segs[segs.length - 1] = { ...segs[segs.length - 1]!, start: segs[0]!.start };
+            expect(resolveSegments(doc, segs)).toEqual(resolveSegmentsByItem(doc, segs));
+          }
           expect(resolveSegments(doc, segs.slice(0, 3))).toEqual(resolveSegmentsByItem(doc, segs.slice(0, 3)));
         }
       }),

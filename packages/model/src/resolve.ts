@@ -332,20 +332,42 @@ export interface ResolvedSegment {
   createdAt: number;
 }
 
+/**
+ * The anchors last read for a list of segments, by the list: resolving the same list again (the same
+ * records, the same anchor objects, as a warm resolution does) reads no bytes. Checked anchor by anchor
+ * (same objects) before use; like the previous resolver's cache, it takes an anchor's bytes as never
+ * written in place (they come from Yjs documents). A WeakMap: nothing outlives the list.
+ */
+const readFor = new WeakMap<readonly SegmentRecord[], { anchors: Uint8Array[]; decoded: DecodedAnchors }>();
+
+function segmentsDecoded(segments: readonly SegmentRecord[]): DecodedAnchors {
+  const kept = readFor.get(segments);
+  if (kept !== undefined && kept.anchors.length === segments.length * 2) {
+    const a = kept.anchors;
+    let same = true;
+    for (let i = 0; i < segments.length && same; i++) same = a[2 * i] === segments[i]!.start && a[2 * i + 1] === segments[i]!.end;
+    if (same) return kept.decoded;
+  }
+  const anchors = segmentAnchors(segments);
+  const decoded = decodeAnchors(anchors);
+  readFor.set(segments, { anchors, decoded });
+  return decoded;
+}
+
 /** Resolve segments (from `listSegments`) against their text document in one pass (turns and quotes from the same walk). */
 export function resolveSegments(textDoc: Y.Doc, segments: readonly SegmentRecord[], turns?: readonly ResolvedTurn[]): ResolvedSegment[] {
   const turnMaps = turns ? [] : getTurnsArray(textDoc).toArray();
   const m = segments.length * 2;
-  const anchors = segmentAnchors(segments, m + turnMaps.length);
-  turnMaps.forEach((t, i) => (anchors[m + i] = t.get('start') as Uint8Array));
-  const { positions: idx, str } = walk(textDoc, decodeAnchors(anchors), true);
+  const decoded = segmentsDecoded(segments);
+  const all = turnMaps.length === 0 ? decoded : concatDecoded([decoded, decodeAnchors(turnMaps.map((t) => t.get('start') as Uint8Array))]);
+  const { positions: idx, str } = walk(textDoc, all, true);
   const turnList = turns ?? turnsAt(turnMaps, idx.slice(m), getText(textDoc).length);
   return segmentsAt(segments, idx, str, turnList);
 }
 
-/** The segments' anchors in the order `segmentsAt` reads their positions: start at 2i, end at 2i+1 (`size` leaves room after them). */
-export function segmentAnchors(segments: readonly SegmentRecord[], size = segments.length * 2): Uint8Array[] {
-  const anchors: Uint8Array[] = new Array(size);
+/** The segments' anchors in the order `segmentsAt` reads their positions: start at 2i, end at 2i+1. */
+export function segmentAnchors(segments: readonly SegmentRecord[]): Uint8Array[] {
+  const anchors: Uint8Array[] = new Array(segments.length * 2);
   segments.forEach((s, i) => {
     anchors[2 * i] = s.start;
     anchors[2 * i + 1] = s.end;
