@@ -81,19 +81,18 @@ const byOffsets = (a: Row, b: Row) => a.start - b.start || a.end - b.end || cmp(
 
 /**
  * The answer as UTF-8: every layer's rows merged in the route's order (start, end, coder, layer, id),
- * each closed with its flags' JSON (`flagsOf` gives a layer's, by segment id; absent: `[]`). Bytes,
+ * each closed with its flags' JSON (`flagsOf` gives a layer's bytes, by segment id; absent: `[]`). Bytes,
  * written once into one buffer: on the 2-core bench machine first touching 4 MB of fresh memory cost
  * 30-100 ms (page faults), and a string answer paid it twice (the join, then the encoding when sent);
  * a kept answer is sent as it is.
  */
-export function joinRows(layers: readonly LayerRows[], flagsOf: (layerId: string) => ReadonlyMap<string, string> | undefined): { body: Buffer<ArrayBuffer>; count: number } {
+export function joinRows(layers: readonly LayerRows[], flagsOf: (layerId: string) => ReadonlyMap<string, Buffer> | undefined): { body: Buffer<ArrayBuffer>; count: number } {
   // Layers in the tie-break order of coder then layer id: within equal offsets the first layer wins.
   const order = [...layers].sort((a, b) => cmp(a.layer.coderId ?? '', b.layer.coderId ?? '') || cmp(a.layer.layerDocId, b.layer.layerDocId));
   const at = new Array<number>(order.length).fill(0);
   const flagMaps = order.map((l) => flagsOf(l.layer.layerDocId));
   const picked: Row[] = [];
   const flags: Buffer[] = [];
-  const flagBytes = new Map<string, Buffer>();
   let size = 1;
   for (;;) {
     let best = -1;
@@ -108,9 +107,7 @@ export function joinRows(layers: readonly LayerRows[], flagsOf: (layerId: string
       }
     }
     if (bestRow === undefined) break;
-    const json = flagMaps[best]?.get(bestRow.id) ?? '[]';
-    let f = flagBytes.get(json);
-    if (f === undefined) flagBytes.set(json, (f = Buffer.from(json, 'utf8')));
+    const f = flagMaps[best]?.get(bestRow.id) ?? NO_FLAGS;
     picked.push(bestRow);
     flags.push(f);
     size += bestRow.head.length + digits(bestRow.start) + END.length + digits(bestRow.end) + bestRow.tail.length + f.length + 2;
@@ -140,6 +137,7 @@ export function joinRows(layers: readonly LayerRows[], flagsOf: (layerId: string
 }
 
 const END = Buffer.from(',"end":');
+const NO_FLAGS = Buffer.from('[]');
 
 /** Decimal digits of a non-negative integer (an offset), as JSON writes it. */
 function digits(n: number): number {
