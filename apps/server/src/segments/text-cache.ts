@@ -18,7 +18,7 @@ import * as Y from 'yjs';
 import type { CoderChoice } from '../agreement/coders.js';
 import type { VisibleLayer } from '../http/text-layers.js';
 import type { UpdateStore } from '../sync/contracts.js';
-import { joinRows, rowsFor, type LayerRows } from './answer-rows.js';
+import { joinRows, rowsFor, type Joined, type LayerRows } from './answer-rows.js';
 import { FlagKinds } from './flag-kinds.js';
 import { flagGroups, resolveRecords, segmentsWithFlags, type LayerResolution } from './with-flags.js';
 
@@ -98,7 +98,8 @@ interface Entry {
   docs: Map<string, LiveDoc>;
   /** One engine (and its segments' kinds) per group of flagged layers; rebuilt when the group's layers change. */
   engines: Map<string, { layers: string; kinds: FlagKinds }>;
-  answers: Map<string, { versions: string; body: Buffer<ArrayBuffer>; count: number }>;
+  /** By view: the answer's bytes for these documents' versions, and how they were joined (lent to the next join of the view). */
+  answers: Map<string, { versions: string; body: Buffer<ArrayBuffer>; count: number; joined: Joined | null }>;
   emptyCodebook: Y.Doc | null;
   lastUsed: number;
   /** Requests for one text take turns: the documents are shared. */
@@ -215,13 +216,13 @@ export function createTextCache(o: TextCacheOptions): TextCache {
       if (!g) e.engines.set(key, (g = { layers: names, kinds: new FlagKinds(new FlagEngine({ textDoc, codebook, layers: sources })) }));
       return g.kinds;
     };
-    let made: { body: Buffer<ArrayBuffer>; count: number };
+    let made: { body: Buffer<ArrayBuffer>; count: number; joined: Joined | null };
     let t2: number;
     if (o.previous) {
       // the previous answer: objects, flagged, sorted and stringified afresh; encoded as sending a string does
       const out = segmentsWithFlags(textDoc, codebook, withDocs, choice, (key, sources) => engineOf(key, sources).engine.flags(), () => perLayer);
       t2 = performance.now();
-      made = { body: Buffer.from(JSON.stringify(out), 'utf8'), count: out.length };
+      made = { body: Buffer.from(JSON.stringify(out), 'utf8'), count: out.length, joined: null };
     } else {
       // The rows of a layer whose resolution is new are remade, lending what did not change.
       const rows = docs.map((d, i) => (d.rows = rowsFor(d.rows, layers[i]!, perLayer[i]!.resolved)));
@@ -232,7 +233,8 @@ export function createTextCache(o: TextCacheOptions): TextCache {
         for (const s of sources) kindsOf.set(s.layerId, kinds);
       }
       t2 = performance.now();
-      made = joinRows(rows, (layerId) => kindsOf.get(layerId)?.layer(layerId));
+      const joined = joinRows(rows, (layerId) => kindsOf.get(layerId)?.layer(layerId), kept?.joined);
+      made = { body: joined.body, count: joined.count, joined };
     }
     for (const [group, g] of e.engines) {
       if (!used.has(group)) {
@@ -240,10 +242,10 @@ export function createTextCache(o: TextCacheOptions): TextCache {
         e.engines.delete(group);
       }
     }
-    const { body, count } = made;
+    const { body, count, joined } = made;
     const t3 = performance.now();
     e.answers.delete(key);
-    e.answers.set(key, { versions, body, count });
+    e.answers.set(key, { versions, body, count, joined });
     // One answer per distinct view (role, layers, choice); a handful at most is worth keeping.
     while (e.answers.size > MAX_ANSWERS) e.answers.delete(e.answers.keys().next().value!);
     return { body, count, source: fresh ? 'loaded' : 'refreshed', timings: { refresh: t1 - t0, compute: t2 - t1, json: t3 - t2 } };
