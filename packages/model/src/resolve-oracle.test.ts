@@ -12,7 +12,7 @@ import fc from 'fast-check';
 import * as Y from 'yjs';
 import { anchorAt } from './anchor.js';
 import { resolveAnchorsByItem, resolveSegmentsByItem } from './resolve-by-item.js';
-import { resolveAnchors, resolveSegments } from './resolve.js';
+import { concatDecoded, decodeAnchors, resolveAnchors, resolveDecodedSegments, resolveSegments, segmentAnchors } from './resolve.js';
 import { getText, getTurnsArray, newTextDoc } from './text-doc.js';
 import type { SegmentRecord } from './layer-doc.js';
 
@@ -26,8 +26,8 @@ type Op =
   | { k: 'sync'; from: number; to: number };
 
 const opArb: fc.Arbitrary<Op> = fc.oneof(
-  { weight: 4, arbitrary: fc.record({ k: fc.constant('ins' as const), r: fc.nat(3), at: fc.nat(), n: fc.integer({ min: 1, max: 5 }) }) },
-  { weight: 3, arbitrary: fc.record({ k: fc.constant('del' as const), r: fc.nat(3), at: fc.nat(), n: fc.integer({ min: 1, max: 6 }) }) },
+  { weight: 4, arbitrary: fc.record({ k: fc.constant('ins' as const), r: fc.nat(3), at: fc.nat(), n: fc.oneof(fc.integer({ min: 1, max: 5 }), fc.integer({ min: 16, max: 40 })) }) },
+  { weight: 3, arbitrary: fc.record({ k: fc.constant('del' as const), r: fc.nat(3), at: fc.nat(), n: fc.oneof(fc.integer({ min: 1, max: 6 }), fc.integer({ min: 16, max: 30 })) }) },
   { weight: 1, arbitrary: fc.record({ k: fc.constant('fmt' as const), r: fc.nat(3), at: fc.nat(), n: fc.integer({ min: 1, max: 6 }) }) },
   { weight: 1, arbitrary: fc.record({ k: fc.constant('embed' as const), r: fc.nat(3), at: fc.nat() }) },
   { weight: 1, arbitrary: fc.record({ k: fc.constant('turn' as const), r: fc.nat(3), at: fc.nat() }) },
@@ -53,7 +53,7 @@ function history(replicas: number, initial: number, ops: Op[]): { docs: Y.Doc[];
     const doc = docs[op.r % replicas]!;
     const text = getText(doc);
     const len = text.length;
-    if (op.k === 'ins') text.insert(op.at % (len + 1), 'abcdefghij'.slice(0, op.n));
+    if (op.k === 'ins') text.insert(op.at % (len + 1), 'abcdefghij'.repeat(4).slice(0, op.n));
     else if (op.k === 'del' && len > 0) text.delete(op.at % len, Math.min(op.n, len - (op.at % len)));
     else if (op.k === 'fmt' && len > 0) text.format(op.at % len, Math.min(op.n, len - (op.at % len)), { bold: true });
     else if (op.k === 'embed') text.insertEmbed(op.at % (len + 1), { image: 'x' });
@@ -72,23 +72,72 @@ function history(replicas: number, initial: number, ops: Op[]): { docs: Y.Doc[];
   return { docs, anchors };
 }
 
+/** An anchor naming each clock of each client the document has received, with assoc 0 and -1. */
+function everyClock(doc: Y.Doc): Uint8Array[] {
+  const out: Uint8Array[] = [];
+  for (const [client, state] of Y.decodeStateVector(Y.encodeStateVector(doc))) {
+    for (let clock = 0; clock < state; clock++) {
+      for (const assoc of [0, -1]) out.push(Y.encodeRelativePosition(Y.createRelativePositionFromJSON({ item: { client, clock }, assoc })));
+    }
+  }
+  return out;
+}
+
 describe('resolveAnchors (one walk) against the previous resolver', () => {
   it('gives the same index for every anchor on every replica, with few anchors and with many', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1, max: 4 }), fc.integer({ min: 0, max: 30 }), fc.array(opArb, { minLength: 1, maxLength: 80 }), (replicas, initial, ops) => {
+      fc.property(fc.integer({ min: 1, max: 4 }), fc.integer({ min: 0, max: 60 }), fc.array(opArb, { minLength: 1, maxLength: 80 }), (replicas, initial, ops) => {
         const { docs, anchors } = history(replicas, initial, ops);
         // many: the same anchors repeated well past the table walk's threshold (256 item anchors), as fresh copies
         const many = Array.from({ length: Math.ceil(700 / anchors.length) }, () => anchors.map((a) => a.slice())).flat();
+        // anchors read once and resolved against every replica (documents differ as a text after a correction does),
+        // in two parts laid end to end as the text cache joins its layers
+        const all: SegmentRecord[] = [];
+        for (let i = 0; i + 1 < many.length; i += 2) all.push({ id: `s${i}`, codeId: 'c', start: many[i]!, end: many[i + 1]!, createdAt: i });
+        const half = Math.floor(all.length / 2);
+        const decoded = concatDecoded([decodeAnchors(segmentAnchors(all.slice(0, half))), decodeAnchors(segmentAnchors(all.slice(half)))]);
         for (const doc of docs) {
+          expect(resolveDecodedSegments(doc, all, decoded, [])).toEqual(resolveSegmentsByItem(doc, all, []));
           expect(resolveAnchors(doc, anchors)).toEqual(resolveAnchorsByItem(doc, anchors));
+          // every clock of every client, both sides: each character's first and last clock of every item,
+          // deleted ones, other types' items, and clocks the previous resolution's kept table held
+          const every = everyClock(doc);
+          expect(resolveAnchors(doc, every)).toEqual(resolveAnchorsByItem(doc, every));
           expect(resolveAnchors(doc, many)).toEqual(resolveAnchorsByItem(doc, many));
           const segs: SegmentRecord[] = [];
           for (let i = 0; i + 1 < many.length; i += 2) segs.push({ id: `s${i}`, codeId: 'c', start: many[i]!, end: many[i + 1]!, createdAt: i });
           expect(resolveSegments(doc, segs)).toEqual(resolveSegmentsByItem(doc, segs));
+          // the same list again (its anchors read once), then with segments' anchors swapped for others
+          expect(resolveSegments(doc, segs)).toEqual(resolveSegmentsByItem(doc, segs));
+          if (segs.length > 1) {
+            segs[0] = { ...segs[0]!, end: segs[1]!.end };
+            segs[segs.length - 1] = { ...segs[segs.length - 1]!, start: segs[0]!.start };
+            expect(resolveSegments(doc, segs)).toEqual(resolveSegmentsByItem(doc, segs));
+          }
           expect(resolveSegments(doc, segs.slice(0, 3))).toEqual(resolveSegmentsByItem(doc, segs.slice(0, 3)));
         }
       }),
       { numRuns: Number(process.env.FC_RUNS ?? 80) },
     );
   }, 120_000); // a limit for a shared machine, not a timed assertion
+});
+
+describe('the clock table kept between resolutions', () => {
+  it('holds nothing of an earlier document: clocks off the text resolve to null after a longer text', () => {
+    // a long text fills table entries far past the second document's clocks
+    const long = newTextDoc();
+    getText(long).insert(0, 'y'.repeat(2_000));
+    const first = everyClock(long);
+    expect(resolveAnchors(long, first)).toEqual(resolveAnchorsByItem(long, first));
+    // the second document's last clocks are a turn's map, never on its text's list
+    const doc = newTextDoc();
+    getText(doc).insert(0, 'z'.repeat(500));
+    const m = new Y.Map<unknown>();
+    getTurnsArray(doc).push([m]);
+    m.set('start', anchorAt(getText(doc), 0, 0));
+    const every = everyClock(doc);
+    const got = resolveAnchors(doc, every);
+    expect(got).toEqual(resolveAnchorsByItem(doc, every));
+    expect(got.slice(-4)).toEqual([null, null, null, null]); // source: the map's clocks, as the oracle resolves them
+  });
 });

@@ -8,12 +8,14 @@ import type { SegmentRecord } from './layer-doc.js';
  * Bulk anchor resolution in one pass over the text's item list (DESIGN §2: one-by-one
  * `createAbsolutePositionFromRelativePosition` walks left from every anchor, which is quadratic-ish).
  *
- * 1. Each anchor's (client, clock, assoc) is read from its bytes into typed arrays (no object per anchor).
+ * 1. Each anchor's (client, clock, assoc) is read from its bytes into typed arrays (no object per anchor;
+ *    `decodeAnchors`, which a caller may keep: `resolveDecodedSegments`).
  * 2. One walk over the text's items, in document order, counts the visible characters before each item.
- *    Many anchors: the walk writes, for every clock of an item of a client some anchor names, where that
- *    clock stands (an Int32Array per client, as long as the client's clock), and each anchor then reads
- *    its entry. Few anchors: their keys are sorted and each item looks for its own by binary search, so
- *    the walk can stop once all are found.
+ *    Many anchors: the walk fills, for every clock of an item of a client some anchor names, one value
+ *    per item from which each of its clocks' offsets follows (tables as long as the clients' clocks,
+ *    laid end to end in one Int32Array kept between resolutions), and each anchor then reads its entry.
+ *    Few anchors: their keys are sorted and each item looks for its own by binary search, so the walk can
+ *    stop once all are found.
  * 3. An anchor's index is computed exactly as Yjs does with followUndoneDeletions = false:
  *    a deleted target resolves to where it stood; a live one to its offset (+1 when assoc < 0).
  * An anchor naming an item of another type, a garbage-collected struct or a clock not received yet
@@ -29,6 +31,17 @@ import type { SegmentRecord } from './layer-doc.js';
 const TABLE_FROM = 256;
 /** Clock tables larger than this in total (entries) fall back to the sorted-keys walk. */
 const TABLE_MAX = 1 << 24;
+/** Clock tables up to this many entries (8 MB) are kept for the next resolution (`tableOf`). */
+const TABLE_KEEP = 1 << 21;
+/**
+ * A live item's table entries hold `pos - clock0 + LIVE` (its first character's offset less its first
+ * clock, so one value fills the whole item); a deleted item's `-(pos + 1)`; 0: not on the text's list.
+ * Clocks stay below TABLE_MAX (2^24) and offsets below V8's longest string (2^29), so a live entry
+ * is always in (0, 2^31).
+ */
+const LIVE = 1 << 30;
+/** Items shorter than this are filled by a loop; longer ones by `TypedArray.fill` (a call costs more than a few writes). */
+const FILL_CALL_FROM = 16;
 
 const MALFORMED: AnchorFields = { client: null, clock: 0, assoc: 0, tname: null };
 
@@ -38,30 +51,75 @@ interface Walked {
   str: string;
 }
 
-/** The anchors that name an item, in typed arrays: their index among all anchors, client, clock, assoc < 0. */
+/** The anchors that name an item this document has received: their index among all anchors, client, clock, assoc < 0. */
 interface Named {
   m: number;
   index: Int32Array;
   clients: Float64Array;
   clocks: Float64Array;
+  /** Each anchor's entry in the clock tables laid end to end: its client's base + its clock. */
+  slots: Int32Array;
   before: Uint8Array;
   /** Each named client's clock (state vector entry). */
   states: Map<number, number>;
+  /** Each named client's first entry in the tables laid end to end (clients in order of first mention). */
+  bases: Map<number, number>;
+  /** Entries of all the tables: the sum of the named clients' clocks. */
+  total: number;
 }
 
-function walk(textDoc: Y.Doc, anchors: readonly Uint8Array[], wantString: boolean): Walked {
-  const text = getText(textDoc);
+/**
+ * The clock tables' memory, zeroed over `[0, size)`. One buffer is kept between resolutions: a fresh
+ * 0.8 MB array on every resolution of a 30,000-word text was a fault-in of new pages and garbage.
+ * Resolution is synchronous, so no two callers ever hold it at once.
+ */
+let kept: Int32Array | null = null;
+function tableOf(size: number): Int32Array {
+  if (kept !== null && kept.length >= size) {
+    kept.fill(0, 0, size);
+    return kept;
+  }
+  const t = new Int32Array(size);
+  if (size <= TABLE_KEEP) kept = t;
+  return t;
+}
+
+/**
+ * Anchors read from their bytes, apart from any document: what an anchor names does not change, so a
+ * caller that resolves the same anchors again after the text changed (the segments route's text cache,
+ * after a correction) reads their bytes once (`decodeAnchors`). For anchor i: kind 0 names an item
+ * (client, clock, assoc < 0 in `before`), 1 the start or end of a root type (`ends`), 2 nothing
+ * resolvable (malformed or truncated bytes).
+ */
+export interface DecodedAnchors {
+  readonly n: number;
+  readonly kind: Uint8Array;
+  readonly clients: Float64Array;
+  readonly clocks: Float64Array;
+  readonly before: Uint8Array;
+  /** For kind 1: the root type's name and whether the anchor stands at its end (assoc >= 0). */
+  readonly ends: ReadonlyMap<number, { tname: string | null; end: boolean }>;
+}
+
+const ITEM = 0;
+const TYPE = 1;
+const NONE = 2;
+
+/** Reads each anchor's (client, clock, assoc) from its bytes into typed arrays (no object per anchor). */
+export function decodeAnchors(anchors: readonly Uint8Array[]): DecodedAnchors {
   const n = anchors.length;
-  const positions: Array<number | null> = new Array<number | null>(n).fill(null);
-  const a: Named = { m: 0, index: new Int32Array(n), clients: new Float64Array(n), clocks: new Float64Array(n), before: new Uint8Array(n), states: new Map() };
+  const kind = new Uint8Array(n);
+  const clients = new Float64Array(n);
+  const clocks = new Float64Array(n);
+  const before = new Uint8Array(n);
+  const ends = new Map<number, { tname: string | null; end: boolean }>();
   for (let i = 0; i < n; i++) {
     const anchor = anchors[i]!;
-    let client = 0;
-    let clock = 0;
-    let assoc = 0;
     if (anchor[0] === 0) {
       // tag 0 (an item id), read in place: varUint client, varUint clock, optional varInt assoc
       // (anchor-codec.ts reads the same layout into an object)
+      let client = 0;
+      let clock = 0;
       let p = 1;
       let r = 0x80;
       for (let mult = 1; r & 0x80; mult *= 128) {
@@ -75,70 +133,129 @@ function walk(textDoc: Y.Doc, anchors: readonly Uint8Array[], wantString: boolea
         clock += (r & 0x7f) * mult;
         more = (r & 0x80) !== 0;
       }
-      if (r < 0) continue; // truncated bytes from a misbehaving peer: unresolved
-      assoc = p < anchor.length && (anchor[p]! & 0x40) !== 0 ? -1 : 0;
-    } else {
-      let f: AnchorFields;
-      try {
-        f = decodeAnchor(anchor);
-      } catch {
-        f = MALFORMED; // bytes from a misbehaving peer: unresolved rather than failing every resolution
-      }
-      if (f.client === null) {
-        // the start or end of the text itself
-        if (f !== MALFORMED && f.tname !== null && (textDoc.share.get(f.tname) as unknown) === text) positions[i] = f.assoc >= 0 ? text.length : 0;
+      if (r < 0) {
+        kind[i] = NONE; // truncated bytes from a misbehaving peer: unresolved
         continue;
       }
-      client = f.client;
-      clock = f.clock;
-      assoc = f.assoc;
+      clients[i] = client;
+      clocks[i] = clock;
+      before[i] = p < anchor.length && (anchor[p]! & 0x40) !== 0 ? 1 : 0;
+      continue;
     }
-    let state = a.states.get(client);
-    if (state === undefined) a.states.set(client, (state = Y.getState(textDoc.store, client)));
-    if (clock >= state) continue; // not received yet
+    let f: AnchorFields;
+    try {
+      f = decodeAnchor(anchor);
+    } catch {
+      f = MALFORMED; // bytes from a misbehaving peer: unresolved rather than failing every resolution
+    }
+    if (f === MALFORMED) kind[i] = NONE;
+    else if (f.client === null) {
+      kind[i] = TYPE;
+      ends.set(i, { tname: f.tname, end: f.assoc >= 0 });
+    } else {
+      clients[i] = f.client;
+      clocks[i] = f.clock;
+      before[i] = f.assoc < 0 ? 1 : 0;
+    }
+  }
+  return { n, kind, clients, clocks, before, ends };
+}
+
+/** Decoded anchors laid end to end (several layers' anchors resolved in one walk). */
+export function concatDecoded(parts: readonly DecodedAnchors[]): DecodedAnchors {
+  if (parts.length === 1) return parts[0]!;
+  const n = parts.reduce((x, p) => x + p.n, 0);
+  const out = { n, kind: new Uint8Array(n), clients: new Float64Array(n), clocks: new Float64Array(n), before: new Uint8Array(n), ends: new Map<number, { tname: string | null; end: boolean }>() };
+  let at = 0;
+  for (const p of parts) {
+    out.kind.set(p.kind, at);
+    out.clients.set(p.clients, at);
+    out.clocks.set(p.clocks, at);
+    out.before.set(p.before, at);
+    for (const [i, e] of p.ends) out.ends.set(at + i, e);
+    at += p.n;
+  }
+  return out;
+}
+
+function walk(textDoc: Y.Doc, d: DecodedAnchors, wantString: boolean): Walked {
+  const text = getText(textDoc);
+  const n = d.n;
+  const positions: Array<number | null> = new Array<number | null>(n).fill(null);
+  const a: Named = {
+    m: 0, index: new Int32Array(n), clients: new Float64Array(n), clocks: new Float64Array(n), slots: new Int32Array(n), before: new Uint8Array(n),
+    states: new Map(), bases: new Map(), total: 0,
+  };
+  for (const [i, e] of d.ends) {
+    // the start or end of the text itself
+    if (e.tname !== null && (textDoc.share.get(e.tname) as unknown) === text) positions[i] = e.end ? text.length : 0;
+  }
+  const { kind, clients, clocks, before } = d;
+  let lastClient = -1;
+  let lastState = 0;
+  let lastBase = 0;
+  for (let i = 0; i < n; i++) {
+    if (kind[i] !== ITEM) continue;
+    const client = clients[i]!;
+    const clock = clocks[i]!;
+    if (client !== lastClient) {
+      // anchors of one layer mostly name one client: look it up only when it changes
+      let state = a.states.get(client);
+      if (state === undefined) {
+        a.states.set(client, (state = Y.getState(textDoc.store, client)));
+        a.bases.set(client, a.total);
+        a.total += state;
+      }
+      lastClient = client;
+      lastState = state;
+      lastBase = a.bases.get(client)!;
+    }
+    if (clock >= lastState) continue; // not received yet
     a.index[a.m] = i;
     a.clients[a.m] = client;
     a.clocks[a.m] = clock;
-    a.before[a.m] = assoc < 0 ? 1 : 0;
+    a.slots[a.m] = lastBase + clock;
+    a.before[a.m] = before[i]!;
     a.m++;
   }
   if (a.m === 0 && !wantString) return { positions, str: '' };
-  let tableSize = 0;
-  for (const s of a.states.values()) tableSize += s;
-  return a.m >= TABLE_FROM && tableSize <= TABLE_MAX ? walkTables(text, positions, a, wantString) : walkSorted(text, positions, a, wantString);
+  return a.m >= TABLE_FROM && a.total <= TABLE_MAX ? walkTables(text, positions, a, wantString) : walkSorted(text, positions, a, wantString);
 }
 
 /** Many anchors: one walk fills where each clock of the named clients stands; each anchor reads its entry. */
 function walkTables(text: Y.Text, positions: Array<number | null>, a: Named, wantString: boolean): Walked {
-  // entry: 0 = not on this text's list; pos + offset + 1 for a live item; -(pos + 1) for a deleted one
-  const tables = new Map<number, Int32Array>();
-  for (const [client, state] of a.states) tables.set(client, new Int32Array(state));
+  // the named clients' tables laid end to end in one buffer, each from its base (a.bases)
+  const table = tableOf(a.total);
   let pos = 0;
   let str = '';
   let lastClient = -1;
-  let table: Int32Array | undefined;
+  let base = -1;
   for (let it = text._start; it !== null; it = it.right) {
     const id = it.id;
     if (id.client !== lastClient) {
       lastClient = id.client;
-      table = tables.get(lastClient);
+      base = a.bases.get(lastClient) ?? -1;
     }
     const live = !it.deleted && it.countable;
-    if (table !== undefined) {
+    const len = it.length;
+    if (base >= 0) {
       const c0 = id.clock;
-      const len = it.length;
-      if (live) for (let j = 0; j < len; j++) table[c0 + j] = pos + j + 1;
-      else table.fill(-(pos + 1), c0, c0 + len);
+      const v = live ? pos - c0 + LIVE : -(pos + 1);
+      const from = base + c0;
+      if (len < FILL_CALL_FROM) for (let j = from, to = from + len; j < to; j++) table[j] = v;
+
+      else table.fill(v, from, from + len);
     }
     if (live) {
-      pos += it.length;
+      pos += len;
       if (wantString && it.content instanceof Y.ContentString) str += it.content.str;
     }
   }
+  const { slots, clocks, before, index } = a;
   for (let k = 0; k < a.m; k++) {
-    const v = tables.get(a.clients[k]!)![a.clocks[k]!]!;
+    const v = table[slots[k]!]!;
     if (v === 0) continue;
-    positions[a.index[k]!] = v > 0 ? v - 1 + a.before[k]! : -v - 1;
+    positions[index[k]!] = v > 0 ? v - LIVE + clocks[k]! + before[k]! : -v - 1;
   }
   return { positions, str };
 }
@@ -198,7 +315,7 @@ function walkSorted(text: Y.Text, positions: Array<number | null>, a: Named, wan
 
 /** Resolve many anchors against one text document; null where an anchor cannot be resolved here. */
 export function resolveAnchors(textDoc: Y.Doc, anchors: readonly Uint8Array[]): Array<number | null> {
-  return walk(textDoc, anchors, false).positions;
+  return walk(textDoc, decodeAnchors(anchors), false).positions;
 }
 
 export interface ResolvedSegment {
@@ -215,19 +332,57 @@ export interface ResolvedSegment {
   createdAt: number;
 }
 
+/**
+ * The anchors last read for a list of segments, by the list: resolving the same list again (the same
+ * records, the same anchor objects, as a warm resolution does) reads no bytes. Checked anchor by anchor
+ * (same objects) before use; like the previous resolver's cache, it takes an anchor's bytes as never
+ * written in place (they come from Yjs documents). A WeakMap: nothing outlives the list.
+ */
+const readFor = new WeakMap<readonly SegmentRecord[], { anchors: Uint8Array[]; decoded: DecodedAnchors }>();
+
+function segmentsDecoded(segments: readonly SegmentRecord[]): DecodedAnchors {
+  const kept = readFor.get(segments);
+  if (kept !== undefined && kept.anchors.length === segments.length * 2) {
+    const a = kept.anchors;
+    let same = true;
+    for (let i = 0; i < segments.length && same; i++) same = a[2 * i] === segments[i]!.start && a[2 * i + 1] === segments[i]!.end;
+    if (same) return kept.decoded;
+  }
+  const anchors = segmentAnchors(segments);
+  const decoded = decodeAnchors(anchors);
+  readFor.set(segments, { anchors, decoded });
+  return decoded;
+}
+
 /** Resolve segments (from `listSegments`) against their text document in one pass (turns and quotes from the same walk). */
 export function resolveSegments(textDoc: Y.Doc, segments: readonly SegmentRecord[], turns?: readonly ResolvedTurn[]): ResolvedSegment[] {
   const turnMaps = turns ? [] : getTurnsArray(textDoc).toArray();
   const m = segments.length * 2;
-  const anchors: Uint8Array[] = new Array(m + turnMaps.length);
+  const decoded = segmentsDecoded(segments);
+  const all = turnMaps.length === 0 ? decoded : concatDecoded([decoded, decodeAnchors(turnMaps.map((t) => t.get('start') as Uint8Array))]);
+  const { positions: idx, str } = walk(textDoc, all, true);
+  const turnList = turns ?? turnsAt(turnMaps, idx.slice(m), getText(textDoc).length);
+  return segmentsAt(segments, idx, str, turnList);
+}
+
+/** The segments' anchors in the order `segmentsAt` reads their positions: start at 2i, end at 2i+1. */
+export function segmentAnchors(segments: readonly SegmentRecord[]): Uint8Array[] {
+  const anchors: Uint8Array[] = new Array(segments.length * 2);
   segments.forEach((s, i) => {
     anchors[2 * i] = s.start;
     anchors[2 * i + 1] = s.end;
   });
-  turnMaps.forEach((t, i) => (anchors[m + i] = t.get('start') as Uint8Array));
-  const { positions: idx, str } = walk(textDoc, anchors, true);
-  const turnList = turns ?? turnsAt(turnMaps, idx.slice(m), getText(textDoc).length);
-  return segmentsAt(segments, idx, str, turnList);
+  return anchors;
+}
+
+/**
+ * `resolveSegments` with the segments' anchors already read (`decodeAnchors(segmentAnchors(segments))`,
+ * kept by the caller while the segments are the same) and the turns given (`[]`: none wanted).
+ */
+export function resolveDecodedSegments(textDoc: Y.Doc, segments: readonly SegmentRecord[], decoded: DecodedAnchors, turns: readonly ResolvedTurn[]): ResolvedSegment[] {
+  if (decoded.n !== segments.length * 2) throw new RangeError('decoded anchors are not these segments\' anchors');
+  const { positions: idx, str } = walk(textDoc, decoded, true);
+  return segmentsAt(segments, idx, str, turns);
 }
 
 /**
@@ -236,6 +391,8 @@ export function resolveSegments(textDoc: Y.Doc, segments: readonly SegmentRecord
  * oracle), whose anchor walk, not this shaping, is what the property test compares.
  */
 export function segmentsAt(segments: readonly SegmentRecord[], idx: ReadonlyArray<number | null>, str: string, turnList: readonly ResolvedTurn[]): ResolvedSegment[] {
+  // one `turn` object per turn, shared by the segments starting in it (read only), not one per segment
+  const turnOf = turnList.map((t) => ({ speaker: t.speaker, startMs: t.startMs }));
   return segments.map((s, i) => {
     const a = idx[2 * i];
     const b = idx[2 * i + 1];
@@ -246,7 +403,7 @@ export function segmentsAt(segments: readonly SegmentRecord[], idx: ReadonlyArra
     const start = Math.min(a, b);
     const end = b;
     const t = turnIndexAt(turnList, start);
-    const turn = t < 0 ? null : { speaker: turnList[t]!.speaker, startMs: turnList[t]!.startMs };
+    const turn = t < 0 ? null : turnOf[t]!;
     return { id: s.id, codeId: s.codeId, start, end, quote: str.slice(start, end), orphaned: start === end, unresolved: false, turn, createdAt: s.createdAt };
   });
 }

@@ -11,8 +11,10 @@ export class FlagKinds {
   private readonly flags = new Map<string, Flag>();
   /** layer -> segment -> kind -> how many current flags of that kind name the segment */
   private readonly counts = new Map<string, Map<string, Map<string, number>>>();
-  /** layer -> segment -> its kinds as JSON; a segment without flags is absent ('[]'). */
-  private readonly json = new Map<string, Map<string, string>>();
+  /** layer -> segment -> its kinds as JSON in UTF-8 (one Buffer per distinct list); a segment without flags is absent ('[]'). */
+  private readonly json = new Map<string, Map<string, Buffer>>();
+  /** The distinct lists' bytes: a handful of kinds make a handful of lists. */
+  private readonly bytes = new Map<string, Buffer>();
 
   constructor(readonly engine: FlagEngine) {}
 
@@ -44,13 +46,16 @@ export class FlagKinds {
           continue;
         }
         if (out === undefined) this.json.set(layerId, (out = new Map()));
-        out.set(id, JSON.stringify([...kinds.keys()].sort()));
+        const json = JSON.stringify([...kinds.keys()].sort());
+        let b = this.bytes.get(json);
+        if (b === undefined) this.bytes.set(json, (b = Buffer.from(json, 'utf8')));
+        out.set(id, b);
       }
     }
   }
 
-  /** A layer's flagged segments, each with its flags as JSON (a segment absent has none: `[]`). */
-  layer(layerId: string): ReadonlyMap<string, string> | undefined {
+  /** A layer's flagged segments, each with its flags as JSON in UTF-8 (a segment absent has none: `[]`). */
+  layer(layerId: string): ReadonlyMap<string, Buffer> | undefined {
     return this.json.get(layerId);
   }
 

@@ -13,12 +13,12 @@
  * fresh on every node. Sequence numbers are taken at insert, not commit, so the read cursor trails by
  * one read, as the sync rooms' catch-up does (sync/room.ts).
  */
-import { createCodebookDoc, FlagEngine, listSegments, type LayerSource, type SegmentRecord } from '@gloss/model';
+import { createCodebookDoc, decodeAnchors, FlagEngine, listSegments, segmentAnchors, type DecodedAnchors, type LayerSource, type SegmentRecord } from '@gloss/model';
 import * as Y from 'yjs';
 import type { CoderChoice } from '../agreement/coders.js';
 import type { VisibleLayer } from '../http/text-layers.js';
 import type { UpdateStore } from '../sync/contracts.js';
-import { joinRows, rowsFor, type LayerRows } from './answer-rows.js';
+import { joinRows, rowsFor, type Joined, type LayerRows } from './answer-rows.js';
 import { FlagKinds } from './flag-kinds.js';
 import { flagGroups, resolveRecords, segmentsWithFlags, type LayerResolution } from './with-flags.js';
 
@@ -47,8 +47,8 @@ class LiveDoc {
   version = 0;
   /** For a layer: its records and their resolution, as of this version and the text's version then. */
   resolution: { version: number; textVersion: number; value: LayerResolution } | null = null;
-  /** For a layer: its segment records as of this version (a text correction does not change them). */
-  records: { version: number; value: SegmentRecord[] } | null = null;
+  /** For a layer: its segment records and their anchors read, as of this version (a text correction changes neither). */
+  records: { version: number; value: SegmentRecord[]; decoded: DecodedAnchors } | null = null;
   /** For a layer: the answer's rows made from that resolution (answer-rows.ts). */
   rows: LayerRows | null = null;
   private cursor = 0;
@@ -98,7 +98,8 @@ interface Entry {
   docs: Map<string, LiveDoc>;
   /** One engine (and its segments' kinds) per group of flagged layers; rebuilt when the group's layers change. */
   engines: Map<string, { layers: string; kinds: FlagKinds }>;
-  answers: Map<string, { versions: string; body: Buffer<ArrayBuffer>; count: number }>;
+  /** By view: the answer's bytes for these documents' versions, and how they were joined (lent to the next join of the view). */
+  answers: Map<string, { versions: string; body: Buffer<ArrayBuffer>; count: number; joined: Joined | null }>;
   emptyCodebook: Y.Doc | null;
   lastUsed: number;
   /** Requests for one text take turns: the documents are shared. */
@@ -194,8 +195,12 @@ export function createTextCache(o: TextCacheOptions): TextCache {
     const docs = layers.map((l) => e.docs.get(l.layerDocId)!);
     const stale = docs.map((d, i) => [d, i] as const).filter(([d]) => d.resolution?.version !== d.version || d.resolution.textVersion !== textVersion);
     if (stale.length > 0) {
-      const records = stale.map(([d]) => (d.records?.version === d.version ? d.records : (d.records = { version: d.version, value: listSegments(d.doc) })).value);
-      const fresh = resolveRecords(textDoc, records);
+      const held = stale.map(([d]) => {
+        if (d.records?.version === d.version) return d.records;
+        const value = listSegments(d.doc);
+        return (d.records = { version: d.version, value, decoded: decodeAnchors(segmentAnchors(value)) });
+      });
+      const fresh = resolveRecords(textDoc, held.map((r) => r.value), held.map((r) => r.decoded));
       stale.forEach(([d], k) => (d.resolution = { version: d.version, textVersion, value: fresh[k]! }));
     }
     const perLayer = docs.map((d) => d.resolution!.value);
@@ -211,13 +216,13 @@ export function createTextCache(o: TextCacheOptions): TextCache {
       if (!g) e.engines.set(key, (g = { layers: names, kinds: new FlagKinds(new FlagEngine({ textDoc, codebook, layers: sources })) }));
       return g.kinds;
     };
-    let made: { body: Buffer<ArrayBuffer>; count: number };
+    let made: { body: Buffer<ArrayBuffer>; count: number; joined: Joined | null };
     let t2: number;
     if (o.previous) {
       // the previous answer: objects, flagged, sorted and stringified afresh; encoded as sending a string does
       const out = segmentsWithFlags(textDoc, codebook, withDocs, choice, (key, sources) => engineOf(key, sources).engine.flags(), () => perLayer);
       t2 = performance.now();
-      made = { body: Buffer.from(JSON.stringify(out), 'utf8'), count: out.length };
+      made = { body: Buffer.from(JSON.stringify(out), 'utf8'), count: out.length, joined: null };
     } else {
       // The rows of a layer whose resolution is new are remade, lending what did not change.
       const rows = docs.map((d, i) => (d.rows = rowsFor(d.rows, layers[i]!, perLayer[i]!.resolved)));
@@ -228,7 +233,8 @@ export function createTextCache(o: TextCacheOptions): TextCache {
         for (const s of sources) kindsOf.set(s.layerId, kinds);
       }
       t2 = performance.now();
-      made = joinRows(rows, (layerId) => kindsOf.get(layerId)?.layer(layerId));
+      const joined = joinRows(rows, (layerId) => kindsOf.get(layerId)?.layer(layerId), kept?.joined);
+      made = { body: joined.body, count: joined.count, joined };
     }
     for (const [group, g] of e.engines) {
       if (!used.has(group)) {
@@ -236,10 +242,10 @@ export function createTextCache(o: TextCacheOptions): TextCache {
         e.engines.delete(group);
       }
     }
-    const { body, count } = made;
+    const { body, count, joined } = made;
     const t3 = performance.now();
     e.answers.delete(key);
-    e.answers.set(key, { versions, body, count });
+    e.answers.set(key, { versions, body, count, joined });
     // One answer per distinct view (role, layers, choice); a handful at most is worth keeping.
     while (e.answers.size > MAX_ANSWERS) e.answers.delete(e.answers.keys().next().value!);
     return { body, count, source: fresh ? 'loaded' : 'refreshed', timings: { refresh: t1 - t0, compute: t2 - t1, json: t3 - t2 } };

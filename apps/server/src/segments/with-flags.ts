@@ -6,7 +6,7 @@
  * layers and a consensus layer are flagged each among their own kind: a coder's round layer and their
  * own layer outside it are not two coders, nor duplicates of each other.
  */
-import { computeFlags, listSegments, resolveSegments, type Flag, type LayerSource, type ResolvedSegment, type SegmentRecord } from '@gloss/model';
+import { computeFlags, concatDecoded, listSegments, resolveDecodedSegments, resolveSegments, type DecodedAnchors, type Flag, type LayerSource, type ResolvedSegment, type SegmentRecord } from '@gloss/model';
 import type * as Y from 'yjs';
 import { countedOn, decideCoders, type CoderChoice } from '../agreement/coders.js';
 import { comparedAs, type VisibleLayer } from '../http/text-layers.js';
@@ -47,10 +47,15 @@ export type ResolveLayers = (textDoc: Y.Doc, layers: ReadonlyArray<VisibleLayer 
 
 export const resolveLayers: ResolveLayers = (textDoc, layers) => resolveRecords(textDoc, layers.map((l) => listSegments(l.doc)));
 
-/** Resolves layers' records (from `listSegments`) in one walk of the text. */
-export function resolveRecords(textDoc: Y.Doc, records: readonly SegmentRecord[][]): LayerResolution[] {
+/**
+ * Resolves layers' records (from `listSegments`) in one walk of the text. `decoded`: each layer's anchors
+ * already read (`decodeAnchors(segmentAnchors(records[i]))`), which the text cache keeps while a layer
+ * does not move, so a text correction re-walks the text without reading 20,000 anchors' bytes again.
+ */
+export function resolveRecords(textDoc: Y.Doc, records: readonly SegmentRecord[][], decoded?: readonly DecodedAnchors[]): LayerResolution[] {
   // No turns: the answer does not carry them, and finding each segment's turn cost a search per segment.
-  const resolved = resolveSegments(textDoc, records.flat(), []);
+  const all = records.flat();
+  const resolved = decoded ? resolveDecodedSegments(textDoc, all, concatDecoded(decoded), []) : resolveSegments(textDoc, all, []);
   let k = 0;
   return records.map((r) => ({ records: r, resolved: resolved.slice(k, (k += r.length)) }));
 }
