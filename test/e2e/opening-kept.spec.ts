@@ -95,6 +95,11 @@ test('a second open draws every layer from this device before the opening return
     expect(after.rooms).not.toContain(NOT_GIVEN);
     expect(after.rooms.length).toBeGreaterThan(1);
     expect(await layerRows(coder.page)).toEqual(rows);
+
+    // signing out forgets what the device kept, with the other copies (sync/forget.ts)
+    await coder.page.getByRole('button', { name: 'Sign out' }).click();
+    await expect(coder.page.getByRole('button', { name: 'Sign in' })).toBeVisible();
+    await expect.poll(() => coder.page.evaluate(async () => (await indexedDB.databases()).map((d) => d.name))).not.toContain('gloss:opening');
   } finally {
     await coder.context.close();
   }

@@ -437,14 +437,16 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
       });
     // A kept state of a document with an offline copy: that copy holds the server's states this device
     // received too, so the kept one is applied only when the copy turns out empty (decoding a 2,000-segment
-    // layer twice cost ~0.2 s). Should the copy lack something (a write lost as the tab closed), the
-    // socket's own sync step sends it: it asks with the document's real state vector.
+    // layer twice cost ~0.2 s), or holds differences of the request's without what they follow. Should
+    // the copy lack something (a write lost as the tab closed), the socket's own sync step sends it: it
+    // asks with the document's real state vector.
     const primeStates = (states: Primed[], connect: boolean) => {
       const kept = local ? states.filter((p) => p.kept) : [];
       const rest = local ? states.filter((p) => !p.kept) : states;
       if (kept.length > 0) {
         void local!.whenSynced.then(() => {
-          if (!released && doc.store.clients.size === 0) applyPrimed(kept, false);
+          // empty, or holding only differences that wait for what they follow
+          if (!released && (doc.store.clients.size === 0 || doc.store.pendingStructs !== null)) applyPrimed(kept, false);
         });
       }
       if (rest.length > 0) applyPrimed(rest, connect);
