@@ -168,8 +168,10 @@ describe(`the opening request (${kind})`, () => {
     expect(markersIn((await opening('coder', 'identity')).bytes, [marker])).toEqual([]);
     expect(markersIn((await opening('coder')).bytes, [marker])).toEqual([]);
     // with the state vectors of copies taken before the round: coder2's layer is not given again
-    const since = (await opening('coder', 'identity', held)).opening!;
+    const withVectors = await opening('coder', 'identity', held);
+    const since = withVectors.opening!;
     expect(since.docs.map((d) => d.room)).not.toContain(s.coder2BaseLayer);
+    expect(markersIn(withVectors.bytes, [marker])).toEqual([]);
     expect(since.docs.map((d) => d.room).sort()).toEqual(byPerson.coder!.slice().sort());
   }, 240_000);
 
