@@ -13,7 +13,7 @@ import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
 import type { Db } from '@gloss/db';
-import { decodeOpening, listSegments, type Opening } from '@gloss/model';
+import { decodeOpening, encodeStateVectors, listSegments, type Opening } from '@gloss/model';
 import { upgradeStatus } from '../support/http.js';
 import type { Person } from '../support/seed.js';
 import { spawnServer, type SpawnedServer } from '../support/server.js';
@@ -31,6 +31,9 @@ describe(`the opening request (${kind})`, () => {
   let s: Seed;
   let as: Record<Person, Client>;
   let roundId: string | null = null;
+  /** The state vectors of the coder's whole states before the round (a device's copies), and those states. */
+  let held: Map<string, Uint8Array> | undefined;
+  let before: Opening | undefined;
 
   beforeAll(async () => {
     server = await spawnServer({ db: kind, seed, startTimeoutMs: 240_000 });
@@ -41,9 +44,10 @@ describe(`the opening request (${kind})`, () => {
     await server?.stop();
   }, 120_000);
 
-  async function opening(who: Person, encoding = 'br, gzip'): Promise<{ status: number; contentEncoding: string | null; opening?: Opening; bytes: Uint8Array }> {
+  async function opening(who: Person, encoding = 'br, gzip', held?: Map<string, Uint8Array>): Promise<{ status: number; contentEncoding: string | null; opening?: Opening; bytes: Uint8Array }> {
     // fetch (undici) undoes the content coding it accepted, as a browser does
-    const res = await fetch(`${server.url}/api/texts/${s.codingTextId}/opening`, { headers: { cookie: as[who].cookie, origin: server.url, 'accept-encoding': encoding } });
+    const sv = held ? `?sv=${Buffer.from(encodeStateVectors(held)).toString('base64url')}` : '';
+    const res = await fetch(`${server.url}/api/texts/${s.codingTextId}/opening${sv}`, { headers: { cookie: as[who].cookie, origin: server.url, 'accept-encoding': encoding } });
     const bytes = new Uint8Array(await res.arrayBuffer());
     return { status: res.status, contentEncoding: res.headers.get('content-encoding'), bytes, ...(res.status === 200 ? { opening: decodeOpening(bytes) } : {}) };
   }
@@ -110,6 +114,40 @@ describe(`the opening request (${kind})`, () => {
     expect((await fetch(`${server.url}/api/texts/${s.codingTextId}/opening`)).status).toBe(401);
   }, 240_000);
 
+  it('with the state vectors of the device’s copies: the same rooms, each as what it gained since (nothing when unchanged)', async () => {
+    before = (await opening('coder')).opening!;
+    held = new Map(before.docs.map((d) => [d.room, Y.encodeStateVectorFromUpdate(d.state)]));
+    // a room this person is not given stays out whatever the device claims to hold of it
+    const stranger = '6f1c1d2e-0000-4000-8000-000000000000';
+    const o = await opening('coder', 'br, gzip', new Map([...held, [stranger, new Uint8Array([0])]]));
+    expect(o.status).toBe(200);
+    expect(o.bytes[0], 'version 2 (model opening.ts)').toBe(2);
+    expect(o.opening!.docs.map((d) => d.room)).toEqual(before.docs.map((d) => d.room));
+    for (const d of o.opening!.docs) {
+      const whole = before.docs.find((b) => b.room === d.room)!;
+      // the server's state vector is that of the whole state it holds
+      expect(Y.decodeStateVector(d.stateVector!), d.kind).toEqual(Y.decodeStateVector(Y.encodeStateVectorFromUpdate(whole.state)));
+      if (d.kind === 'memos') {
+        // filtered for one view: always whole
+        expect(d.diff).toBe(false);
+        expect(d.state).toEqual(whole.state);
+        continue;
+      }
+      // nothing changed since: no new item, at most the delete set
+      expect(d.diff, d.kind).toBe(true);
+      expect(Y.decodeUpdate(d.state).structs, d.kind).toEqual([]);
+    }
+    // a room the device has nothing of comes whole
+    const fresh = await opening('coder', 'identity', new Map([[s.coder2BaseLayer, new Uint8Array([0])]]));
+    expect(fresh.opening!.docs.find((d) => d.room === s.coder2BaseLayer)!.state).toEqual(before.docs.find((d) => d.room === s.coder2BaseLayer)!.state);
+    expect(fresh.opening!.docs.find((d) => d.room === s.codingTextRoom)!.diff).toBe(false);
+    // an sv that is not state vectors by room is the request's fault
+    const bad = await fetch(`${server.url}/api/texts/${s.codingTextId}/opening?sv=AAAA_w`, { headers: { cookie: as.coder.cookie, origin: server.url } });
+    expect(bad.status).toBe(400);
+    // the parameter changes nothing for those with no access
+    expect((await opening('outsider', 'br', held)).status).toBe(404);
+  }, 240_000);
+
   it('independent phase: a participant gets their own round layer and no one else’s layer or words', async () => {
     const res = await startRoundOfThree(s, as.lead, 'Opening round');
     expect(res.status).toBe(201);
@@ -129,6 +167,12 @@ describe(`the opening request (${kind})`, () => {
     // the words of coder2's segment are nowhere in the coder's answer, compressed or not
     expect(markersIn((await opening('coder', 'identity')).bytes, [marker])).toEqual([]);
     expect(markersIn((await opening('coder')).bytes, [marker])).toEqual([]);
+    // with the state vectors of copies taken before the round: coder2's layer is not given again
+    const withVectors = await opening('coder', 'identity', held);
+    const since = withVectors.opening!;
+    expect(since.docs.map((d) => d.room)).not.toContain(s.coder2BaseLayer);
+    expect(markersIn(withVectors.bytes, [marker])).toEqual([]);
+    expect(since.docs.map((d) => d.room).sort()).toEqual(byPerson.coder!.slice().sort());
   }, 240_000);
 
   it('the ticket opens the named rooms for the same session only, and not after an access change', async () => {
@@ -149,5 +193,28 @@ describe(`the opening request (${kind})`, () => {
     expect(removed.status).toBe(204);
     expect(await upgrade('coder2', s.codingTextRoom, mine.ticket)).toBe(403);
     expect(await upgrade('coder', s.codingTextRoom, theirs.ticket)).toBe(101);
+  }, 240_000);
+
+  it('a copy from before the round catches up from what changed since (the reveal stamps the codebook)', async () => {
+    expect((await as.lead.call('POST', `/api/rounds/${roundId}/reveal`)).status).toBe(200);
+    const since = (await opening('coder', 'identity', held)).opening!;
+    const now = (await opening('coder', 'identity')).opening!;
+    expect(since.docs.map((d) => d.room)).toEqual(now.docs.map((d) => d.room));
+    const gained: string[] = [];
+    for (const d of since.docs.filter((x) => x.diff)) {
+      const copy = new Y.Doc({ gc: false });
+      Y.applyUpdate(copy, before!.docs.find((b) => b.room === d.room)!.state);
+      if (Y.decodeUpdate(d.state).structs.length > 0) gained.push(d.kind);
+      Y.applyUpdate(copy, d.state);
+      const server = new Y.Doc({ gc: false });
+      Y.applyUpdate(server, now.docs.find((b) => b.room === d.room)!.state);
+      // the copy holds what the server holds, and the state vector sent says so
+      expect(Y.encodeStateAsUpdate(copy, Y.encodeStateVector(server)).byteLength, d.kind).toBe(Y.encodeStateAsUpdate(server, Y.encodeStateVector(server)).byteLength);
+      expect(Y.decodeStateVector(Y.encodeStateVector(copy)), d.kind).toEqual(Y.decodeStateVector(Y.encodeStateVector(server)));
+      expect(Y.decodeStateVector(d.stateVector!), d.kind).toEqual(Y.decodeStateVector(Y.encodeStateVector(server)));
+      expect(JSON.stringify(copy.toJSON()), d.kind).toBe(JSON.stringify(server.toJSON()));
+    }
+    // the reveal's stamp is the codebook's change since (rounds.ts advance)
+    expect(gained).toContain('codebook');
   }, 240_000);
 });

@@ -94,7 +94,7 @@ export async function startServer(
     const docs: DocWriter = {
       write: (docId, update, userId) => (syncDocs ? syncDocs.write(docId, update, userId) : Promise.reject(new Error('sync is not attached yet'))),
       announce: (docId, seq, update) => (syncDocs ? syncDocs.announce(docId, seq, update) : Promise.reject(new Error('sync is not attached yet'))),
-      state: (docId, holdMs) => (syncDocs ? syncDocs.state(docId, holdMs) : Promise.reject(new Error('sync is not attached yet'))),
+      state: (docId, holdMs, since) => (syncDocs ? syncDocs.state(docId, holdMs, since) : Promise.reject(new Error('sync is not attached yet'))),
     };
     const app = buildApp(
       {

@@ -196,10 +196,16 @@ export function buildOpenApi() {
             'the caller may read (outside rounds and of the open round), and of the study\'s codebook and memos, decided room by room by the same rule as the sync upgrade ' +
             '(a participant in an independent phase gets no one else\'s layer). Binary: varUint version (1), varString ticket, varUint count, then per document varString room, ' +
             'varString kind, varUint8Array state (lib0 encoding). Brotli or gzip as Accept-Encoding allows. The ticket, presented as `/sync/<room>?ticket=…` with the same ' +
-            'session cookie within 30 seconds, opens the rooms it names without deciding them again, as long as no access change happened meanwhile (else the upgrade decides afresh).',
+            'session cookie within 30 seconds, opens the rooms it names without deciding them again, as long as no access change happened meanwhile (else the upgrade decides afresh). ' +
+            'With `sv` (base64url of varUint count, then per room varString room, varUint8Array Yjs state vector: the copies the device keeps) the answer is version 2: ' +
+            'a granted room named in `sv` comes as what it gained since that state vector (a few bytes when unchanged), and after each state a varUint (1: such a difference, ' +
+            '0: the whole document) and varUint8Array the state vector the copy then holds. The rooms given are decided exactly as without it; the memos always come whole.',
           security: secured,
-          parameters: [idParam('textId')],
-          responses: { '200': { description: 'The states', content: { 'application/octet-stream': { schema: { type: 'string', format: 'binary' } } } }, ...errors(401, 404) },
+          parameters: [
+            idParam('textId'),
+            { name: 'sv', in: 'query', required: false, description: 'The state vectors of the copies this device keeps, by room (base64url; see above).', schema: { type: 'string' } },
+          ],
+          responses: { '200': { description: 'The states', content: { 'application/octet-stream': { schema: { type: 'string', format: 'binary' } } } }, ...errors(400, 401, 404) },
         },
       },
       ...codingPaths,

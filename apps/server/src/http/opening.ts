@@ -7,11 +7,17 @@
  * phase gets no one else's layer). The decisions are left under a short-lived ticket (access/tickets.ts)
  * that the page's sockets present at their upgrade instead of being decided again. The memos state is
  * filtered for the reader exactly as their memos socket is (access/memo-readers.ts).
+ *
+ * `?sv=` (base64url of model `encodeStateVectors`: the state vectors of the copies the device keeps, by
+ * room) asks for version 2: a granted room named there comes as what it gained since (a few bytes when
+ * unchanged), with the state vector the copy then holds. Rooms are still decided exactly as without it;
+ * a state vector for a room not granted changes nothing. The memos always come whole (their copy is
+ * filtered for one view, and a state vector of a filtered copy would hide entries another view shows).
  */
 import { promisify } from 'node:util';
 import { brotliCompress, constants as zlib, gzip } from 'node:zlib';
 import { documents } from '@gloss/db';
-import { encodeOpening, type OpeningDoc } from '@gloss/model';
+import { decodeStateVectors, encodeOpening, type OpeningDoc } from '@gloss/model';
 import { and, eq, inArray, isNull, or } from 'drizzle-orm';
 import { Hono } from 'hono';
 import * as Y from 'yjs';
@@ -19,6 +25,7 @@ import { readableMemosState } from '../access/memo-readers.js';
 import { openRoundOfText } from '../access/rounds.js';
 import { TICKET_TTL_MS } from '../access/tickets.js';
 import { HttpError } from '../errors.js';
+import type { DocState } from '../sync/index.js';
 import type { AppDeps, AppEnv } from './context.js';
 import { requireSession } from './middleware.js';
 import { textRole } from './study-access.js';
@@ -36,6 +43,7 @@ export function openingRoutes(deps: AppDeps) {
   app.get('/:textId/opening', async (c) => {
     const { text } = await textRole(deps, c);
     const session = c.get('session');
+    const held = heldVectors(c.req.query('sv'));
     if (!deps.authorizer) throw new HttpError(503, 'not_ready', 'This server cannot decide rooms ahead of the sync connections.');
     const openRound = await openRoundOfText(deps.db, text.id);
     // the same rooms GET /api/texts/:id names: the text, layers outside rounds and of the open round,
@@ -54,7 +62,17 @@ export function openingRoutes(deps: AppDeps) {
     const grants = await deps.authorizer.grantsFor(session, rows.map((r) => r.id));
     const docs: OpeningDoc[] = [];
     // the memos go as this reader may receive them, filtered as their socket filters (memo-readers.ts)
-    for (const g of grants) docs.push({ room: g.room, kind: g.kind, state: g.kind === 'memos' ? readableMemosState(await stateOf(deps, g.docId), g.memoView) : await stateOf(deps, g.docId) });
+    for (const g of grants) {
+      if (g.kind === 'memos') {
+        const state = readableMemosState((await stateOf(deps, g.docId)).update, g.memoView);
+        // an empty state vector: a copy kept from it is asked for whole next time
+        docs.push(held ? { room: g.room, kind: g.kind, state, diff: false, stateVector: EMPTY_VECTOR } : { room: g.room, kind: g.kind, state });
+        continue;
+      }
+      const since = held?.get(g.room);
+      const s = await stateOf(deps, g.docId, since);
+      docs.push(held ? { room: g.room, kind: g.kind, state: s.update, diff: since !== undefined, stateVector: s.stateVector } : { room: g.room, kind: g.kind, state: s.update });
+    }
     const ticket = deps.tickets && grants.length > 0 ? deps.tickets.issue(session.sessionId, grants, stamp).ticket : '';
     const body = encodeOpening({ ticket, docs });
     const { bytes, encoding } = await compress(body, c.req.header('accept-encoding') ?? '');
@@ -68,12 +86,28 @@ export function openingRoutes(deps: AppDeps) {
   return app;
 }
 
-/** The document's committed state: from its room (kept open for the sockets that follow), else from the store. */
-async function stateOf(deps: AppDeps, docId: string): Promise<Uint8Array> {
-  if (deps.docs) return deps.docs.state(docId, TICKET_TTL_MS);
+const EMPTY_VECTOR = new Uint8Array([0]);
+
+/** The `sv` parameter: undefined when absent; a 400 when it is not state vectors by room. */
+function heldVectors(sv: string | undefined): Map<string, Uint8Array> | undefined {
+  if (sv === undefined) return undefined;
+  try {
+    const held = decodeStateVectors(new Uint8Array(Buffer.from(sv, 'base64url')));
+    // each must read as a state vector, so a bad one is this request's error, not the server's
+    for (const v of held.values()) Y.decodeStateVector(v);
+    return held;
+  } catch {
+    throw new HttpError(400, 'bad_request', 'The sv parameter is not a list of state vectors by room.');
+  }
+}
+
+/** The document's committed state (since `since` when given): from its room (kept open for the sockets that follow), else from the store. */
+async function stateOf(deps: AppDeps, docId: string, since?: Uint8Array): Promise<DocState> {
+  if (deps.docs) return deps.docs.state(docId, TICKET_TTL_MS, since);
   if (!deps.store) throw new HttpError(503, 'not_ready', 'This server has no document store.');
   const { updates } = await deps.store.load(docId);
-  return updates.length === 1 ? updates[0]! : Y.mergeUpdates(updates);
+  const whole = updates.length === 1 ? updates[0]! : Y.mergeUpdates(updates);
+  return { update: since ? Y.diffUpdate(whole, since) : whole, stateVector: Y.encodeStateVectorFromUpdate(whole) };
 }
 
 /**

@@ -5,13 +5,17 @@
  */
 import * as Y from 'yjs';
 import { loadDoc, type DocLoader } from '../projection/load-doc.js';
+import type { DocState } from '../sync/index.js';
 
 export interface DocWriter {
   write(docId: string, update: Uint8Array, userId: string | null): Promise<void>;
   /** An update committed outside sync (an import): to the open rooms of every node (sync `announce`). */
   announce(docId: string, seq: number, update: Uint8Array): Promise<void>;
-  /** The document's whole state, from its room (sync `state`: the room stays open `holdMs` for the sockets that follow). */
-  state(docId: string, holdMs: number): Promise<Uint8Array>;
+  /**
+   * The document's whole state, or with `since` what it gained since that state vector, and its state
+   * vector, from its room (sync `state`: the room stays open `holdMs` for the sockets that follow).
+   */
+  state(docId: string, holdMs: number, since?: Uint8Array): Promise<DocState>;
 }
 
 /** Applies `change` to the stored document; writes and returns true when it changed anything. */

@@ -19,6 +19,12 @@ import { encodeRelayFrame } from './relay-frame.js';
 import type { RoomPeer, RoomState } from './room.js';
 import { refuse, roomFromUrl, statusOf, type IncomingMessage } from './upgrade.js';
 
+/** A document's state as an update (whole, or since a state vector) and the state vector it brings a copy to. */
+export interface DocState {
+  update: Uint8Array;
+  stateVector: Uint8Array;
+}
+
 export interface SyncOptions {
   authorizer: RoomAuthorizer;
   store: UpdateStore;
@@ -64,9 +70,11 @@ export interface SyncHandle {
   /**
    * The document's state as one update (everything committed, from the open room or loaded into one),
    * keeping the room open for `holdMs` afterwards: the opening request reads it and the page's sockets,
-   * arriving right after, join a room that is already loaded instead of loading it again.
+   * arriving right after, join a room that is already loaded instead of loading it again. With `since`
+   * (a state vector the caller holds) the update is only what the document gained since; `stateVector`
+   * is the document's, taken with the update.
    */
-  state(docId: string, holdMs: number): Promise<Uint8Array>;
+  state(docId: string, holdMs: number, since?: Uint8Array): Promise<DocState>;
   close(): Promise<void>;
   stats(): SyncStats;
 }
@@ -240,10 +248,10 @@ export function attachSync(httpServer: Server, options: SyncOptions): SyncHandle
       if (room) return room.applyCommitted(seq, update);
       await options.relay.publish(docId, encodeRelayFrame({ kind: 'update', seq, data: update }));
     },
-    async state(docId, holdMs) {
+    async state(docId, holdMs, since) {
       const lease: RoomPeer = { send: () => {}, sendAwareness: () => {}, fail: () => {}, lease: true };
       const room = await registry.join(docId, docId, lease);
-      const state = Y.encodeStateAsUpdate(room.doc);
+      const state: DocState = { update: Y.encodeStateAsUpdate(room.doc, since), stateVector: Y.encodeStateVector(room.doc) };
       const release = (): void => {
         clearTimeout(timer);
         leases.delete(release);

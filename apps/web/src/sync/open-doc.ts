@@ -13,6 +13,7 @@ import { createSignal, type Accessor } from 'solid-js';
 import { syncBaseUrl } from './room-url.js';
 import { readPending, writePending } from './pending.js';
 import { registerDoc, unregisterDoc } from './status.js';
+import { closeKept, forgetKept } from './kept-states.js';
 
 export type Confirmation = { outcome: 'saved' } | { outcome: 'refused'; reason: string } | { outcome: 'offline' };
 
@@ -68,6 +69,8 @@ export interface OpenDoc {
   dropLocalCopy(): Promise<void>;
   /** Called once this copy was refused as made for another view (4409) and deleted: open a fresh one. */
   onViewChanged(listener: () => void): () => void;
+  /** The server no longer gives this room (its opening left it out): stop syncing, say so, keep nothing of it. */
+  withdraw(): void;
   /** Resolves once the document holds either the server's state or the offline copy. */
   whenReady: Promise<void>;
   release(): void;
@@ -103,10 +106,15 @@ export function holdReloadWhile<T>(work: Promise<T>): Promise<T> {
 
 /** The origin of a state from the opening request (sync/opening.ts): the server's, not a change made here. */
 export const PRIMED = Symbol('opening');
-/** States the opening request brought for documents not open yet, by room; taken by the next openDoc. */
-const primed = new Map<string, Uint8Array>();
+/**
+ * A state for a document: from the opening request, or (`kept`) the server's state as this device kept
+ * it (kept-states.ts), which its offline copy need not store again.
+ */
+interface Primed { state: Uint8Array; kept: boolean }
+/** States the opening request (or this device) brought for documents not open yet, by room; taken by the next openDoc. */
+const primed = new Map<string, Primed[]>();
 /** Applies a state that arrived for a document already open, and counts it ready. */
-const primeOpen = new Map<string, (state: Uint8Array) => void>();
+const primeOpen = new Map<string, (p: Primed) => void>();
 
 /**
  * Applying a whole document's state is the longest piece of work in opening a text (a layer of 2,000
@@ -148,10 +156,54 @@ export function nextInOwnTask(work: () => void): void {
  * else when it opens. The document then counts as ready, as with its offline copy; its socket exchanges
  * only what changed since.
  */
-export function prime(room: string, state: Uint8Array): void {
+export function prime(room: string, state: Uint8Array, kept = false): void {
   const apply = primeOpen.get(room);
-  if (apply) apply(state);
-  else primed.set(room, state);
+  if (apply) apply({ state, kept });
+  else primed.set(room, [...(primed.get(room) ?? []), { state, kept }]);
+}
+
+/**
+ * The server no longer gives `room` (its opening left it out): a state kept on this device and not yet
+ * applied is dropped, and an open document stops syncing and says it may no longer be opened.
+ */
+export function withdraw(room: string): void {
+  primed.delete(room);
+  const e = open.get(room);
+  if (e) e.handle.withdraw();
+}
+
+/**
+ * Applies states of the server's to `doc` with its `update` listeners held back, then hands those
+ * listeners the bytes that came (a valid update holding at least what was applied) instead of letting
+ * Yjs encode every applied state once more for them (~0.8 s for five 2,000-segment layers at 30k words,
+ * issue 11). The provider's listener is skipped (these are the server's own states: nothing to send it),
+ * and so is the offline copy's for a state this device kept (it is on the device already); nothing is
+ * handed on when the states brought nothing new.
+ */
+function applyQuietly(doc: Y.Doc, states: Primed[], skip: { provider: unknown; local: unknown }): void {
+  const observers = (doc as unknown as { _observers: Map<string, Set<(...args: unknown[]) => void>> })._observers;
+  const held = observers.get('update');
+  observers.delete('update');
+  let changed = false;
+  const seen = (tr: Y.Transaction) => {
+    if (tr.deleteSet.clients.size > 0) changed = true;
+    for (const [client, clock] of tr.afterState) if ((tr.beforeState.get(client) ?? 0) !== clock) changed = true;
+  };
+  doc.on('afterTransaction', seen);
+  try {
+    for (const p of states) Y.applyUpdate(doc, p.state, PRIMED);
+  } finally {
+    doc.off('afterTransaction', seen);
+    // listeners added meanwhile (by an observer) stay, with those held back
+    const added = observers.get('update');
+    const all = new Set([...(held ?? []), ...(added ?? [])]);
+    if (all.size > 0) observers.set('update', all);
+  }
+  if (!changed) return;
+  for (const f of observers.get('update') ?? []) {
+    if (f === skip.provider) continue;
+    for (const p of states) if (!(p.kept && f === skip.local)) f(p.state, PRIMED, doc, null);
+  }
 }
 
 /** Forgets states primed for documents that were never opened (the screen went elsewhere). */
@@ -196,6 +248,7 @@ export async function closeAllDocs(): Promise<void> {
   open.clear();
   // nothing of this person's may reach whoever signs in next on this page
   primed.clear();
+  closeKept();
   applyQueue.length = 0;
   ticket = '';
   await Promise.all(entries.map(({ handle }) => handle.closeNow()));
@@ -265,6 +318,8 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     shouldReconnect: (event: CloseEvent) => !NO_RECONNECT.has(event.code),
   });
   let released = false;
+  /** The server no longer gives this room (`withdraw`): never connect again. */
+  let withdrawn = false;
   let closing: Promise<void> = Promise.resolve();
   if (defer) {
     const start = () => {
@@ -281,10 +336,14 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
   const [pending, setPendingSig] = createSignal(readPending(room));
   const [lost, setLost] = createSignal<string | null>(null);
   provider.on('connection-close', (event: CloseEvent | null) => {
-    if (event?.code === LOST_ACCESS_CLOSE) setLost(event.reason || 'You may no longer open this document.');
+    if (event?.code === LOST_ACCESS_CLOSE) {
+      setLost(event.reason || 'You may no longer open this document.');
+      void forgetKept([room]);
+    }
     if (event?.code === DELETED_CLOSE) {
       setLost(event.reason || 'This document was deleted.');
       void local?.clearData();
+      void forgetKept([room]);
     }
     if (event?.code === REPLACED_CLOSE) {
       sessionStorage.setItem(RELOAD_NOTICE_KEY, `${opts.label}: ${event.reason || 'the text was rebuilt after de-identification'} This device’s copy was discarded and the page reloaded.`);
@@ -366,21 +425,40 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     void local?.whenSynced.then(() => {
       if (doc.store.clients.size > 0 && !provider.wsconnected) finish();
     });
-    // The opening request's state is the server's as of a moment ago: ready to draw, the socket follows.
-    const applyPrimed = (state: Uint8Array, connect: boolean) =>
+    // The opening request's state is the server's as of a moment ago (a kept one, as of the last
+    // opening): ready to draw, the socket follows.
+    const applyPrimed = (states: Primed[], connect: boolean) =>
       inOwnTask(() => {
         if (released) return;
-        Y.applyUpdate(doc, state, PRIMED);
+        applyQuietly(doc, states, { provider: (provider as unknown as { _updateHandler: unknown })._updateHandler, local: (local as unknown as { _storeUpdate?: unknown } | null)?._storeUpdate });
         performance.mark(`gloss:primed:${room}`);
         finish();
-        if (connect && !paused && !defer && !provider.shouldConnect) provider.connect();
+        if (connect && !withdrawn && !paused && !defer && !provider.shouldConnect) provider.connect();
       });
-    if (early) applyPrimed(early, true);
-    else primeOpen.set(room, (state) => applyPrimed(state, false));
+    // A kept state of a document with an offline copy: that copy holds the server's states this device
+    // received too, so the kept one is applied only when the copy turns out empty (decoding a 2,000-segment
+    // layer twice cost ~0.2 s), or holds differences of the request's without what they follow. Should
+    // the copy lack something (a write lost as the tab closed), the socket's own sync step sends it: it
+    // asks with the document's real state vector.
+    const primeStates = (states: Primed[], connect: boolean) => {
+      const kept = local ? states.filter((p) => p.kept) : [];
+      const rest = local ? states.filter((p) => !p.kept) : states;
+      if (kept.length > 0) {
+        void local!.whenSynced.then(() => {
+          // empty, or holding only differences that wait for what they follow
+          if (!released && (doc.store.clients.size === 0 || doc.store.pendingStructs !== null)) applyPrimed(kept, false);
+        });
+      }
+      if (rest.length > 0) applyPrimed(rest, connect);
+      else if (connect) inOwnTask(() => !released && !withdrawn && !paused && !defer && !provider.shouldConnect && provider.connect());
+    };
+    // a state from the request: connect once it is applied (a kept one waits for the request: `holdUntil`)
+    if (early) primeStates(early, early.some((p) => !p.kept) || !opts.holdUntil);
+    primeOpen.set(room, (p) => primeStates([p], false));
     // after the states the request primed (queued before this, so applied first), connect
     void opts.holdUntil?.finally(() =>
       inOwnTask(() => {
-        if (!released && !paused && !defer && !provider.shouldConnect) provider.connect();
+        if (!released && !withdrawn && !paused && !defer && !provider.shouldConnect) provider.connect();
       }),
     );
   });
@@ -427,7 +505,14 @@ export function openDoc(room: string, opts: { label: string; gc?: boolean; offli
     },
     async dropLocalCopy() {
       provider.disconnect();
-      await local?.clearData();
+      await Promise.all([local?.clearData(), forgetKept([room])]);
+    },
+    withdraw() {
+      if (released) return;
+      withdrawn = true;
+      provider.disconnect();
+      setLost('You may no longer open this document.');
+      void forgetKept([room]);
     },
     whenReady,
     release() {
