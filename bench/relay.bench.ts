@@ -245,7 +245,10 @@ export async function startBenchServer(kind: ServerKind, roomCount = 1): Promise
     async stop() {
       const exited = new Promise((resolve) => child.once('exit', resolve));
       child.stdin!.end();
+      // A server still swamped by a saturated window may not get to its stdin's end: not waited for past a minute.
+      const kill = setTimeout(() => child.kill('SIGKILL'), 60_000);
       await exited;
+      clearTimeout(kill);
       if (leveldbDir !== null) rmSync(leveldbDir, { recursive: true, force: true });
     },
   };
@@ -357,6 +360,11 @@ async function editors(target: Target, from: number, count: number, total: numbe
       for (const ws of [...sockets, listener]) ws.terminate();
       return { sent, latencies };
     },
+    /** A failed window: stop at once. */
+    abandon() {
+      for (const stop of timers) stop();
+      for (const ws of [...sockets, listener]) ws.terminate();
+    },
   };
 }
 
@@ -375,15 +383,17 @@ async function editorsInChild(target: Target, from: number, count: number, total
   const env: NodeJS.ProcessEnv = { ...process.env, BENCH_RELAY_CLIENTS_CHILD: '1' };
   delete env.BENCH_SERVER;
   const child = fork(fileURLToPath(import.meta.url), [], { execArgv: ['--import', 'tsx'], cwd: repoRoot, env, stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
+  // A window whose server cannot keep up must fail the run, not hang it (one did at 100 clients, load average 15).
   const next = (event: string) =>
     new Promise<Record<string, unknown>>((resolve, reject) => {
+      const done = () => (clearTimeout(timer), child.off('message', onMessage), child.off('exit', onExit));
       const onMessage = (msg: Record<string, unknown>) => {
         if (msg.event !== event) return;
-        child.off('message', onMessage);
-        child.off('exit', onExit);
+        done();
         resolve(msg);
       };
-      const onExit = (code: number | null) => reject(new Error(`bench clients process exited (${code}) before ${event}`));
+      const onExit = (code: number | null) => (done(), reject(new Error(`bench clients process exited (${code}) before ${event}`)));
+      const timer = setTimeout(() => (done(), child.kill(), reject(new Error(`bench clients process: no ${event} in 120 s`))), 120_000);
       child.on('message', onMessage);
       child.once('exit', onExit);
     });
@@ -400,6 +410,9 @@ async function editorsInChild(target: Target, from: number, count: number, total
       const msg = await result;
       child.disconnect();
       return { sent: msg.sent as number, latencies: msg.latencies as number[] };
+    },
+    abandon() {
+      child.kill();
     },
   };
 }
@@ -435,13 +448,19 @@ export async function measure(server: BenchServer, clients: number, room: string
             return editorsInChild(target, from, Math.floor(((k + 1) * clients) / processes) - from, clients);
           }),
         );
-  await new Promise((resolve) => setTimeout(resolve, WARMUP_MS));
-  const cpu0 = await server.cpu();
-  for (const g of groups) g.measure(true);
-  await new Promise((resolve) => setTimeout(resolve, measureMs));
-  for (const g of groups) g.measure(false);
-  const cpu1 = await server.cpu();
-  const results = await Promise.all(groups.map((g) => g.finish()));
+  let cpu0, cpu1, results;
+  try {
+    await new Promise((resolve) => setTimeout(resolve, WARMUP_MS));
+    cpu0 = await server.cpu();
+    for (const g of groups) g.measure(true);
+    await new Promise((resolve) => setTimeout(resolve, measureMs));
+    for (const g of groups) g.measure(false);
+    cpu1 = await server.cpu();
+    results = await Promise.all(groups.map((g) => g.finish()));
+  } catch (error) {
+    for (const g of groups) g.abandon();
+    throw error;
+  }
   const sent = results.reduce((n, r) => n + r.sent, 0);
   const latencies = results.flatMap((r) => r.latencies).sort((a, b) => a - b);
   const cpuUs = cpu1.user - cpu0.user + (cpu1.system - cpu0.system);
