@@ -304,7 +304,7 @@ interface Target {
 /**
  * Editors `from`..`from + count - 1` of `total` in `room`, and a listener that times the updates of
  * these editors only (its own process's clock): each editor sends 5 edits/s, staggered by its index
- * across the 200 ms period. Editing starts once every socket is open.
+ * across the 200 ms period, from `start()`.
  */
 async function editors(target: Target, from: number, count: number, total: number) {
   Y = await import('yjs');
@@ -326,7 +326,8 @@ async function editors(target: Target, from: number, count: number, total: numbe
   });
   listener.send(syncMessage(0, Y.encodeStateVector(new Y.Doc())));
   const sockets = await Promise.all(Array.from({ length: count }, () => openSocket(server)));
-  const timers = sockets.map((ws, n) => {
+  const timers: Array<() => void> = [];
+  const startEditing = () => sockets.forEach((ws, n) => {
     const doc = new Y.Doc();
     const text = doc.getText('text');
     let pending: Uint8Array | null = null;
@@ -346,9 +347,11 @@ async function editors(target: Target, from: number, count: number, total: numbe
       edit();
       interval = setInterval(edit, 1000 / EDITS_PER_SEC);
     }, ((from + n) * 1000) / EDITS_PER_SEC / total);
-    return () => (clearTimeout(start), clearInterval(interval));
+    timers.push(() => (clearTimeout(start), clearInterval(interval)));
   });
   return {
+    /** Editing starts here, once every group's sockets are open (a server flooded while others connect refused them in time at 200 clients). */
+    start: startEditing,
     measure(on: boolean) {
       measuring = on;
     },
@@ -401,6 +404,9 @@ async function editorsInChild(target: Target, from: number, count: number, total
   child.send({ cmd: 'open', target, from, count, total });
   await opened;
   return {
+    start() {
+      child.send({ cmd: 'start' });
+    },
     measure(on: boolean) {
       child.send({ cmd: on ? 'measure' : 'pause' });
     },
@@ -424,7 +430,8 @@ async function clientsChildMain(): Promise<void> {
       if (msg.cmd === 'open') {
         group = await editors(msg.target, msg.from, msg.count, msg.total);
         process.send!({ event: 'opened' });
-      } else if (msg.cmd === 'measure') group!.measure(true);
+      } else if (msg.cmd === 'start') group!.start();
+      else if (msg.cmd === 'measure') group!.measure(true);
       else if (msg.cmd === 'pause') group!.measure(false);
       else if (msg.cmd === 'finish') process.send!({ event: 'result', ...(await group!.finish()) });
     })().catch((error: unknown) => {
@@ -439,15 +446,23 @@ export async function measure(server: BenchServer, clients: number, room: string
   const kind = server.kind;
   const target: Target = { wsBase: server.wsBase, headers: server.headers, room };
   const processes = clients > CLIENTS_PER_PROCESS ? Math.ceil(clients / CLIENTS_PER_PROCESS) : 1;
-  const groups: Group[] =
-    processes === 1
-      ? [await editors(target, 0, clients, clients)]
-      : await Promise.all(
-          Array.from({ length: processes }, (_, k) => {
-            const from = Math.floor((k * clients) / processes);
-            return editorsInChild(target, from, Math.floor(((k + 1) * clients) / processes) - from, clients);
-          }),
-        );
+  let groups: Group[];
+  if (processes === 1) groups = [await editors(target, 0, clients, clients)];
+  else {
+    const opened = await Promise.allSettled(
+      Array.from({ length: processes }, (_, k) => {
+        const from = Math.floor((k * clients) / processes);
+        return editorsInChild(target, from, Math.floor(((k + 1) * clients) / processes) - from, clients);
+      }),
+    );
+    groups = opened.flatMap((o) => (o.status === 'fulfilled' ? [o.value] : []));
+    const failed = opened.find((o) => o.status === 'rejected');
+    if (failed !== undefined) {
+      for (const g of groups) g.abandon();
+      throw failed.reason;
+    }
+  }
+  for (const g of groups) g.start();
   let cpu0, cpu1, results;
   try {
     await new Promise((resolve) => setTimeout(resolve, WARMUP_MS));
