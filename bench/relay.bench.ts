@@ -14,20 +14,25 @@
  * for Gloss), so start-up (tens of seconds of transpiling on a loaded machine) is paid once per server.
  * Sizes run one after another; within a size the servers take turns in the order listed, and
  * BENCH_RELAY_ROUNDS (1) repeats the turns, each round in a fresh room, for A/B figures under the same
- * machine load. Windows: BENCH_RELAY_WARMUP_MS (1 s) warm-up, then BENCH_RELAY_MEASURE_MS (4 s) measured.
+ * machine load. Windows: BENCH_RELAY_WARMUP_MS (1 s) warm-up, then BENCH_RELAY_MEASURE_MS (4 s) measured;
+ * before the first size each server serves one unmeasured window of BENCH_RELAY_PREWARM_MS (8 s).
  * Each record gives the server's resident memory (RSS) at the end of its window and the 1-minute load
  * average of the machine, which is shared: CPU time per update is the steadier figure, p99 swings with load.
- * At 100 and 200 clients every server relays 50,000 and 200,000 messages a second, all received by this
- * one measuring process: a server (or this process) that falls behind answers the CPU reading late, so
- * a saturated window reads over 100 % CPU and its CPU per update is not comparable (serverCpuPercent shows it).
+ * At 100 and 200 clients every server relays 50,000 and 200,000 messages a second. Above 50 clients
+ * (BENCH_RELAY_CLIENTS_PER_PROCESS) the editors are spread over child processes of 50, each with its
+ * own listener timing its own editors (its own clock) and reporting sent counts and latencies back;
+ * 10 and 50 clients run in this process as before. The machine's cores are still shared by the server
+ * and every clients process. The server's CPU time is read from /proc/<pid>/stat at the window's edges
+ * (a saturated server answered its own reading late, which made its window read over 100 % CPU); the
+ * socket writes still come from the server and are NaN when it does not answer within 5 s.
  * BENCH_RELAY_CLIENTS=50 and BENCH_RELAY_SERVERS=reference,gloss-pglite narrow a run (profiling).
  * Run as a child with BENCH_SERVER=gloss|reference|reference-leveldb it is the server under test instead.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import { fork, spawn, type ChildProcess } from 'node:child_process';
 import { createServer } from 'node:http';
 import { createRequire } from 'node:module';
 import { Socket, type AddressInfo } from 'node:net';
-import { mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { createInterface } from 'node:readline';
@@ -208,12 +213,13 @@ export async function startBenchServer(kind: ServerKind, roomCount = 1): Promise
     const i = waiters.findIndex((w) => w(msg));
     if (i >= 0) waiters.splice(i, 1);
   });
-  const next = (event: string) =>
+  const next = (event: string, ms = 180_000) =>
     new Promise<Record<string, unknown>>((resolve, reject) => {
-      const timer = setTimeout(() => reject(new Error(`bench server (${kind}): no ${event} line`)), 180_000);
+      const timer = setTimeout(() => reject(new Error(`bench server (${kind}): no ${event} line`)), ms);
       waiters.push((msg) => (msg.event === event ? (clearTimeout(timer), resolve(msg), true) : false));
     });
   const ready = await next('ready');
+  const fromProc = procReader(child.pid);
   const http = `http://127.0.0.1:${ready.port as number}`;
   let headers: Record<string, string> = {};
   if (!kind.startsWith('reference')) {
@@ -233,17 +239,46 @@ export async function startBenchServer(kind: ServerKind, roomCount = 1): Promise
     rooms: ready.rooms as string[],
     headers,
     async cpu() {
-      const reply = next('cpu');
+      const reply = next('cpu', fromProc === null ? 180_000 : 5_000);
       child.stdin!.write('cpu\n');
-      const msg = await reply;
-      return { user: msg.user as number, system: msg.system as number, socketWrites: (msg.socketWrites as number | undefined) ?? NaN, rss: msg.rss as number };
+      // Read from /proc where there is one: a saturated server answers its stdin seconds late (at 200
+      // clients the reference did not within 180 s), which stretched the window its CPU time covered.
+      const now = fromProc?.();
+      const msg: Record<string, unknown> = await reply.catch((error: unknown) => {
+        if (now === undefined) throw error;
+        return { socketWrites: NaN };
+      });
+      return now !== undefined
+        ? { ...now, socketWrites: (msg.socketWrites as number | undefined) ?? NaN }
+        : { user: msg.user as number, system: msg.system as number, socketWrites: (msg.socketWrites as number | undefined) ?? NaN, rss: msg.rss as number };
     },
     async stop() {
       const exited = new Promise((resolve) => child.once('exit', resolve));
       child.stdin!.end();
+      // A server still swamped by a saturated window may not get to its stdin's end: not waited for past a minute.
+      const kill = setTimeout(() => child.kill('SIGKILL'), 60_000);
       await exited;
+      clearTimeout(kill);
       if (leveldbDir !== null) rmSync(leveldbDir, { recursive: true, force: true });
     },
+  };
+}
+
+/** Clock ticks per second of /proc's CPU times (getconf CLK_TCK; 100 on Linux builds since 2.6). */
+const CLOCK_TICKS = 100;
+
+/**
+ * A process's CPU time (all threads, microseconds, as process.cpuUsage() gives it) and resident memory,
+ * read from /proc at the moment of the call; null where there is no /proc (the child is asked instead).
+ */
+function procReader(pid: number | undefined): (() => { user: number; system: number; rss: number }) | null {
+  if (pid === undefined || !existsSync(`/proc/${pid}/stat`)) return null;
+  return () => {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    // Fields after the command name (which may hold spaces): state is the first, utime the 12th, stime the 13th.
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    const rssKb = Number(/VmRSS:\s+(\d+)/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'))?.[1] ?? NaN);
+    return { user: (Number(fields[11]) * 1e6) / CLOCK_TICKS, system: (Number(fields[12]) * 1e6) / CLOCK_TICKS, rss: rssKb * 1024 };
   };
 }
 
@@ -287,83 +322,207 @@ export function percentile(sorted: number[], p: number): number {
 const round = (n: number, digits = 2) => Math.round(n * 10 ** digits) / 10 ** digits;
 const round2 = (n: number) => round(n);
 
-/** One window: `clients` editors and a listener in `room` of a running server. */
-export async function measure(server: BenchServer, clients: number, room: string): Promise<Record<string, unknown> & { name: string }> {
+/** Where a group of editors connects: what a clients process needs of a BenchServer. */
+interface Target {
+  wsBase: string;
+  headers: Record<string, string>;
+  room: string;
+}
+
+/**
+ * Editors `from`..`from + count - 1` of `total` in `room`, and a listener that times the updates of
+ * these editors only (its own process's clock): each editor sends 5 edits/s, staggered by its index
+ * across the 200 ms period, from `start()`.
+ */
+async function editors(target: Target, from: number, count: number, total: number) {
   Y = await import('yjs');
-  const kind = server.kind;
-  {
-    // Send time of each update sent inside the measured window (only those are timed).
-    const sentAt = new Map<string, number>();
-    const latencies: number[] = [];
-    let measuring = false;
-    const listener = await openSocket(
-      server,
-      (message) => {
-      const now = performance.now();
-      for (const id of updateIds(message)) {
-        const t = sentAt.get(id);
-        if (t !== undefined) {
-          sentAt.delete(id);
-          latencies.push(now - t);
-        }
+  const server = { wsBase: target.wsBase, headers: target.headers, room: target.room } as BenchServer;
+  // Send time of each update sent inside the measured window (only those are timed).
+  const sentAt = new Map<string, number>();
+  const latencies: number[] = [];
+  let measuring = false;
+  let sent = 0;
+  const listener = await openSocket(server, (message) => {
+    const now = performance.now();
+    for (const id of updateIds(message)) {
+      const t = sentAt.get(id);
+      if (t !== undefined) {
+        sentAt.delete(id);
+        latencies.push(now - t);
       }
-      },
-      room,
-    );
-    listener.send(syncMessage(0, Y.encodeStateVector(new Y.Doc())));
-    const editors = await Promise.all(Array.from({ length: clients }, () => openSocket(server, undefined, room)));
-    let sent = 0;
-    const timers = editors.map((ws, i) => {
-      const doc = new Y.Doc();
-      const text = doc.getText('text');
-      let pending: Uint8Array | null = null;
-      doc.on('update', (u: Uint8Array) => (pending = u));
-      const edit = () => {
-        const clock = Y.getState(doc.store, doc.clientID);
-        text.insert(Math.floor(Math.random() * (text.length + 1)), 'a coded remark ');
-        if (measuring) {
-          sentAt.set(`${doc.clientID}:${clock}`, performance.now());
-          sent++;
-        }
-        ws.send(syncMessage(2, pending!));
-      };
-      // Stagger the clients across the 200 ms period.
-      let interval: NodeJS.Timeout | undefined;
-      const start = setTimeout(() => {
-        edit();
-        interval = setInterval(edit, 1000 / EDITS_PER_SEC);
-      }, (i * 1000) / EDITS_PER_SEC / clients);
-      return () => (clearTimeout(start), clearInterval(interval));
-    });
-    await new Promise((resolve) => setTimeout(resolve, WARMUP_MS));
-    const cpu0 = await server.cpu();
-    measuring = true;
-    await new Promise((resolve) => setTimeout(resolve, MEASURE_MS));
-    measuring = false;
-    const cpu1 = await server.cpu();
-    for (const stop of timers) stop();
-    // Let the last measured updates arrive (bounded) before counting losses.
-    const deadline = Date.now() + 3_000;
-    while (Date.now() < deadline && latencies.length < sent) await new Promise((resolve) => setTimeout(resolve, 20));
-    for (const ws of [...editors, listener]) ws.terminate();
-    latencies.sort((a, b) => a - b);
-    const cpuUs = cpu1.user - cpu0.user + (cpu1.system - cpu0.system);
-    return {
-      name: 'relay',
-      server: SERVER_NAMES[kind],
-      clients,
-      editsPerSecPerClient: EDITS_PER_SEC,
-      updatesSent: sent,
-      updatesTimed: latencies.length,
-      p50Ms: round(percentile(latencies, 50)),
-      p99Ms: round(percentile(latencies, 99)),
-      serverCpuUsPerUpdate: round(cpuUs / Math.max(1, sent), 1),
-      serverCpuPercent: round((cpuUs / 1000 / MEASURE_MS) * 100, 1),
-      // Load-independent: write system calls the server made per update relayed (peers + database).
-      serverSocketWritesPerUpdate: round((cpu1.socketWrites - cpu0.socketWrites) / Math.max(1, sent), 1),
-      serverRssMb: round(cpu1.rss / 2 ** 20, 0),
+    }
+  });
+  listener.send(syncMessage(0, Y.encodeStateVector(new Y.Doc())));
+  const sockets = await Promise.all(Array.from({ length: count }, () => openSocket(server)));
+  const timers: Array<() => void> = [];
+  const startEditing = () => sockets.forEach((ws, n) => {
+    const doc = new Y.Doc();
+    const text = doc.getText('text');
+    let pending: Uint8Array | null = null;
+    doc.on('update', (u: Uint8Array) => (pending = u));
+    const edit = () => {
+      const clock = Y.getState(doc.store, doc.clientID);
+      text.insert(Math.floor(Math.random() * (text.length + 1)), 'a coded remark ');
+      if (measuring) {
+        sentAt.set(`${doc.clientID}:${clock}`, performance.now());
+        sent++;
+      }
+      ws.send(syncMessage(2, pending!));
     };
+    // Stagger the clients across the 200 ms period.
+    let interval: NodeJS.Timeout | undefined;
+    const start = setTimeout(() => {
+      edit();
+      interval = setInterval(edit, 1000 / EDITS_PER_SEC);
+    }, ((from + n) * 1000) / EDITS_PER_SEC / total);
+    timers.push(() => (clearTimeout(start), clearInterval(interval)));
+  });
+  return {
+    /** Editing starts here, once every group's sockets are open (a server flooded while others connect refused them in time at 200 clients). */
+    start: startEditing,
+    measure(on: boolean) {
+      measuring = on;
+    },
+    /** Stops editing, lets the last measured updates arrive (bounded), closes; the window's figures. */
+    async finish(): Promise<{ sent: number; latencies: number[] }> {
+      for (const stop of timers) stop();
+      const deadline = Date.now() + 3_000;
+      while (Date.now() < deadline && latencies.length < sent) await new Promise((resolve) => setTimeout(resolve, 20));
+      for (const ws of [...sockets, listener]) ws.terminate();
+      return { sent, latencies };
+    },
+    /** A failed window: stop at once. */
+    abandon() {
+      for (const stop of timers) stop();
+      for (const ws of [...sockets, listener]) ws.terminate();
+    },
+  };
+}
+
+/**
+ * Clients per process: one process cannot receive what 200 clients are sent (each editor receives
+ * every other's updates: 200,000 messages a second), so above this many the editors are spread over
+ * child processes (BENCH_RELAY_CLIENTS_PER_PROCESS, default 50), each with its own listener timing its
+ * own editors and reporting its latencies back. At or below it everything runs in this process, as before.
+ */
+const CLIENTS_PER_PROCESS = Number(process.env.BENCH_RELAY_CLIENTS_PER_PROCESS ?? 50);
+
+type Group = Awaited<ReturnType<typeof editors>>;
+
+/** A group of editors in a child process, driven over its IPC channel. */
+async function editorsInChild(target: Target, from: number, count: number, total: number): Promise<Group> {
+  const env: NodeJS.ProcessEnv = { ...process.env, BENCH_RELAY_CLIENTS_CHILD: '1' };
+  delete env.BENCH_SERVER;
+  const child = fork(fileURLToPath(import.meta.url), [], { execArgv: ['--import', 'tsx'], cwd: repoRoot, env, stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
+  // A window whose server cannot keep up must fail the run, not hang it (one did at 100 clients, load average 15).
+  const next = (event: string) =>
+    new Promise<Record<string, unknown>>((resolve, reject) => {
+      const done = () => (clearTimeout(timer), child.off('message', onMessage), child.off('exit', onExit));
+      const onMessage = (msg: Record<string, unknown>) => {
+        if (msg.event !== event) return;
+        done();
+        resolve(msg);
+      };
+      const onExit = (code: number | null) => (done(), reject(new Error(`bench clients process exited (${code}) before ${event}`)));
+      const timer = setTimeout(() => (done(), child.kill(), reject(new Error(`bench clients process: no ${event} in 120 s`))), 120_000);
+      child.on('message', onMessage);
+      child.once('exit', onExit);
+    });
+  const opened = next('opened');
+  child.send({ cmd: 'open', target, from, count, total });
+  await opened;
+  return {
+    start() {
+      child.send({ cmd: 'start' });
+    },
+    measure(on: boolean) {
+      child.send({ cmd: on ? 'measure' : 'pause' });
+    },
+    async finish() {
+      const result = next('result');
+      child.send({ cmd: 'finish' });
+      const msg = await result;
+      child.disconnect();
+      return { sent: msg.sent as number, latencies: msg.latencies as number[] };
+    },
+    abandon() {
+      child.kill();
+    },
+  };
+}
+
+async function clientsChildMain(): Promise<void> {
+  let group: Group | null = null;
+  process.on('message', (msg: { cmd: string; target: Target; from: number; count: number; total: number }) => {
+    void (async () => {
+      if (msg.cmd === 'open') {
+        group = await editors(msg.target, msg.from, msg.count, msg.total);
+        process.send!({ event: 'opened' });
+      } else if (msg.cmd === 'start') group!.start();
+      else if (msg.cmd === 'measure') group!.measure(true);
+      else if (msg.cmd === 'pause') group!.measure(false);
+      else if (msg.cmd === 'finish') process.send!({ event: 'result', ...(await group!.finish()) });
+    })().catch((error: unknown) => {
+      process.stderr.write(`bench clients process: ${String(error)}\n`);
+      process.exit(1);
+    });
+  });
+}
+
+/** One window: `clients` editors and a listener (one per clients process) in `room` of a running server. */
+export async function measure(server: BenchServer, clients: number, room: string, measureMs = MEASURE_MS): Promise<Record<string, unknown> & { name: string }> {
+  const kind = server.kind;
+  const target: Target = { wsBase: server.wsBase, headers: server.headers, room };
+  const processes = clients > CLIENTS_PER_PROCESS ? Math.ceil(clients / CLIENTS_PER_PROCESS) : 1;
+  let groups: Group[];
+  if (processes === 1) groups = [await editors(target, 0, clients, clients)];
+  else {
+    const opened = await Promise.allSettled(
+      Array.from({ length: processes }, (_, k) => {
+        const from = Math.floor((k * clients) / processes);
+        return editorsInChild(target, from, Math.floor(((k + 1) * clients) / processes) - from, clients);
+      }),
+    );
+    groups = opened.flatMap((o) => (o.status === 'fulfilled' ? [o.value] : []));
+    const failed = opened.find((o) => o.status === 'rejected');
+    if (failed !== undefined) {
+      for (const g of groups) g.abandon();
+      throw failed.reason;
+    }
   }
+  for (const g of groups) g.start();
+  let cpu0, cpu1, results;
+  try {
+    await new Promise((resolve) => setTimeout(resolve, WARMUP_MS));
+    cpu0 = await server.cpu();
+    for (const g of groups) g.measure(true);
+    await new Promise((resolve) => setTimeout(resolve, measureMs));
+    for (const g of groups) g.measure(false);
+    cpu1 = await server.cpu();
+    results = await Promise.all(groups.map((g) => g.finish()));
+  } catch (error) {
+    for (const g of groups) g.abandon();
+    throw error;
+  }
+  const sent = results.reduce((n, r) => n + r.sent, 0);
+  const latencies = results.flatMap((r) => r.latencies).sort((a, b) => a - b);
+  const cpuUs = cpu1.user - cpu0.user + (cpu1.system - cpu0.system);
+  return {
+    name: 'relay',
+    server: SERVER_NAMES[kind],
+    clients,
+    clientProcesses: processes,
+    editsPerSecPerClient: EDITS_PER_SEC,
+    updatesSent: sent,
+    updatesTimed: latencies.length,
+    p50Ms: round(percentile(latencies, 50)),
+    p99Ms: round(percentile(latencies, 99)),
+    serverCpuUsPerUpdate: round(cpuUs / Math.max(1, sent), 1),
+    serverCpuPercent: round((cpuUs / 1000 / measureMs) * 100, 1),
+    // Load-independent: write system calls the server made per update relayed (peers + database).
+    serverSocketWritesPerUpdate: round((cpu1.socketWrites - cpu0.socketWrites) / Math.max(1, sent), 1),
+    serverRssMb: round(cpu1.rss / 2 ** 20, 0),
+  };
 }
 
 const ALL_KINDS: ServerKind[] = ['reference', 'reference-leveldb', 'gloss-pglite-before', 'gloss-pglite', 'gloss-postgres-before', 'gloss-postgres'];
@@ -379,8 +538,22 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
   const servers = new Map<ServerKind, BenchServer>();
   try {
     // Started side by side: start-up is not measured, and one after another it took minutes on a loaded machine.
-    const started = await Promise.allSettled(kinds.map(async (kind) => servers.set(kind, await startBenchServer(kind, sizes.length * rounds))));
+    // One more room per server for the warm-up below.
+    const started = await Promise.allSettled(kinds.map(async (kind) => servers.set(kind, await startBenchServer(kind, sizes.length * rounds + 1))));
     for (const result of started) if (result.status === 'rejected') throw result.reason;
+    // A running server's code is compiled by the time anyone edits; a fresh one compiles it during the
+    // first windows: three 7-second 10-client windows in a row on a fresh Gloss server read 2.7, 2.1 and
+    // 1.6 ms of CPU per update, V8's helper threads (compiler, collector) 44 %, 34 % and 31 % of it
+    // (per-thread /proc times, load average 7, issue 11). Each server first serves an unmeasured
+    // window in a room of its own (BENCH_RELAY_PREWARM_MS, 0 skips it), so the first measured size is
+    // not the one that pays for it.
+    const prewarm = Number(process.env.BENCH_RELAY_PREWARM_MS ?? 8_000);
+    if (prewarm > 0) {
+      for (const kind of kinds) {
+        const server = servers.get(kind)!;
+        await measure(server, Math.min(50, Math.max(...sizes)), server.rooms[sizes.length * rounds]!, prewarm);
+      }
+    }
     let nextRoom = 0;
     for (const clients of sizes) {
       for (let round = 1; round <= rounds; round++) {
@@ -425,4 +598,6 @@ export async function run(): Promise<Array<Record<string, unknown> & { name: str
 
 if (process.env.BENCH_SERVER && process.argv[1] === fileURLToPath(import.meta.url)) {
   await childMain(process.env.BENCH_SERVER);
+} else if (process.env.BENCH_RELAY_CLIENTS_CHILD && process.argv[1] === fileURLToPath(import.meta.url)) {
+  await clientsChildMain();
 }

@@ -14,6 +14,7 @@ import { rowsOf, type Db } from '@gloss/db';
 import { sql } from 'drizzle-orm';
 import { StoreError } from './errors.js';
 import { isUuid } from '../ids.js';
+import { insertPrepared, isPgliteWireClient, PREPARED_MAX, WireError } from './pglite-prepared.js';
 
 export interface LogRow {
   docId: string;
@@ -76,13 +77,21 @@ export async function insertBatch(db: Db, rows: readonly LogRow[], pglite: Simpl
 }
 
 async function insertLiterals(client: SimpleQueryClient, rows: readonly LogRow[]): Promise<Array<number | null>> {
-  const values = rows.map((row) => {
+  for (const row of rows) {
     if (!isUuid(row.docId) || (row.userId !== null && !isUuid(row.userId))) {
       throw new StoreError('append-failed', `not a UUID: ${row.docId} / ${row.userId}`);
     }
-    const hex = Buffer.from(row.data.buffer, row.data.byteOffset, row.data.byteLength).toString('hex');
-    return `('${row.docId}'::uuid,'\\x${hex}'::bytea,${row.data.length},${row.userId === null ? 'null' : `'${row.userId}'`}::uuid)`;
-  });
+  }
+  // Up to PREPARED_MAX rows: the same plain INSERT, prepared once per size (pglite-prepared.ts).
+  if (rows.length <= PREPARED_MAX && isPgliteWireClient(client)) {
+    try {
+      return seqsOf(await insertPrepared(client, rows), rows);
+    } catch (error) {
+      if (!(error instanceof WireError) || !isForeignKeyViolation(error)) throw error;
+      return insertFiltered(client, rows, literalValues(rows));
+    }
+  }
+  const values = literalValues(rows);
   // The usual case, every document there: a plain INSERT … VALUES, which plans in a fraction of the
   // filtered INSERT … SELECT below (PGlite: ~0.3 vs ~0.8 ms of this process's CPU for one row, issue 11).
   // The foreign key still checks each document (under the same FOR KEY SHARE lock the `live` CTE
@@ -94,15 +103,89 @@ async function insertLiterals(client: SimpleQueryClient, rows: readonly LogRow[]
     [result] = await client.exec(`insert into updates (doc_id, data, bytes, user_id) values ${values.join(',')} returning seq, doc_id`);
   } catch (error) {
     if (!isForeignKeyViolation(error)) throw error;
-    const numbered = values.map((v, n) => `${v.slice(0, -1)},${n})`);
-    const ids = [...new Set(rows.map((row) => `'${row.docId}'`))].join(',');
-    [result] = await client.exec(
-      `with live as (select id from documents where id in (${ids}) for key share) ` +
-        `insert into updates (doc_id, data, bytes, user_id) select v.doc_id, v.data, v.bytes, v.user_id from (values ${numbered.join(',')}) as v(doc_id, data, bytes, user_id, n) ` +
-        `where v.doc_id in (select id from live) order by v.n returning seq, doc_id`,
-    );
+    return insertFiltered(client, rows, values);
   }
   return seqsOf(result?.rows ?? [], rows);
+}
+
+/** The rows as VALUES literals (ids checked as UUIDs by the caller, bytes as hex digits). */
+function literalValues(rows: readonly LogRow[]): string[] {
+  return rows.map((row) => {
+    const hex = Buffer.from(row.data.buffer, row.data.byteOffset, row.data.byteLength).toString('hex');
+    return `('${row.docId}'::uuid,'\\x${hex}'::bytea,${row.data.length},${row.userId === null ? 'null' : `'${row.userId}'`}::uuid)`;
+  });
+}
+
+/** The batch again, inserting only rows whose document is still there (a gone one is refused alone). */
+async function insertFiltered(client: SimpleQueryClient, rows: readonly LogRow[], values: readonly string[]): Promise<Array<number | null>> {
+  const numbered = values.map((v, n) => `${v.slice(0, -1)},${n})`);
+  const ids = [...new Set(rows.map((row) => `'${row.docId}'`))].join(',');
+  const [result] = await client.exec(
+    `with live as (select id from documents where id in (${ids}) for key share) ` +
+      `insert into updates (doc_id, data, bytes, user_id) select v.doc_id, v.data, v.bytes, v.user_id from (values ${numbered.join(',')}) as v(doc_id, data, bytes, user_id, n) ` +
+      `where v.doc_id in (select id from live) order by v.n returning seq, doc_id`,
+  );
+  return seqsOf(result?.rows ?? [], rows);
+}
+
+/** postgres.js's `unsafe` as the store uses it. */
+interface PostgresClient {
+  unsafe(query: string, params: unknown[], options: { prepare: boolean }): Promise<unknown>;
+}
+
+/** postgres.js's client under `db` (drizzle keeps it as `$client`), or null (PGlite). */
+export function postgresClientOf(db: Db): PostgresClient | null {
+  const client = (db as unknown as { $client?: Partial<PostgresClient> & { reserve?: unknown } }).$client;
+  return client !== undefined && typeof client.unsafe === 'function' && typeof client.reserve === 'function' ? (client as PostgresClient) : null;
+}
+
+/**
+ * The batch statement of `insertBatch` for every size, written once and sent to postgres.js as a
+ * named prepared statement: one text whatever the batch's size (arrays and one concatenated bytea as
+ * its four parameters), so each connection parses and plans it once. Through drizzle every append
+ * was built again by the query builder and sent unprepared, which postgres.js does as two round trips
+ * (describe, then bind and execute) with a different text for each batch size (issue 11).
+ * Same filter as insertBatch: rows whose document is gone are refused (null), under FOR KEY SHARE.
+ */
+const POSTGRES_APPEND = `with live as (select id from documents where id = any($1::text::uuid[]) for key share)
+insert into updates (doc_id, data, bytes, user_id)
+select d.doc_id, substring($2::bytea from d.off + 1 for d.len), d.len, d.user_id
+from unnest($1::text::uuid[], $3::text::int[], $4::text::int[], $5::text::uuid[]) with ordinality as d(doc_id, off, len, user_id, n)
+where d.doc_id in (select id from live)
+order by d.n
+returning seq, doc_id`;
+
+export async function insertBatchPostgres(client: PostgresClient, rows: readonly LogRow[]): Promise<Array<number | null>> {
+  let bytes = 0;
+  for (const row of rows) {
+    // Ids go into array literals, so they must be plain UUIDs.
+    if (!isUuid(row.docId) || (row.userId !== null && !isUuid(row.userId))) {
+      throw new StoreError('append-failed', `not a UUID: ${row.docId} / ${row.userId}`);
+    }
+    bytes += row.data.byteLength;
+  }
+  const blob = Buffer.allocUnsafe(bytes);
+  const offsets: number[] = [];
+  const lengths: number[] = [];
+  let offset = 0;
+  for (const row of rows) {
+    blob.set(row.data, offset);
+    offsets.push(offset);
+    lengths.push(row.data.byteLength);
+    offset += row.data.byteLength;
+  }
+  const result = await client.unsafe(
+    POSTGRES_APPEND,
+    [
+      `{${rows.map((row) => row.docId).join(',')}}`,
+      blob,
+      `{${offsets.join(',')}}`,
+      `{${lengths.join(',')}}`,
+      `{${rows.map((row) => row.userId ?? 'NULL').join(',')}}`,
+    ],
+    { prepare: true },
+  );
+  return seqsOf(result, rows);
 }
 
 /** PostgreSQL's foreign_key_violation (SQLSTATE 23503), as PGlite reports it. */

@@ -3,7 +3,7 @@
  * catch-up reads, and compaction that folds the log into a snapshot without losing anything.
  * Expected document contents come from Yjs itself (applying the same updates to a fresh Y.Doc).
  */
-import { snapshots, sql, type Database } from '@gloss/db';
+import { rowsOf, snapshots, sql, type Database } from '@gloss/db';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
 import { dbKinds, openTestDatabase } from '../../../../test/support/database.js';
@@ -49,6 +49,11 @@ describe.each(dbKinds())('PgUpdateStore on %s', (kind) => {
     }
     const { updates } = await store.since(docIds[4]!, 0);
     expect(updates.map((u) => Buffer.from(u).toString('hex'))).toEqual(sent.map((u) => Buffer.from(u).toString('hex')));
+    if (kind === 'pglite') {
+      // Batches of up to 16 rows went through statements prepared once per size (pglite-prepared.ts), the same session's.
+      const prepared = rowsOf<{ name: string }>(await database.db.execute(sql`select name from pg_prepared_statements where name like 'gloss_append_%'`));
+      expect(prepared.map((r) => r.name).sort()).toEqual(['gloss_append_1', 'gloss_append_3']);
+    }
     await store.close();
   });
 

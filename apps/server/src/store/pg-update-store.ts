@@ -8,7 +8,7 @@ import type { UpdateStore } from '../sync/contracts.js';
 import { compactDocument, type CompactionResult } from './compaction.js';
 import { StoreError } from './errors.js';
 import { GroupCommit } from './group-commit.js';
-import { insertBatch, pgliteClientOf, type LogRow } from './insert-batch.js';
+import { insertBatch, insertBatchPostgres, pgliteClientOf, postgresClientOf, type LogRow } from './insert-batch.js';
 import { isUuid } from '../ids.js';
 import { FULL_READ, flatten, readLog } from './log-rows.js';
 import { createPendingByKey } from './pending-by-key.js';
@@ -54,8 +54,9 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
   const counts = { batches: 0, rows: 0, compactions: 0 };
 
   const pglite = database.kind === 'pglite' ? pgliteClientOf(database.db) : null;
+  const postgres = database.kind === 'postgres' ? postgresClientOf(database.db) : null;
   const commits = new GroupCommit<LogRow, number | null>(async (rows) => {
-    const seqs = await insertBatch(database.db, rows, pglite);
+    const seqs = postgres !== null ? await insertBatchPostgres(postgres, rows) : await insertBatch(database.db, rows, pglite);
     counts.batches++;
     counts.rows += rows.length;
     rows.forEach((row, i) => seqs[i] !== null && noteAppend(row.docId, row.data.length));
