@@ -8,6 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as Y from 'yjs';
 import { dbKinds, openTestDatabase } from '../../../../test/support/database.js';
 import { seedDocuments } from '../../../../test/sync/support/fixtures.js';
+import { compactDocument } from './compaction.js';
 import { createPgUpdateStore } from './pg-update-store.js';
 
 /** n single-character inserts by one client, as separate updates. */
@@ -144,6 +145,47 @@ describe.each(dbKinds())('PgUpdateStore on %s', (kind) => {
     expect(both.filter((r) => r.compacted)).toHaveLength(1);
     const after = await store.since(docId, 0);
     expect(after.updates).toHaveLength(1); // only the snapshot is left
+    await store.close();
+  });
+  it('a fold merges off the event loop and keeps a row committed while it merged', async () => {
+    const [docId] = (await seedDocuments(database, 1)).docIds;
+    const store = createPgUpdateStore(database, { compactMinBytes: 0 });
+    const doc = new Y.Doc({ gc: false });
+    const all: Uint8Array[] = [];
+    doc.on('update', (u: Uint8Array) => all.push(u));
+    for (let i = 0; i < 50; i++) doc.getText('text').insert(i, 'a');
+    for (const u of all) await store.append(docId!, u, null);
+    const late = () => {
+      doc.getText('text').insert(0, 'L');
+      return store.append(docId!, all.at(-1)!, null);
+    };
+    // the store's own fold (merge on the thread), with an append landing between its read and its write
+    const result = await compactDocument(database, docId!, { merge: (parts) => Promise.resolve(Y.mergeUpdates(parts)), beforeWrite: async () => void (await late()) });
+    expect(result).toMatchObject({ compacted: true, foldedRows: 50 });
+    const loaded = await store.load(docId!);
+    expect(loaded.updates).toHaveLength(2); // the snapshot and the late row, which was not read, so not deleted
+    expect(textOf(loaded.updates)).toBe(doc.getText('text').toString());
+    // the store's fold through its merge thread
+    for (let i = 0; i < 5; i++) doc.getText('text').insert(0, 'b');
+    for (const u of all.slice(-5)) await store.append(docId!, u, null);
+    expect(await store.compact(docId!)).toMatchObject({ compacted: true, foldedRows: 6 });
+    expect(textOf((await store.load(docId!)).updates)).toBe(doc.getText('text').toString());
+    await store.close();
+  });
+
+  it('a fold that finds the snapshot rewritten since its read gives up and loses nothing', async () => {
+    const [docId] = (await seedDocuments(database, 1)).docIds;
+    const store = createPgUpdateStore(database, { compactMinBytes: 0, mergeOffThread: false });
+    const { updates, expected } = typedUpdates(30);
+    for (const u of updates.slice(0, 20)) await store.append(docId!, u, null);
+    await store.compact(docId!);
+    for (const u of updates.slice(20)) await store.append(docId!, u, null);
+    // another node folds between this fold's read and its write: the rows this fold read are gone
+    const raced = await compactDocument(database, docId!, { beforeWrite: async () => void expect(await compactDocument(database, docId!)).toMatchObject({ compacted: true }) });
+    expect(raced).toEqual({ compacted: false, reason: 'raced' });
+    const loaded = await store.load(docId!);
+    expect(loaded.updates).toHaveLength(1);
+    expect(textOf(loaded.updates)).toBe(expected);
     await store.close();
   });
 });

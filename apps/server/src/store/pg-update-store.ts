@@ -6,6 +6,7 @@
 import type { Database } from '@gloss/db';
 import type { UpdateStore } from '../sync/contracts.js';
 import { compactDocument, type CompactionResult } from './compaction.js';
+import { mergeOffThread } from './merge-off-thread.js';
 import { StoreError } from './errors.js';
 import { GroupCommit } from './group-commit.js';
 import { insertBatch, insertBatchPostgres, pgliteClientOf, postgresClientOf, type LogRow } from './insert-batch.js';
@@ -27,6 +28,8 @@ export interface PgUpdateStoreOptions {
   /** Fold when the log's bytes pass the snapshot's and at least this many (default 64 KiB); 0 disables. */
   compactMinBytes?: number;
   onCompactionError?: (error: unknown, docId: string) => void;
+  /** Merge a fold's updates on a thread of its own (default true; false merges in the calling thread). */
+  mergeOffThread?: boolean;
 }
 
 export interface PgUpdateStore extends UpdateStore {
@@ -52,6 +55,7 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
   const inFlight = createPendingByKey();
   let closed = false;
   const counts = { batches: 0, rows: 0, compactions: 0 };
+  const merger = options.mergeOffThread === false ? null : mergeOffThread();
 
   const pglite = database.kind === 'pglite' ? pgliteClientOf(database.db) : null;
   const postgres = database.kind === 'postgres' ? postgresClientOf(database.db) : null;
@@ -80,7 +84,7 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
   }
 
   async function compact(docId: string): Promise<CompactionResult> {
-    const result = await compactDocument(database, docId);
+    const result = await compactDocument(database, docId, merger ? { merge: (parts) => merger.merge(parts) } : {});
     if (result.compacted) counts.compactions++;
     const size = sizes.get(docId);
     if (result.compacted && size !== undefined) {
@@ -127,6 +131,7 @@ export function createPgUpdateStore(database: Database, options: PgUpdateStoreOp
       closed = true;
       await commits.flush();
       await Promise.allSettled([...compacting.values()]);
+      await merger?.close();
     },
   };
 }
