@@ -137,3 +137,22 @@ describe('replaceInPlain (audit details)', () => {
     expect(replaceInPlain(null, replacements)).toEqual({ value: null, count: 0 });
   });
 });
+
+describe('id-shaped strings are never words', () => {
+  // Common practice: v4 UUIDs (RFC 9562 §5.4) often hold two all-digit groups, which look like a phone number.
+  const id = '9c98d66d-b7c0-4453-9646-8a91392fe008';
+  it('docStrings leaves them out, under any key', () => {
+    const cb = createCodebookDoc();
+    cb.getMap('extra').set('someone', { who: id, note: 'call 4453-9646' });
+    const texts = docStrings(cb).map((s) => s.text);
+    expect(texts).toContain('call 4453-9646');
+    expect(texts).not.toContain(id);
+  });
+  it('replacement does not reach into them', () => {
+    const cb = createCodebookDoc();
+    cb.getMap('extra').set('someone', { who: id, note: 'call 4453-9646' });
+    expect(replaceInDoc(cb, [{ original: '4453-9646', pseudonym: '[phone]' }])).toBe(1);
+    expect(cb.getMap('extra').get('someone')).toEqual({ who: id, note: 'call [phone]' });
+    expect(replaceInPlain({ decider: id }, [{ original: '4453-9646', pseudonym: '[phone]' }]).count).toBe(0);
+  });
+});

@@ -20,8 +20,16 @@ import { getText } from './text-doc.js';
 const ANCHOR_KEYS = new Set([
   'start', 'end',
   'id', 'by', 'author', 'createdBy', 'codeId', 'codeIds', 'textId', 'segmentId', 'parentId', 'mergedInto', 'splitInto',
-  'replyTo', 'caseId', 'attributeId', 'kind', 'type', 'status', 'colour', 'field',
+  'replyTo', 'caseId', 'attributeId', 'kind', 'type', 'status', 'colour', 'field', 'decidedBy',
 ]);
+
+/**
+ * A whole string shaped like an account or database id (a UUID) is never words, whatever its key: the
+ * finder's phone rule matched "4453-9646" inside one (a lead's id under a proposal's decider), and
+ * replacing there would break the id.
+ */
+const ID_SHAPED = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+const isIdShaped = (s: string) => s.length === 36 && ID_SHAPED.test(s);
 
 type Root = Y.Map<unknown> | Y.Array<unknown> | Y.Text;
 
@@ -60,7 +68,7 @@ export interface DocString {
 
 function walkPlain(value: unknown, path: string, out: DocString[]): void {
   if (typeof value === 'string') {
-    if (value.length > 0) out.push({ path, text: value });
+    if (value.length > 0 && !isIdShaped(value)) out.push({ path, text: value });
   } else if (Array.isArray(value)) value.forEach((v, i) => walkPlain(v, `${path}.${i}`, out));
   else if (value !== null && typeof value === 'object' && !(value instanceof Uint8Array)) {
     for (const [k, v] of Object.entries(value)) if (!ANCHOR_KEYS.has(k)) walkPlain(v, `${path}.${k}`, out);
@@ -106,6 +114,7 @@ export function replaceInPlain(value: unknown, replacements: readonly Replacemen
 
 function replacePlain(value: unknown, replacements: readonly Replacement[], tally: { n: number }): unknown {
   if (typeof value === 'string') {
+    if (isIdShaped(value)) return value;
     const r = replaceInString(value, replacements);
     tally.n += r.count;
     return r.count > 0 ? r.text : value;
