@@ -530,7 +530,7 @@ export function CodingView(props: CodingViewProps) {
         <Show when={notesHere().length > 0}>
           <NotesHere on={chosenNote() ? 'these words' : 'this segment'} notes={notesHere()} mm={props.memos} me={props.me} nameOf={nameOf} version={memosV} mayReply={allowed('reply')} />
         </Show>
-        <FlagList flags={state.flags()} codes={state.codeById()} onGo={(f) => f.segmentIds[0] && goTo(f.segmentIds[0])} />
+        <FlagList flags={state.flags()} checking={state.flagsChecking()} codes={state.codeById()} onGo={(f) => f.segmentIds[0] && goTo(f.segmentIds[0])} />
         <section aria-labelledby="layers-h">
           <h2 id="layers-h">Whose coding is shown</h2>
           <WhoseCoding layers={props.layers} hidden={hidden()} setHidden={setHidden} />

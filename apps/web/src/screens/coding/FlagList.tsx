@@ -16,7 +16,7 @@ const KIND: Record<Flag['kind'], string> = {
 /** Live flags on this text; each goes to its segment. */
 const PAGE = 50;
 
-export function FlagList(props: { flags: FlagSet; codes: ReadonlyMap<string, CodeView>; onGo: (f: Flag) => void }) {
+export function FlagList(props: { flags: FlagSet; checking: boolean; codes: ReadonlyMap<string, CodeView>; onGo: (f: Flag) => void }) {
   // a busy text can carry thousands of flags: list a page at a time, with counts per kind
   const [limit, setLimit] = createSignal(PAGE);
   const counts = createMemo(() => {
@@ -27,12 +27,12 @@ export function FlagList(props: { flags: FlagSet; codes: ReadonlyMap<string, Cod
   });
   return (
     <section aria-labelledby="flags-h" class="flags">
-      <h2 id="flags-h">Flags <span class="count" data-testid="flag-count">{props.flags.length}</span></h2>
+      <h2 id="flags-h">Flags <span class="count" data-testid="flag-count">{props.checking && props.flags.length === 0 ? '…' : props.flags.length}</span></h2>
       <Show when={counts().length > 1}>
         <p class="muted">{counts().map(([k, n]) => `${KIND[k]}: ${n}`).join(' · ')}</p>
       </Show>
       <ul aria-live="polite">
-        <For each={Array.from({ length: Math.min(limit(), props.flags.length) }, (_, i) => props.flags.at(i))} fallback={<li class="muted">No flags on this text.</li>}>
+        <For each={Array.from({ length: Math.min(limit(), props.flags.length) }, (_, i) => props.flags.at(i))} fallback={<li class="muted" data-testid="no-flags">{props.checking ? 'Looking for flags…' : 'No flags on this text.'}</li>}>
           {(f) => (
             <li>
               <button type="button" class="flag" data-kind={f.kind} onClick={() => props.onGo(f)}>

@@ -35,6 +35,8 @@ export interface CodingState {
   /** Each code's newest recorded definition edit. */
   lastEdits: Accessor<Map<string, ChangeEntry>>;
   flags: Accessor<FlagSet>;
+  /** Flags are still being worked out for the layers the text opened with. */
+  flagsChecking: Accessor<boolean>;
 }
 
 /**
@@ -123,8 +125,9 @@ export function useCodingState(text: OpenDoc, allLayers: readonly LayerHandle[],
   const lastEdits = createMemo(() => (cbV(), lastDefinitionEdits(codebook.doc)));
   const source = useFlags(text, codebook, allLayers, visible, () => !opts.showDisagreement());
   const flags = source.flags;
+  const flagsChecking = source.checking;
   const layerSegments = new Map(allLayers.map((l) => [l.coderId, perLayer.get(l.doc.room)!]));
-  return { turns, words, segments, layerSegments, codes, codeById, marks, exclusiveSets, themes, lastEdits, flags };
+  return { turns, words, segments, layerSegments, codes, codeById, marks, exclusiveSets, themes, lastEdits, flags, flagsChecking };
 }
 
 /** Turns with their words; a text without a turns array is read one turn per line. */

@@ -7,4 +7,5 @@ export type FlagsRequest =
   | { type: 'visible'; layerIds: string[] }
   | { type: 'independent'; on: boolean };
 
-export type FlagsReply = { type: 'flags'; flags: PackedFlags } | { type: 'error'; message: string };
+/** `handled`: requests the worker had applied when it computed these flags (the page knows when its opening states are all in). */
+export type FlagsReply = { type: 'flags'; flags: PackedFlags; handled: number } | { type: 'error'; message: string };

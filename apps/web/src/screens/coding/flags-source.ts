@@ -14,8 +14,11 @@ import type { FlagsReply, FlagsRequest } from './flags-protocol.js';
 /** A valid update that changes nothing (a layer's state is sent after the worker starts). */
 const EMPTY_STATE = Y.encodeStateAsUpdate(new Y.Doc());
 
-export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, independent: Accessor<boolean>): { flags: Accessor<FlagSet>; error: Accessor<string> } {
+export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly LayerHandle[], visible: Accessor<LayerHandle[]>, independent: Accessor<boolean>): { flags: Accessor<FlagSet>; error: Accessor<string>; checking: Accessor<boolean> } {
   const [flags, setFlags] = createSignal<FlagSet>(EMPTY_FLAGS);
+  // True until the worker has answered with every layer the page opened with: until then "no flags"
+  // would only mean "not looked yet".
+  const [checking, setChecking] = createSignal(typeof Worker !== 'undefined');
   const [error, setError] = createSignal('');
   const ids = () => visible().map((l) => l.doc.room);
 
@@ -29,14 +32,25 @@ export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly L
       engine.destroy();
     });
     refresh();
-    return { flags, error };
+    return { flags, error, checking };
   }
 
   const worker = new Worker(new URL('./flags.worker.ts', import.meta.url), { type: 'module' });
-  const send = (m: FlagsRequest) => worker.postMessage(m);
+  let sent = 0;
+  /** Requests the worker must have handled for its answer to cover every opening state (known once the last is sent). */
+  let complete = Infinity;
+  const send = (m: FlagsRequest) => {
+    sent++;
+    worker.postMessage(m);
+  };
   worker.onmessage = (e: MessageEvent<FlagsReply>) => {
-    if (e.data.type === 'flags') setFlags(unpackFlags(e.data.flags));
-    else setError(e.data.message);
+    if (e.data.type === 'flags') {
+      setFlags(unpackFlags(e.data.flags));
+      if (e.data.handled >= complete) setChecking(false);
+    } else {
+      setError(e.data.message);
+      setChecking(false);
+    }
   };
   // The text goes with the first message (the engine reads every later change as an edit of it); each
   // layer's state follows in a task of its own, as encoding five layers with the text in one task held
@@ -58,8 +72,10 @@ export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly L
     if (stopped || !l) return;
     send({ type: 'update', doc: l.doc.room, update: Y.encodeStateAsUpdate(l.doc.doc) });
     if (states.length > 0) timer = window.setTimeout(sendNextState, 0);
+    else complete = sent;
   };
   if (states.length > 0) timer = window.setTimeout(sendNextState, 0);
+  else complete = sent;
   const forward = (key: string) => (update: Uint8Array) => send({ type: 'update', doc: key, update });
   const pairs: Array<[Y.Doc, (u: Uint8Array) => void]> = [
     [text.doc, forward('text')],
@@ -75,5 +91,5 @@ export function useFlags(text: OpenDoc, codebook: OpenDoc, allLayers: readonly L
     for (const [d, f] of pairs) d.off('update', f);
     worker.terminate();
   });
-  return { flags, error };
+  return { flags, error, checking };
 }

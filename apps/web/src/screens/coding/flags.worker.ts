@@ -14,6 +14,8 @@ let engine: FlagEngine | undefined;
 let visible = new Set<string>();
 let coders = new Map<string, string>();
 let queued = false;
+/** Requests applied so far, sent with each reply. */
+let handled = 0;
 
 function doc(key: string): Y.Doc {
   let d = docs.get(key);
@@ -31,13 +33,14 @@ function post(): void {
     const flags = engine.flags();
     const segs = new Map(engine.segments().map((s) => [s.id, s]));
     const packed = packFlags(placeFlags(flags, segs));
-    const reply: FlagsReply = { type: 'flags', flags: packed };
+    const reply: FlagsReply = { type: 'flags', flags: packed, handled };
     (self as unknown as Worker).postMessage(reply, packedBuffers(packed));
   }, 120);
 }
 
 self.onmessage = (e: MessageEvent<FlagsRequest>) => {
   const m = e.data;
+  handled++;
   try {
     if (m.type === 'init') {
       Y.applyUpdate(doc('text'), m.text);
